@@ -1,0 +1,33 @@
+import { sveltekit } from '@sveltejs/kit/vite';
+import tailwindcss from '@tailwindcss/vite';
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+	plugins: [tailwindcss(), sveltekit()],
+	test: {
+		projects: [
+			{
+				extends: true,
+				test: {
+					name: 'unit',
+					include: ['tests/unit/**/*.test.ts'],
+					environment: 'node'
+				}
+			},
+			{
+				// Integration and browser tests share one throwaway PostgreSQL cluster,
+				// one fake mail server and one built server, started in global setup.
+				extends: true,
+				test: {
+					name: 'server',
+					include: ['tests/integration/**/*.test.ts', 'tests/browser/**/*.test.ts'],
+					environment: 'node',
+					globalSetup: ['tests/helpers/global-setup.ts'],
+					fileParallelism: false,
+					testTimeout: 60_000,
+					hookTimeout: 120_000
+				}
+			}
+		]
+	}
+});
