@@ -1,0 +1,10 @@
+/** npm run migrate: migrates DATABASE_URL, or the embedded cluster when DATABASE_URL is unset. */
+import { migrateToLatest } from './lib/migrator.ts';
+import { startCluster } from './lib/postgres.ts';
+import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT } from './lib/config.ts';
+
+const url =
+	process.env.DATABASE_URL ??
+	(await startCluster({ dataDir: EMBEDDED_PG_DIR, port: EMBEDDED_PG_PORT, database: EMBEDDED_DATABASE })).url;
+await migrateToLatest(url);
+console.log('database is up to date');

@@ -1,0 +1,12 @@
+/** npm run seed: writes the demo world into DATABASE_URL (or the embedded cluster) when it is empty. */
+import { migrateToLatest } from './lib/migrator.ts';
+import { startCluster } from './lib/postgres.ts';
+import { seedDemo } from './lib/seed.ts';
+import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT } from './lib/config.ts';
+
+const url =
+	process.env.DATABASE_URL ??
+	(await startCluster({ dataDir: EMBEDDED_PG_DIR, port: EMBEDDED_PG_PORT, database: EMBEDDED_DATABASE })).url;
+await migrateToLatest(url);
+const outcome = await seedDemo(url);
+console.log(outcome === 'seeded' ? 'demo data written' : 'the database already has channels: demo data not written again');

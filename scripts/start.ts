@@ -1,0 +1,82 @@
+/**
+ * npm start: the whole product on one machine. Uses DATABASE_URL when set, else the embedded
+ * PostgreSQL cluster under .data/postgres; migrates; writes the demo data into an empty database;
+ * runs the loopback fake mail server unless SMTP_URL is set; then serves the built app.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import path from 'node:path';
+import { migrateToLatest } from './lib/migrator.ts';
+import { startCluster, type Cluster } from './lib/postgres.ts';
+import { seedDemo } from './lib/seed.ts';
+import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
+import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
+
+const host = process.env.HOST ?? '127.0.0.1';
+const port = Number(process.env.PORT ?? 3100);
+const origin = process.env.ORIGIN ?? `http://${host}:${port}`;
+const dataDir = path.join(projectRoot, '.data');
+mkdirSync(dataDir, { recursive: true });
+
+let cluster: Cluster | null = null;
+let fakeMail: FakeMail | null = null;
+
+function fail(message: string): never {
+	console.error(`\nWrenchroll could not start: ${message}\n`);
+	cluster?.stop();
+	process.exit(1);
+}
+
+let databaseUrl = process.env.DATABASE_URL;
+if (!databaseUrl) {
+	try {
+		cluster = await startCluster({ dataDir: EMBEDDED_PG_DIR, port: EMBEDDED_PG_PORT, database: EMBEDDED_DATABASE });
+	} catch (failure) {
+		fail(failure instanceof Error ? failure.message : String(failure));
+	}
+	databaseUrl = cluster.url;
+	console.log(`database: embedded PostgreSQL on 127.0.0.1:${EMBEDDED_PG_PORT} (data in .data/postgres)`);
+}
+await migrateToLatest(databaseUrl, (line) => console.log(line));
+if ((await seedDemo(databaseUrl)) === 'seeded') console.log('demo data written (see README for the demo logins)');
+
+const env: Record<string, string> = { ...(process.env as Record<string, string>), DATABASE_URL: databaseUrl, HOST: host, PORT: String(port), ORIGIN: origin };
+if (!env.SMTP_URL) {
+	const mailPort = Number(process.env.FAKE_SMTP_PORT ?? 2526);
+	const mailbox = path.join(dataDir, 'mail');
+	fakeMail = await startFakeMail({ port: mailPort, dir: mailbox });
+	env.SMTP_URL = fakeMail.url;
+	env.DEV_MAILBOX_DIR = mailbox;
+	console.log(`mail: fake mail server on 127.0.0.1:${mailPort}; read it at ${origin}/dev/mail`);
+}
+if (!env.AUTH_SECRET) {
+	// For the local demo only: a secret kept under .data so sessions survive a restart.
+	const secretFile = path.join(dataDir, 'auth-secret');
+	if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString('base64url'), { mode: 0o600 });
+	env.AUTH_SECRET = readFileSync(secretFile, 'utf8').trim();
+}
+env.UPLOAD_DIR ??= path.join(projectRoot, 'uploads');
+env.BODY_SIZE_LIMIT ??= String(8 * 1024 * 1024);
+
+if (!existsSync(path.join(projectRoot, 'build', 'index.js'))) {
+	console.log('building the app (first start)…');
+	const built = spawnSync(process.execPath, [path.join(projectRoot, 'node_modules/vite/bin/vite.js'), 'build'], { stdio: 'inherit', cwd: projectRoot });
+	if (built.status !== 0) fail('the build failed (see above).');
+}
+
+const server = spawn(process.execPath, [path.join(projectRoot, 'build', 'index.js')], { env, stdio: ['ignore', 'inherit', 'inherit'] });
+console.log(`\nWrenchroll is serving ${origin}\n`);
+
+let stopping = false;
+async function stop(code = 0) {
+	if (stopping) return;
+	stopping = true;
+	server.kill('SIGTERM');
+	await fakeMail?.close();
+	cluster?.stop(); // the data stays in .data/postgres for the next start
+	process.exit(code);
+}
+process.on('SIGINT', () => void stop(0));
+process.on('SIGTERM', () => void stop(0));
+server.on('exit', (code) => void stop(code ?? 1));

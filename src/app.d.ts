@@ -1,0 +1,29 @@
+// See https://svelte.dev/docs/kit/types#app.d.ts
+import type { Role } from '$lib/roles';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+			issues?: Record<string, string[]>;
+		}
+		interface Locals {
+			/** The signed-in person, read from the database on every request. */
+			person: { id: string; email: string; name: string } | null;
+			/** The channel this request works in; every query is scoped to it. */
+			channel: { id: string; name: string; frameRate: string } | null;
+			/** The person's roles in the current channel. */
+			roles: Role[];
+			/** Every channel the person may enter, for the switcher. */
+			channels: { id: string; name: string; roles: Role[] }[];
+			/** How the caller proved who they are. */
+			via: 'session' | 'token' | null;
+			sessionId: string | null;
+		}
+		interface PageData {
+			person?: App.Locals['person'];
+		}
+	}
+}
+
+export {};

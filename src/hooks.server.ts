@@ -1,0 +1,63 @@
+import { redirect, json, type Handle, type ServerInit, type HandleServerError } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { authHandle } from './auth';
+import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/identity';
+import { startMailSender } from '$lib/server/mail/outbox';
+import { db } from '$lib/server/db';
+
+export const init: ServerInit = async () => {
+	startMailSender();
+	// adapter-node emits this after it stops taking requests: close the pool so the process can exit.
+	process.on('sveltekit:shutdown', () => void db.destroy());
+};
+
+/** Reads the person, roles and channel from the database on every request (a disabled account loses access at once). */
+const identityHandle: Handle = async ({ event, resolve }) => {
+	event.locals.person = null;
+	event.locals.channel = null;
+	event.locals.roles = [];
+	event.locals.channels = [];
+	event.locals.via = null;
+	event.locals.sessionId = null;
+
+	const authorization = event.request.headers.get('authorization');
+	if (authorization?.startsWith('Bearer ')) {
+		const identity = await identityFromToken(authorization.slice(7).trim());
+		if (!identity.person) return json({ error: 'That API token is unknown or revoked. Create a new one under Account.' }, { status: 401 });
+		Object.assign(event.locals, identity, { via: 'token' });
+		return resolve(event);
+	}
+
+	let session: { sid?: string } | null = null;
+	try {
+		session = (await event.locals.auth()) as { sid?: string } | null;
+	} catch {
+		session = null; // a forged or stale cookie is simply no session
+	}
+	if (session?.sid) {
+		const identity = await identityFromSession(session.sid, event.cookies.get(CHANNEL_COOKIE));
+		if (identity.person) Object.assign(event.locals, identity, { via: 'session', sessionId: session.sid });
+	}
+	return resolve(event);
+};
+
+const PUBLIC_PATHS = [/^\/signin$/, /^\/auth\//, /^\/welcome\//, /^\/reset(\/|$)/, /^\/go\//, /^\/dev\/mail/, /^\/healthz$/];
+
+/** Everything but the public pages needs a signed-in crew member; roles are checked again in each route. */
+const guardHandle: Handle = async ({ event, resolve }) => {
+	const path = event.url.pathname;
+	if (PUBLIC_PATHS.some((pattern) => pattern.test(path))) return resolve(event);
+	if (!event.locals.person) {
+		if (path.startsWith('/api/')) return json({ error: 'Sign in, or send a personal API token as "Authorization: Bearer …".' }, { status: 401 });
+		if (event.request.method !== 'GET') return json({ error: 'Your session has ended. Sign in again; nothing was changed.' }, { status: 401 });
+		redirect(303, `/signin?next=${encodeURIComponent(path + event.url.search)}`);
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(authHandle, identityHandle, guardHandle);
+
+export const handleError: HandleServerError = ({ error, status }) => {
+	if (status !== 404) console.error(error);
+	return { message: status === 404 ? 'Not found.' : 'Something went wrong on the server.' };
+};

@@ -1,0 +1,3 @@
+/** Chapter rules and exports, shared by the browser and the server (pure, no I/O). */
+export * from './rules';
+export * from './export';

@@ -1,0 +1,19 @@
+/** The navigation each role sees. Hiding a link is a courtesy: every route checks roles on the server. */
+import type { Role } from '$lib/roles';
+
+export interface NavItem {
+	href: string;
+	label: string;
+	roles: Role[] | 'all';
+}
+
+export const NAV_ITEMS: NavItem[] = [
+	{ href: '/', label: 'Bench', roles: 'all' },
+	{ href: '/crew', label: 'Crew', roles: ['producer'] },
+	{ href: '/channel', label: 'Channel', roles: ['producer'] },
+	{ href: '/account', label: 'Account', roles: 'all' }
+];
+
+export function navFor(roles: Role[]): NavItem[] {
+	return NAV_ITEMS.filter((item) => item.roles === 'all' || item.roles.some((role) => roles.includes(role)));
+}

@@ -1,0 +1,272 @@
+/**
+ * Script timing: how many words the host will say, how long that takes, and
+ * whether a segment is running long or short. Pure; runs in the browser (live
+ * count beside the editor) and on the server (rundown totals).
+ *
+ * What counts as a spoken word (our own rules, kept simple so a writer can
+ * predict the count):
+ * - Markdown syntax is not spoken: heading `#`, emphasis markers, list bullets
+ *   and numbers, blockquote `>`, table pipes, task-list boxes.
+ * - Code is not spoken: fenced and indented code blocks are skipped entirely,
+ *   and so is inline `code` (crews use it for part numbers and notes to self).
+ * - Links: the link text counts, the URL does not. Bare URLs (`https://…`,
+ *   `www.…`) and e-mail addresses count as 0, wherever they appear.
+ * - Images count as 0 (the alt text is for screen readers, not the host).
+ * - HTML tags count as 0; text between them counts; HTML comments count as 0.
+ * - Directions: anything inside `[[ … ]]` is a note for the crew (for example
+ *   `[[B-roll: jack stands]]`) and is not spoken. A direction ends at the first
+ *   `]]` and cannot run across a blank line, so a forgotten `]]` does not
+ *   swallow the rest of the script; an unclosed `[[` is counted as spoken so
+ *   the writer notices it in the total. Directions are removed before the
+ *   Markdown is read, so they may hold anything; write `\[\[` for literal
+ *   double brackets.
+ * - A word is a run of characters between whitespace (or an em dash) holding
+ *   at least one letter or digit. Numbers are words ("95"); hyphenated and
+ *   slash-joined tokens are one word ("ft-lbs", "and/or"); a lone "&" is one
+ *   word because it is read as "and".
+ */
+import { Lexer, type Token, type Tokens } from 'marked';
+
+/**
+ * Presented speech runs about 150 words per minute (common practice; Lucas,
+ * The Art of Public Speaking, cites 125–150 wpm for US speakers; radio
+ * bulletins run 160–180 wpm per Rodero 2012, Text & Talk 32(3)). See
+ * /work/shared/REFERENCES.md, "Narration pace".
+ */
+export const DEFAULT_WORDS_PER_MINUTE = 150;
+
+/** Calibration ignores takes shorter than this: lead-in and pauses dominate a very short take. */
+export const CALIBRATION_MIN_SECONDS = 10;
+/** Calibration ignores takes with fewer words than this, for the same reason. */
+export const CALIBRATION_MIN_WORDS = 20;
+/**
+ * Our own sanity range for a measured pace. Outside it the sample is almost
+ * certainly wrong (a take linked to the wrong script, a recording with long
+ * silences, a script edited after the take) rather than a real host's pace.
+ */
+export const CALIBRATED_PACE_RANGE = { minimum: 80, maximum: 260 } as const;
+
+/** Our own tolerance for "on time": ±5% of the target… */
+export const RUNTIME_TOLERANCE_FRACTION = 0.05;
+/** …or ±10 seconds, whichever is larger, so short segments are not flagged for a breath. */
+export const RUNTIME_TOLERANCE_MIN_SECONDS = 10;
+
+// Separate lexer options from marked's global defaults so another module's
+// marked.use() cannot change how words are counted.
+const lexerOptions = { gfm: true, breaks: false, pedantic: false } as const;
+
+const directionPattern = /\[\[(?:(?!\n[ \t]*\n)[\s\S])*?\]\]/g;
+const htmlCommentPattern = /<!--[\s\S]*?(?:-->|$)/g;
+const htmlTagPattern = /<\/?[A-Za-z][^>]*>/g;
+const urlLikePattern = /^[("'<[]*(?:[a-z][a-z0-9+.-]*:\/\/|www\.)\S*$/i;
+const emailLikePattern = /^[("'<[]*(?:mailto:)?[^\s@]+@[^\s@]+\.[^\s@]+$/i;
+const hasLetterOrDigit = /[\p{L}\p{N}]/u;
+const namedEntities: Record<string, string> = {
+	amp: '&',
+	lt: '<',
+	gt: '>',
+	quot: '"',
+	apos: "'",
+	nbsp: ' ',
+	ndash: '–',
+	mdash: '—'
+};
+
+/** Turns the few HTML character references a writer might type into the characters they stand for. */
+function decodeCharacterReferences(text: string): string {
+	return text.replace(/&(#x[0-9a-f]+|#[0-9]+|[a-z]+);/gi, (whole, body: string) => {
+		if (body.startsWith('#')) {
+			const codePoint =
+				body[1] === 'x' || body[1] === 'X'
+					? Number.parseInt(body.slice(2), 16)
+					: Number.parseInt(body.slice(1), 10);
+			return codePoint > 0 && codePoint <= 0x10ffff ? String.fromCodePoint(codePoint) : ' ';
+		}
+		return namedEntities[body.toLowerCase()] ?? whole;
+	});
+}
+
+/** Collects the spoken text of block tokens; blocks are separated by a blank line. */
+function spokenTextOfBlocks(tokens: Token[]): string {
+	return tokens.map(spokenTextOfBlock).join('\n\n');
+}
+
+function spokenTextOfBlock(token: Token): string {
+	switch (token.type) {
+		case 'code':
+		case 'space':
+		case 'hr':
+		case 'def':
+			return '';
+		case 'html':
+			// In an HTML block, tags mostly separate blocks (`<p>one</p><p>two</p>`), so they become spaces.
+			return spokenTextOfHtml((token as Tokens.HTML).text, ' ');
+		case 'list':
+			return (token as Tokens.List).items.map((item) => spokenTextOfBlocks(item.tokens)).join('\n\n');
+		case 'table': {
+			const table = token as Tokens.Table;
+			const cells = [table.header, ...table.rows].flat();
+			return cells.map((cell) => spokenTextOfInline(cell.tokens)).join('\n\n');
+		}
+		case 'blockquote':
+			return spokenTextOfBlocks((token as Tokens.Blockquote).tokens);
+		case 'heading':
+		case 'paragraph':
+			return spokenTextOfInline((token as Tokens.Paragraph).tokens);
+		case 'text': {
+			// Inside tight list items marked gives block-level text tokens with inline children.
+			const text = token as Tokens.Text;
+			return text.tokens ? spokenTextOfInline(text.tokens) : text.text;
+		}
+		default: {
+			// Tokens from extensions: read their children if they have any.
+			const children = (token as Tokens.Generic).tokens;
+			return children ? spokenTextOfBlocks(children) : '';
+		}
+	}
+}
+
+/** Collects the spoken text of inline tokens, joined without separators so "un**bolt**" stays one word. */
+function spokenTextOfInline(tokens: Token[]): string {
+	return tokens.map(spokenTextOfInlineToken).join('');
+}
+
+function spokenTextOfInlineToken(token: Token): string {
+	switch (token.type) {
+		case 'text':
+		case 'escape': {
+			const text = token as Tokens.Text;
+			return text.tokens ? spokenTextOfInline(text.tokens) : text.text;
+		}
+		case 'strong':
+		case 'em':
+		case 'del':
+			return spokenTextOfInline((token as Tokens.Strong).tokens);
+		case 'link': {
+			const link = token as Tokens.Link;
+			// An autolink's text is the address itself, which the host does not read out.
+			return link.autolink ? ' ' : spokenTextOfInline(link.tokens);
+		}
+		case 'html':
+			// Inline tags sit inside or between words; dropping them must not split a word.
+			return spokenTextOfHtml((token as Tokens.Tag).text, '');
+		case 'codespan':
+		case 'image':
+		case 'br':
+			return ' ';
+		case 'checkbox':
+			return '';
+		default: {
+			const children = (token as Tokens.Generic).tokens;
+			return children ? spokenTextOfInline(children) : '';
+		}
+	}
+}
+
+function spokenTextOfHtml(html: string, tagReplacement: ' ' | ''): string {
+	return html.replace(htmlCommentPattern, ' ').replace(htmlTagPattern, tagReplacement);
+}
+
+function isSpokenWord(candidate: string): boolean {
+	if (candidate === '&') return true;
+	if (!hasLetterOrDigit.test(candidate)) return false;
+	return !urlLikePattern.test(candidate) && !emailLikePattern.test(candidate);
+}
+
+/** Counts the words a host will say from a segment's Markdown script (rules in this module's header). */
+export function countSpokenWords(markdown: string): number {
+	if (markdown.trim() === '') return 0;
+	// Directions go before lexing, so nothing inside them (a clip URL, stray `**`)
+	// can change how the surrounding Markdown is read.
+	const withoutDirections = markdown.replace(/\r\n?/g, '\n').replace(directionPattern, ' ');
+	const tokens = Lexer.lex(withoutDirections, lexerOptions);
+	const spokenText = decodeCharacterReferences(spokenTextOfBlocks(tokens));
+	return spokenText.split(/[\s—]+/u).filter(isSpokenWord).length;
+}
+
+function assertPositiveFinite(value: number, what: string): void {
+	if (!Number.isFinite(value) || value <= 0) {
+		throw new RangeError(`${what} must be a number above 0 (got ${value}).`);
+	}
+}
+
+/** Seconds to speak a number of words at a pace: seconds = words ÷ wpm × 60. */
+export function estimateSpokenSeconds(words: number, wordsPerMinute: number): number {
+	if (!Number.isFinite(words) || words < 0) {
+		throw new RangeError(`Word count must be 0 or more (got ${words}).`);
+	}
+	assertPositiveFinite(wordsPerMinute, 'Words per minute');
+	return (words / wordsPerMinute) * 60;
+}
+
+/** One recorded take of a scripted passage: how many words it had and how long the host took. */
+export interface PaceSample {
+	words: number;
+	recordedSeconds: number;
+}
+
+/** A host's pace measured from takes, or the default when there is nothing usable to measure. */
+export interface CalibratedPace {
+	wordsPerMinute: number;
+	/** How many samples were used (after dropping short or broken ones). */
+	basedOn: number;
+	/** False when no sample was usable and `wordsPerMinute` is the fallback. */
+	calibrated: boolean;
+}
+
+/**
+ * Measures a host's pace as total words ÷ total recorded minutes over usable takes, clamped to 80–260 wpm.
+ *
+ * Pooled rather than a mean of per-take rates: the pooled rate is the one that
+ * reproduces the total recorded time from the total words, and it weights each
+ * take by its length, so a 15-second pickup with a long pause cannot pull the
+ * estimate as hard as a six-minute segment does. A mean of ratios gives every
+ * take the same vote however short it is.
+ */
+export function calibratePace(
+	samples: readonly PaceSample[],
+	fallback: number = DEFAULT_WORDS_PER_MINUTE
+): CalibratedPace {
+	assertPositiveFinite(fallback, 'Fallback words per minute');
+	const usable = samples.filter(
+		(sample) =>
+			Number.isFinite(sample.words) &&
+			Number.isFinite(sample.recordedSeconds) &&
+			sample.recordedSeconds >= CALIBRATION_MIN_SECONDS &&
+			sample.words >= CALIBRATION_MIN_WORDS
+	);
+	if (usable.length === 0) {
+		return { wordsPerMinute: fallback, basedOn: 0, calibrated: false };
+	}
+	const totalWords = usable.reduce((sum, sample) => sum + sample.words, 0);
+	const totalMinutes = usable.reduce((sum, sample) => sum + sample.recordedSeconds, 0) / 60;
+	const pooled = totalWords / totalMinutes;
+	const clamped = Math.min(CALIBRATED_PACE_RANGE.maximum, Math.max(CALIBRATED_PACE_RANGE.minimum, pooled));
+	return { wordsPerMinute: clamped, basedOn: usable.length, calibrated: true };
+}
+
+/** How an estimate compares with a target runtime. */
+export interface RuntimeBalance {
+	/** Estimated minus target: positive means running long. */
+	deltaSeconds: number;
+	state: 'under' | 'on' | 'over';
+	/** Estimated ÷ target: 1 is exactly on target, 1.2 is 20% long. */
+	fraction: number;
+}
+
+/** Our own on-time window for a target: the larger of ±5% and ±10 s. */
+export function runtimeToleranceSeconds(targetSeconds: number): number {
+	assertPositiveFinite(targetSeconds, 'Target runtime in seconds');
+	return Math.max(targetSeconds * RUNTIME_TOLERANCE_FRACTION, RUNTIME_TOLERANCE_MIN_SECONDS);
+}
+
+/** Compares an estimated runtime with a target; within the tolerance (boundary included) is "on". */
+export function runtimeBalance(estimatedSeconds: number, targetSeconds: number): RuntimeBalance {
+	if (!Number.isFinite(estimatedSeconds) || estimatedSeconds < 0) {
+		throw new RangeError(`Estimated runtime must be 0 seconds or more (got ${estimatedSeconds}).`);
+	}
+	const tolerance = runtimeToleranceSeconds(targetSeconds);
+	const deltaSeconds = estimatedSeconds - targetSeconds;
+	const state = deltaSeconds > tolerance ? 'over' : deltaSeconds < -tolerance ? 'under' : 'on';
+	return { deltaSeconds, state, fraction: estimatedSeconds / targetSeconds };
+}

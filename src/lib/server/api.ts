@@ -1,0 +1,66 @@
+/**
+ * Wraps a +server.ts handler so every failure answers JSON `{ error, issues? }` with the right status:
+ * 400 with zod's field issues, 401, 403, 404, 409 from the guard and domain modules.
+ */
+import { isHttpError, isRedirect, json, type RequestEvent } from '@sveltejs/kit';
+import { z } from 'zod';
+
+export class DomainError extends Error {
+	constructor(
+		public status: 400 | 404 | 409 | 413 | 422,
+		message: string,
+		public issues?: Record<string, string[]>,
+		public extra?: Record<string, unknown>
+	) {
+		super(message);
+	}
+}
+
+export const notFound = (what = 'That record') => new DomainError(404, `${what} was not found in this channel.`);
+
+/** zod issues as { field: [messages] }, field names dotted. */
+export function fieldIssues(zodError: z.ZodError): Record<string, string[]> {
+	const issues: Record<string, string[]> = {};
+	for (const issue of zodError.issues) {
+		const key = issue.path.length ? issue.path.join('.') : 'form';
+		(issues[key] ??= []).push(issue.message);
+	}
+	return issues;
+}
+
+/** Reads a JSON body and validates it; malformed JSON is a 400 in plain words. */
+export async function readJson<T extends z.ZodType>(event: RequestEvent, schema: T): Promise<z.infer<T>> {
+	let body: unknown;
+	try {
+		body = await event.request.json();
+	} catch {
+		throw new DomainError(400, 'The request body is not valid JSON.');
+	}
+	const parsed = schema.safeParse(body);
+	if (!parsed.success) throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
+	return parsed.data;
+}
+
+export function parseWith<T extends z.ZodType>(schema: T, value: unknown): z.infer<T> {
+	const parsed = schema.safeParse(value);
+	if (!parsed.success) throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
+	return parsed.data;
+}
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+export function api<Event extends RequestEvent<any, any>>(handler: (event: Event) => Response | Promise<Response>): (event: Event) => Promise<Response> {
+	return async (event) => {
+		try {
+			return await handler(event);
+		} catch (failure) {
+			if (isRedirect(failure)) throw failure;
+			if (failure instanceof DomainError) {
+				return json({ error: failure.message, ...(failure.issues ? { issues: failure.issues } : {}), ...failure.extra }, { status: failure.status });
+			}
+			if (isHttpError(failure)) return json({ error: failure.body.message }, { status: failure.status });
+			if (failure instanceof z.ZodError) return json({ error: 'Some fields need fixing.', issues: fieldIssues(failure) }, { status: 400 });
+			console.error(failure);
+			return json({ error: 'Something went wrong on the server. Try again; if it keeps happening, tell your producer.' }, { status: 500 });
+		}
+	};
+}

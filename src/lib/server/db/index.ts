@@ -1,0 +1,36 @@
+/** The one Kysely instance of the server. */
+import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
+import pg from 'pg';
+import { env } from '$env/dynamic/private';
+import type { Database } from './types';
+
+// PostgreSQL bigint and numeric come back as strings by default; counts here stay well inside 2^53.
+pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
+pg.types.setTypeParser(pg.types.builtins.NUMERIC, (value) => Number(value));
+// Calendar dates stay 'YYYY-MM-DD' text: a publish date has no time zone.
+pg.types.setTypeParser(pg.types.builtins.DATE, (value) => value);
+
+function createDatabase(): Kysely<Database> {
+	const connectionString = env.DATABASE_URL;
+	if (!connectionString) {
+		throw new Error('DATABASE_URL is not set: start Wrenchroll with `npm start`, which sets it for you.');
+	}
+	const pool = new pg.Pool({ connectionString, max: Number(env.DATABASE_POOL_SIZE ?? 10) });
+	// An idle connection dropped by the server (restart, failover) must not take the app down; the pool reconnects.
+	pool.on('error', (failure) => console.error('database connection lost:', failure.message));
+	return new Kysely<Database>({
+		dialect: new PostgresDialect({ pool }),
+		plugins: [new CamelCasePlugin()]
+	});
+}
+
+let instance: Kysely<Database> | undefined;
+
+/** Lazily created so that `vite build` (which imports server modules) needs no database. */
+export const db: Kysely<Database> = new Proxy({} as Kysely<Database>, {
+	get(_target, property) {
+		instance ??= createDatabase();
+		const value = Reflect.get(instance, property, instance);
+		return typeof value === 'function' ? value.bind(instance) : value;
+	}
+});

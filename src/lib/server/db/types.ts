@@ -1,0 +1,171 @@
+/** The Database interface: one entry per table, camelCase (CamelCasePlugin maps snake_case columns). */
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+
+import type { Role } from '$lib/roles';
+export type { Role } from '$lib/roles';
+
+type CreatedAt = ColumnType<Date, Date | string | undefined, never>;
+type Timestamp = ColumnType<Date, Date | string, Date | string>;
+
+export interface ChannelTable {
+	id: Generated<string>;
+	name: string;
+	frameRate: Generated<string>;
+	callToAction: Generated<string>;
+	contact: Generated<string>;
+	descriptionLimit: Generated<number>;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export interface PersonTable {
+	id: Generated<string>;
+	email: string;
+	name: string;
+	passwordHash: string | null;
+	createdAt: CreatedAt;
+}
+
+export interface MembershipTable {
+	channelId: string;
+	personId: string;
+	roles: ColumnType<Role[], Role[] | undefined, Role[]>;
+	disabledAt: Timestamp | null;
+	invitedBy: string | null;
+	createdAt: CreatedAt;
+}
+
+export interface PersonSessionTable {
+	id: Generated<string>;
+	personId: string;
+	createdAt: CreatedAt;
+	expiresAt: Timestamp;
+}
+
+export interface OneTimeLinkTable {
+	id: Generated<string>;
+	personId: string;
+	channelId: string | null;
+	purpose: 'invite' | 'reset';
+	tokenHash: string;
+	expiresAt: Timestamp;
+	usedAt: Timestamp | null;
+	createdAt: CreatedAt;
+}
+
+export interface ApiTokenTable {
+	id: Generated<string>;
+	personId: string;
+	channelId: string;
+	label: string;
+	tokenHash: string;
+	tokenHint: string;
+	createdAt: CreatedAt;
+	lastUsedAt: Timestamp | null;
+	revokedAt: Timestamp | null;
+}
+
+export interface SignInFailureTable {
+	id: Generated<string>;
+	emailKey: string;
+	at: CreatedAt;
+}
+
+export interface OutboxTable {
+	id: Generated<string>;
+	channelId: string | null;
+	toAddress: string;
+	subject: string;
+	bodyText: string;
+	attempts: Generated<number>;
+	nextAttemptAt: ColumnType<Date, Date | string | undefined, Date | string>;
+	lastError: string | null;
+	sentAt: Timestamp | null;
+	createdAt: CreatedAt;
+}
+
+export interface BuildTable {
+	id: Generated<string>;
+	channelId: string;
+	name: string;
+	year: number;
+	vehicleType: string;
+	drivetrain: string;
+	frontSuspension: string;
+	rearSuspension: string;
+	frontLiftIn: ColumnType<number, number | undefined, number>;
+	rearLiftIn: ColumnType<number, number | undefined, number>;
+	tyreSize: string;
+	notes: Generated<string>;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export type PartStatus = 'active' | 'discontinued' | 'out_of_stock';
+
+export interface PartTable {
+	id: Generated<string>;
+	channelId: string;
+	sku: string;
+	name: string;
+	category: string;
+	brand: string;
+	priceCents: number;
+	currency: Generated<string>;
+	storeUrl: string;
+	fitmentNote: Generated<string>;
+	status: ColumnType<PartStatus, PartStatus | undefined, PartStatus>;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export type Stage = 'script' | 'shoot' | 'edit' | 'locked' | 'published';
+
+export interface EpisodeTable {
+	id: Generated<string>;
+	channelId: string;
+	title: string;
+	slug: string;
+	logline: Generated<string>;
+	targetRuntimeSeconds: number;
+	frameRate: string;
+	publishDate: ColumnType<string | null, string | null | undefined, string | null>;
+	stage: ColumnType<Stage, Stage | undefined, Stage>;
+	cutDurationFrames: number | null;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export interface EpisodeBuildTable {
+	episodeId: string;
+	buildId: string;
+}
+
+export interface EpisodeAssignmentTable {
+	episodeId: string;
+	role: Role;
+	personId: string;
+}
+
+export interface Database {
+	build: BuildTable;
+	part: PartTable;
+	episode: EpisodeTable;
+	episodeBuild: EpisodeBuildTable;
+	episodeAssignment: EpisodeAssignmentTable;
+	channel: ChannelTable;
+	person: PersonTable;
+	membership: MembershipTable;
+	personSession: PersonSessionTable;
+	oneTimeLink: OneTimeLinkTable;
+	apiToken: ApiTokenTable;
+	signInFailure: SignInFailureTable;
+	outbox: OutboxTable;
+}
+
+export type Channel = Selectable<ChannelTable>;
+export type Person = Selectable<PersonTable>;
+export type NewPerson = Insertable<PersonTable>;
+export type Membership = Selectable<MembershipTable>;
+export type ChannelUpdate = Updateable<ChannelTable>;
+export type OutboxMessage = Selectable<OutboxTable>;

@@ -1,0 +1,25 @@
+/** Small helpers for form actions: validate FormData with zod and turn domain errors into fail(). */
+import { fail, type ActionFailure } from '@sveltejs/kit';
+import type { z } from 'zod';
+import { DomainError, fieldIssues } from './api';
+
+export type FormErrors = Record<string, string[]>;
+
+export function parseForm<T extends z.ZodType>(schema: T, values: unknown):
+	| { ok: true; data: z.infer<T> }
+	| { ok: false; errors: FormErrors } {
+	const parsed = schema.safeParse(values);
+	return parsed.success ? { ok: true, data: parsed.data } : { ok: false, errors: fieldIssues(parsed.error) };
+}
+
+/** Runs a domain call; a DomainError becomes a fail() that keeps what the person typed. */
+export async function attempt<T, V>(values: V, work: () => Promise<T>): Promise<T | ActionFailure<{ errors: FormErrors; values: V; extra?: Record<string, unknown> }>> {
+	try {
+		return await work();
+	} catch (failure) {
+		if (failure instanceof DomainError) {
+			return fail(failure.status, { errors: failure.issues ?? { form: [failure.message] }, values, extra: failure.extra });
+		}
+		throw failure;
+	}
+}

@@ -1,0 +1,32 @@
+/**
+ * Password rules follow NIST SP 800-63B: a length floor and ceiling, no composition rules,
+ * and a check against a list of known-breached passwords (Mozilla's fxa-common-password-list,
+ * the top of a public breach corpus). Hashing is Argon2id from @node-rs/argon2.
+ */
+import { hash, verify } from '@node-rs/argon2';
+import commonPasswords from 'fxa-common-password-list';
+
+/** NIST SP 800-63B-4 asks for at least 15 characters where the password is the only factor. */
+export const PASSWORD_MIN = 15;
+export const PASSWORD_MAX = 128;
+
+/** Returns a sentence for the person, or null when the password is acceptable. */
+export function passwordProblem(password: string): string | null {
+	if (password.length < PASSWORD_MIN) return `Use at least ${PASSWORD_MIN} characters: a short phrase is easier to remember than symbols.`;
+	if (password.length > PASSWORD_MAX) return `Use at most ${PASSWORD_MAX} characters.`;
+	if (commonPasswords.test(password.toLowerCase())) return 'That password appears in lists of leaked passwords. Pick another.';
+	return null;
+}
+
+export function hashPassword(password: string): Promise<string> {
+	return hash(password);
+}
+
+export async function checkPassword(passwordHash: string | null, password: string): Promise<boolean> {
+	if (!passwordHash) return false;
+	try {
+		return await verify(passwordHash, password);
+	} catch {
+		return false;
+	}
+}

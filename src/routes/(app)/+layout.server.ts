@@ -1,0 +1,7 @@
+import { requireRole } from '$lib/server/guard';
+import type { LayoutServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { person, channel, roles } = requireRole(event);
+	return { person, channel, roles, channels: event.locals.channels };
+}) satisfies LayoutServerLoad;

@@ -1,0 +1,34 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { requireRole } from '$lib/server/guard';
+import { channelSettings, updateChannelSettings } from '$lib/server/channels';
+import { channelSettingsSchema } from '$lib/schemas/people';
+import { attempt, parseForm } from '$lib/server/forms';
+import { CHANNEL_COOKIE } from '$lib/server/identity';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event, 'producer');
+	return { settings: await channelSettings(channel.id) };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	save: async (event) => {
+		const { channel } = requireRole(event, 'producer');
+		const form = await event.request.formData();
+		const values = Object.fromEntries(['name', 'frameRate', 'callToAction', 'contact', 'descriptionLimit', 'version'].map((key) => [key, String(form.get(key) ?? '')]));
+		const parsed = parseForm(channelSettingsSchema, values);
+		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
+		const result = await attempt(values, () => updateChannelSettings(channel.id, parsed.data));
+		if ('status' in result) return fail(result.status, result.data);
+		return { saved: true };
+	},
+	/** Any crew member may switch to another channel they belong to. */
+	switch: async (event) => {
+		requireRole(event);
+		const form = await event.request.formData();
+		const wanted = String(form.get('channelId') ?? '');
+		if (!event.locals.channels.some((c) => c.id === wanted)) return fail(404, { errors: { channelId: ['You are not on that channel’s crew.'] } });
+		event.cookies.set(CHANNEL_COOKIE, wanted, { path: '/', httpOnly: true, sameSite: 'lax', maxAge: 365 * 24 * 3600 });
+		redirect(303, '/');
+	}
+} satisfies Actions;

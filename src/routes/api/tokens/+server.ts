@@ -1,0 +1,18 @@
+import { json } from '@sveltejs/kit';
+import { api, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { createToken, listTokens } from '$lib/server/tokens';
+import { tokenCreateSchema } from '$lib/schemas/people';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = api(async (event) => {
+	const { person, channel } = requireRole(event);
+	return json({ tokens: await listTokens(person.id, channel.id) });
+});
+
+/** The token's secret is in this answer and nowhere else, ever. */
+export const POST: RequestHandler = api(async (event) => {
+	const { person, channel } = requireRole(event);
+	const { label } = await readJson(event, tokenCreateSchema);
+	return json({ token: await createToken(person.id, channel.id, label) }, { status: 201 });
+});

@@ -1,0 +1,10 @@
+import { api } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { revokeToken } from '$lib/server/tokens';
+import type { RequestHandler } from './$types';
+
+export const DELETE: RequestHandler = api(async (event) => {
+	const { person } = requireRole(event);
+	await revokeToken(person.id, event.params.id);
+	return new Response(null, { status: 204 });
+});

@@ -1,0 +1,2 @@
+import { text } from '@sveltejs/kit';
+export const GET = () => text('ok');

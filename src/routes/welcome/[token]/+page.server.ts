@@ -1,0 +1,6 @@
+import { loadLink, setPasswordAction } from '$lib/server/password-link';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (({ params }) => loadLink(params.token, 'invite')) satisfies PageServerLoad;
+
+export const actions = { default: (event) => setPasswordAction(event, 'invite') } satisfies Actions;

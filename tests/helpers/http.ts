@@ -1,0 +1,108 @@
+/** Talking to the built server over HTTP as a person would: sign-in, cookies, JSON calls, the fake mailbox. */
+import { inject } from 'vitest';
+import pg from 'pg';
+import { parse as parseDevalue } from 'devalue';
+
+export const DEMO_PASSWORD = 'wrenchroll-demo-bay3';
+export const demo = {
+	producer: 'dana@torquehaven.test',
+	host: 'rico@torquehaven.test',
+	camera: 'mika@torquehaven.test',
+	editor: 'jules@cutbench.test',
+	merch: 'priya@torquehaven.test',
+	otherProducer: 'sam@dunewagon.test'
+} as const;
+
+export const baseUrl = () => inject('baseUrl');
+
+/** A person's browser, minus the browser: keeps cookies between requests. */
+export class Visitor {
+	cookies = new Map<string, string>();
+
+	cookieHeader(): string {
+		return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
+	}
+
+	async request(path: string, init: RequestInit & { json?: unknown; form?: Record<string, string | string[]> } = {}): Promise<Response> {
+		const headers = new Headers(init.headers);
+		headers.set('origin', baseUrl());
+		if (this.cookies.size) headers.set('cookie', this.cookieHeader());
+		let body = init.body;
+		if (init.json !== undefined) {
+			headers.set('content-type', 'application/json');
+			body = JSON.stringify(init.json);
+		}
+		if (init.form) {
+			const params = new URLSearchParams();
+			for (const [key, value] of Object.entries(init.form)) for (const v of [value].flat()) params.append(key, v);
+			body = params;
+			if (!headers.has('accept')) headers.set('accept', 'text/html');
+		}
+		const response = await fetch(baseUrl() + path, { ...init, headers, body, redirect: 'manual' });
+		for (const line of response.headers.getSetCookie()) {
+			const [pair, ...attributes] = line.split(';');
+			const [name, ...rest] = pair.split('=');
+			const value = rest.join('=');
+			const expired = attributes.some((a) => /max-age=0/i.test(a) || /expires=Thu, 01 Jan 1970/i.test(a));
+			if (expired || value === '') this.cookies.delete(name.trim());
+			else this.cookies.set(name.trim(), value);
+		}
+		return response;
+	}
+
+	/** Posts a SvelteKit form action the way `use:enhance` does, and decodes its answer. */
+	async action(path: string, form: Record<string, string | string[]>): Promise<{ type: string; status: number; data?: any; location?: string }> {
+		const response = await this.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
+		const result = await response.json();
+		if (result.data) result.data = parseDevalue(result.data);
+		return result;
+	}
+
+	async signIn(email: string, password = DEMO_PASSWORD): Promise<Response> {
+		return this.request('/signin', { method: 'POST', form: { email, password } });
+	}
+
+	async api(path: string, init: RequestInit & { json?: unknown } = {}) {
+		const response = await this.request(path, init);
+		const text = await response.text();
+		let body: any = text;
+		try {
+			body = text ? JSON.parse(text) : null;
+		} catch {
+			// not JSON: keep the text
+		}
+		return { status: response.status, body, headers: response.headers };
+	}
+}
+
+export async function signedIn(email: string): Promise<Visitor> {
+	const visitor = new Visitor();
+	const response = await visitor.signIn(email);
+	if (response.status !== 303) throw new Error(`sign-in as ${email} answered ${response.status}`);
+	return visitor;
+}
+
+export async function mailTo(address: string, { after = 0, timeoutMs = 15_000 } = {}) {
+	const deadline = Date.now() + timeoutMs;
+	while (Date.now() < deadline) {
+		const response = await fetch(`${baseUrl()}/dev/mail/messages.json`);
+		const { messages } = (await response.json()) as { messages: { to: string[]; subject: string; text: string; receivedAt: string }[] };
+		const found = messages.find((m) => m.to.includes(address) && Date.parse(m.receivedAt) >= after);
+		if (found) return found;
+		await new Promise((resolve) => setTimeout(resolve, 200));
+	}
+	throw new Error(`no mail to ${address} arrived within ${timeoutMs} ms`);
+}
+
+let pool: pg.Pool | null = null;
+/** Direct database reads, to check what a request did or did not change. */
+export async function sql<T = any>(text: string, params: unknown[] = []): Promise<T[]> {
+	pool ??= new pg.Pool({ connectionString: inject('databaseUrl'), max: 2 });
+	return (await pool.query(text, params)).rows as T[];
+}
+
+export function linkIn(text: string): string {
+	const match = text.match(/https?:\/\/\S+/);
+	if (!match) throw new Error(`no link in: ${text}`);
+	return match[0];
+}
