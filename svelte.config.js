@@ -5,7 +5,9 @@ import { vitePreprocess } from '@sveltejs/vite-plugin-svelte';
 const config = {
 	preprocess: vitePreprocess(),
 	kit: {
-		adapter: adapter({ out: 'build' })
+		// Both folders can be moved (WRENCHROLL_BUILD_DIR, WRENCHROLL_KIT_DIR) so two builds can run side by side.
+		adapter: adapter({ out: process.env.WRENCHROLL_BUILD_DIR ?? 'build' }),
+		outDir: process.env.WRENCHROLL_KIT_DIR ?? '.svelte-kit'
 	}
 };
 

@@ -4,6 +4,9 @@ import pg from 'pg';
 import { hash } from '@node-rs/argon2';
 import type { Database } from '../../src/lib/server/db/types.ts';
 import { DEMO_PASSWORD, demoBuilds, demoChannels, demoEpisodes, demoParts } from './demo-data.ts';
+import type { SeedContext } from './seed-context.ts';
+import { seedEpisodeWork } from './seed-episode-work.ts';
+import { seedEdit } from './seed-edit.ts';
 
 export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped'> {
 	const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: databaseUrl, max: 2 }) }), plugins: [new CamelCasePlugin()] });
@@ -12,13 +15,15 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 		if (existing) return 'skipped';
 		const passwordHash = await hash(DEMO_PASSWORD);
 		await db.transaction().execute(async (trx) => {
-			const people = new Map<string, string>();
+			const context: SeedContext = { channels: new Map(), people: new Map(), builds: new Map(), episodes: new Map() };
+			const people = context.people;
 			for (const spec of demoChannels) {
 				const channel = await trx
 					.insertInto('channel')
 					.values({ name: spec.name, frameRate: spec.frameRate, callToAction: spec.callToAction, contact: spec.contact })
 					.returning('id')
 					.executeTakeFirstOrThrow();
+				context.channels.set(spec.key, channel.id);
 				const crewByRole = new Map<string, string>();
 				for (const member of spec.crew) {
 					let personId = people.get(member.email);
@@ -29,7 +34,7 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 					await trx.insertInto('membership').values({ channelId: channel.id, personId, roles: [...member.roles] }).execute();
 					for (const role of member.roles) crewByRole.set(role, personId);
 				}
-				const builds = new Map<string, string>();
+				const builds = context.builds;
 				for (const { key, ...build } of demoBuilds[spec.key]) {
 					builds.set(key, (await trx.insertInto('build').values({ ...build, channelId: channel.id }).returning('id').executeTakeFirstOrThrow()).id);
 				}
@@ -59,6 +64,7 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 						.values({ channelId: channel.id, title: episode.title, slug: episode.slug, logline: episode.logline, targetRuntimeSeconds: episode.targetRuntimeSeconds, frameRate: spec.frameRate, publishDate, stage: episode.stage })
 						.returning('id')
 						.executeTakeFirstOrThrow();
+					context.episodes.set(episode.slug, { id: row.id, channelId: channel.id, frameRate: spec.frameRate, stage: episode.stage });
 					for (const buildKey of episode.builds) await trx.insertInto('episodeBuild').values({ episodeId: row.id, buildId: builds.get(buildKey)! }).execute();
 					for (const [role, personId] of crewByRole) {
 						if (role === 'producer') continue;
@@ -66,6 +72,8 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 					}
 				}
 			}
+			await seedEpisodeWork(trx, context);
+			await seedEdit(trx, context);
 		});
 		return 'seeded';
 	} finally {

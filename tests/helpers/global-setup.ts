@@ -13,6 +13,7 @@ import { startFakeMail } from '../../scripts/lib/fake-mail';
 import { freePort, waitForHttp } from './net';
 
 const root = path.resolve(import.meta.dirname, '../..');
+const buildDir = path.resolve(root, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
 
 declare module 'vitest' {
 	export interface ProvidedContext {
@@ -25,7 +26,7 @@ declare module 'vitest' {
 }
 
 export default async function setup(project: TestProject) {
-	if (!existsSync(path.join(root, 'build/index.js'))) throw new Error('Build the app first: npm run build (npm test does it for you).');
+	if (!existsSync(path.join(buildDir, 'index.js'))) throw new Error('Build the app first: npm run build (npm test does it for you).');
 	const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-test-'));
 	chmodSync(work, 0o755);
 	const cluster = await startCluster({ dataDir: path.join(work, 'pg'), port: await freePort(), database: 'wrenchroll_test' });
@@ -82,6 +83,6 @@ export function stopServer(child: ChildProcess): Promise<void> {
 }
 
 export function startServer(env: Record<string, string>): ChildProcess {
-	const child = spawn(process.execPath, [path.join(root, 'build/index.js')], { env, stdio: ['ignore', 'ignore', 'inherit'] });
+	const child = spawn(process.execPath, [path.join(buildDir, 'index.js')], { env, stdio: ['ignore', 'ignore', 'inherit'] });
 	return child;
 }

@@ -2,6 +2,8 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 
 import type { Role } from '$lib/roles';
+import type { EpisodeWorkTables } from './tables/episode-work';
+import type { EditTables } from './tables/edit';
 export type { Role } from '$lib/roles';
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>;
@@ -147,7 +149,7 @@ export interface EpisodeAssignmentTable {
 	personId: string;
 }
 
-export interface Database {
+export interface Database extends EpisodeWorkTables, EditTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;
