@@ -74,7 +74,7 @@ async function stop(code = 0) {
 	stopping = true;
 	server.kill('SIGTERM');
 	await fakeMail?.close();
-	cluster?.stop(); // the data stays in .data/postgres for the next start
+	if (cluster?.startedHere) cluster.stop(); // the data stays in .data/postgres for the next start
 	process.exit(code);
 }
 process.on('SIGINT', () => void stop(0));
