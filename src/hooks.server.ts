@@ -4,6 +4,8 @@ import { authHandle } from './auth';
 import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/identity';
 import { startMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
+import { handleUpload } from '$lib/server/uploads';
+import { UPLOAD_PATH } from '$lib/uploads';
 
 export const init: ServerInit = async () => {
 	startMailSender();
@@ -55,7 +57,14 @@ const guardHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(authHandle, identityHandle, guardHandle);
+/** Resumable uploads go straight to tus after their own role checks (no byte is stored before them). */
+const uploadHandle: Handle = async ({ event, resolve }) => {
+	const path = event.url.pathname;
+	if (path === UPLOAD_PATH || path.startsWith(UPLOAD_PATH + '/')) return handleUpload(event);
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(authHandle, identityHandle, uploadHandle, guardHandle);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);

@@ -51,7 +51,8 @@ export default async function setup(project: TestProject) {
 		DEV_MAILBOX_DIR: mailboxDir,
 		AUTH_SECRET: 'test-secret-for-the-throwaway-server-only-0123456789',
 		UPLOAD_DIR: uploadDir,
-		MAIL_INTERVAL_MS: '500'
+		MAIL_INTERVAL_MS: '500',
+		BODY_SIZE_LIMIT: String(8 * 1024 * 1024)
 	};
 	const server: ChildProcess = startServer(serverEnv);
 	await waitForHttp(`${baseUrl}/healthz`, 30_000);

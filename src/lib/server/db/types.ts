@@ -2,9 +2,13 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
 
 import type { Role } from '$lib/roles';
+import type { Stage } from '$lib/stages';
+import type { SuspensionType } from '$lib/specs/lift';
 import type { EpisodeWorkTables } from './tables/episode-work';
 import type { EditTables } from './tables/edit';
+import type { ShootTables } from './tables/shoot';
 export type { Role } from '$lib/roles';
+export type { Stage } from '$lib/stages';
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>;
 type Timestamp = ColumnType<Date, Date | string, Date | string>;
@@ -99,6 +103,12 @@ export interface BuildTable {
 	rearLiftIn: ColumnType<number, number | undefined, number>;
 	tyreSize: string;
 	notes: Generated<string>;
+	/** Spring type per axle (for the lift notes on the build sheet); null until someone sets it. */
+	frontSpring: SuspensionType | null;
+	rearSpring: SuspensionType | null;
+	/** How each axle is lifted, one of LIFT_METHODS in $lib/specs/lift; null for none or unknown. */
+	frontLiftMethod: string | null;
+	rearLiftMethod: string | null;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 }
@@ -121,7 +131,7 @@ export interface PartTable {
 	createdAt: CreatedAt;
 }
 
-export type Stage = 'script' | 'shoot' | 'edit' | 'locked' | 'published';
+export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
 
 export interface EpisodeTable {
 	id: Generated<string>;
@@ -134,6 +144,11 @@ export interface EpisodeTable {
 	publishDate: ColumnType<string | null, string | null | undefined, string | null>;
 	stage: ColumnType<Stage, Stage | undefined, Stage>;
 	cutDurationFrames: number | null;
+	scriptStatus: ColumnType<ScriptStatus, ScriptStatus | undefined, ScriptStatus>;
+	/** Fingerprint of the script text as approved; a later edit makes it differ from the current one. */
+	scriptApprovedFingerprint: string | null;
+	scriptApprovedAt: Timestamp | null;
+	scriptApprovedBy: string | null;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 }
@@ -149,7 +164,7 @@ export interface EpisodeAssignmentTable {
 	personId: string;
 }
 
-export interface Database extends EpisodeWorkTables, EditTables {
+export interface Database extends EpisodeWorkTables, EditTables, ShootTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

@@ -1,0 +1,132 @@
+/** Tables for the shoot: shoot days, recording profiles, gear, pull list, uploads and footage. */
+import type { ColumnType, Generated } from 'kysely';
+
+type CreatedAt = ColumnType<Date, Date | string | undefined, never>;
+type Numeric = ColumnType<number, number | undefined, number>;
+
+export interface RecordingProfileTable {
+	id: Generated<string>;
+	channelId: string;
+	name: string;
+	camera: string;
+	codec: string;
+	resolution: string;
+	frameRate: string;
+	bitrateMbps: number;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export interface ShootDayTable {
+	id: Generated<string>;
+	channelId: string;
+	episodeId: string;
+	shootDate: string;
+	locationName: string;
+	locationAddress: Generated<string>;
+	bay: Generated<string>;
+	bayFrom: string | null;
+	bayUntil: string | null;
+	callTime: string;
+	wrapTime: string;
+	programMinutes: Numeric;
+	shootingRatio: Numeric;
+	cardSizeGb: Numeric;
+	uplinkMbps: Numeric;
+	notes: Generated<string>;
+	version: Generated<number>;
+	createdAt: CreatedAt;
+}
+
+export interface ShootDayCrewTable {
+	shootDayId: string;
+	personId: string;
+	duty: Generated<string>;
+}
+
+export interface ShootDayBuildTable {
+	shootDayId: string;
+	buildId: string;
+}
+
+export interface ShootDayCameraTable {
+	id: Generated<string>;
+	shootDayId: string;
+	label: string;
+	profileId: string;
+	rollHours: number | null;
+}
+
+export type GearKind = 'camera' | 'audio' | 'light' | 'grip' | 'other';
+
+export interface GearItemTable {
+	id: Generated<string>;
+	shootDayId: string;
+	kind: GearKind;
+	label: string;
+	quantity: Generated<number>;
+}
+
+export interface PullItemTable {
+	id: Generated<string>;
+	shootDayId: string;
+	partId: string | null;
+	label: string;
+	quantity: Generated<number>;
+	source: ColumnType<'segment' | 'extra', 'segment' | 'extra' | undefined, 'segment' | 'extra'>;
+	onHand: Generated<boolean>;
+	checkedBy: string | null;
+	checkedAt: Date | null;
+	version: Generated<number>;
+}
+
+export type UploadPurpose = 'footage' | 'cut';
+
+export interface UploadTable {
+	id: string;
+	channelId: string;
+	personId: string;
+	episodeId: string;
+	shootDayId: string | null;
+	purpose: UploadPurpose;
+	cameraLabel: Generated<string>;
+	clipName: string;
+	fileName: string;
+	fileType: string;
+	sizeBytes: number;
+	createdAt: CreatedAt;
+	completedAt: Date | null;
+}
+
+export interface FootageTable {
+	id: Generated<string>;
+	channelId: string;
+	episodeId: string;
+	shootDayId: string | null;
+	uploadId: string;
+	purpose: UploadPurpose;
+	cameraLabel: Generated<string>;
+	clipName: string;
+	fileName: string;
+	fileType: string;
+	sizeBytes: number;
+	sha256: string;
+	durationSeconds: number | null;
+	frameRate: string | null;
+	videoCodec: string | null;
+	probeNote: string | null;
+	uploadedBy: string | null;
+	createdAt: CreatedAt;
+}
+
+export interface ShootTables {
+	recordingProfile: RecordingProfileTable;
+	shootDay: ShootDayTable;
+	shootDayCrew: ShootDayCrewTable;
+	shootDayBuild: ShootDayBuildTable;
+	shootDayCamera: ShootDayCameraTable;
+	gearItem: GearItemTable;
+	pullItem: PullItemTable;
+	upload: UploadTable;
+	footage: FootageTable;
+}

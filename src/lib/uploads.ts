@@ -1,0 +1,23 @@
+/** Upload limits and names shared by the browser uploader and the server. */
+export const UPLOAD_PATH = '/api/uploads';
+/** Each PATCH carries at most this much, below the server's 8 MiB request body limit. */
+export const UPLOAD_CHUNK_BYTES = 4 * 1024 * 1024;
+/** Default largest upload: 50 GiB (an hour of high-bitrate rushes), configurable with MAX_UPLOAD_BYTES. */
+export const DEFAULT_MAX_UPLOAD_BYTES = 50 * 1024 ** 3;
+/** Footage, sound and stills only. */
+export const ALLOWED_UPLOAD_TYPE = /^(video|audio|image)\/[a-z0-9.+-]+$/i;
+
+/** A file name safe to store and show: no folders, no control characters, no leading dots, at most 120 characters. */
+export function cleanFileName(name: string): string {
+	const base = name.replace(/\\/g, '/').split('/').pop() ?? '';
+	const cleaned = base
+		.normalize('NFC')
+		.replace(/[\u0000-\u001f\u007f<>:"|?*]/g, '')
+		.replace(/\s+/g, ' ')
+		.replace(/^[.\s]+/, '')
+		.trim();
+	if (cleaned.length <= 120) return cleaned || 'clip';
+	const dot = cleaned.lastIndexOf('.');
+	const extension = dot > 0 && cleaned.length - dot <= 10 ? cleaned.slice(dot) : '';
+	return cleaned.slice(0, 120 - extension.length) + extension;
+}

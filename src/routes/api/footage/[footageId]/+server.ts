@@ -1,0 +1,11 @@
+import { api } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { deleteFootage } from '$lib/server/footage';
+import type { RequestHandler } from './$types';
+
+/** Only a producer deletes footage: the file and its row go together. */
+export const DELETE: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event, 'producer');
+	await deleteFootage(channel.id, event.params.footageId);
+	return new Response(null, { status: 204 });
+});
