@@ -55,6 +55,7 @@ export class Visitor {
 		const response = await this.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
 		const result = await response.json();
 		if (result.data) result.data = parseDevalue(result.data);
+		if (result.type === 'error') result.status = response.status;
 		return result;
 	}
 

@@ -1,5 +1,5 @@
 /** Small helpers for form actions: validate FormData with zod and turn domain errors into fail(). */
-import { fail, type ActionFailure } from '@sveltejs/kit';
+import { error, fail, type ActionFailure } from '@sveltejs/kit';
 import type { z } from 'zod';
 import { DomainError, fieldIssues } from './api';
 
@@ -20,6 +20,16 @@ export async function attempt<T, V>(values: V, work: () => Promise<T>): Promise<
 		if (failure instanceof DomainError) {
 			return fail(failure.status, { errors: failure.issues ?? { form: [failure.message] }, values, extra: failure.extra });
 		}
+		throw failure;
+	}
+}
+
+/** For page loads: a DomainError (404, 409 …) becomes SvelteKit's error page with the same status and words. */
+export async function forPage<T>(work: () => Promise<T>): Promise<T> {
+	try {
+		return await work();
+	} catch (failure) {
+		if (failure instanceof DomainError) error(failure.status, failure.message);
 		throw failure;
 	}
 }

@@ -119,7 +119,13 @@ export interface FootageTable {
 	createdAt: CreatedAt;
 }
 
+export interface ShootDaySegmentTable {
+	shootDayId: string;
+	segmentId: string;
+}
+
 export interface ShootTables {
+	shootDaySegment: ShootDaySegmentTable;
 	recordingProfile: RecordingProfileTable;
 	shootDay: ShootDayTable;
 	shootDayCrew: ShootDayCrewTable;

@@ -2,7 +2,7 @@ import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { Readable } from 'node:stream';
 import parseRange from 'range-parser';
-import { api } from '$lib/server/api';
+import { api, DomainError } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
 import { footageFile } from '$lib/server/footage';
 import type { RequestHandler } from './$types';
@@ -14,7 +14,12 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const file = await footageFile(channel.id, event.params.footageId);
-	const { size } = await stat(file.path);
+	const size = await stat(file.path).then(
+		(info) => info.size,
+		() => {
+			throw new DomainError(404, 'The file behind this clip is not on the server (demo data, or removed from disk).');
+		}
+	);
 	const headers: Record<string, string> = {
 		'Content-Type': file.fileType,
 		'Accept-Ranges': 'bytes',

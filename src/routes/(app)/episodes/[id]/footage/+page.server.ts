@@ -1,0 +1,30 @@
+import { fail } from '@sveltejs/kit';
+import { requireRole, hasRole } from '$lib/server/guard';
+import { deleteFootage, listFootage } from '$lib/server/footage';
+import { shootDayOptions } from '$lib/server/shoot-days';
+import { attempt, forPage } from '$lib/server/forms';
+import { UPLOAD_ROLES } from '$lib/server/uploads';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const [{ episode, footage }, shootDays] = await Promise.all([forPage(() => listFootage(channel.id, event.params.id)), shootDayOptions(channel.id, event.params.id)]);
+	return {
+		episode,
+		footage,
+		shootDays,
+		purposes: (['footage', 'cut'] as const).filter((purpose) => hasRole(event.locals, ...UPLOAD_ROLES[purpose])),
+		canDelete: hasRole(event.locals, 'producer')
+	};
+}) satisfies PageServerLoad;
+
+export const actions = {
+	delete: async (event) => {
+		const { channel } = requireRole(event, 'producer');
+		const form = await event.request.formData();
+		const id = String(form.get('id') ?? '');
+		const result = await attempt({ id }, () => deleteFootage(channel.id, id));
+		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
+		return { deleted: id };
+	}
+} satisfies Actions;

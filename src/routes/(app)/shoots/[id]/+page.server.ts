@@ -1,0 +1,78 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { requireRole, hasRole } from '$lib/server/guard';
+import * as days from '$lib/server/shoot-days';
+import { cameraSchema, gearSchema, idListSchema, onHandSchema, plannerSchema, pullItemSchema, shootDayUpdateSchema } from '$lib/schemas/shoot';
+import { attempt, parseForm, forPage } from '$lib/server/forms';
+import { searchPartsForPicker } from '$lib/server/parts-picker';
+import type { Actions, PageServerLoad, RequestEvent } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const detail = await forPage(() => days.shootDayDetail(channel.id, event.params.id));
+	return {
+		...detail,
+		parts: await searchPartsForPicker(channel.id),
+		canPlan: hasRole(event.locals, 'producer', 'camera'),
+		canPull: hasRole(event.locals, 'producer', 'camera', 'merch'),
+		canCheck: hasRole(event.locals, 'merch', 'producer'),
+		canDelete: hasRole(event.locals, 'producer')
+	};
+}) satisfies PageServerLoad;
+
+type Values = Record<string, string | string[]>;
+
+/** Reads the form, validates it and runs the domain call; every failure keeps what was typed. */
+async function run<T extends z.ZodType>(event: RequestEvent, action: string, schema: T, work: (data: z.infer<T>, values: Values) => Promise<unknown>, read?: (form: FormData) => unknown) {
+	const form = await event.request.formData();
+	const values = Object.fromEntries([...form.keys()].map((key) => [key, form.getAll(key).length > 1 ? form.getAll(key).map(String) : String(form.get(key))])) as Values;
+	const parsed = parseForm(schema, read ? read(form) : values);
+	if (!parsed.ok) return fail(400, { action, errors: parsed.errors, values });
+	const result = await attempt(values, () => work(parsed.data, values));
+	if (result && typeof result === 'object' && 'status' in result && 'data' in result) return fail(result.status as number, { action, ...(result.data as object) });
+	return { action, saved: true };
+}
+
+export const actions = {
+	save: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'save', shootDayUpdateSchema, (data) => days.updateShootDay(channel.id, event.params.id, data));
+	},
+	planner: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'planner', plannerSchema, (data) => days.updatePlanner(channel.id, event.params.id, data));
+	},
+	members: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'members', z.object({ list: z.enum(['crew', 'builds', 'segments']), ids: idListSchema }), (data) => days.setDayMembers(channel.id, event.params.id, data.list, data.ids), (form) => ({ list: form.get('list'), ids: form.getAll('ids').map(String) }));
+	},
+	addCamera: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'addCamera', cameraSchema, (data) => days.addCamera(channel.id, event.params.id, data));
+	},
+	addGear: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'addGear', gearSchema, (data) => days.addGear(channel.id, event.params.id, data));
+	},
+	addPull: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
+		return run(event, 'addPull', pullItemSchema, (data) => days.addPullItem(channel.id, event.params.id, data));
+	},
+	onHand: async (event) => {
+		const { channel, person } = requireRole(event, 'merch', 'producer');
+		return run(event, 'onHand', onHandSchema.extend({ id: z.string() }), (data) => days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version), (form) => ({ id: form.get('id'), onHand: form.get('onHand') === 'true', version: form.get('version') }));
+	},
+	removeItem: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera');
+		return run(event, 'removeItem', z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }), (data) => days.removeDayItem(channel.id, data.kind, data.id));
+	},
+	removePull: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
+		return run(event, 'removePull', z.object({ id: z.string() }), (data) => days.removeDayItem(channel.id, 'pull', data.id));
+	},
+	delete: async (event) => {
+		const { channel } = requireRole(event, 'producer');
+		await days.deleteShootDay(channel.id, event.params.id);
+		redirect(303, '/shoots');
+	}
+} satisfies Actions;
