@@ -7,6 +7,7 @@ import { DEMO_PASSWORD, demoBuilds, demoChannels, demoEpisodes, demoParts } from
 import type { SeedContext } from './seed-context.ts';
 import { seedEpisodeWork } from './seed-episode-work.ts';
 import { seedEdit } from './seed-edit.ts';
+import { seedShoot } from './seed-shoot.ts';
 
 export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped'> {
 	const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: databaseUrl, max: 2 }) }), plugins: [new CamelCasePlugin()] });
@@ -74,6 +75,7 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 			}
 			await seedEpisodeWork(trx, context);
 			await seedEdit(trx, context);
+			await seedShoot(trx, context);
 		});
 		return 'seeded';
 	} finally {

@@ -10,7 +10,9 @@ export interface NavItem {
 export const NAV_ITEMS: NavItem[] = [
 	{ href: '/', label: 'Bench', roles: 'all' },
 	{ href: '/episodes', label: 'Episodes', roles: 'all' },
+	{ href: '/shoots', label: 'Shoots', roles: 'all' },
 	{ href: '/builds', label: 'Builds', roles: 'all' },
+	{ href: '/follow-ups', label: 'Follow-ups', roles: 'all' },
 	{ href: '/crew', label: 'Crew', roles: ['producer'] },
 	{ href: '/channel', label: 'Channel', roles: ['producer'] },
 	{ href: '/account', label: 'Account', roles: 'all' }
