@@ -8,6 +8,8 @@ import type { SeedContext } from './seed-context.ts';
 import { seedEpisodeWork } from './seed-episode-work.ts';
 import { seedEdit } from './seed-edit.ts';
 import { seedShoot } from './seed-shoot.ts';
+import { seedParts } from './seed-parts.ts';
+import { seedSpecCards } from './seed-spec-cards.ts';
 
 export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped'> {
 	const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: databaseUrl, max: 2 }) }), plugins: [new CamelCasePlugin()] });
@@ -76,6 +78,8 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 			await seedEpisodeWork(trx, context);
 			await seedEdit(trx, context);
 			await seedShoot(trx, context);
+			await seedParts(trx, context);
+			await seedSpecCards(trx, context);
 		});
 		return 'seeded';
 	} finally {

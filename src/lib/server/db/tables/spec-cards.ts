@@ -1,0 +1,3 @@
+/** Tables for the spec-cards work. */
+// eslint-disable-next-line @typescript-eslint/no-empty-object-type
+export interface SpecCardTables {}
