@@ -11,6 +11,7 @@ import { migrateToLatest } from './lib/migrator.ts';
 import { startCluster, type Cluster } from './lib/postgres.ts';
 import { seedDemo } from './lib/seed.ts';
 import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
+import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/uploads.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
 
 const host = process.env.HOST ?? '127.0.0.1';
@@ -57,7 +58,7 @@ if (!env.AUTH_SECRET) {
 	env.AUTH_SECRET = readFileSync(secretFile, 'utf8').trim();
 }
 env.UPLOAD_DIR ??= path.join(projectRoot, 'uploads');
-env.BODY_SIZE_LIMIT ??= String(8 * 1024 * 1024);
+env.BODY_SIZE_LIMIT ??= String(BODY_SIZE_LIMIT_BYTES);
 
 if (!existsSync(path.join(projectRoot, 'build', 'index.js'))) {
 	console.log('building the app (first start)…');

@@ -1,7 +1,13 @@
 /** Upload limits and names shared by the browser uploader and the server. */
 export const UPLOAD_PATH = '/api/uploads';
-/** Each PATCH carries at most this much, below the server's 8 MiB request body limit. */
-export const UPLOAD_CHUNK_BYTES = 4 * 1024 * 1024;
+/**
+ * Each PATCH carries at most this much, below the server's 40 MiB request body limit (BODY_SIZE_LIMIT).
+ * Fewer, larger chunks keep per-request costs (session check, upload lookup) small next to the bytes:
+ * see scripts/bench-uploads.ts.
+ */
+export const UPLOAD_CHUNK_BYTES = 32 * 1024 * 1024;
+/** The request body limit the start command and the tests give adapter-node. */
+export const BODY_SIZE_LIMIT_BYTES = 40 * 1024 * 1024;
 /** Default largest upload: 50 GiB (an hour of high-bitrate rushes), configurable with MAX_UPLOAD_BYTES. */
 export const DEFAULT_MAX_UPLOAD_BYTES = 50 * 1024 ** 3;
 /** Footage, sound and stills only. */

@@ -11,6 +11,7 @@ import type { TestProject } from 'vitest/node';
 import { startCluster } from '../../scripts/lib/postgres';
 import { startFakeMail } from '../../scripts/lib/fake-mail';
 import { freePort, waitForHttp } from './net';
+import { BODY_SIZE_LIMIT_BYTES } from '../../src/lib/uploads';
 
 const root = path.resolve(import.meta.dirname, '../..');
 const buildDir = path.resolve(root, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
@@ -52,7 +53,7 @@ export default async function setup(project: TestProject) {
 		AUTH_SECRET: 'test-secret-for-the-throwaway-server-only-0123456789',
 		UPLOAD_DIR: uploadDir,
 		MAIL_INTERVAL_MS: '500',
-		BODY_SIZE_LIMIT: String(8 * 1024 * 1024)
+		BODY_SIZE_LIMIT: String(BODY_SIZE_LIMIT_BYTES)
 	};
 	const server: ChildProcess = startServer(serverEnv);
 	await waitForHttp(`${baseUrl}/healthz`, 30_000);

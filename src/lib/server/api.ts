@@ -29,7 +29,12 @@ export function fieldIssues(zodError: z.ZodError): Record<string, string[]> {
 }
 
 /** Reads a JSON body and validates it; malformed JSON is a 400 in plain words. */
+/** JSON bodies above this are refused before they are read (uploads use tus, not JSON). */
+const MAX_JSON_BYTES = 4 * 1024 * 1024;
+
 export async function readJson<T extends z.ZodType>(event: RequestEvent, schema: T): Promise<z.infer<T>> {
+	const declared = Number(event.request.headers.get('content-length') ?? 0);
+	if (declared > MAX_JSON_BYTES) throw new DomainError(413, `That request is too large: at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`);
 	let body: unknown;
 	try {
 		body = await event.request.json();
