@@ -1,0 +1,73 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { hasRole, requireRole } from '$lib/server/guard';
+import { addChapter, deleteChapter, findEditState, setCutDuration, updateChapter } from '$lib/server/edit';
+import { attempt, parseForm } from '$lib/server/forms';
+import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
+import type { TimelineMark } from '$lib/components/timeline';
+import type { Actions, PageServerLoad } from './$types';
+
+/**
+ * The editor's timeline. Every crew member may look; the editor and the producer change the cut
+ * and its chapters. With JavaScript the page talks to /api/episodes/[id]/…; these actions are the
+ * same changes for a browser without it.
+ */
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const state = await findEditState(channel.id, event.params.id);
+	if (!state) error(404, 'That episode was not found in this channel. If it belongs to another channel, switch channel first.');
+	return {
+		state,
+		canEdit: hasRole(event.locals, 'editor', 'producer'),
+		// Filled in when cut uploads land (shoot work); until then there is nothing to play.
+		cutVideoUrl: null as string | null,
+		// Cautions, segment notes, featured parts and spec cards are fed here as their work lands.
+		marks: [] as TimelineMark[]
+	};
+}) satisfies PageServerLoad;
+
+const text = (form: FormData, name: string) => String(form.get(name) ?? '');
+const number = (form: FormData, name: string) => Number(form.get(name) ?? Number.NaN);
+
+export const actions = {
+	setCut: async (event) => {
+		const { channel } = requireRole(event, 'editor', 'producer');
+		const form = await event.request.formData();
+		const values = { duration: text(form, 'duration') };
+		const parsed = parseForm(cutUpdateSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'setCut', errors: parsed.errors, values });
+		const result = await attempt(values, () => setCutDuration(channel.id, event.params.id, parsed.data));
+		if ('status' in result) return fail(result.status, { action: 'setCut', ...result.data });
+		redirect(303, event.url.pathname);
+	},
+	addChapter: async (event) => {
+		const { channel } = requireRole(event, 'editor', 'producer');
+		const form = await event.request.formData();
+		const values = { start: text(form, 'start'), title: text(form, 'title') };
+		const parsed = parseForm(chapterCreateSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'addChapter', errors: parsed.errors, values });
+		const result = await attempt(values, () => addChapter(channel.id, event.params.id, parsed.data));
+		if ('status' in result) return fail(result.status, { action: 'addChapter', ...result.data });
+		redirect(303, event.url.pathname);
+	},
+	saveChapter: async (event) => {
+		const { channel } = requireRole(event, 'editor', 'producer');
+		const form = await event.request.formData();
+		const chapterId = text(form, 'chapterId');
+		const values = { version: number(form, 'version'), start: text(form, 'start'), title: text(form, 'title') };
+		const parsed = parseForm(chapterUpdateSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'saveChapter', chapterId, errors: parsed.errors, values });
+		const result = await attempt(values, () => updateChapter(channel.id, event.params.id, chapterId, parsed.data));
+		if ('status' in result) return fail(result.status, { action: 'saveChapter', chapterId, ...result.data });
+		redirect(303, event.url.pathname);
+	},
+	removeChapter: async (event) => {
+		const { channel } = requireRole(event, 'editor', 'producer');
+		const form = await event.request.formData();
+		const chapterId = text(form, 'chapterId');
+		const values = { version: number(form, 'version') };
+		if (!Number.isSafeInteger(values.version)) return fail(400, { action: 'removeChapter', chapterId, errors: { version: ['Reload the page and try again.'] }, values });
+		const result = await attempt(values, () => deleteChapter(channel.id, event.params.id, chapterId, values.version));
+		if ('status' in result) return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });
+		redirect(303, event.url.pathname);
+	}
+} satisfies Actions;
