@@ -27,7 +27,7 @@ export const demoChannels = [
 		callToAction: 'More sand-rail rebuilds every week.',
 		contact: 'hello@dunewagon.test',
 		crew: [
-			{ name: 'Sam Ortega', email: 'sam@dunewagon.test', roles: ['producer', 'host'] },
+			{ name: 'Sam Ortega', email: 'sam@dunewagon.test', roles: ['producer', 'host', 'camera'] },
 			{ name: 'Jules Farrow', email: 'jules@cutbench.test', roles: ['editor'] }
 		]
 	}

@@ -12,6 +12,7 @@ export const NAV_ITEMS: NavItem[] = [
 	{ href: '/episodes', label: 'Episodes', roles: 'all' },
 	{ href: '/shoots', label: 'Shoots', roles: 'all' },
 	{ href: '/builds', label: 'Builds', roles: 'all' },
+	{ href: '/parts', label: 'Parts', roles: 'all' },
 	{ href: '/follow-ups', label: 'Follow-ups', roles: 'all' },
 	{ href: '/crew', label: 'Crew', roles: ['producer'] },
 	{ href: '/channel', label: 'Channel', roles: ['producer'] },

@@ -2,6 +2,7 @@
 import { sql } from 'kysely';
 import { db } from './db';
 import type { Role } from './db/types';
+import { episodeBenchFor } from './episode-bench';
 
 export interface BenchItem {
 	title: string;
@@ -10,8 +11,10 @@ export interface BenchItem {
 	tone: 'todo' | 'warn' | 'info';
 }
 
-export async function benchFor(channelId: string, roles: Role[]): Promise<Record<string, BenchItem[]>> {
+/** With a person id, episode items are those assigned to that person (or to nobody yet). */
+export async function benchFor(channelId: string, roles: Role[], personId?: string): Promise<Record<string, BenchItem[]>> {
 	const sections: Record<string, BenchItem[]> = {};
+	const episodeWork = await episodeBenchFor(channelId, roles, personId);
 	if (roles.includes('producer')) {
 		const [waiting, disabled, stuckMail] = await Promise.all([
 			db
@@ -41,6 +44,9 @@ export async function benchFor(channelId: string, roles: Role[]): Promise<Record
 			...(disabled.count > 0 ? [{ title: `${disabled.count} disabled account${disabled.count === 1 ? '' : 's'}`, detail: 'They cannot sign in to this channel.', href: '/crew', tone: 'info' as const }] : []),
 			...(stuckMail.count > 0 ? [{ title: `${stuckMail.count} e-mail${stuckMail.count === 1 ? '' : 's'} not delivered yet`, detail: 'The mail server is not answering; Wrenchroll keeps retrying.', href: '/channel', tone: 'warn' as const }] : [])
 		];
+	}
+	for (const [role, items] of Object.entries(episodeWork)) {
+		if (items.length) sections[role] = [...(sections[role] ?? []), ...items];
 	}
 	return sections;
 }

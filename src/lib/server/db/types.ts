@@ -7,6 +7,8 @@ import type { SuspensionType } from '$lib/specs/lift';
 import type { EpisodeWorkTables } from './tables/episode-work';
 import type { EditTables } from './tables/edit';
 import type { ShootTables } from './tables/shoot';
+import type { PartsTables } from './tables/parts';
+import type { SpecCardTables } from './tables/spec-cards';
 export type { Role } from '$lib/roles';
 export type { Stage } from '$lib/stages';
 
@@ -164,7 +166,7 @@ export interface EpisodeAssignmentTable {
 	personId: string;
 }
 
-export interface Database extends EpisodeWorkTables, EditTables, ShootTables {
+export interface Database extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

@@ -4,6 +4,7 @@ import { addChapter, deleteChapter, findEditState, setCutDuration, updateChapter
 import { attempt, parseForm } from '$lib/server/forms';
 import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
 import type { TimelineMark } from '$lib/components/timeline';
+import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
 
 /**
@@ -15,13 +16,14 @@ export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await findEditState(channel.id, event.params.id);
 	if (!state) error(404, 'That episode was not found in this channel. If it belongs to another channel, switch channel first.');
+	const [cutVideoUrl, marks] = await Promise.all([cutVideoUrlFor(channel.id, event.params.id), timelineMarksFor(channel.id, event.params.id)]);
 	return {
 		state,
 		canEdit: hasRole(event.locals, 'editor', 'producer'),
-		// Filled in when cut uploads land (shoot work); until then there is nothing to play.
-		cutVideoUrl: null as string | null,
-		// Cautions, segment notes, featured parts and spec cards are fed here as their work lands.
-		marks: [] as TimelineMark[]
+		/** The newest uploaded proxy or final cut, played under the timeline. */
+		cutVideoUrl,
+		/** Placed cautions, segment notes, featured parts and spec cards. */
+		marks: marks as TimelineMark[]
 	};
 }) satisfies PageServerLoad;
 

@@ -1,0 +1,249 @@
+/**
+ * Gate checks: what must be true before an episode moves one stage forward. A pure function over a
+ * snapshot of the episode's data (gathered on the server in one transaction, see
+ * src/lib/server/stages.ts), answering a list of refusal reasons. Each reason names the segment or
+ * thing it is about, says what to do in the crew's words, and says whose job that is.
+ *
+ * The rules (our own, from the issue's wording):
+ * - script → shoot: a rundown with a script in it, approved by a producer and unchanged since;
+ *   a shot list (at least one shot) for every segment that needs footage; a camera operator assigned.
+ * - shoot → edit: the shot lists as above, and for every planned shot at least one good take whose
+ *   footage is uploaded; an editor assigned.
+ * - edit → locked: valid chapters; every featured part linked to an active catalogue part; every
+ *   caution of a flagged segment written and placed inside the cut.
+ * - locked → published: everything the lock needs still holds, and a publish date is set. A caution
+ *   never blocks publishing silently: each refusal names its segment.
+ * Moving back is never gated.
+ */
+import { hazardById, type HazardId } from './cautions';
+import type { Role } from './roles';
+import type { Stage } from './stages';
+import { formatTimecode, isFrameRate, type FrameRate } from './timecode';
+
+export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
+
+export interface GateTake {
+	clipName: string;
+	good: boolean;
+	/** True once the take's footage is uploaded (the take's footage id is set). */
+	hasFootage: boolean;
+}
+
+export interface GateShot {
+	id: string;
+	what: string;
+	takes: GateTake[];
+}
+
+export interface GateCaution {
+	hazard: HazardId;
+	text: string;
+	atFrame: number | null;
+}
+
+export interface GateSegment {
+	id: string;
+	position: number;
+	title: string;
+	needsFootage: boolean;
+	/** Spoken words in the segment's script. */
+	words: number;
+	hazards: HazardId[];
+	shots: GateShot[];
+	/** The caution rows of this segment; only those of hazards in `hazards` count. */
+	cautions: GateCaution[];
+}
+
+export interface GateSnapshot {
+	stage: Stage;
+	frameRate: FrameRate;
+	cutDurationFrames: number | null;
+	publishDate: string | null;
+	/** Role → name of the assigned person, for the roles that have someone. */
+	assignments: Partial<Record<Role, string>>;
+	script: {
+		status: ScriptStatus;
+		approvedFingerprint: string | null;
+		currentFingerprint: string;
+	};
+	/** In rundown order. */
+	segments: GateSegment[];
+	/** Problems with the chapter list; null when there are no chapters (yet). */
+	chapterProblems: string[] | null;
+	/** Featured parts not linked to an active catalogue part, in words. */
+	featuredPartProblems: string[];
+}
+
+export type GateRule =
+	| 'rundown-empty'
+	| 'script-empty'
+	| 'script-not-approved'
+	| 'script-changed'
+	| 'shot-list-missing'
+	| 'take-missing'
+	| 'footage-missing'
+	| 'assignee-missing'
+	| 'chapters-missing'
+	| 'chapter-problem'
+	| 'part-problem'
+	| 'caution-text-missing'
+	| 'caution-unplaced'
+	| 'caution-past-end'
+	| 'publish-date-missing';
+
+export interface GateReason {
+	rule: GateRule;
+	/** The segment, shot or thing the reason is about, e.g. `Segment 4 “Swap the blocks”`. */
+	subject: string;
+	/** What is wrong and what to do, in one or two sentences. */
+	message: string;
+	/** Whose job it is to fix. */
+	fixedBy: Role;
+	segmentId?: string;
+}
+
+export const CHAPTERS_MISSING_MESSAGE = 'Mark at least three chapters on the edit timeline.';
+
+/** `Segment 4 “Swap the blocks”`: one-based like the crew counts. */
+export function segmentName(segment: Pick<GateSegment, 'position' | 'title'>): string {
+	const title = segment.title.trim();
+	return title ? `Segment ${segment.position} “${title}”` : `Segment ${segment.position} (no title)`;
+}
+
+function shotListRule(snapshot: GateSnapshot): GateReason[] {
+	return snapshot.segments
+		.filter((segment) => segment.needsFootage && segment.shots.length === 0)
+		.map((segment) => ({
+			rule: 'shot-list-missing' as const,
+			subject: segmentName(segment),
+			message: 'Needs footage but has no shot list yet: the camera operator adds at least one shot on the rundown (or untick “needs footage” if it is read over other footage).',
+			fixedBy: 'camera' as const,
+			segmentId: segment.id
+		}));
+}
+
+function assigneeRule(snapshot: GateSnapshot, role: Role, words: string): GateReason[] {
+	if (snapshot.assignments[role]) return [];
+	return [
+		{
+			rule: 'assignee-missing',
+			subject: 'Crew',
+			message: `No ${words} is assigned to this episode: a producer assigns one on the episode page.`,
+			fixedBy: 'producer'
+		}
+	];
+}
+
+function scriptRules(snapshot: GateSnapshot): GateReason[] {
+	if (snapshot.segments.length === 0) {
+		return [{ rule: 'rundown-empty', subject: 'Rundown', message: 'The rundown has no segments: the host adds them on the rundown page and writes each one.', fixedBy: 'host' }];
+	}
+	const reasons: GateReason[] = [];
+	if (snapshot.segments.every((segment) => segment.words === 0)) {
+		reasons.push({ rule: 'script-empty', subject: 'Script', message: 'No segment has any script yet: the host writes the segments on the script page.', fixedBy: 'host' });
+	}
+	const { status, approvedFingerprint, currentFingerprint } = snapshot.script;
+	if (status === 'approved' && approvedFingerprint !== null && approvedFingerprint !== currentFingerprint) {
+		reasons.push({ rule: 'script-changed', subject: 'Script', message: 'The script changed after it was approved: a producer reads it again and approves it on the script page.', fixedBy: 'producer' });
+	} else if (status !== 'approved') {
+		const messages: Record<Exclude<ScriptStatus, 'approved'>, { text: string; fixedBy: Role }> = {
+			draft: { text: 'The script is not approved: the host sends it for approval on the script page, then a producer approves it.', fixedBy: 'host' },
+			submitted: { text: 'The script is waiting for a producer to approve it on the script page.', fixedBy: 'producer' },
+			returned: { text: 'The producer returned the script with comments: the host works through them and sends it again.', fixedBy: 'host' }
+		};
+		reasons.push({ rule: 'script-not-approved', subject: 'Script', message: messages[status].text, fixedBy: messages[status].fixedBy });
+	}
+	return reasons;
+}
+
+function footageRules(snapshot: GateSnapshot): GateReason[] {
+	const reasons: GateReason[] = [];
+	for (const segment of snapshot.segments) {
+		for (const shot of segment.shots) {
+			const subject = `Shot “${shot.what.trim() || 'untitled'}” in ${segmentName(segment).replace(/^Segment/, 'segment')}`;
+			const goodTakes = shot.takes.filter((take) => take.good);
+			if (goodTakes.length === 0) {
+				reasons.push({
+					rule: 'take-missing',
+					subject,
+					message: shot.takes.length === 0
+						? 'No take is logged: film it and log the take on the shot list.'
+						: 'No take is marked good: mark the usable take good, or film it again.',
+					fixedBy: 'camera',
+					segmentId: segment.id
+				});
+			} else if (!goodTakes.some((take) => take.hasFootage)) {
+				const clips = goodTakes.map((take) => take.clipName).join(', ');
+				reasons.push({
+					rule: 'footage-missing',
+					subject,
+					message: `The good take (${clips}) has no footage uploaded: upload the clip from the card.`,
+					fixedBy: 'camera',
+					segmentId: segment.id
+				});
+			}
+		}
+	}
+	return reasons;
+}
+
+function cautionRules(snapshot: GateSnapshot): GateReason[] {
+	const reasons: GateReason[] = [];
+	const rate = snapshot.frameRate;
+	const at = (frames: number) => (isFrameRate(rate) ? formatTimecode(frames, rate) : `frame ${frames}`);
+	for (const segment of snapshot.segments) {
+		for (const hazard of segment.hazards) {
+			const label = hazardById(hazard)?.label ?? hazard;
+			const caution = segment.cautions.find((candidate) => candidate.hazard === hazard);
+			const base = { subject: segmentName(segment), segmentId: segment.id };
+			if (!caution || caution.text.trim() === '') {
+				reasons.push({ ...base, rule: 'caution-text-missing', message: `The “${label}” caution has no text: write it on the rundown (the default wording is a good start).`, fixedBy: 'host' });
+				continue;
+			}
+			if (caution.atFrame === null) {
+				reasons.push({ ...base, rule: 'caution-unplaced', message: `The “${label}” caution is not placed in the cut: type the time where its card appears, on the rundown.`, fixedBy: 'editor' });
+			} else if (snapshot.cutDurationFrames !== null && caution.atFrame >= snapshot.cutDurationFrames) {
+				reasons.push({
+					...base,
+					rule: 'caution-past-end',
+					message: `The “${label}” caution is placed at ${at(caution.atFrame)}, after the end of the cut (${at(snapshot.cutDurationFrames)}): place it inside the cut.`,
+					fixedBy: 'editor'
+				});
+			}
+		}
+	}
+	return reasons;
+}
+
+function lockRules(snapshot: GateSnapshot): GateReason[] {
+	const reasons: GateReason[] = [];
+	if (snapshot.chapterProblems === null) {
+		reasons.push({ rule: 'chapters-missing', subject: 'Chapters', message: CHAPTERS_MISSING_MESSAGE, fixedBy: 'editor' });
+	} else {
+		for (const problem of snapshot.chapterProblems) reasons.push({ rule: 'chapter-problem', subject: 'Chapters', message: problem, fixedBy: 'editor' });
+	}
+	for (const problem of snapshot.featuredPartProblems) reasons.push({ rule: 'part-problem', subject: 'Featured parts', message: problem, fixedBy: 'merch' });
+	reasons.push(...cautionRules(snapshot));
+	return reasons;
+}
+
+/** Every reason the episode may not move forward to `to` from its current stage; empty means the gate passes. */
+export function gateChecksFor(snapshot: GateSnapshot, to: Stage): GateReason[] {
+	switch (to) {
+		case 'script':
+			return [];
+		case 'shoot':
+			return [...scriptRules(snapshot), ...shotListRule(snapshot), ...assigneeRule(snapshot, 'camera', 'camera operator')];
+		case 'edit':
+			return [...shotListRule(snapshot), ...footageRules(snapshot), ...assigneeRule(snapshot, 'editor', 'editor')];
+		case 'locked':
+			return lockRules(snapshot);
+		case 'published': {
+			const reasons = lockRules(snapshot);
+			if (!snapshot.publishDate) {
+				reasons.push({ rule: 'publish-date-missing', subject: 'Publish date', message: 'No publish date is set: a producer sets it on the episode page.', fixedBy: 'producer' });
+			}
+			return reasons;
+		}
+	}
+}

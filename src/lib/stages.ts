@@ -1,0 +1,92 @@
+/**
+ * The production line an episode travels along: script → shoot → edit → locked → published.
+ * Pure; shared by the pages (the line visual, the move buttons) and the server (who may move).
+ *
+ * Who may move an episode (our own rule, kept short so the crew can predict it):
+ * - A producer moves it one stage forward (after the gate checks pass) or back to any earlier stage.
+ * - The person assigned to the role that works the current stage may move it one stage forward,
+ *   through the same gate checks: the host from script, the camera operator from shoot, the editor
+ *   from edit. Nobody but a producer moves it back, or from locked to published.
+ */
+import type { Role } from './roles';
+
+export const STAGES = ['script', 'shoot', 'edit', 'locked', 'published'] as const;
+export type Stage = (typeof STAGES)[number];
+
+export const STAGE_LABELS: Record<Stage, string> = {
+	script: 'Script',
+	shoot: 'Shoot',
+	edit: 'Edit',
+	locked: 'Locked',
+	published: 'Published'
+};
+
+/** What happens at each station, in the crew's words. */
+export const STAGE_WORK: Record<Stage, string> = {
+	script: 'Rundown and script written, then approved by the producer',
+	shoot: 'Filmed in the bay against the shot list',
+	edit: 'Cut, chapters marked, cautions and parts placed',
+	locked: 'Picture lock: the cut is final, the publish kit is checked',
+	published: 'Live on the channel'
+};
+
+/** The role that works an episode while it sits at a stage: they are mailed when it arrives. */
+export const STAGE_OWNER: Record<Stage, Role | null> = {
+	script: 'host',
+	shoot: 'camera',
+	edit: 'editor',
+	locked: 'merch',
+	published: null
+};
+
+/** The roles whose assignee may move an episode forward out of a stage (besides any producer). */
+const FORWARD_BY_ASSIGNEE: Partial<Record<Stage, Role>> = { script: 'host', shoot: 'camera', edit: 'editor' };
+
+export function isStage(value: unknown): value is Stage {
+	return typeof value === 'string' && (STAGES as readonly string[]).includes(value);
+}
+
+export function stageIndex(stage: Stage): number {
+	return STAGES.indexOf(stage);
+}
+
+export function nextStage(stage: Stage): Stage | null {
+	return STAGES[stageIndex(stage) + 1] ?? null;
+}
+
+export function previousStages(stage: Stage): Stage[] {
+	return STAGES.slice(0, stageIndex(stage));
+}
+
+export type MoveDirection = 'forward' | 'back';
+
+/** Forward is exactly one station on; back is any earlier station; anything else is not a move. */
+export function moveDirection(from: Stage, to: Stage): MoveDirection | null {
+	const step = stageIndex(to) - stageIndex(from);
+	if (step === 1) return 'forward';
+	if (step < 0) return 'back';
+	return null;
+}
+
+export interface Mover {
+	personId: string;
+	/** The mover's roles in the episode's channel. */
+	roles: readonly Role[];
+}
+
+/** Whether this person may make this move, by the rule in this module's header; the gate checks are separate. */
+export function mayMoveStage(mover: Mover, assignments: Partial<Record<Role, string>>, from: Stage, to: Stage): boolean {
+	const direction = moveDirection(from, to);
+	if (direction === null) return false;
+	if (mover.roles.includes('producer')) return true;
+	if (direction === 'back') return false;
+	const role = FORWARD_BY_ASSIGNEE[from];
+	return role !== undefined && mover.roles.includes(role) && assignments[role] === mover.personId;
+}
+
+/** Who may move an episode forward from a stage, in words for the page. */
+export function forwardMoversText(stage: Stage): string {
+	const role = FORWARD_BY_ASSIGNEE[stage];
+	const names: Record<Role, string> = { producer: 'producer', host: 'host', camera: 'camera operator', editor: 'editor', merch: 'merch team' };
+	return role ? `A producer or the assigned ${names[role]}` : 'A producer';
+}

@@ -1,0 +1,8 @@
+import { requireRole, hasRole } from '$lib/server/guard';
+import { listBuilds } from '$lib/server/builds';
+import type { PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	return { builds: await listBuilds(channel.id), canEdit: hasRole(event.locals, 'producer', 'host') };
+}) satisfies PageServerLoad;

@@ -1,0 +1,21 @@
+import { requireRole, hasRole } from '$lib/server/guard';
+import { episodeFormOptions, listEpisodes } from '$lib/server/episodes';
+import { episodeListQuerySchema } from '$lib/schemas/episodes';
+import { fieldIssues } from '$lib/server/api';
+import type { PageServerLoad } from './$types';
+
+/** The episode list: filters and sort come from the query string, so a plain GET form drives them. */
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const raw = Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''));
+	const parsed = episodeListQuerySchema.safeParse(raw);
+	const query = parsed.success ? parsed.data : episodeListQuerySchema.parse({});
+	const [episodes, options] = await Promise.all([listEpisodes(channel.id, query), episodeFormOptions(channel.id)]);
+	return {
+		episodes,
+		query,
+		filterErrors: parsed.success ? null : fieldIssues(parsed.error),
+		crew: options.crew.filter((member) => member.roles.some((role) => role !== 'producer')),
+		canCreate: hasRole(event.locals, 'producer')
+	};
+}) satisfies PageServerLoad;

@@ -1,0 +1,44 @@
+import { fail } from '@sveltejs/kit';
+import { requireRole, hasRole } from '$lib/server/guard';
+import { createSegment, moveSegment, rundownFor } from '$lib/server/segments';
+import { episodeFormOptions } from '$lib/server/episodes';
+import { segmentCreateSchema } from '$lib/schemas/episodes';
+import { parseForm } from '$lib/server/forms';
+import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { segmentFormValues } from './segment-form';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const [rundown, options] = await found(Promise.all([rundownFor(channel.id, event.params.id), episodeFormOptions(channel.id)]));
+	return {
+		rundown,
+		builds: options.builds,
+		episodes: options.episodes.filter((episode) => episode.id !== event.params.id),
+		canPlan: hasRole(event.locals, 'producer', 'host'),
+		canPlanShots: hasRole(event.locals, 'producer', 'camera')
+	};
+}) satisfies PageServerLoad;
+
+export const actions = {
+	/** The host or a producer adds a segment at the end. */
+	add: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'host');
+		const values = segmentFormValues(await event.request.formData());
+		const parsed = parseForm(segmentCreateSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'add', errors: parsed.errors, values });
+		const result = await attemptAction('add', values, () => createSegment(channel.id, event.params.id, parsed.data));
+		if (!result.ok) return result.failure;
+		return { action: 'add', added: result.value.id, title: result.value.title };
+	},
+	/** One step up or down: the rundown's reorder without JavaScript. */
+	move: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'host');
+		const form = await event.request.formData();
+		const direction = text(form, 'direction') === 'up' ? 'up' : 'down';
+		const values = { segmentId: text(form, 'segmentId'), direction };
+		const result = await attemptAction('move', values, () => moveSegment(channel.id, event.params.id, values.segmentId, direction));
+		if (!result.ok) return result.failure;
+		return { action: 'move', moved: values.segmentId };
+	}
+} satisfies Actions;

@@ -1,0 +1,35 @@
+import { fail } from '@sveltejs/kit';
+import { requireRole, hasRole } from '$lib/server/guard';
+import { rundownFor } from '$lib/server/segments';
+import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/script-reviews';
+import { renderScriptMarkdown } from '$lib/server/markdown';
+import { scriptReviewSchema } from '$lib/schemas/episodes';
+import { parseForm } from '$lib/server/forms';
+import { attemptAction, found, text } from '$lib/server/episode-forms';
+import type { Actions, PageServerLoad } from './$types';
+
+/** The whole script to read, with its approval state and review trail; the producer approves here. */
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const [rundown, state, reviews] = await found(Promise.all([rundownFor(channel.id, event.params.id), scriptStateFor(channel.id, event.params.id), reviewsFor(channel.id, event.params.id)]));
+	return {
+		rundown: { ...rundown, segments: rundown.segments.map((segment) => ({ ...segment, html: renderScriptMarkdown(segment.script.body) })) },
+		state,
+		reviews,
+		can: { write: hasRole(event.locals, 'producer', 'host'), approve: hasRole(event.locals, 'producer'), submit: hasRole(event.locals, 'producer', 'host') }
+	};
+}) satisfies PageServerLoad;
+
+export const actions = {
+	/** submit (host, producer) · approve / return (producer) · comment (host, producer). */
+	review: async (event) => {
+		const { channel, person, roles } = requireRole(event, 'producer', 'host');
+		const form = await event.request.formData();
+		const values = { action: text(form, 'action'), body: text(form, 'body'), fingerprint: text(form, 'fingerprint') || undefined, segmentId: text(form, 'segmentId') || null };
+		const parsed = parseForm(scriptReviewSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'review', errors: parsed.errors, values });
+		const result = await attemptAction('review', values, () => reviewScript(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin));
+		if (!result.ok) return result.failure;
+		return { action: 'review', done: parsed.data.action };
+	}
+} satisfies Actions;

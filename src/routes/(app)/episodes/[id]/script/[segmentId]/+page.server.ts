@@ -1,0 +1,44 @@
+import { error, fail } from '@sveltejs/kit';
+import { requireRole, hasRole } from '$lib/server/guard';
+import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/segments';
+import { renderScriptMarkdown } from '$lib/server/markdown';
+import { scriptSaveSchema } from '$lib/schemas/episodes';
+import { parseForm } from '$lib/server/forms';
+import { attemptAction, found, text } from '$lib/server/episode-forms';
+import type { Actions, PageServerLoad } from './$types';
+
+/** One segment's script editor, with what the live timing needs: the pace and the rest of the episode's spoken time. */
+export const load = (async (event) => {
+	const { channel } = requireRole(event);
+	const rundown = await found(rundownFor(channel.id, event.params.id));
+	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
+	if (index === -1) error(404, 'That segment is not in this episode.');
+	const segment = rundown.segments[index];
+	return {
+		episode: rundown.episode,
+		pace: rundown.pace,
+		segment,
+		count: rundown.segments.length,
+		previous: rundown.segments[index - 1] ? { id: rundown.segments[index - 1].id, title: rundown.segments[index - 1].title } : null,
+		next: rundown.segments[index + 1] ? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title } : null,
+		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
+		previewHtml: renderScriptMarkdown(segment.script.body),
+		canWrite: hasRole(event.locals, 'producer', 'host')
+	};
+}) satisfies PageServerLoad;
+
+export const actions = {
+	/** Saves the text against the version it was started from; a stale one answers 409 with the saved text. */
+	save: async (event) => {
+		const { channel, person, roles } = requireRole(event, 'producer', 'host');
+		const form = await event.request.formData();
+		const owned = await attemptAction('save', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		if (!owned.ok) return owned.failure;
+		const values = { body: text(form, 'body').replace(/\r\n?/g, '\n'), version: text(form, 'version') };
+		const parsed = parseForm(scriptSaveSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
+		const result = await attemptAction('save', values, () => saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data));
+		if (!result.ok) return result.failure;
+		return { action: 'save', saved: result.value };
+	}
+} satisfies Actions;

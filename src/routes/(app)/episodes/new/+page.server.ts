@@ -1,0 +1,25 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { requireRole } from '$lib/server/guard';
+import { createEpisode, episodeFormOptions } from '$lib/server/episodes';
+import { episodeCreateSchema } from '$lib/schemas/episodes';
+import { parseForm } from '$lib/server/forms';
+import { attemptAction } from '$lib/server/episode-forms';
+import { episodeFormValues } from '../episode-form';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load = (async (event) => {
+	const { channel } = requireRole(event, 'producer');
+	return { options: await episodeFormOptions(channel.id), defaultFrameRate: channel.frameRate };
+}) satisfies PageServerLoad;
+
+export const actions = {
+	create: async (event) => {
+		const { channel, person, roles } = requireRole(event, 'producer');
+		const values = episodeFormValues(await event.request.formData());
+		const parsed = parseForm(episodeCreateSchema, values);
+		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
+		const result = await attemptAction('create', values, () => createEpisode(channel.id, { ...person, roles }, parsed.data, event.url.origin));
+		if (!result.ok) return result.failure;
+		redirect(303, `/episodes/${result.value.id}/rundown?created=1`);
+	}
+} satisfies Actions;

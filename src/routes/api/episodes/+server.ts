@@ -1,0 +1,20 @@
+import { json } from '@sveltejs/kit';
+import { api, parseWith, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { createEpisode, listEpisodes } from '$lib/server/episodes';
+import { episodeCreateSchema, episodeListQuerySchema } from '$lib/schemas/episodes';
+import type { RequestHandler } from './$types';
+
+/** Every crew member sees the episode list (filter with ?stage=&assignee=&from=&to=&sort=&direction=). */
+export const GET: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event);
+	const query = parseWith(episodeListQuerySchema, Object.fromEntries(event.url.searchParams));
+	return json({ episodes: await listEpisodes(channel.id, query) });
+});
+
+/** A producer creates an episode; it starts at the script stage. */
+export const POST: RequestHandler = api(async (event) => {
+	const { channel, person, roles } = requireRole(event, 'producer');
+	const input = await readJson(event, episodeCreateSchema);
+	return json({ episode: await createEpisode(channel.id, { ...person, roles }, input, event.url.origin) }, { status: 201 });
+});

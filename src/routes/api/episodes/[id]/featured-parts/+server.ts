@@ -1,0 +1,11 @@
+import { json } from '@sveltejs/kit';
+import { api } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { featuredPartsFor } from '$lib/server/featured-parts';
+import type { RequestHandler } from './$types';
+
+/** Any crew member reads the featured parts list (first appearance order) and its warnings. */
+export const GET: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event);
+	return json(await featuredPartsFor(channel.id, event.params.id));
+});

@@ -1,0 +1,19 @@
+import { json } from '@sveltejs/kit';
+import { api, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { createNote, notesPageFor } from '$lib/server/notes';
+import { noteCreateSchema } from '$lib/schemas/parts';
+import type { RequestHandler } from './$types';
+
+/** Any crew member reads an episode's segment notes, with the segments and takes to pick from. */
+export const GET: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event);
+	return json(await notesPageFor(channel.id, event.params.id));
+});
+
+/** The camera operator (or the producer) writes a note; the editor's and merch's fields need their roles. */
+export const POST: RequestHandler = api(async (event) => {
+	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
+	const input = await readJson(event, noteCreateSchema);
+	return json({ note: await createNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, input) }, { status: 201 });
+});

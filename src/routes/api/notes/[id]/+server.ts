@@ -1,0 +1,27 @@
+import { json } from '@sveltejs/kit';
+import { z } from 'zod';
+import { api, parseWith, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { deleteNote, updateNote } from '$lib/server/notes';
+import { noteUpdateSchema } from '$lib/schemas/parts';
+import type { RequestHandler } from './$types';
+
+/**
+ * Changes a note with the version it read (409 with `current` when stale). Camera: text, segment,
+ * take, source time. Editor: program time. Merch: parts. Producer: all. A field outside the
+ * caller's roles answers 403 and nothing changes.
+ */
+export const PATCH: RequestHandler = api(async (event) => {
+	const { channel, person, roles } = requireRole(event, 'camera', 'editor', 'merch', 'producer');
+	const input = await readJson(event, noteUpdateSchema);
+	return json({ note: await updateNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, input) });
+});
+
+const versionParam = z.coerce.number({ error: 'version is a whole number.' }).int('version is a whole number.').min(1, 'version is 1 or more.').optional();
+
+/** The camera operator (or the producer) removes a note; `?version=` makes it conditional. */
+export const DELETE: RequestHandler = api(async (event) => {
+	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
+	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
+	return json({ removed: await deleteNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, version) });
+});

@@ -1,0 +1,29 @@
+import { json } from '@sveltejs/kit';
+import { z } from 'zod';
+import { api, parseWith, readJson } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { partDetail, removePart, updatePart } from '$lib/server/parts';
+import { partUpdateSchema } from '$lib/schemas/parts';
+import type { RequestHandler } from './$types';
+
+/** Any crew member reads a part, with how many notes and tracked links feature it. */
+export const GET: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event);
+	return json({ part: await partDetail(channel.id, event.params.id) });
+});
+
+/** The merch team (or the producer) changes a part; the body names the version it read (409 when stale). Retire = status "discontinued". */
+export const PATCH: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event, 'merch', 'producer');
+	const input = await readJson(event, partUpdateSchema);
+	return json({ part: await updatePart(channel.id, event.params.id, input) });
+});
+
+const versionParam = z.coerce.number({ error: 'version is a whole number.' }).int('version is a whole number.').min(1, 'version is 1 or more.').optional();
+
+/** Removes a part no note or tracked link uses; a featured one answers 409 (retire it instead). */
+export const DELETE: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event, 'merch', 'producer');
+	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
+	return json({ removed: await removePart(channel.id, event.params.id, version) });
+});

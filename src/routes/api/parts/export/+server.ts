@@ -1,0 +1,19 @@
+import { api } from '$lib/server/api';
+import { requireRole } from '$lib/server/guard';
+import { exportPartsCsv } from '$lib/server/parts';
+import type { RequestHandler } from './$types';
+
+/** Any crew member downloads the catalogue as CSV (the same columns the import reads). */
+export const GET: RequestHandler = api(async (event) => {
+	const { channel } = requireRole(event);
+	const body = await exportPartsCsv(channel.id);
+	const date = new Date().toISOString().slice(0, 10);
+	return new Response(body, {
+		headers: {
+			'content-type': 'text/csv; charset=utf-8',
+			'content-disposition': `attachment; filename="parts-${date}.csv"`,
+			'cache-control': 'private, no-store',
+			'x-content-type-options': 'nosniff'
+		}
+	});
+});

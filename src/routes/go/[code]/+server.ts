@@ -1,0 +1,23 @@
+import { followTrackedLink } from '$lib/server/tracked-links';
+import type { RequestHandler } from './$types';
+
+/**
+ * The public short link. GET: 302 to the store page with campaign parameters, and one more click
+ * today. HEAD: the same answer, not counted (link checkers and bots). Nothing about the visitor is
+ * read or stored. `no-store` so every click reaches us instead of a cached redirect.
+ */
+const headers = (location: string) => ({ location, 'cache-control': 'no-store', 'x-robots-tag': 'noindex' });
+
+const unknown = () =>
+	new Response('That link is unknown or was removed.\n', { status: 404, headers: { 'content-type': 'text/plain; charset=utf-8', 'cache-control': 'no-store' } });
+
+export const GET: RequestHandler = async ({ params }) => {
+	const target = await followTrackedLink(params.code, { count: true });
+	return target ? new Response(null, { status: 302, headers: headers(target.location) }) : unknown();
+};
+
+// Without its own HEAD, SvelteKit would run GET for a HEAD request, and count it.
+export const HEAD: RequestHandler = async ({ params }) => {
+	const target = await followTrackedLink(params.code, { count: false });
+	return target ? new Response(null, { status: 302, headers: headers(target.location) }) : new Response(null, { status: 404, headers: { 'cache-control': 'no-store' } });
+};
