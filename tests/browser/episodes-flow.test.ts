@@ -39,9 +39,9 @@ describe('from an idea to the shoot', () => {
 		await page.getByLabel(/Target runtime/).fill('9:00');
 		await page.getByLabel('Planned publish date').fill('2027-04-16');
 		await page.getByLabel(/Project Tallboy/).check();
-		await page.getByLabel('Host').selectOption({ label: 'Rico Valdane' });
-		await page.getByLabel('Camera operator').selectOption({ label: 'Mika Strand' });
-		await page.getByLabel('Editor').selectOption({ label: 'Jules Farrow' });
+		await page.getByLabel('Host', { exact: true }).selectOption({ label: 'Rico Valdane' });
+		await page.getByLabel('Camera operator', { exact: true }).selectOption({ label: 'Mika Strand' });
+		await page.getByLabel('Editor', { exact: true }).selectOption({ label: 'Jules Farrow' });
 		await page.getByRole('button', { name: 'Create episode' }).click();
 		await page.waitForURL(/\/rundown\?created=1/);
 		const episodeId = /episodes\/([0-9a-f-]{36})/.exec(page.url())![1];
