@@ -38,7 +38,7 @@ test('an uploaded cut becomes the video under the edit timeline, and placed caut
 	const [cut] = await sql(`SELECT id FROM footage WHERE episode_id = $1 AND purpose = 'cut' ORDER BY created_at DESC LIMIT 1`, [episode.id]);
 
 	const [caution] = await sql(
-		`SELECT c.id, c.text FROM caution c JOIN segment s ON s.id = c.segment_id WHERE s.episode_id = $1 ORDER BY s.position LIMIT 1`,
+		`SELECT c.id, s.title AS text FROM caution c JOIN segment s ON s.id = c.segment_id WHERE s.episode_id = $1 AND c.hazard = ANY(s.hazards) ORDER BY s.position LIMIT 1`,
 		[episode.id]
 	);
 	await sql(`UPDATE caution SET at_frame = 1800 WHERE id = $1`, [caution.id]);
@@ -47,7 +47,7 @@ test('an uploaded cut becomes the video under the edit timeline, and placed caut
 	expect(data.status).toBe(200);
 	const text = JSON.stringify(data.body);
 	expect(text).toContain(`/api/footage/${cut.id}/file`);
-	expect(text).toContain(caution.text.slice(0, 30));
+	expect(text).toContain(caution.text.slice(0, 30)); // the mark names the segment
 	expect(text).toContain('spec-card'); // the demo lift and torque cards are placed on this cut
 
 	const head = await editor.request(`/api/footage/${cut.id}/file`, { headers: { range: 'bytes=0-1023' } });

@@ -5,9 +5,10 @@
 import { db } from './db';
 import type { TimelineMark } from '$lib/components/timeline';
 import { specCardMarksFor } from './spec-cards';
+import { cautionMarksFor } from './segments';
 
 export async function timelineMarksFor(channelId: string, episodeId: string): Promise<TimelineMark[]> {
-	const [cautions, notes, specCards] = await Promise.all([placedCautions(channelId, episodeId), placedNotes(channelId, episodeId), specCardMarksFor(channelId, episodeId)]);
+	const [cautions, notes, specCards] = await Promise.all([cautionMarksFor(channelId, episodeId), placedNotes(channelId, episodeId), specCardMarksFor(channelId, episodeId)]);
 	return [...cautions, ...notes, ...specCards];
 }
 
@@ -35,20 +36,6 @@ async function placedNotes(channelId: string, episodeId: string): Promise<Timeli
 		if (row.sku) marks.push({ kind: 'part', atFrame: row.programFrame!, label: `${row.sku} ${row.partName}`, href: `/episodes/${episodeId}/parts` });
 	}
 	return marks;
-}
-
-async function placedCautions(channelId: string, episodeId: string): Promise<TimelineMark[]> {
-	const cautions = await db
-		.selectFrom('caution')
-		.innerJoin('segment', 'segment.id', 'caution.segmentId')
-		.innerJoin('episode', 'episode.id', 'segment.episodeId')
-		.select(['caution.atFrame', 'caution.text', 'segment.title', 'segment.id as segmentId'])
-		.where('episode.id', '=', episodeId)
-		.where('episode.channelId', '=', channelId)
-		.where('caution.atFrame', 'is not', null)
-		.orderBy('caution.atFrame')
-		.execute();
-	return cautions.map((c) => ({ kind: 'caution', atFrame: c.atFrame!, label: `${c.title}: ${c.text}`, href: `/episodes/${episodeId}/rundown/${c.segmentId}` }));
 }
 
 /** The newest uploaded proxy or final cut of the episode, as a URL a video element can seek in. */
