@@ -71,6 +71,8 @@ export interface TakeTable {
 	note: Generated<string>;
 	/** The uploaded footage; no foreign key until the shoot work adds the footage table. */
 	footageId: string | null;
+	/** The source timecode was typed drop-frame (';'); frames are the same either way. */
+	sourceDropFrame: Generated<boolean>;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 }
