@@ -110,3 +110,26 @@ describe('the call sheet', () => {
 		expect((await other.request(`/shoots/${dayId}`)).status).toBe(404);
 	});
 });
+
+describe('pull list from the segments', () => {
+	test('adds every part linked on the filmed segments’ notes and every SKU named in their scripts, once', async () => {
+		const [episode] = await sql(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`);
+		const created = await camera.action('/shoots?/create', { episodeId: episode.id, shootDate: '2027-02-02', locationName: 'Torquehaven Supply workshop', callTime: '07:00', wrapTime: '15:00' });
+		const newDay = created.location!.split('/').pop()!;
+		const expected = await sql(
+			`SELECT DISTINCT p.id FROM part p WHERE p.id IN (
+			   SELECT np.part_id FROM segment_note_part np JOIN segment_note n ON n.id = np.note_id JOIN shoot_day_segment s ON s.segment_id = n.segment_id WHERE s.shoot_day_id = $1)
+			 OR EXISTS (SELECT 1 FROM segment_script sc JOIN shoot_day_segment s ON s.segment_id = sc.segment_id WHERE s.shoot_day_id = $1 AND position(p.sku IN sc.body) > 0)`,
+			[newDay]
+		);
+		expect(expected.length).toBeGreaterThan(0);
+		const first = await merch.action(`/shoots/${newDay}?/pullFromSegments`, {});
+		expect(first.data.added).toBe(expected.length);
+		const items = await sql(`SELECT part_id, source FROM pull_item WHERE shoot_day_id = $1`, [newDay]);
+		expect(items.map((i) => i.part_id).sort()).toEqual(expected.map((p) => p.id).sort());
+		expect(items.every((i) => i.source === 'segment')).toBe(true);
+		const again = await merch.action(`/shoots/${newDay}?/pullFromSegments`, {});
+		expect(again.data.added).toBe(0);
+		expect((await host.action(`/shoots/${newDay}?/pullFromSegments`, {})).status).toBe(403);
+	});
+});

@@ -259,3 +259,35 @@ export async function deleteProfile(channelId: string, profileId: string) {
 	const result = await db.deleteFrom('recordingProfile').where('id', '=', profileId).where('channelId', '=', channelId).executeTakeFirst();
 	if (Number(result.numDeletedRows) === 0) throw notFound('That recording profile');
 }
+
+/**
+ * Fills the pull list from the segments filmed that day: every part linked on their notes, and
+ * every catalogue SKU named in their scripts. Parts already on the list are left as they are.
+ */
+export async function pullPartsFromSegments(channelId: string, shootDayId: string): Promise<{ added: number }> {
+	await dayInChannel(db, channelId, shootDayId);
+	return db.transaction().execute(async (trx) => {
+		const linked = await trx
+			.selectFrom('shootDaySegment')
+			.innerJoin('segmentNote', 'segmentNote.segmentId', 'shootDaySegment.segmentId')
+			.innerJoin('segmentNotePart', 'segmentNotePart.noteId', 'segmentNote.id')
+			.select('segmentNotePart.partId')
+			.where('shootDaySegment.shootDayId', '=', shootDayId)
+			.execute();
+		// A SKU named in the script, as a whole word (SKUs are letters, digits and dashes).
+		const named = await trx
+			.selectFrom('shootDaySegment')
+			.innerJoin('segmentScript', 'segmentScript.segmentId', 'shootDaySegment.segmentId')
+			.innerJoin('part', (join) => join.on('part.channelId', '=', channelId).on(sql<boolean>`segment_script.body ~* ('(^|[^A-Za-z0-9-])' || regexp_replace(part.sku, '([^A-Za-z0-9])', '\\\\\\1', 'g') || '($|[^A-Za-z0-9-])')`))
+			.select('part.id as partId')
+			.where('shootDaySegment.shootDayId', '=', shootDayId)
+			.execute();
+		const wanted = [...new Set([...linked, ...named].map((row) => row.partId))];
+		const present = new Set((await trx.selectFrom('pullItem').select('partId').where('shootDayId', '=', shootDayId).where('partId', 'is not', null).execute()).map((row) => row.partId));
+		const missing = wanted.filter((id) => !present.has(id));
+		if (missing.length === 0) return { added: 0 };
+		const parts = await trx.selectFrom('part').select(['id', 'name']).where('id', 'in', missing).execute();
+		await trx.insertInto('pullItem').values(parts.map((part) => ({ shootDayId, partId: part.id, label: part.name, quantity: 1, source: 'segment' as const }))).execute();
+		return { added: parts.length };
+	});
+}

@@ -62,6 +62,12 @@ export const actions = {
 		const { channel, person } = requireRole(event, 'merch', 'producer');
 		return run(event, 'onHand', onHandSchema.extend({ id: z.string() }), (data) => days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version), (form) => ({ id: form.get('id'), onHand: form.get('onHand') === 'true', version: form.get('version') }));
 	},
+	pullFromSegments: async (event) => {
+		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
+		const result = await attempt({}, () => days.pullPartsFromSegments(channel.id, event.params.id));
+		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'pullFromSegments', ...(result.data as object) });
+		return { action: 'pullFromSegments', added: (result as { added: number }).added };
+	},
 	removeItem: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		return run(event, 'removeItem', z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }), (data) => days.removeDayItem(channel.id, data.kind, data.id));
