@@ -4,31 +4,23 @@
  * streams the request body to a file on the same disk. Prints both throughputs, their ratio
  * (target ≥ 70%) and the server's peak resident memory (target < 200 MB).
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { chmodSync, createReadStream, createWriteStream, mkdtempSync, openSync, readFileSync, rmSync, writeSync, closeSync } from 'node:fs';
 import { createServer } from 'node:http';
 import { randomBytes } from 'node:crypto';
-import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import * as tus from 'tus-js-client';
 import { startCluster } from './lib/postgres.ts';
 import { startFakeMail } from './lib/fake-mail.ts';
 import { projectRoot } from './lib/config.ts';
+import { freePort, runScript, signInCookie, waitForHttp } from './lib/bench-world.ts';
 import { BODY_SIZE_LIMIT_BYTES, UPLOAD_CHUNK_BYTES } from '../src/lib/uploads.ts';
 
 const SIZE = Number(process.env.BENCH_UPLOAD_BYTES ?? 2 * 1024 ** 3);
 const work = mkdtempSync(path.join(process.env.BENCH_DIR ?? path.join(projectRoot, '.data'), 'bench-uploads-'));
 chmodSync(work, 0o755); // the postgres OS user must reach the cluster folder inside
 const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
-
-async function freePort(): Promise<number> {
-	const server = createServer();
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	const { port } = server.address() as { port: number };
-	await new Promise((resolve) => server.close(resolve));
-	return port;
-}
 
 function makeSourceFile(file: string) {
 	const block = randomBytes(16 * 1024 * 1024);
@@ -74,23 +66,16 @@ async function main() {
 	const mail = await startFakeMail({ port: await freePort(), dir: path.join(work, 'mail') });
 	let server: ReturnType<typeof spawn> | null = null;
 	try {
-		const tsx = path.join(projectRoot, 'node_modules/.bin/tsx');
-		for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
-			const result = spawnSync(tsx, [script], { cwd: projectRoot, env: { ...process.env, DATABASE_URL: cluster.url }, encoding: 'utf8' });
-			if (result.status !== 0) throw new Error(`${script} failed: ${result.stderr}`);
-		}
+		runScript('scripts/migrate.ts', cluster.url);
+		runScript('scripts/seed.ts', cluster.url);
 		const port = await freePort();
 		const base = `http://127.0.0.1:${port}`;
 		server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
 			env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: base, DATABASE_URL: cluster.url, SMTP_URL: mail.url, AUTH_SECRET: 'bench-secret-0123456789-0123456789', UPLOAD_DIR: path.join(work, 'uploads'), BODY_SIZE_LIMIT: process.env.BENCH_BODY_LIMIT ?? String(BODY_SIZE_LIMIT_BYTES) },
 			stdio: ['ignore', 'ignore', 'inherit']
 		});
-		for (let i = 0; i < 200; i++) {
-			if (await fetch(`${base}/healthz`).then((r) => r.ok, () => false)) break;
-			await new Promise((resolve) => setTimeout(resolve, 100));
-		}
-		const signIn = await fetch(`${base}/signin`, { method: 'POST', redirect: 'manual', headers: { origin: base, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' }, body: new URLSearchParams({ email: 'mika@torquehaven.test', password: 'wrenchroll-demo-bay3' }) });
-		const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+		await waitForHttp(`${base}/healthz`, 30_000);
+		const cookie = await signInCookie(base, 'mika@torquehaven.test');
 		const episode = await (await fetch(`${base}/api/episodes`, { headers: { cookie } })).json().catch(() => null);
 		const episodeId: string = episode?.episodes?.[0]?.id ?? (await (await fetch(`${base}/api/me`, { headers: { cookie } })).json()).channel.id;
 

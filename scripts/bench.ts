@@ -7,15 +7,15 @@
  * signs in as the demo producer and runs every bench in BENCHES. Add a bench by writing a
  * function that takes the BenchContext and returns BenchResult, and listing it in BENCHES.
  */
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, chmodSync } from 'node:fs';
-import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import pg from 'pg';
 import { startCluster, type Cluster } from './lib/postgres.ts';
 import { projectRoot } from './lib/config.ts';
+import { freePort, runScript, signInCookie, waitForHttp, withStatementCounting } from './lib/bench-world.ts';
 import { secondsToFrames } from '../src/lib/timecode.ts';
 
 // ---------------------------------------------------------------- the framework
@@ -196,48 +196,8 @@ function printResult(result: BenchResult) {
 
 // ---------------------------------------------------------------- the world the benches run in
 
-function freePort(): Promise<number> {
-	return new Promise((resolve, reject) => {
-		const server = createServer();
-		server.on('error', reject);
-		server.listen(0, '127.0.0.1', () => {
-			const address = server.address();
-			server.close(() => resolve(typeof address === 'object' && address ? address.port : 0));
-		});
-	});
-}
-
-async function waitForHttp(url: string, timeoutMs: number) {
-	const deadline = Date.now() + timeoutMs;
-	while (Date.now() < deadline) {
-		try {
-			if ((await fetch(url)).ok) return;
-		} catch {
-			// not up yet
-		}
-		await new Promise((resolve) => setTimeout(resolve, 150));
-	}
-	throw new Error(`${url} did not answer within ${timeoutMs} ms`);
-}
-
-function runScript(script: string, databaseUrl: string) {
-	const result = spawnSync(path.join(projectRoot, 'node_modules/.bin/tsx'), [script], { cwd: projectRoot, env: { ...process.env, DATABASE_URL: databaseUrl }, encoding: 'utf8' });
-	if (result.status !== 0) throw new Error(`${script} failed:\n${result.stdout}\n${result.stderr}`);
-}
-
 async function signIn(baseUrl: string, email: string): Promise<Session> {
-	const response = await fetch(`${baseUrl}/signin`, {
-		method: 'POST',
-		headers: { origin: baseUrl, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
-		body: new URLSearchParams({ email, password: 'wrenchroll-demo-bay3' }),
-		redirect: 'manual'
-	});
-	if (response.status !== 303) throw new Error(`signing in as ${email} answered ${response.status}`);
-	const cookie = response.headers
-		.getSetCookie()
-		.map((line) => line.split(';')[0])
-		.filter((pair) => !pair.endsWith('='))
-		.join('; ');
+	const cookie = await signInCookie(baseUrl, email);
 	return {
 		async get(pathname) {
 			const started = performance.now();
@@ -248,20 +208,6 @@ async function signIn(baseUrl: string, email: string): Promise<Session> {
 	};
 }
 
-/** Restarts the cluster with pg_stat_statements loaded (it must be preloaded) and creates the extension. */
-async function withStatementCounting(start: () => Promise<Cluster>, cluster: Cluster): Promise<Cluster> {
-	const admin = new pg.Client({ connectionString: cluster.url });
-	await admin.connect();
-	await admin.query(`ALTER SYSTEM SET shared_preload_libraries = 'pg_stat_statements'`);
-	await admin.end();
-	cluster.stop();
-	const restarted = await start();
-	const client = new pg.Client({ connectionString: restarted.url });
-	await client.connect();
-	await client.query('CREATE EXTENSION IF NOT EXISTS pg_stat_statements');
-	await client.end();
-	return restarted;
-}
 
 async function main() {
 	const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
