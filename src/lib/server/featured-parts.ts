@@ -55,6 +55,23 @@ export interface FeaturedParts {
 	warnings: FeaturedWarning[];
 }
 
+/** The columns of a featured-part row (a note's part link, the part, its tracked link); the publish kit reads the same. */
+export const FEATURED_COLUMNS = [
+	'part.id as partId',
+	'part.sku',
+	'part.name',
+	'part.brand',
+	'part.category',
+	'part.status',
+	'part.storeUrl',
+	'part.priceCents',
+	'part.currency',
+	'segmentNote.id as noteId',
+	'segmentNote.programFrame',
+	'segmentNote.text',
+	'trackedLink.code as linkCode'
+] as const;
+
 /** One row per (note, part) link of the episode, with the part and its tracked link. */
 function featuredRows(executor: Executor, episodeId: string) {
 	return executor
@@ -62,21 +79,7 @@ function featuredRows(executor: Executor, episodeId: string) {
 		.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
 		.innerJoin('part', 'part.id', 'segmentNotePart.partId')
 		.leftJoin('trackedLink', (join) => join.onRef('trackedLink.partId', '=', 'part.id').onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId'))
-		.select([
-			'part.id as partId',
-			'part.sku',
-			'part.name',
-			'part.brand',
-			'part.category',
-			'part.status',
-			'part.storeUrl',
-			'part.priceCents',
-			'part.currency',
-			'segmentNote.id as noteId',
-			'segmentNote.programFrame',
-			'segmentNote.text',
-			'trackedLink.code as linkCode'
-		])
+		.select(FEATURED_COLUMNS)
 		.where('segmentNote.episodeId', '=', episodeId)
 		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
 		.orderBy('segmentNote.createdAt')

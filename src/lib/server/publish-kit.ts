@@ -18,7 +18,7 @@ import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from './db';
 import { episodeNotFound, rateOf, type Executor } from './episodes';
 import { isUuid } from './identity';
-import { groupFeatured, type FeaturedPart } from './featured-parts';
+import { FEATURED_COLUMNS, groupFeatured, type FeaturedPart } from './featured-parts';
 import { ensureTrackedLinks, linkAddress } from './tracked-links';
 import { ChapterExportError, exportChapters, validateChapters } from '$lib/chapters';
 import { GENERAL_SAFETY_NOTE, LIFT_LAW_NOTE } from '$lib/cautions';
@@ -91,21 +91,7 @@ function kitQuery(executor: Executor, channelId: string, episodeId: string) {
 					.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
 					.innerJoin('part', 'part.id', 'segmentNotePart.partId')
 					.leftJoin('trackedLink', (join) => join.onRef('trackedLink.partId', '=', 'part.id').onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId'))
-					.select([
-						'part.id as partId',
-						'part.sku',
-						'part.name',
-						'part.brand',
-						'part.category',
-						'part.status',
-						'part.storeUrl',
-						'part.priceCents',
-						'part.currency',
-						'segmentNote.id as noteId',
-						'segmentNote.programFrame',
-						'segmentNote.text',
-						'trackedLink.code as linkCode'
-					])
+					.select(FEATURED_COLUMNS)
 					.whereRef('segmentNote.episodeId', '=', 'episode.id')
 			).as('featured'),
 			// Lift and tyre episodes carry the road-legality note too.
