@@ -13,15 +13,8 @@
  */
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { actionStatus, describeRoleMatrix, everyone, visitorsByRole, type Case, type Who } from '../helpers/role-matrix';
 
-type Who = 'producer' | 'host' | 'camera' | 'editor' | 'merch' | 'signed-out';
-const everyone: Who[] = ['producer', 'host', 'camera', 'editor', 'merch'];
-
-interface Case {
-	name: string;
-	allowed: Who[];
-	call: (visitor: Visitor, who: Who) => Promise<number>;
-}
 
 const ids = { episode: '', segment: '', build: '', cautionHazard: 'brakes' };
 let seq = 0;
@@ -103,12 +96,6 @@ const apiCases: Case[] = [
 	{ name: 'POST /api/segments/[id]/shots', allowed: ['producer', 'camera'], call: api(() => `${S()}/shots`, () => ({ method: 'POST', json: { what: `Matrix shot ${seq++}` } })) }
 ];
 
-const actionStatus = async (v: Visitor, path: string, form: Record<string, string | string[]>) => {
-	const response = await v.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
-	if (response.status !== 200) return response.status; // 401 from the guard
-	const result = await response.json();
-	return result.type === 'redirect' ? 303 : result.status;
-};
 const P = () => `/episodes/${ids.episode}`;
 const R = () => `/episodes/${ids.episode}/rundown/${ids.segment}`;
 
@@ -176,9 +163,9 @@ const pageCases: Case[] = [
 
 const visitors = new Map<Who, Visitor>();
 
+
 beforeAll(async () => {
-	for (const role of everyone) visitors.set(role, await signedIn(demo[role as keyof typeof demo]));
-	visitors.set('signed-out', new Visitor());
+	for (const [who, visitor] of await visitorsByRole()) visitors.set(who, visitor);
 	// The shared editor lands in the other channel first (channels sort by name); this matrix is Torquehaven's.
 	const [channel] = await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
 	await visitors.get('editor')!.request('/channel?/switch', { method: 'POST', form: { channelId: channel.id } });
@@ -195,15 +182,7 @@ beforeAll(async () => {
 	ids.build = build.id;
 });
 
-describe.each([...apiCases, ...actionCases, ...pageCases])('$name', (routeCase) => {
-	test.each([...everyone, 'signed-out' as const])('as %s', async (who) => {
-		const status = await routeCase.call(visitors.get(who)!, who);
-		const isPage = routeCase.name.startsWith('page');
-		if (who === 'signed-out') expect(status).toBe(isPage ? 303 : 401);
-		else if (routeCase.allowed.includes(who)) expect(status).toBeGreaterThanOrEqual(200), expect(status).toBeLessThan(400);
-		else expect(status).toBe(403);
-	});
-});
+describeRoleMatrix([...apiCases, ...actionCases, ...pageCases], visitors);
 
 describe('another channel sees none of these records', () => {
 	let other: Visitor;

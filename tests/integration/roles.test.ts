@@ -5,15 +5,8 @@
  */
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { actionStatus, describeRoleMatrix, everyone, visitorsByRole, type Case, type Who } from '../helpers/role-matrix';
 
-type Who = 'producer' | 'host' | 'camera' | 'editor' | 'merch' | 'signed-out';
-const everyone: Who[] = ['producer', 'host', 'camera', 'editor', 'merch'];
-
-interface Case {
-	name: string;
-	allowed: Who[];
-	call: (visitor: Visitor, who: Who) => Promise<number>;
-}
 
 let seq = 0;
 const unique = (who: string) => `matrix-${who}-${Date.now()}-${seq++}@example.test`;
@@ -51,12 +44,6 @@ const apiCases: Case[] = [
 	}
 ];
 
-const actionStatus = async (v: Visitor, path: string, form: Record<string, string | string[]>) => {
-	const response = await v.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
-	if (response.status !== 200) return response.status; // 401 from the guard
-	const result = await response.json();
-	return result.type === 'redirect' ? 303 : result.status;
-};
 
 const actionCases: Case[] = [
 	{ name: 'action /crew?/invite', allowed: ['producer'], call: (v, who) => actionStatus(v, '/crew?/invite', { email: unique(who), name: 'Matrix Form', roles: ['camera'] }) },
@@ -89,22 +76,14 @@ const pageCases: Case[] = [
 
 const visitors = new Map<Who, Visitor>();
 
+
 beforeAll(async () => {
-	for (const role of everyone) visitors.set(role, await signedIn(demo[role as keyof typeof demo]));
-	visitors.set('signed-out', new Visitor());
+	for (const [who, visitor] of await visitorsByRole()) visitors.set(who, visitor);
 	const [host] = await sql(`SELECT id FROM person WHERE email = $1`, [demo.host]);
 	ids.host = host.id;
 });
 
-describe.each([...apiCases, ...actionCases, ...pageCases])('$name', (routeCase) => {
-	test.each([...everyone, 'signed-out' as const])('as %s', async (who) => {
-		const status = await routeCase.call(visitors.get(who)!, who);
-		const isPage = routeCase.name.startsWith('page');
-		if (who === 'signed-out') expect(status).toBe(isPage ? 303 : 401);
-		else if (routeCase.allowed.includes(who)) expect(status).toBeGreaterThanOrEqual(200), expect(status).toBeLessThan(400);
-		else expect(status).toBe(403);
-	});
-});
+describeRoleMatrix([...apiCases, ...actionCases, ...pageCases], visitors);
 
 describe('channels see only their own records', () => {
 	test('a producer of another channel gets 404 for this channel’s crew member, and changes nothing', async () => {
