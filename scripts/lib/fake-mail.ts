@@ -4,7 +4,7 @@
  */
 import { SMTPServer } from 'smtp-server';
 import PostalMime from 'postal-mime';
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, renameSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { randomUUID } from 'node:crypto';
 
@@ -36,7 +36,10 @@ export async function startFakeMail(options: { port: number; dir: string }): Pro
 						subject: parsed.subject ?? '',
 						text: parsed.text ?? ''
 					};
-					writeFileSync(path.join(options.dir, `${receivedAt.replace(/[:.]/g, '-')}-${id}.json`), JSON.stringify(record, null, 2));
+					// Write then rename, so a reader never sees half a message.
+					const name = path.join(options.dir, `${receivedAt.replace(/[:.]/g, '-')}-${id}.json`);
+					writeFileSync(name + '.part', JSON.stringify(record, null, 2));
+					renameSync(name + '.part', name);
 					callback();
 				} catch (failure) {
 					callback(failure as Error);

@@ -21,5 +21,14 @@ export async function readMailbox(limit = 200): Promise<StoredMail[]> {
 	const dir = env.DEV_MAILBOX_DIR;
 	if (!dir) return [];
 	const names = (await readdir(dir).catch(() => [] as string[])).filter((n) => n.endsWith('.json')).sort().reverse().slice(0, limit);
-	return Promise.all(names.map(async (name) => JSON.parse(await readFile(path.join(dir, name), 'utf8')) as StoredMail));
+	const messages = await Promise.all(
+		names.map(async (name) => {
+			try {
+				return JSON.parse(await readFile(path.join(dir, name), 'utf8')) as StoredMail;
+			} catch {
+				return null; // removed or unreadable meanwhile: skip it
+			}
+		})
+	);
+	return messages.filter((message): message is StoredMail => message !== null);
 }
