@@ -16,15 +16,9 @@
  *    asks for its publish kit 50 times and counts the statements with pg_stat_statements (reset
  *    just before): statements reading the kit's tables, per request. Target: one or two queries.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { chmodSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import pg from 'pg';
-import { startCluster, type Cluster } from './lib/postgres.ts';
-import { projectRoot } from './lib/config.ts';
-import { freePort, runScript, signInCookie, waitForHttp, withStatementCounting } from './lib/bench-world.ts';
+import { openBenchWorld, signInCookie } from './lib/bench-world.ts';
 
 const CATALOGUE_PARTS = 20_000;
 const WARM_UP_SEARCHES = 30;
@@ -261,52 +255,25 @@ async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Pro
 }
 
 async function main() {
-	const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
-	if (!existsSync(path.join(buildDir, 'index.js'))) {
-		console.error(`No built server in ${buildDir}: run npm run build first.`);
-		process.exit(1);
-	}
-	const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-bench-parts-'));
-	chmodSync(work, 0o755);
-	const pgPort = await freePort();
-	const start = () => startCluster({ dataDir: path.join(work, 'pg'), port: pgPort, database: 'wrenchroll_bench' });
-	let cluster: Cluster | null = null;
-	let server: ChildProcess | null = null;
-	let pool: pg.Pool | null = null;
+	const world = await openBenchWorld('bench-parts');
 	let ok = false;
 	try {
-		cluster = await withStatementCounting(start, await start());
-		runScript('scripts/migrate.ts', cluster.url);
-		runScript('scripts/seed.ts', cluster.url);
-		pool = new pg.Pool({ connectionString: cluster.url, max: 2 });
+		const pool = world.pool;
 		const [{ id: channelId }] = (await pool.query(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`)).rows;
 		const filled = performance.now();
 		await addCatalogue(pool, channelId);
 		const episodeId = await bigEpisode(pool, channelId);
 		console.log(`Added ${CATALOGUE_PARTS.toLocaleString('en')} parts and the big episode in ${((performance.now() - filled) / 1000).toFixed(1)} s.`);
 
-		const port = await freePort();
-		const baseUrl = `http://127.0.0.1:${port}`;
-		server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
-			env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: baseUrl, DATABASE_URL: cluster.url, AUTH_SECRET: randomBytes(32).toString('base64url'), UPLOAD_DIR: path.join(work, 'uploads') },
-			stdio: ['ignore', 'ignore', 'inherit']
-		});
-		await waitForHttp(`${baseUrl}/healthz`, 30_000);
-		console.log(`Wrenchroll parts bench on ${process.platform} ${process.arch}, Node ${process.version}, built server ${buildDir}`);
+		const baseUrl = await world.startServer();
+		console.log(`Wrenchroll parts bench on ${process.platform} ${process.arch}, Node ${process.version}, built server ${world.buildDir}`);
 		const session = await signIn(baseUrl, 'priya@torquehaven.test');
 		const searchOk = await searchBench(session);
 		const kitOk = await kitBench(session, pool, episodeId);
 		ok = searchOk && kitOk;
 		console.log(`\n${ok ? 'all targets met' : 'TARGET MISSED'}\n`);
 	} finally {
-		await pool?.end();
-		if (server && server.exitCode === null) {
-			const exited = new Promise((resolve) => server!.once('exit', resolve));
-			server.kill('SIGTERM');
-			await exited;
-		}
-		cluster?.stop();
-		rmSync(work, { recursive: true, force: true });
+		await world.close();
 	}
 	process.exit(ok ? 0 : 1);
 }

@@ -7,15 +7,9 @@
  * signs in as the demo producer and runs every bench in BENCHES. Add a bench by writing a
  * function that takes the BenchContext and returns BenchResult, and listing it in BENCHES.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, chmodSync } from 'node:fs';
-import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { randomBytes } from 'node:crypto';
-import pg from 'pg';
-import { startCluster, type Cluster } from './lib/postgres.ts';
 import { projectRoot } from './lib/config.ts';
-import { freePort, runScript, signInCookie, waitForHttp, withStatementCounting } from './lib/bench-world.ts';
+import { openBenchWorld, signInCookie } from './lib/bench-world.ts';
 import { secondsToFrames } from '../src/lib/timecode.ts';
 
 // ---------------------------------------------------------------- the framework
@@ -210,37 +204,16 @@ async function signIn(baseUrl: string, email: string): Promise<Session> {
 
 
 async function main() {
-	const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
-	if (!existsSync(path.join(buildDir, 'index.js'))) {
-		console.error(`No built server in ${buildDir}: run npm run build first.`);
-		process.exit(1);
-	}
-	const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-bench-'));
-	chmodSync(work, 0o755);
-	const pgPort = await freePort();
-	const start = () => startCluster({ dataDir: path.join(work, 'pg'), port: pgPort, database: 'wrenchroll_bench' });
-	let cluster: Cluster | null = null;
-	let server: ChildProcess | null = null;
-	let pool: pg.Pool | null = null;
+	const world = await openBenchWorld('bench');
 	let ok = true;
 	try {
-		cluster = await withStatementCounting(start, await start());
-		runScript('scripts/migrate.ts', cluster.url);
-		runScript('scripts/seed.ts', cluster.url);
-		pool = new pg.Pool({ connectionString: cluster.url, max: 2 });
-		const port = await freePort();
-		const baseUrl = `http://127.0.0.1:${port}`;
-		server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
-			env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: baseUrl, DATABASE_URL: cluster.url, AUTH_SECRET: randomBytes(32).toString('base64url'), UPLOAD_DIR: path.join(work, 'uploads') },
-			stdio: ['ignore', 'ignore', 'inherit']
-		});
-		await waitForHttp(`${baseUrl}/healthz`, 30_000);
-		const database = pool;
+		const baseUrl = await world.startServer();
 		const context: BenchContext = {
 			baseUrl,
-			sql: async (text, params = []) => (await database.query(text, params)).rows,
+			sql: async (text, params = []) => (await world.pool.query(text, params)).rows,
 			signIn: (email) => signIn(baseUrl, email)
 		};
+		const buildDir = world.buildDir;
 		console.log(`Wrenchroll benches on ${process.platform} ${process.arch}, Node ${process.version}, built server ${path.relative(projectRoot, buildDir).startsWith('..') ? buildDir : path.relative(projectRoot, buildDir)}`);
 		for (const bench of BENCHES) {
 			const result = await bench.run(context);
@@ -248,14 +221,7 @@ async function main() {
 			ok &&= result.ok;
 		}
 	} finally {
-		await pool?.end();
-		if (server && server.exitCode === null) {
-			const exited = new Promise((resolve) => server!.once('exit', resolve));
-			server.kill('SIGTERM');
-			await exited;
-		}
-		cluster?.stop();
-		rmSync(work, { recursive: true, force: true });
+		await world.close();
 	}
 	process.exit(ok ? 0 : 1);
 }

@@ -1,9 +1,12 @@
 /** What every benchmark script needs around the built server: ports, a migrated and seeded cluster, sign-in. */
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import { chmodSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import pg from 'pg';
-import type { Cluster } from './postgres.ts';
+import { startCluster, type Cluster } from './postgres.ts';
 import { projectRoot } from './config.ts';
 
 export function freePort(): Promise<number> {
@@ -65,4 +68,62 @@ export async function withStatementCounting(start: () => Promise<Cluster>, clust
 	await client.query('CREATE EXTENSION IF NOT EXISTS pg_stat_statements');
 	await client.end();
 	return restarted;
+}
+
+export interface BenchWorld {
+	buildDir: string;
+	cluster: Cluster;
+	/** Queries against the bench database (not through the app). */
+	pool: pg.Pool;
+	/** Starts the built server against the bench database; answers its base URL once it is up. */
+	startServer(): Promise<string>;
+	/** Stops the server and the cluster and removes the bench folder. */
+	close(): Promise<void>;
+}
+
+/**
+ * A throwaway world for a benchmark: a PostgreSQL cluster with pg_stat_statements, migrated and
+ * seeded with the real scripts, and the built server on demand. Exits when there is no build.
+ */
+export async function openBenchWorld(name: string): Promise<BenchWorld> {
+	const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
+	if (!existsSync(path.join(buildDir, 'index.js'))) {
+		console.error(`No built server in ${buildDir}: run npm run build first.`);
+		process.exit(1);
+	}
+	const work = mkdtempSync(path.join(tmpdir(), `wrenchroll-${name}-`));
+	chmodSync(work, 0o755); // the postgres OS user must reach the cluster folder inside
+	const pgPort = await freePort();
+	const start = () => startCluster({ dataDir: path.join(work, 'pg'), port: pgPort, database: 'wrenchroll_bench' });
+	const cluster = await withStatementCounting(start, await start());
+	runScript('scripts/migrate.ts', cluster.url);
+	runScript('scripts/seed.ts', cluster.url);
+	const pool = new pg.Pool({ connectionString: cluster.url, max: 2 });
+	let server: ChildProcess | null = null;
+	return {
+		buildDir,
+		cluster,
+		pool,
+		async startServer() {
+			const port = await freePort();
+			const baseUrl = `http://127.0.0.1:${port}`;
+			server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
+				env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: baseUrl, DATABASE_URL: cluster.url, AUTH_SECRET: randomBytes(32).toString('base64url'), UPLOAD_DIR: path.join(work, 'uploads') },
+				stdio: ['ignore', 'ignore', 'inherit']
+			});
+			await waitForHttp(`${baseUrl}/healthz`, 30_000);
+			return baseUrl;
+		},
+		async close() {
+			await pool.end();
+			const running = server as ChildProcess | null;
+			if (running && running.exitCode === null) {
+				const exited = new Promise((resolve) => running.once('exit', resolve));
+				running.kill('SIGTERM');
+				await exited;
+			}
+			cluster.stop();
+			rmSync(work, { recursive: true, force: true });
+		}
+	};
 }

@@ -195,15 +195,7 @@ beforeAll(async () => {
 	await sql(`INSERT INTO chapter (episode_id, start_frame, title) VALUES ($1, 0, 'Cold open'), ($1, 3000, 'Lift'), ($1, 6000, 'Lower')`, [episode.id]);
 });
 
-describe.each([...editCases, ...editActionCases, ...editPageCases])('$name', (routeCase) => {
-	test.each([...everyone, 'signed-out' as const])('as %s', async (who) => {
-		const status = await routeCase.call(visitors.get(who)!, who);
-		const isPage = routeCase.name.startsWith('page');
-		if (who === 'signed-out') expect(status).toBe(isPage ? 303 : 401);
-		else if (routeCase.allowed.includes(who)) expect(status).toBeGreaterThanOrEqual(200), expect(status).toBeLessThan(400);
-		else expect(status).toBe(403);
-	});
-});
+describeRoleMatrix([...editCases, ...editActionCases, ...editPageCases], visitors);
 
 describe('the edit of one channel is not found from another', () => {
 	test('a producer of another channel gets 404 for this channel’s chapters, cut and edit page', async () => {
@@ -275,15 +267,7 @@ beforeAll(async () => {
 	cardIds.card = (await spareCard()).id;
 });
 
-describe.each([...specCardCases, ...specCardActionCases, ...specCardPageCases])('$name', (routeCase) => {
-	test.each([...everyone, 'signed-out' as const])('as %s', async (who) => {
-		const status = await routeCase.call(visitors.get(who)!, who);
-		const isPage = routeCase.name.startsWith('page');
-		if (who === 'signed-out') expect(status).toBe(isPage ? 303 : 401);
-		else if (routeCase.allowed.includes(who)) expect(status).toBeGreaterThanOrEqual(200), expect(status).toBeLessThan(400);
-		else expect(status).toBe(403);
-	});
-});
+describeRoleMatrix([...specCardCases, ...specCardActionCases, ...specCardPageCases], visitors);
 
 describe('the spec cards of one channel are not found from another', () => {
 	test('a producer of another channel gets 404 for this channel’s cards, their export and the page', async () => {
@@ -373,15 +357,7 @@ beforeAll(async () => {
 	partsIds.part = (await sparePart()).id;
 });
 
-describe.each([...partsCases, ...partsActionCases, ...partsPageCases])('$name', (routeCase) => {
-	test.each([...everyone, 'signed-out' as const])('as %s', async (who) => {
-		const status = await routeCase.call(visitors.get(who)!, who);
-		const isPage = routeCase.name.startsWith('page');
-		if (who === 'signed-out') expect(status).toBe(isPage ? 303 : 401);
-		else if (routeCase.allowed.includes(who)) expect(status).toBeGreaterThanOrEqual(200), expect(status).toBeLessThan(400);
-		else expect(status).toBe(403);
-	});
-});
+describeRoleMatrix([...partsCases, ...partsActionCases, ...partsPageCases], visitors);
 
 describe('featured parts of one channel are not found from another; tracked links are public', () => {
 	test('a producer of another channel gets 404 for this channel’s parts, notes, kit and clicks, and changes nothing', async () => {

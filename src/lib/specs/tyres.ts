@@ -301,19 +301,8 @@ function formatFlotationWidth(widthIn: number, asTyped: string): string {
 	return decimals <= 2 ? widthIn.toFixed(2) : String(widthIn);
 }
 
-type SizeWithoutGeometry = {
-	kind: TyreSizeKind;
-	code: string;
-	serviceType: TyreServiceType | null;
-	construction: TyreConstruction | null;
-	sectionWidthMm: number;
-	sectionWidthIn: number;
-	aspectRatio: number;
-	rimIn: number;
-	sidewallMm: number;
-	sidewallIn: number;
-	diameterMm: number;
-	diameterIn: number;
+/** A parsed size before its circumference and revolutions are worked out; the tail carries load index and speed rating. */
+type SizeWithoutGeometry = Omit<TyreSize, 'circumferenceIn' | 'circumferenceMm' | 'revsPerMile' | 'revsPerKm' | 'loadIndex' | 'dualLoadIndex' | 'speedRating'> & {
 	tail: ParsedTail;
 };
 
