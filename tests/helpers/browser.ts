@@ -29,6 +29,7 @@ export async function openBrowser(viewport = { width: 1280, height: 860 }): Prom
 	});
 	context.setDefaultTimeout(15_000);
 	const page = context.pages()[0] ?? (await context.newPage());
+	waitForHydrationOnLoad(page);
 	return {
 		context,
 		page,
@@ -39,11 +40,41 @@ export async function openBrowser(viewport = { width: 1280, height: 860 }): Prom
 	};
 }
 
+/**
+ * A full page load paints server-rendered HTML before the client takes it over; typing into a field
+ * in that gap can be undone when the page hydrates. So `goto` and `reload` on HTML pages also wait
+ * for the mark the root layout sets once hydrated (`<html data-hydrated>`), as a person would wait
+ * for the page to settle (except with `waitUntil: 'commit'`).
+ */
+function waitForHydrationOnLoad(page: Page): void {
+	const settle = async (response: Awaited<ReturnType<Page['goto']>>) => {
+		if (response && (response.headers()['content-type'] ?? '').startsWith('text/html')) {
+			await page.waitForSelector('html[data-hydrated]', { state: 'attached' });
+		}
+		return response;
+	};
+	const goto = page.goto.bind(page);
+	const reload = page.reload.bind(page);
+	// A caller that asks for `commit` wants the page before it is ready, so it gets it as it is.
+	page.goto = async (url, options) => (options?.waitUntil === 'commit' ? goto(url, options) : settle(await goto(url, options)));
+	page.reload = async (options) => (options?.waitUntil === 'commit' ? reload(options) : settle(await reload(options)));
+}
+
 /** Signs in through the real sign-in form and waits for the bench (home page). */
 export async function signInAs(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
 	await page.goto('/signin');
 	await page.getByLabel('E-mail').fill(email);
 	await page.getByLabel('Password').fill(password);
 	await page.getByRole('button', { name: 'Sign in' }).click();
-	await page.waitForURL((url) => !url.pathname.startsWith('/signin'));
+	// Either the bench opens or the form says why not; say which, so a failure reads plainly.
+	const refused = page.getByRole('alert');
+	const left = page.waitForURL((url) => !url.pathname.startsWith('/signin')).then(() => true);
+	const said = refused.waitFor().then(() => false);
+	// The losing wait times out later; swallow that so it is not an unhandled rejection.
+	left.catch(() => {});
+	said.catch(() => {});
+	const signedIn = await Promise.race([left, said]);
+	if (!signedIn) {
+		throw new Error(`sign-in as ${email} was refused: ${await refused.textContent()}`);
+	}
 }
