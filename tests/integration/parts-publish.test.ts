@@ -2,7 +2,7 @@
  * The publish kit and tracked links over HTTP against the built server: the demo's published
  * episode's kit checked line by line, its three formats, missing chapters said in the kit, the
  * character count, the kit in one query; the /go/ redirect with its campaign parameters, clicks
- * counted per day (HEAD not counted), no personal data, and the clicks table.
+ * counted per day (HEAD, crawlers and scripts not counted), no personal data, and the clicks table.
  *
  * Outside sources for the checks:
  * - Chapter lines: description timestamps (common practice of video platforms, from memory:
@@ -10,6 +10,9 @@
  *   30000/1001 (REFERENCES.md), computed here in integers.
  * - Redirects: RFC 9110 §15.4.3 (302 Found with Location); HEAD answers as GET would, without
  *   a body (RFC 9110 §9.3.2).
+ * - Who is a bot: the `isbot` npm package's pattern list is the reference; the browser strings are
+ *   the shape every desktop and phone browser sends (RFC 9110 §10.1.5 User-Agent), written from
+ *   memory, and the crawler string is invented in the usual "compatible; Name/1.0; +url" shape.
  * - URLs: the WHATWG URL Standard (Node's `URL` and `URLSearchParams`) reads the Location back.
  * - Campaign parameter names utm_source, utm_medium, utm_campaign, utm_content: common practice
  *   of web analytics tools (from memory).
@@ -210,19 +213,37 @@ describe('tracked links', () => {
 		});
 	});
 
-	test('each GET counts one click today (also twenty at once); HEAD answers the same and counts none', async () => {
+	const desktop = 'Mozilla/5.0 (X11; Linux x86_64) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/156.0.0.0 Safari/537.36';
+	const phone = 'Mozilla/5.0 (iPhone; CPU iPhone OS 17_0 like Mac OS X) AppleWebKit/605.1.15 (KHTML, like Gecko) Version/17.0 Mobile/15E148 Safari/604.1';
+	const follow = (code: string, init: RequestInit = {}, agent: string | null = desktop) =>
+		fetch(`${baseUrl()}/go/${code}`, { redirect: 'manual', ...init, headers: agent === null ? {} : { 'user-agent': agent } });
+
+	test('each GET from a browser counts one click today (also twenty at once); HEAD answers the same and counts none', async () => {
 		const { code } = await linkedEpisode('https://shop.torquehaven.test/p/count');
 		expect(await clicksToday(code)).toBe(0);
-		const head = await fetch(`${baseUrl()}/go/${code}`, { method: 'HEAD', redirect: 'manual' });
+		const head = await follow(code, { method: 'HEAD' });
 		expect(head.status).toBe(302);
 		expect(head.headers.get('location')).toMatch(/^https:\/\/shop\.torquehaven\.test\/p\/count\?utm_source=/);
 		expect(await clicksToday(code)).toBe(0);
-		expect((await fetch(`${baseUrl()}/go/${code}`, { redirect: 'manual' })).status).toBe(302);
+		expect((await follow(code)).status).toBe(302);
 		expect(await clicksToday(code)).toBe(1);
-		await Promise.all(Array.from({ length: 20 }, () => fetch(`${baseUrl()}/go/${code}`, { redirect: 'manual' })));
+		await Promise.all(Array.from({ length: 20 }, (_, i) => follow(code, {}, i % 2 ? phone : desktop)));
 		expect(await clicksToday(code)).toBe(21);
 		// One row per link and day, whatever the number of clicks.
 		expect(await sql(`SELECT day FROM link_click_day d JOIN tracked_link l ON l.id = d.link_id WHERE l.code = $1`, [code])).toHaveLength(1);
+	});
+
+	test('crawlers, link previews and scripts are sent on to the store but not counted', async () => {
+		const { code } = await linkedEpisode('https://shop.torquehaven.test/p/bots');
+		const agents = ['Mozilla/5.0 (compatible; ExampleCrawler/1.0; +http://example.test/bot.html)', 'curl/8.5.0', 'node', null];
+		for (const agent of agents) {
+			const response = await follow(code, {}, agent);
+			expect(response.status, String(agent)).toBe(302);
+			expect(response.headers.get('location'), String(agent)).toMatch(/^https:\/\/shop\.torquehaven\.test\/p\/bots\?utm_source=/);
+		}
+		expect(await clicksToday(code)).toBe(0);
+		expect((await follow(code, {}, phone)).status).toBe(302);
+		expect(await clicksToday(code)).toBe(1);
 	});
 
 	test('an unknown or malformed code is 404, for GET and HEAD, and nothing is counted', async () => {

@@ -1,18 +1,26 @@
+import { isbot } from 'isbot';
 import { followTrackedLink } from '$lib/server/tracked-links';
 import type { RequestHandler } from './$types';
 
 /**
  * The public short link. GET: 302 to the store page with campaign parameters, and one more click
- * today. HEAD: the same answer, not counted (link checkers and bots). Nothing about the visitor is
- * read or stored. `no-store` so every click reaches us instead of a cached redirect.
+ * today when a person's browser asked. Crawlers, link previews and scripts (a User-Agent the
+ * `isbot` list knows, or none at all) and every HEAD get the same answer, uncounted. Only the
+ * User-Agent is looked at, and nothing about the visitor is stored. `no-store` so every click
+ * reaches us instead of a cached redirect.
  */
 const headers = (location: string) => ({ location, 'cache-control': 'no-store', 'x-robots-tag': 'noindex' });
 
 const unknown = () =>
 	new Response('That link is unknown or was removed.\n', { status: 404, headers: { 'content-type': 'text/plain; charset=utf-8', 'cache-control': 'no-store' } });
 
-export const GET: RequestHandler = async ({ params }) => {
-	const target = await followTrackedLink(params.code, { count: true });
+const byPerson = (request: Request) => {
+	const agent = request.headers.get('user-agent')?.trim();
+	return Boolean(agent) && !isbot(agent);
+};
+
+export const GET: RequestHandler = async ({ params, request }) => {
+	const target = await followTrackedLink(params.code, { count: byPerson(request) });
 	return target ? new Response(null, { status: 302, headers: headers(target.location) }) : unknown();
 };
 
