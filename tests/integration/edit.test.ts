@@ -232,6 +232,43 @@ describe('chapters', () => {
 		expect((await editor().api(`${chaptersPath(id)}/${first.id}`, { method: 'DELETE' })).status).toBe(404);
 	});
 
+	test('a chapter names a part of its own channel only; removing that part clears the link and keeps the chapter', async () => {
+		const { id } = await newEpisode({ cut: 24576 });
+		const [ours] = await sql(`SELECT id FROM part WHERE channel_id = $1 LIMIT 1`, [torquehavenId]);
+		const [theirs] = await sql(
+			`INSERT INTO part (channel_id, sku, brand, name, category, price_cents, currency, store_url)
+			 SELECT id, $2, 'Ironbark Suspension', 'Other channel part', 'Test', 100, 'USD', 'https://shop.dunewagon.test/p/other'
+			 FROM channel WHERE id <> $1 LIMIT 1 RETURNING id`,
+			[torquehavenId, `OTHER-CHANNEL-${Date.now()}`]
+		);
+
+		const linked = await editor().api(chaptersPath(id), { method: 'POST', json: { startFrame: 0, title: 'Cold open', partId: ours.id } });
+		expect(linked.status).toBe(201);
+		expect(linked.body.chapter.partId).toBe(ours.id);
+
+		for (const partId of [theirs.id, '00000000-0000-4000-8000-000000000000']) {
+			const refused = await editor().api(chaptersPath(id), { method: 'POST', json: { startFrame: 900, title: 'Wrong part', partId } });
+			expect(refused.status).toBe(400);
+			expect(refused.body.issues.partId[0]).toContain("isn't in this channel's catalogue");
+			const relinked = await editor().api(`${chaptersPath(id)}/${linked.body.chapter.id}`, { method: 'PATCH', json: { version: linked.body.chapter.version, partId } });
+			expect(relinked.status).toBe(400);
+		}
+		// Nothing was saved by the refusals.
+		expect(await sql(`SELECT title, part_id, version FROM chapter WHERE episode_id = $1`, [id])).toEqual([{ title: 'Cold open', part_id: ours.id, version: 1 }]);
+
+		// The database holds the link too: a part that is gone clears it (ON DELETE SET NULL).
+		const [spare] = await sql(
+			`INSERT INTO part (channel_id, sku, brand, name, category, price_cents, currency, store_url)
+			 VALUES ($1, $2, 'Ironbark Suspension', 'Chapter link test part', 'Test', 100, 'USD', 'https://shop.torquehaven.test/p/chapter-link') RETURNING id`,
+			[torquehavenId, `CHAPTER-LINK-${Date.now()}`]
+		);
+		const moved = await editor().api(`${chaptersPath(id)}/${linked.body.chapter.id}`, { method: 'PATCH', json: { version: 1, partId: spare.id } });
+		expect(moved.status).toBe(200);
+		await sql(`DELETE FROM part WHERE id = $1`, [spare.id]);
+		expect(await sql(`SELECT title, part_id FROM chapter WHERE episode_id = $1`, [id])).toEqual([{ title: 'Cold open', part_id: null }]);
+		await expect(sql(`UPDATE chapter SET part_id = gen_random_uuid() WHERE episode_id = $1`, [id])).rejects.toThrow(/chapter_part_fk/);
+	});
+
 	test('a start typed as a clock time reads back as that second in the description text', async () => {
 		const { id } = await newEpisode({ cut: 24576 });
 		const [, late] = await addChapters(id, [

@@ -213,9 +213,20 @@ export async function setCutDuration(channelId: string, episodeId: string, input
 	return editStateFor(channelId, episodeId);
 }
 
+/** A chapter may name a part only from its own channel's catalogue. */
+async function checkChapterPart(channelId: string, partId: string | null | undefined): Promise<void> {
+	if (!partId) return;
+	const part = await db.selectFrom('part').select('id').where('id', '=', partId).where('channelId', '=', channelId).executeTakeFirst();
+	if (!part) {
+		const message = "That part isn't in this channel's catalogue. Pick one from Parts, or leave the chapter without a part.";
+		throw new DomainError(400, message, { partId: [message] });
+	}
+}
+
 /** Adds a chapter at a typed time or a frame; the rules it breaks come back in the state. */
 export async function addChapter(channelId: string, episodeId: string, input: ChapterCreate): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
+	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate)!;
 	const row = await db
 		.insertInto('chapter')
@@ -249,6 +260,7 @@ async function staleVersion(channelId: string, episodeId: string, chapterId: str
 export async function updateChapter(channelId: string, episodeId: string, chapterId: string, input: ChapterUpdate): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
+	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate);
 	const row = await db
 		.updateTable('chapter')
