@@ -291,4 +291,20 @@ describe('CSV export', () => {
 		const preview = (await importCsv(merch, 'preview', 'update', demoOnly)).body.preview;
 		expect(preview).toMatchObject({ errorCount: 0, updates: 0, creates: 0 });
 	});
+
+	test('a cell a spreadsheet would run as a formula is exported with a guard apostrophe and re-imports unchanged (OWASP CSV Injection)', async () => {
+		const note = '+2 in of lift needs longer brake lines; =check bump-stop gap';
+		const [{ fitment_note: before }] = await sql(`SELECT fitment_note FROM part WHERE sku = 'IBS-LB-300T'`);
+		await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'IBS-LB-300T'`, [note]);
+		try {
+			const text = await (await host.request('/api/parts/export')).text();
+			const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
+			expect(parsed.data.find((row) => row.sku === 'IBS-LB-300T')!.fitment_note).toBe(`'${note}`);
+			const demoOnly = Papa.unparse({ fields: parsed.meta.fields!, data: parsed.data.filter((row) => !row.sku.startsWith('BULK-')) }, { newline: '\r\n' });
+			const preview = (await importCsv(merch, 'preview', 'update', demoOnly)).body.preview;
+			expect(preview).toMatchObject({ errorCount: 0, updates: 0, creates: 0 });
+		} finally {
+			await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'IBS-LB-300T'`, [before]);
+		}
+	});
 });

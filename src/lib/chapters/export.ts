@@ -19,6 +19,7 @@ import {
 	type FrameRate
 } from '../timecode';
 import { nameChapter, sortChapters, type Chapter } from './rules';
+import { csvText } from '../csv';
 
 export type ChapterFormat = 'txt' | 'vtt' | 'ffmetadata' | 'json' | 'csv';
 
@@ -202,11 +203,6 @@ function secondsText(milliseconds: number): string {
 	return `${Math.floor(milliseconds / 1000)}.${String(milliseconds % 1000).padStart(3, '0')}`;
 }
 
-/** RFC 4180: a field with a comma, quote, CR or LF is quoted, and its quotes are doubled. */
-function csvField(text: string): string {
-	return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
 /** CSV with a header row and CRLF line ends (RFC 4180); the timecode is at the episode's rate. */
 function toCsv(chapters: TimedChapter[], options: ChapterExportOptions): string {
 	const rows = [['start_timecode', 'start_seconds', 'end_seconds', 'title']];
@@ -218,7 +214,7 @@ function toCsv(chapters: TimedChapter[], options: ChapterExportOptions): string 
 			chapter.title
 		]);
 	}
-	return rows.map((row) => `${row.map(csvField).join(',')}\r\n`).join('');
+	return csvText(rows);
 }
 
 /** The chapter list in one format, with the content type and file extension to serve it with. */

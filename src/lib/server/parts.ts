@@ -14,6 +14,7 @@
  * the parts whose SKU is in the file (an empty cell leaves that field as it is) and adds the rest.
  */
 import Papa from 'papaparse';
+import { csvText, unguardCell } from '$lib/csv';
 import { sql } from 'kysely';
 import { db } from './db';
 import type { PartTable } from './db/types';
@@ -320,7 +321,8 @@ function parseFile(csv: string): ParsedFile {
 	for (let index = headerIndex + 1; index < rows.length; index++) {
 		const cells = rows[index];
 		if (cells.every((cell) => cell.trim() === '')) continue;
-		records.push({ row: index + 1, cells });
+		// A cell our export guarded against spreadsheet formulas ('=…, '+…) reads back as it was.
+		records.push({ row: index + 1, cells: cells.map(unguardCell) });
 	}
 	return { headers, records, fileErrors };
 }
@@ -561,15 +563,19 @@ export const EXPORT_HEADERS: Record<ImportField, string> = {
 	status: 'status'
 };
 
-/** The whole catalogue as CSV (RFC 4180: CRLF line ends, quoted where needed), sorted by SKU. */
+/**
+ * The whole catalogue as CSV (RFC 4180: CRLF line ends, quoted where needed), sorted by SKU. It is
+ * opened in spreadsheets, so cells that would run as a formula are guarded (see `$lib/csv`); the
+ * import takes the guard off again.
+ */
 export async function exportPartsCsv(channelId: string, executor: Executor = db): Promise<string> {
 	const parts = await executor.selectFrom('part').select(partColumns).where('channelId', '=', channelId).orderBy('sku').execute();
-	return Papa.unparse(
-		{
-			fields: IMPORT_FIELDS.map((field) => EXPORT_HEADERS[field]),
-			data: parts.map((part) => [part.sku, part.name, part.category, part.brand, priceText(part.priceCents), part.currency, part.storeUrl, part.fitmentNote, part.status])
-		},
-		{ newline: '\r\n' }
+	return csvText(
+		[
+			IMPORT_FIELDS.map((field) => EXPORT_HEADERS[field]),
+			...parts.map((part) => [part.sku, part.name, part.category, part.brand, priceText(part.priceCents), part.currency, part.storeUrl, part.fitmentNote, part.status])
+		],
+		{ escapeFormulae: true }
 	);
 }
 

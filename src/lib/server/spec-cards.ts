@@ -33,6 +33,7 @@ import {
 	type SpecCardUpdate
 } from '$lib/schemas/spec-cards';
 import type { TimelineMark } from '$lib/components/timeline';
+import { csvText } from '$lib/csv';
 
 export interface SpecCardSegment {
 	id: string;
@@ -435,11 +436,6 @@ export function specCardExportRows(board: SpecCardBoard): SpecCardExportRow[] {
 	});
 }
 
-/** RFC 4180 §2: a field with a comma, a quote, CR or LF is enclosed in quotes, and its quotes are doubled. */
-function csvField(text: string): string {
-	return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
-}
-
 /**
  * CSV for a titler: one row per card, a header row, CRLF line ends (RFC 4180). Lines go in
  * numbered column triples (label, imperial, metric) up to the longest card; cautions share one
@@ -471,7 +467,7 @@ export function specCardsCsv(rows: SpecCardExportRow[]): string {
 		record.push(row.cautions.join('\n'));
 		records.push(record);
 	}
-	return records.map((record) => `${record.map(csvField).join(',')}\r\n`).join('');
+	return csvText(records);
 }
 
 export interface SpecCardDownload {
