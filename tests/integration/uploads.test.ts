@@ -245,6 +245,21 @@ describe('downloads and deletion', () => {
 		expect(clip.sha256).toBe(bigSha);
 		expect(clip.durationSeconds).toBeNull(); // random bytes are no video
 		expect(clip.probeNote).toMatch(/ffprobe/);
+		// The file is on disk, so the page offers Play and Download; the upload id stays private.
+		expect(clip.onDisk).toBe(true);
+		expect(clip).not.toHaveProperty('uploadId');
+	});
+
+	test('a demo clip with no file behind it is listed as not on the server, and its file answers 404 in words', async () => {
+		const [demoClip] = await sql(`SELECT f.id, f.episode_id FROM footage f WHERE f.upload_id LIKE 'demo-%' LIMIT 1`);
+		const producer = await signedIn(demo.producer);
+		const list = await producer.api(`/api/episodes/${demoClip.episode_id}/footage`);
+		expect(list.body.footage.find((f: { id: string }) => f.id === demoClip.id).onDisk).toBe(false);
+		const file = await producer.api(`/api/footage/${demoClip.id}/file`);
+		expect(file.status).toBe(404);
+		expect(file.body.error).toContain('not on the server');
+		const page = await (await producer.request(`/episodes/${demoClip.episode_id}/footage`)).text();
+		expect(page).toContain('No file on server');
 	});
 
 	test('only a producer deletes footage, and the file goes with the row', async () => {

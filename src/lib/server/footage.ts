@@ -1,5 +1,5 @@
 /** Footage and uploaded cuts of an episode: listing, the file behind a row, and deleting both together. */
-import { unlink } from 'node:fs/promises';
+import { access, unlink } from 'node:fs/promises';
 import path from 'node:path';
 import { db } from './db';
 import { DomainError, notFound } from './api';
@@ -25,6 +25,7 @@ export async function listFootage(
 		.leftJoin('person', 'person.id', 'footage.uploadedBy')
 		.select([
 			'footage.id',
+			'footage.uploadId',
 			'footage.purpose',
 			'footage.clipName',
 			'footage.fileName',
@@ -47,7 +48,12 @@ export async function listFootage(
 	if (options.camera) query = query.where('footage.cameraLabel', '=', options.camera);
 	if (options.purpose) query = query.where('footage.purpose', '=', options.purpose);
 	const rows = await query.orderBy(sortColumn[options.sort ?? 'created'], options.direction ?? 'desc').orderBy('footage.id').execute();
-	return { episode, footage: rows };
+	// Whether the file behind each row is on this server, so the page offers Play and Download only
+	// where they can work (the demo's rows, or a file removed from disk, have none).
+	const footage = await Promise.all(
+		rows.map(async ({ uploadId, ...row }) => ({ ...row, onDisk: await access(path.join(uploadDir(), uploadId)).then(() => true, () => false) }))
+	);
+	return { episode, footage };
 }
 
 export async function footageFile(channelId: string, footageId: string) {
