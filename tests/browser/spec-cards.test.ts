@@ -74,8 +74,8 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 	// 31.61 in → 32.71 in, 802.8 mm → 830.8 mm (handbook worked examples), shown to 0.1 in and whole mm.
 	expect(tyreLines).toContainEqual(['Overall diameter', '31.6 in → 32.7 in', '803 mm → 831 mm']);
 	expect(tyreLines).toContainEqual(['Diameter change', '+1.1 in', '+28 mm']);
-	// Half of 1.10 in = 0.55 in → 0.6 in; half of 28 mm = 14 mm (common practice).
-	expect(tyreLines).toContainEqual(['Axle height change (half the diameter change)', '+0.6 in', '+14 mm']);
+	// Half of 1.10 in = 0.55 in (shown to 0.01 in, half of a 0.1 in figure); half of 28 mm = 14 mm (common practice).
+	expect(tyreLines).toContainEqual(['Axle height change (half the diameter change)', '+0.55 in', '+14 mm']);
 	// 60 × 32.71 ÷ 31.61 = 62.09 mph; 100 × 32.71 ÷ 31.61 = 103.48 km/h.
 	expect(tyreLines).toContainEqual(['True speed at an indicated 60 mph / 100 km/h', '62.1 mph', '103.5 km/h']);
 
@@ -122,6 +122,6 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 		['tyre-change', dropFrameLabel(5395)],
 		['torque', dropFrameLabel(11089)]
 	]);
-	expect(placed[0]).toMatchObject({ heading: '265/70R17 → 285/70R17', line_1_imperial: '31.6 in → 32.7 in', line_1_metric: '803 mm → 831 mm', line_3_imperial: '+0.6 in' });
+	expect(placed[0]).toMatchObject({ heading: '265/70R17 → 285/70R17', line_1_imperial: '31.6 in → 32.7 in', line_1_metric: '803 mm → 831 mm', line_3_imperial: '+0.55 in' });
 	expect(placed[1]).toMatchObject({ heading: 'Lug nuts', line_1_imperial: '95 ft·lbf', line_1_metric: '129 N·m', cautions: "Verify against the manufacturer's instructions." });
 });

@@ -156,8 +156,9 @@ describe('creating and reading cards', () => {
 		expect(lineOf(card, 'Overall diameter')).toMatchObject({ imperial: '31.6 in → 32.7 in', metric: '803 mm → 831 mm' });
 		// 32.71 − 31.61 = 1.10 in; 830.8 − 802.8 = 28 mm.
 		expect(lineOf(card, 'Diameter change')).toMatchObject({ imperial: '+1.1 in', metric: '+28 mm' });
-		// Half the diameter change (common practice): 0.55 in → 0.6 at the card's 0.1 in; 14 mm.
-		expect(lineOf(card, 'Axle height change (half the diameter change)')).toMatchObject({ imperial: '+0.6 in', metric: '+14 mm' });
+		// Half the diameter change (common practice): 1.1024 in ÷ 2 = 0.5512 in, shown to 0.01 in
+		// because it is half of a figure shown to 0.1 in; 28 mm ÷ 2 = 14 mm.
+		expect(lineOf(card, 'Axle height change (half the diameter change)')).toMatchObject({ imperial: '+0.55 in', metric: '+14 mm' });
 		// 285 − 265 = 20 mm = 0.787 in.
 		expect(lineOf(card, 'Width change')).toMatchObject({ imperial: '+0.8 in', metric: '+20 mm' });
 		// 60 × 32.71 ÷ 31.61 = 62.09 mph; 100 × 32.71 ÷ 31.61 = 103.48 km/h.
@@ -366,7 +367,7 @@ describe('the export for the graphics', () => {
 			line_1_metric: '803 mm → 831 mm',
 			line_2_imperial: '+1.1 in',
 			line_2_metric: '+28 mm',
-			line_3_imperial: '+0.6 in',
+			line_3_imperial: '+0.55 in',
 			line_3_metric: '+14 mm',
 			line_5_imperial: '62.1 mph',
 			line_5_metric: '103.5 km/h'

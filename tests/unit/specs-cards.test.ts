@@ -45,7 +45,7 @@ describe('renderSpecCard: tyre change', () => {
 		expect(card.heading).toBe('265/70R17 → 285/70R17');
 		// 28 mm = 1.10 in diameter change; half of it, 14 mm = 0.55 in, under the axle (common practice).
 		expect(line(card, 'Diameter change')).toMatchObject({ imperial: '+1.1 in', metric: '+28 mm' });
-		expect(line(card, 'Axle height change (half the diameter change)')).toMatchObject({ imperial: '+0.6 in', metric: '+14 mm' });
+		expect(line(card, 'Axle height change (half the diameter change)')).toMatchObject({ imperial: '+0.55 in', metric: '+14 mm' });
 		// 60 × 830.8 ÷ 802.8 = 62.09 mph; 100 × 830.8 ÷ 802.8 = 103.49 km/h.
 		expect(line(card, 'True speed at an indicated 60 mph / 100 km/h')).toMatchObject({ imperial: '62.1 mph', metric: '103.5 km/h' });
 		// 616.60 − 638.10 = −21.5 → −22 per mile; 383.14 − 396.50 = −13.4 → −13 per km.

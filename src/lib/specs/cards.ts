@@ -23,6 +23,8 @@ export const SPEEDOMETER_CHECK_SPEEDS = { mph: 60, kmh: 100 } as const;
  */
 export const SPEC_CARD_PRECISION = {
 	lengthIn: 1,
+	/** Half of a length shown to 0.1 in needs one more decimal to read as half of it (1.1 in → 0.55 in). */
+	halfLengthIn: 2,
 	lengthMm: 0,
 	revolutions: 0,
 	speed: 1,
@@ -123,10 +125,10 @@ export function renderSpecCard(input: SpecCardInput): SpecCard {
 	}
 }
 
-function lengthLine(label: string, inches: number, millimetres: number, signed = false): SpecCardLine {
+function lengthLine(label: string, inches: number, millimetres: number, signed = false, inchDecimals: number = SPEC_CARD_PRECISION.lengthIn): SpecCardLine {
 	return {
 		label,
-		imperial: formatQuantity(inches, 'in', SPEC_CARD_PRECISION.lengthIn, { signed }),
+		imperial: formatQuantity(inches, 'in', inchDecimals, { signed }),
 		metric: formatQuantity(millimetres, 'mm', SPEC_CARD_PRECISION.lengthMm, { signed })
 	};
 }
@@ -168,7 +170,7 @@ function tyreChangeCard(from: TyreSize, to: TyreSize): SpecCard {
 				metric: `${formatQuantity(from.diameterMm, 'mm', lengthMm)} → ${formatQuantity(to.diameterMm, 'mm', lengthMm)}`
 			},
 			lengthLine('Diameter change', change.diameterChangeIn, change.diameterChangeMm, true),
-			lengthLine('Axle height change (half the diameter change)', change.groundClearanceChangeIn, change.groundClearanceChangeMm, true),
+			lengthLine('Axle height change (half the diameter change)', change.groundClearanceChangeIn, change.groundClearanceChangeMm, true, SPEC_CARD_PRECISION.halfLengthIn),
 			lengthLine('Width change', change.widthChangeIn, change.widthChangeMm, true),
 			{
 				label: `True speed at an indicated ${SPEEDOMETER_CHECK_SPEEDS.mph} mph / ${SPEEDOMETER_CHECK_SPEEDS.kmh} km/h`,
