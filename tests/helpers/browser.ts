@@ -17,19 +17,22 @@ export interface BrowserSession {
 	close(): Promise<void>;
 }
 
-export async function openBrowser(viewport = { width: 1280, height: 860 }): Promise<BrowserSession> {
+export async function openBrowser(viewport = { width: 1280, height: 860 }, options: { javaScript?: boolean } = {}): Promise<BrowserSession> {
+	const javaScript = options.javaScript ?? true;
 	const profile = mkdtempSync(path.join(tmpdir(), 'wrenchroll-chromium-'));
 	const context = await chromium.launchPersistentContext(profile, {
 		executablePath: CHROMIUM,
 		headless: true,
 		acceptDownloads: true,
 		viewport,
+		javaScriptEnabled: javaScript,
 		baseURL: inject('baseUrl'),
 		args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
 	});
 	context.setDefaultTimeout(15_000);
 	const page = context.pages()[0] ?? (await context.newPage());
-	waitForHydrationOnLoad(page);
+	// Without JavaScript nothing hydrates: pages are ready when they have loaded.
+	if (javaScript) waitForHydrationOnLoad(page);
 	return {
 		context,
 		page,
