@@ -90,3 +90,18 @@ export function forwardMoversText(stage: Stage): string {
 	const names: Record<Role, string> = { producer: 'producer', host: 'host', camera: 'camera operator', editor: 'editor', merch: 'merch team' };
 	return role ? `A producer or the assigned ${names[role]}` : 'A producer';
 }
+
+/**
+ * What the edit page may still change at a stage, as the reason it may not (null: it may).
+ * Picture lock fixes the cut's length; publishing fixes the chapters too, because they are in the
+ * live description. A producer who moves the episode back opens them again.
+ */
+export function editLocks(stage: Stage): { cut: string | null; chapters: string | null } {
+	const back = (to: Stage) => `A producer can move it back to ${STAGE_LABELS[to]} to change it.`;
+	if (stage === 'published') {
+		const why = 'This episode is published: its chapters are in the live description and the cut is final.';
+		return { cut: `${why} ${back('edit')}`, chapters: `${why} ${back('locked')}` };
+	}
+	if (stage === 'locked') return { cut: `The picture is locked, so the cut's length is final. ${back('edit')}`, chapters: null };
+	return { cut: null, chapters: null };
+}

@@ -77,12 +77,12 @@ async function inTorquehaven(email: string): Promise<Visitor> {
 
 let episodeSeq = 0;
 /** A fresh episode of the Torquehaven channel, so each test owns its chapters. */
-async function newEpisode(options: { rate?: string; cut?: number | null; slug?: string } = {}): Promise<{ id: string; slug: string }> {
+async function newEpisode(options: { rate?: string; cut?: number | null; slug?: string; stage?: string } = {}): Promise<{ id: string; slug: string }> {
 	const slug = options.slug ?? `edit-test-${Date.now()}-${episodeSeq++}`;
 	const [row] = await sql(
 		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage, cut_duration_frames)
-		 VALUES ($1, $2, $3, 600, $4, 'edit', $5) RETURNING id`,
-		[torquehavenId, `Test episode ${slug}`, slug, options.rate ?? '29.97', options.cut ?? null]
+		 VALUES ($1, $2, $3, 600, $4, $6, $5) RETURNING id`,
+		[torquehavenId, `Test episode ${slug}`, slug, options.rate ?? '29.97', options.cut ?? null, options.stage ?? 'edit']
 	);
 	return { id: row.id, slug };
 }
@@ -538,6 +538,51 @@ describe('exports refuse a list that breaks the rules', () => {
 		const tooShort = await editor().api(`${chaptersPath(short.id)}?format=csv`);
 		expect(tooShort.status).toBe(422);
 		expect(tooShort.body.problems).toEqual([{ chapterId: lift.id, field: 'start', message: 'Chapter 2 “Lift” is 9.9 s long; chapters need at least 10 s.' }]);
+	});
+});
+
+describe('what the stage has fixed', () => {
+	test('at picture lock the cut length is refused (409, in words) but chapters still change', async () => {
+		const { id } = await newEpisode({ cut: 24576, stage: 'locked' });
+		const state = (await editor().api(chaptersPath(id))).body;
+		expect(state.locks.cut).toContain('picture is locked');
+		expect(state.locks.chapters).toBeNull();
+		const cut = await editor().api(`/api/episodes/${id}/cut`, { method: 'PATCH', json: { duration: '00:14:00;00' } });
+		expect(cut.status).toBe(409);
+		expect(cut.body.error).toContain('move it back to Edit');
+		expect((await sql(`SELECT cut_duration_frames FROM episode WHERE id = $1`, [id]))[0].cut_duration_frames).toBe(24576);
+		const [chapter] = await addChapters(id, [{ startFrame: 0, title: 'Cold open' }]);
+		expect(chapter.title).toBe('Cold open');
+	});
+
+	test('once published, chapters and the cut are refused for the editor and the producer alike, and nothing changes', async () => {
+		const { id } = await newEpisode({ cut: 24576 });
+		const [first] = await addChapters(id, [{ startFrame: 0, title: 'Cold open' }]);
+		await sql(`UPDATE episode SET stage = 'published' WHERE id = $1`, [id]);
+		for (const who of [editor(), visitors.producer!]) {
+			const added = await who.api(chaptersPath(id), { method: 'POST', json: { startFrame: 900, title: 'Late addition' } });
+			expect(added.status).toBe(409);
+			expect(added.body.error).toContain('published');
+			expect((await who.api(`${chaptersPath(id)}/${first.id}`, { method: 'PATCH', json: { version: first.version, title: 'Renamed' } })).status).toBe(409);
+			expect((await who.api(`${chaptersPath(id)}/${first.id}?version=${first.version}`, { method: 'DELETE' })).status).toBe(409);
+			expect((await who.api(`/api/episodes/${id}/cut`, { method: 'PATCH', json: { duration: '00:14:00;00' } })).status).toBe(409);
+		}
+		expect(await sql(`SELECT title, version FROM chapter WHERE episode_id = $1`, [id])).toEqual([{ title: 'Cold open', version: 1 }]);
+		// Moved back to picture lock, the chapters open again.
+		await sql(`UPDATE episode SET stage = 'locked' WHERE id = $1`, [id]);
+		expect((await editor().api(`${chaptersPath(id)}/${first.id}`, { method: 'PATCH', json: { version: first.version, title: 'Renamed' } })).status).toBe(200);
+	});
+
+	test('without JavaScript a published episode’s chapter form answers 409 with the reason', async () => {
+		const { id } = await newEpisode({ cut: 24576, stage: 'published' });
+		const answer = await editor().action(`/episodes/${id}/edit?/addChapter`, { start: '0:00', title: 'Cold open' });
+		expect(answer.status).toBe(409);
+		expect(answer.data.errors.form[0]).toContain('published');
+		expect(await sql(`SELECT 1 FROM chapter WHERE episode_id = $1`, [id])).toEqual([]);
+		// The page says why up front and offers no chapter form.
+		const page = await (await editor().request(`/episodes/${id}/edit`)).text();
+		expect(page).toContain('This episode is published');
+		expect(page).not.toContain('action="?/addChapter"');
 	});
 });
 

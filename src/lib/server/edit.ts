@@ -30,6 +30,7 @@ import {
 	type FrameRate
 } from '$lib/timecode';
 import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
+import { editLocks, type Stage } from '$lib/stages';
 
 /** The shared instance or an open transaction (a Transaction is a Kysely). */
 export type Executor = Kysely<Database>;
@@ -58,6 +59,8 @@ export interface EditState {
 	/** In start order, the order the crew sees them in. */
 	chapters: EditChapter[];
 	problems: EditProblem[];
+	/** Why the cut's length or the chapters can't change at this stage (null: they can). */
+	locks: { cut: string | null; chapters: string | null };
 }
 
 const episodeNotFound = () => notFound('That episode');
@@ -134,7 +137,8 @@ function stateOf(row: EpisodeWithChapters): EditState {
 			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
 		},
 		chapters,
-		problems: problemsOf(row.chapters, row.cutDurationFrames, rate)
+		problems: problemsOf(row.chapters, row.cutDurationFrames, rate),
+		locks: editLocks(row.stage as Stage)
 	};
 }
 
@@ -176,12 +180,17 @@ async function scopedEpisode(executor: Executor, channelId: string, episodeId: s
 	if (!isUuid(episodeId)) throw episodeNotFound();
 	const episode = await executor
 		.selectFrom('episode')
-		.select(['id', 'frameRate', 'cutDurationFrames'])
+		.select(['id', 'frameRate', 'cutDurationFrames', 'stage'])
 		.where('id', '=', episodeId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!episode) throw episodeNotFound();
-	return { ...episode, rate: rateOf(episode) };
+	return { ...episode, rate: rateOf(episode), locks: editLocks(episode.stage as Stage) };
+}
+
+/** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
+function refuseLocked(reason: string | null): void {
+	if (reason) throw new DomainError(409, reason);
 }
 
 function startFrameOf(input: { start?: string; startFrame?: number }, rate: FrameRate): number | undefined {
@@ -193,6 +202,7 @@ function startFrameOf(input: { start?: string; startFrame?: number }, rate: Fram
 /** Sets how long the cut runs, from timecode or clock text at the episode's rate. */
 export async function setCutDuration(channelId: string, episodeId: string, input: CutUpdate): Promise<EditState> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
+	refuseLocked(episode.locks.cut);
 	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
 	const frames = readTyped('duration', () => parseTimecode(input.duration, episode.rate, { dropFrame: defaultDropFrame(episode.rate) }));
 	if (frames <= 0) {
@@ -226,6 +236,7 @@ async function checkChapterPart(channelId: string, partId: string | null | undef
 /** Adds a chapter at a typed time or a frame; the rules it breaks come back in the state. */
 export async function addChapter(channelId: string, episodeId: string, input: ChapterCreate): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
+	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate)!;
 	const row = await db
@@ -260,6 +271,7 @@ async function staleVersion(channelId: string, episodeId: string, chapterId: str
 export async function updateChapter(channelId: string, episodeId: string, chapterId: string, input: ChapterUpdate): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
+	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate);
 	const row = await db
@@ -284,6 +296,7 @@ export async function updateChapter(channelId: string, episodeId: string, chapte
 export async function deleteChapter(channelId: string, episodeId: string, chapterId: string, version?: number): Promise<{ removed: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
+	refuseLocked(episode.locks.chapters);
 	let removal = db.deleteFrom('chapter').where('id', '=', chapterId).where('episodeId', '=', episode.id);
 	if (version !== undefined) removal = removal.where('version', '=', version);
 	const row = await removal.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version']).executeTakeFirst();
