@@ -1,5 +1,7 @@
 import { redirect, json, type Handle, type ServerInit, type HandleServerError } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { getToken } from '@auth/core/jwt';
+import { env } from '$env/dynamic/private';
 import { authHandle } from './auth';
 import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/identity';
 import { startMailSender } from '$lib/server/mail/outbox';
@@ -30,15 +32,15 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 		return resolve(event);
 	}
 
-	let session: { sid?: string } | null = null;
-	try {
-		session = (await event.locals.auth()) as { sid?: string } | null;
-	} catch {
-		session = null; // a forged or stale cookie is simply no session
-	}
-	if (session?.sid) {
-		const identity = await identityFromSession(session.sid, event.cookies.get(CHANNEL_COOKIE));
-		if (identity.person) Object.assign(event.locals, identity, { via: 'session', sessionId: session.sid });
+	// The Auth.js session cookie only carries the session id, so it is decoded here with Auth.js's
+	// own getToken (same cookie name, salt and secret) instead of a full round through its session
+	// endpoint, which would also re-encrypt the cookie on every request. A forged, stale or expired
+	// cookie decodes to null: simply no session.
+	const token = await getToken({ req: event.request, secret: env.AUTH_SECRET, secureCookie: event.url.protocol === 'https:' }).catch(() => null);
+	const sid = typeof token?.sid === 'string' ? token.sid : undefined;
+	if (sid) {
+		const identity = await identityFromSession(sid, event.cookies.get(CHANNEL_COOKIE));
+		if (identity.person) Object.assign(event.locals, identity, { via: 'session', sessionId: sid });
 	}
 	return resolve(event);
 };

@@ -3,7 +3,6 @@ import { sql } from 'kysely';
 import { db } from './db';
 import type { Role } from './db/types';
 import { hashSecret } from './secrets';
-import { personForSession } from './sessions';
 
 export const CHANNEL_COOKIE = 'wr_channel';
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -29,8 +28,13 @@ async function activeChannels(personId: string) {
 		.execute();
 }
 
+type Membership = Awaited<ReturnType<typeof activeChannels>>[number];
+
 async function identityFor(person: NonNullable<App.Locals['person']>, wantedChannel: string | null | undefined, onlyChannel?: string): Promise<Identity> {
-	const memberships = await activeChannels(person.id);
+	return identityOf(person, await activeChannels(person.id), wantedChannel, onlyChannel);
+}
+
+function identityOf(person: NonNullable<App.Locals['person']>, memberships: Membership[], wantedChannel: string | null | undefined, onlyChannel?: string): Identity {
 	const usable = onlyChannel ? memberships.filter((m) => m.id === onlyChannel) : memberships;
 	if (usable.length === 0) return nobody; // every membership disabled: no access at all
 	const current = usable.find((m) => m.id === wantedChannel) ?? usable[0];
@@ -42,10 +46,30 @@ async function identityFor(person: NonNullable<App.Locals['person']>, wantedChan
 	};
 }
 
+/**
+ * The person behind a live session with their active channels, in one query (it runs on every
+ * request): no row when the session is gone or expired, or every membership is disabled.
+ */
 export async function identityFromSession(sessionId: string | undefined, wantedChannel: string | undefined): Promise<Identity> {
 	if (!isUuid(sessionId)) return nobody;
-	const person = await personForSession(sessionId);
-	return person ? identityFor(person, wantedChannel) : nobody;
+	const rows = await db
+		.selectFrom('personSession')
+		.innerJoin('person', 'person.id', 'personSession.personId')
+		.innerJoin('membership', 'membership.personId', 'person.id')
+		.innerJoin('channel', 'channel.id', 'membership.channelId')
+		.select(['person.id as personId', 'person.email', 'person.name as personName', 'channel.id', 'channel.name', 'channel.frameRate', 'membership.roles'])
+		.where('personSession.id', '=', sessionId)
+		.where('personSession.expiresAt', '>', sql<Date>`now()`)
+		.where('membership.disabledAt', 'is', null)
+		.orderBy('channel.name')
+		.execute();
+	if (rows.length === 0) return nobody;
+	const { personId, email, personName } = rows[0];
+	return identityOf(
+		{ id: personId, email, name: personName },
+		rows.map(({ id, name, frameRate, roles }) => ({ id, name, frameRate, roles })),
+		wantedChannel
+	);
 }
 
 /** A bearer token works in the one channel it was created in. Revoked tokens and disabled memberships get nothing. */

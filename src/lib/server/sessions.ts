@@ -61,12 +61,3 @@ export async function closeAllSessions(personId: string): Promise<void> {
 	await db.deleteFrom('personSession').where('personId', '=', personId).execute();
 }
 
-export async function personForSession(sessionId: string) {
-	return db
-		.selectFrom('personSession')
-		.innerJoin('person', 'person.id', 'personSession.personId')
-		.select(['person.id', 'person.email', 'person.name'])
-		.where('personSession.id', '=', sessionId)
-		.where('personSession.expiresAt', '>', sql<Date>`now()`)
-		.executeTakeFirst();
-}
