@@ -414,7 +414,7 @@ const DEMO_BITRATE_MBPS = 100;
  */
 async function demoFootage(
 	trx: Transaction<Database>,
-	input: { channelId: string; episodeId: string; clipName: string; camera: string; seconds: number; rate: FrameRate; uploadedBy: string }
+	input: { channelId: string; episodeId: string; clipName: string; camera: string; seconds: number; rate: FrameRate; uploadedBy: string; uploadedAt: Date }
 ): Promise<string> {
 	const row = await trx
 		.insertInto('footage')
@@ -433,7 +433,8 @@ async function demoFootage(
 			frameRate: input.rate,
 			videoCodec: null,
 			probeNote: 'Demo data: this clip has no file on disk.',
-			uploadedBy: input.uploadedBy
+			uploadedBy: input.uploadedBy,
+			createdAt: input.uploadedAt
 		})
 		.returning('id')
 		.executeTakeFirstOrThrow();
@@ -531,7 +532,10 @@ export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedC
 				for (const [clipName, sourceIn, sourceOut, good, withFootage, note] of shot.takes ?? []) {
 					const sourceInFrames = frames(sourceIn, rate);
 					const sourceOutFrames = frames(sourceOut, rate);
-					const footageId = withFootage ? await demoFootage(trx, { channelId: episode.channelId, episodeId: episode.id, clipName, camera: shot.camera, seconds: framesToSeconds(sourceOutFrames - sourceInFrames, rate), rate, uploadedBy: person(uploader(slug)) }) : null;
+					// Rushes go up the day the episode moved to the edit (or the latest move, if it hasn't yet).
+					const rushesUp = (seed.history.find((move) => move.to === 'edit') ?? seed.history[seed.history.length - 1]).daysAgo;
+					const uploadedAt = daysAgo(rushesUp, index + shotIndex);
+					const footageId = withFootage ? await demoFootage(trx, { channelId: episode.channelId, episodeId: episode.id, clipName, camera: shot.camera, seconds: framesToSeconds(sourceOutFrames - sourceInFrames, rate), rate, uploadedBy: person(uploader(slug)), uploadedAt }) : null;
 					await trx.insertInto('take').values({ shotId: shotRow.id, clipName, sourceInFrames, sourceOutFrames, good, note: note ?? '', footageId }).execute();
 				}
 			}
