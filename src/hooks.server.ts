@@ -4,15 +4,16 @@ import { getToken } from '@auth/core/jwt';
 import { env } from '$env/dynamic/private';
 import { authHandle } from './auth';
 import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/identity';
-import { startMailSender } from '$lib/server/mail/outbox';
+import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/uploads';
 import { UPLOAD_PATH } from '$lib/uploads';
 
 export const init: ServerInit = async () => {
 	startMailSender();
-	// adapter-node emits this after it stops taking requests: close the pool so the process can exit.
-	process.on('sveltekit:shutdown', () => void db.destroy());
+	// adapter-node emits this after it stops taking requests: stop the mail sender, then close the
+	// pool so the process can exit.
+	process.on('sveltekit:shutdown', () => void stopMailSender().then(() => db.destroy()));
 };
 
 /** Reads the person, roles and channel from the database on every request (a disabled account loses access at once). */

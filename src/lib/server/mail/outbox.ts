@@ -84,8 +84,10 @@ export async function deliverDueMail(limit = 20): Promise<number> {
 let timer: ReturnType<typeof setTimeout> | null = null;
 let running = false;
 let again = false;
+let stopped = false;
 
 async function tick() {
+	if (stopped) return;
 	if (running) {
 		again = true;
 		return;
@@ -98,17 +100,30 @@ async function tick() {
 	} finally {
 		running = false;
 	}
-	if (again) {
+	if (again && !stopped) {
 		again = false;
 		void tick();
 	}
 }
 
+/**
+ * Stops the sender for shutdown and waits for a round in progress to finish, so the database pool
+ * can close without a half-sent round. Mail still queued is sent by the next start.
+ */
+export async function stopMailSender(): Promise<void> {
+	stopped = true;
+	if (timer) clearTimeout(timer);
+	timer = null;
+	while (running) await new Promise((resolve) => setTimeout(resolve, 20));
+}
+
 /** Runs the sender every few seconds for the life of the server. */
 export function startMailSender(intervalMs = Number(env.MAIL_INTERVAL_MS ?? 3000)): void {
 	if (timer) return;
+	stopped = false;
 	const loop = async () => {
 		await tick();
+		if (stopped) return;
 		timer = setTimeout(loop, intervalMs);
 		timer.unref?.();
 	};
