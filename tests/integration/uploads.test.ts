@@ -4,7 +4,7 @@
  * a server killed mid-upload, role and input checks, range downloads (RFC 9110 §14) and deletion.
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { createReadStream, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, existsSync } from 'node:fs';
+import { copyFileSync, createReadStream, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
@@ -185,7 +185,11 @@ describe('who may upload, and what', () => {
 		expect((await tryCreate(camera, fields, String(51 * 1024 ** 3))).status).toBe(413);
 		const badType = await tryCreate(camera, { ...fields, filename: 'run.sh', filetype: 'application/x-sh' });
 		expect(badType.status).toBe(400);
-		expect(await badType.text()).toMatch(/Only video, audio and image/);
+		expect(await badType.text()).toMatch(/Only video, audio and still-image files/);
+		// An SVG is an image type but a document that can carry script (W3C SVG 1.1 §18 Scripting).
+		for (const filetype of ['image/svg+xml', 'image/SVG+XML', 'image/foo+xml']) {
+			expect((await tryCreate(camera, { ...fields, filename: 'badge.svg', filetype })).status, filetype).toBe(400);
+		}
 		const [other] = await sql(`SELECT id FROM episode WHERE slug = 'sandpiper-brake-refresh'`);
 		expect((await tryCreate(camera, { ...fields, episodeId: other.id })).status).toBe(404);
 		const host = await signedIn(demo.host);
@@ -236,6 +240,33 @@ describe('downloads and deletion', () => {
 		expect(beyond.status).toBe(416);
 		const other = await signedIn(demo.otherProducer);
 		expect((await other.request(`/api/footage/${footageId}/file`)).status).toBe(404);
+	});
+
+	test('a clip is served with nosniff and a sandbox policy; a type that is not media goes out as a plain download', async () => {
+		// RFC 9110 §8.3 Content-Type; X-Content-Type-Options (WHATWG Fetch §"X-Content-Type-Options");
+		// CSP Level 3 "sandbox" directive: a file opened on its own runs no script.
+		const media = await camera.request(`/api/footage/${footageId}/file`);
+		expect(media.headers.get('content-type')).toBe('video/mp4');
+		expect(media.headers.get('content-disposition')).toMatch(/^inline;/);
+		expect(media.headers.get('x-content-type-options')).toBe('nosniff');
+		expect(media.headers.get('content-security-policy')).toMatch(/^sandbox/);
+		await media.arrayBuffer();
+		// A row from before SVG was refused: copy the stored file under a new id and label it SVG.
+		const [row] = await sql(`SELECT * FROM footage WHERE id = $1`, [footageId]);
+		const copyId = `svg-${Date.now()}`;
+		copyFileSync(path.join(inject('uploadDir'), row.upload_id), path.join(inject('uploadDir'), copyId));
+		const [svg] = await sql(
+			`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, camera_label, clip_name, file_name, file_type, size_bytes, sha256, uploaded_by)
+			 VALUES ($1, $2, $3, 'footage', '', 'badge', 'badge.svg', 'image/svg+xml', $4, $5, $6) RETURNING id`,
+			[row.channel_id, row.episode_id, copyId, row.size_bytes, row.sha256, row.uploaded_by]
+		);
+		const served = await camera.request(`/api/footage/${svg.id}/file`);
+		expect(served.status).toBe(200);
+		expect(served.headers.get('content-type')).toBe('application/octet-stream');
+		expect(served.headers.get('content-disposition')).toMatch(/^attachment;/);
+		await served.arrayBuffer();
+		await sql(`DELETE FROM footage WHERE id = $1`, [svg.id]);
+		rmSync(path.join(inject('uploadDir'), copyId), { force: true });
 	});
 
 	test('the footage list shows the clip with its hash; ffprobe fields are empty with a reason when it is missing or the file is not media', async () => {

@@ -33,7 +33,7 @@ const metadataSchema = z.object({
 	episodeId: z.string().refine(isUuid, 'episodeId must be an episode of this channel.'),
 	purpose: z.enum(['footage', 'cut']).default('footage'),
 	filename: z.string().min(1, 'filename is required.').max(1000),
-	filetype: z.string().regex(ALLOWED_UPLOAD_TYPE, 'Only video, audio and image files can be uploaded.'),
+	filetype: z.string().regex(ALLOWED_UPLOAD_TYPE, 'Only video, audio and still-image files can be uploaded; SVG and other markup files are refused.'),
 	clipName: z.string().trim().max(120).optional(),
 	cameraLabel: z.string().trim().max(40).optional(),
 	shootDayId: z.string().refine(isUuid, 'shootDayId must be a shoot day of this episode.').optional()

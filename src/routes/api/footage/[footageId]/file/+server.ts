@@ -5,6 +5,7 @@ import parseRange from 'range-parser';
 import { api, DomainError } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
 import { footageFile } from '$lib/server/footage';
+import { INLINE_TYPE } from '$lib/uploads';
 import type { RequestHandler } from './$types';
 
 /**
@@ -20,11 +21,17 @@ export const GET: RequestHandler = api(async (event) => {
 			throw new DomainError(404, 'The file behind this clip is not on the server (demo data, or removed from disk).');
 		}
 	);
+	// The type was the uploader's word. Only media a browser plays or shows in place is served as
+	// that type and inline; anything else is a plain download. Either way the browser may not
+	// guess another type (nosniff), and a file opened on its own runs no script (CSP sandbox).
+	const inline = INLINE_TYPE.test(file.fileType);
 	const headers: Record<string, string> = {
-		'Content-Type': file.fileType,
+		'Content-Type': inline ? file.fileType : 'application/octet-stream',
 		'Accept-Ranges': 'bytes',
-		'Content-Disposition': `${event.url.searchParams.has('download') ? 'attachment' : 'inline'}; filename*=UTF-8''${encodeURIComponent(file.fileName)}`,
-		'Cache-Control': 'private, max-age=3600'
+		'Content-Disposition': `${inline && !event.url.searchParams.has('download') ? 'inline' : 'attachment'}; filename*=UTF-8''${encodeURIComponent(file.fileName)}`,
+		'Cache-Control': 'private, max-age=3600',
+		'X-Content-Type-Options': 'nosniff',
+		'Content-Security-Policy': "sandbox; default-src 'none'"
 	};
 	const rangeHeader = event.request.headers.get('range');
 	if (rangeHeader) {
