@@ -4,7 +4,7 @@
  * session handling follows OWASP ASVS 4.0 V3 (server-side invalidation on sign-out and reset).
  */
 import { describe, expect, test } from 'vitest';
-import { DEMO_PASSWORD, Visitor, demo, linkIn, mailTo, signedIn, sql } from '../helpers/http';
+import { DEMO_PASSWORD, Visitor, baseUrl, demo, linkIn, mailTo, signedIn, sql } from '../helpers/http';
 
 describe('sign-in', () => {
 	test('a crew member signs in with e-mail and password and /api/me names them, their channel and roles', async () => {
@@ -60,6 +60,36 @@ describe('sign-in', () => {
 		const page = await visitor.request('/crew');
 		expect(page.status).toBe(303);
 		expect(page.headers.get('location')).toMatch(/^\/signin\?next=/);
+	});
+});
+
+describe('where sign-in sends you next', () => {
+	// Browsers read "\\" in a URL as "/" (WHATWG URL Standard, special schemes), so "/\\host" and
+	// "//host" both name another host: an open redirect if followed (OWASP Unvalidated Redirects).
+	const offSite = ['//evil.example/x', '/\\evil.example/x', 'https://evil.example/x', '/\t/evil.example'];
+
+	test('a signed-in visitor sent to /signin?next=… stays on this site', async () => {
+		const visitor = await signedIn(demo.host);
+		for (const next of offSite) {
+			const answer = await visitor.request(`/signin?next=${encodeURIComponent(next)}`);
+			expect(answer.status, next).toBe(303);
+			const location = answer.headers.get('location')!;
+			expect(new URL(location, baseUrl()).origin, next).toBe(baseUrl());
+		}
+		const inside = await visitor.request(`/signin?next=${encodeURIComponent('/parts?q=coil')}`);
+		expect(inside.headers.get('location')).toBe('/parts?q=coil');
+	});
+
+	test('signing in with an off-site next lands on the bench; an on-site next is kept', async () => {
+		for (const next of offSite) {
+			const visitor = new Visitor();
+			const answer = await visitor.request('/signin', { method: 'POST', form: { email: demo.host, password: DEMO_PASSWORD, next } });
+			expect(answer.status, next).toBe(303);
+			expect(new URL(answer.headers.get('location')!, baseUrl()).origin, next).toBe(baseUrl());
+		}
+		const visitor = new Visitor();
+		const answer = await visitor.request('/signin', { method: 'POST', form: { email: demo.host, password: DEMO_PASSWORD, next: '/episodes' } });
+		expect(answer.headers.get('location')).toBe('/episodes');
 	});
 });
 

@@ -6,7 +6,22 @@ import { fieldIssues } from '$lib/server/api';
 import { withFormBody } from '$lib/server/forward';
 import type { Actions, PageServerLoad } from './$types';
 
-const safeNext = (next: string | null) => (next && next.startsWith('/') && !next.startsWith('//') ? next : '/');
+/**
+ * Where to go after signing in: only a path on this site. The address is resolved the way a browser
+ * would (WHATWG URL: "\\" counts as "/", so "/\\evil.example" is another host) and kept only when it
+ * stays on our origin; then only its path and query are used.
+ */
+const safeNext = (next: string | null) => {
+	if (!next || !next.startsWith('/')) return '/';
+	const base = 'http://wrenchroll.invalid';
+	let target: URL;
+	try {
+		target = new URL(next, base);
+	} catch {
+		return '/';
+	}
+	return target.origin === base ? target.pathname + target.search : '/';
+};
 
 export const load = (async ({ locals, url }) => {
 	if (locals.person) redirect(303, safeNext(url.searchParams.get('next')));
@@ -59,7 +74,7 @@ export const actions = {
 			if (isRedirect(outcome)) {
 				const target = new URL(outcome.location, event.url);
 				if (target.searchParams.has('error')) return refuse(target.searchParams.get('code') === 'throttled');
-				redirect(303, target.pathname + target.search);
+				redirect(303, target.origin === event.url.origin ? safeNext(target.pathname + target.search) : '/');
 			}
 			// Auth.js throws its CredentialsSignin error (or our throttling subclass) for a refused sign-in.
 			if (outcome instanceof CredentialsSignin) return refuse(outcome.code === 'throttled');
