@@ -1,8 +1,8 @@
 import { error, json } from '@sveltejs/kit';
-import { mailboxEnabled, readMailbox } from '$lib/server/mail/mailbox';
+import { mailboxOpenTo, readMailbox } from '$lib/server/mail/mailbox';
 import type { RequestHandler } from './$types';
 
-export const GET: RequestHandler = async () => {
-	if (!mailboxEnabled()) error(404, 'Not found.');
+export const GET: RequestHandler = async (event) => {
+	if (!mailboxOpenTo(event)) error(404, 'Not found.');
 	return json({ messages: await readMailbox() });
 };
