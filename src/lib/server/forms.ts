@@ -1,6 +1,6 @@
 /** Small helpers for form actions: validate FormData with zod and turn domain errors into fail(). */
 import { error, fail, type ActionFailure } from '@sveltejs/kit';
-import type { z } from 'zod';
+import { z } from 'zod';
 import { DomainError, fieldIssues } from './api';
 
 export type FormErrors = Record<string, string[]>;
@@ -32,4 +32,13 @@ export async function forPage<T>(work: () => Promise<T>): Promise<T> {
 		if (failure instanceof DomainError) error(failure.status, failure.message);
 		throw failure;
 	}
+}
+
+const RELOAD = 'Reload the page and try again: the form did not say which version you were looking at.';
+const versionSchema = z.object({ version: z.coerce.number({ error: RELOAD }).int(RELOAD).min(1, RELOAD) });
+
+/** The `version` a form carries for its optimistic lock (a whole number from 1), or the field error. */
+export function readVersion(form: FormData): { ok: true; version: number } | { ok: false; errors: FormErrors } {
+	const parsed = parseForm(versionSchema, { version: form.get('version') ?? undefined });
+	return parsed.ok ? { ok: true, version: parsed.data.version } : parsed;
 }

@@ -254,6 +254,8 @@ export async function createProfile(channelId: string, input: z.infer<typeof pro
 
 export async function deleteProfile(channelId: string, profileId: string) {
 	if (!isUuid(profileId)) throw notFound('That recording profile');
+	const profile = await db.selectFrom('recordingProfile').select('id').where('id', '=', profileId).where('channelId', '=', channelId).executeTakeFirst();
+	if (!profile) throw notFound('That recording profile');
 	const inUse = await db.selectFrom('shootDayCamera').select('id').where('profileId', '=', profileId).executeTakeFirst();
 	if (inUse) throw new DomainError(409, 'A shoot day uses this profile: change that camera first.');
 	const result = await db.deleteFrom('recordingProfile').where('id', '=', profileId).where('channelId', '=', channelId).executeTakeFirst();

@@ -24,13 +24,15 @@ export async function createToken(personId: string, channelId: string, label: st
 	return { ...row, token: secret };
 }
 
-export async function revokeToken(personId: string, tokenId: string) {
+/** Revokes one of the person's tokens for the channel they are working in (the list shows no others). */
+export async function revokeToken(personId: string, channelId: string, tokenId: string) {
 	if (!isUuid(tokenId)) throw notFound('That token');
 	const result = await db
 		.updateTable('apiToken')
 		.set({ revokedAt: new Date() })
 		.where('id', '=', tokenId)
 		.where('personId', '=', personId)
+		.where('channelId', '=', channelId)
 		.where('revokedAt', 'is', null)
 		.executeTakeFirst();
 	if (Number(result.numUpdatedRows) === 0) throw notFound('That token');

@@ -21,10 +21,10 @@ export const actions = {
 		return { created: { label: created.label, token: created.token } };
 	},
 	revokeToken: async (event) => {
-		const { person } = requireRole(event);
+		const { person, channel } = requireRole(event);
 		const form = await event.request.formData();
 		const id = String(form.get('id') ?? '');
-		const result = await attempt({ id }, () => revokeToken(person.id, id));
+		const result = await attempt({ id }, () => revokeToken(person.id, channel.id, id));
 		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
 		return { revoked: true };
 	}

@@ -1,4 +1,4 @@
-import { json } from '@sveltejs/kit';
+import { error, json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
 import { createToken, listTokens } from '$lib/server/tokens';
@@ -10,9 +10,13 @@ export const GET: RequestHandler = api(async (event) => {
 	return json({ tokens: await listTokens(person.id, channel.id) });
 });
 
-/** The token's secret is in this answer and nowhere else, ever. */
+/**
+ * The token's secret is in this answer and nowhere else, ever. Only a signed-in person makes tokens:
+ * a token that could make more would outlive its own revocation.
+ */
 export const POST: RequestHandler = api(async (event) => {
 	const { person, channel } = requireRole(event);
+	if (event.locals.via === 'token') error(403, 'Make new tokens while signed in, under Account; an API token cannot make another.');
 	const { label } = await readJson(event, tokenCreateSchema);
 	return json({ token: await createToken(person.id, channel.id, label) }, { status: 201 });
 });

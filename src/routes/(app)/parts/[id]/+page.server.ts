@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/guard';
-import { attempt, forPage, parseForm } from '$lib/server/forms';
+import { attempt, forPage, parseForm, readVersion } from '$lib/server/forms';
 import { partDetail, priceText, removePart, updatePart } from '$lib/server/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
 import { partFormValues } from '../part-form';
@@ -28,14 +28,18 @@ export const actions = {
 	},
 	retire: async (event) => {
 		const { channel } = requireRole(event, 'merch', 'producer');
-		const values = { version: versionOf(await event.request.formData()), status: 'discontinued' as const };
+		const read = readVersion(await event.request.formData());
+		if (!read.ok) return fail(400, { action: 'retire', errors: read.errors, values: {} });
+		const values = { version: read.version, status: 'discontinued' as const };
 		const result = await attempt(values, async () => ({ part: await updatePart(channel.id, event.params.id, values) }));
 		if (!('part' in result)) return fail(result.status, { action: 'retire', ...result.data });
 		return { action: 'retire', saved: true };
 	},
 	remove: async (event) => {
 		const { channel } = requireRole(event, 'merch', 'producer');
-		const values = { version: versionOf(await event.request.formData()) };
+		const read = readVersion(await event.request.formData());
+		if (!read.ok) return fail(400, { action: 'remove', errors: read.errors, values: {} });
+		const values = { version: read.version };
 		const result = await attempt(values, async () => ({ part: await removePart(channel.id, event.params.id, values.version) }));
 		if (!('part' in result)) return fail(result.status, { action: 'remove', ...result.data });
 		redirect(303, '/parts');

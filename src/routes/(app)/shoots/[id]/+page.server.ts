@@ -4,6 +4,7 @@ import { requireRole, hasRole } from '$lib/server/guard';
 import * as days from '$lib/server/shoot-days';
 import { cameraSchema, gearSchema, idListSchema, onHandSchema, plannerSchema, pullItemSchema, shootDayUpdateSchema } from '$lib/schemas/shoot';
 import { attempt, parseForm, forPage } from '$lib/server/forms';
+import { assertOnShootDay } from '$lib/server/ownership';
 import { searchPartsForPicker } from '$lib/server/parts-picker';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
@@ -60,7 +61,10 @@ export const actions = {
 	},
 	onHand: async (event) => {
 		const { channel, person } = requireRole(event, 'merch', 'producer');
-		return run(event, 'onHand', onHandSchema.extend({ id: z.string() }), (data) => days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version), (form) => ({ id: form.get('id'), onHand: form.get('onHand') === 'true', version: form.get('version') }));
+		return run(event, 'onHand', onHandSchema.extend({ id: z.string() }), async (data) => {
+			await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
+			return days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version);
+		}, (form) => ({ id: form.get('id'), onHand: form.get('onHand') === 'true', version: form.get('version') }));
 	},
 	pullFromSegments: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
@@ -70,15 +74,22 @@ export const actions = {
 	},
 	removeItem: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'removeItem', z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }), (data) => days.removeDayItem(channel.id, data.kind, data.id));
+		return run(event, 'removeItem', z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }), async (data) => {
+			await assertOnShootDay(channel.id, event.params.id, data.kind, data.id);
+			return days.removeDayItem(channel.id, data.kind, data.id);
+		});
 	},
 	removePull: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
-		return run(event, 'removePull', z.object({ id: z.string() }), (data) => days.removeDayItem(channel.id, 'pull', data.id));
+		return run(event, 'removePull', z.object({ id: z.string() }), async (data) => {
+			await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
+			return days.removeDayItem(channel.id, 'pull', data.id);
+		});
 	},
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer');
-		await days.deleteShootDay(channel.id, event.params.id);
+		const result = await attempt({}, () => days.deleteShootDay(channel.id, event.params.id));
+		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, { action: 'delete', ...result.data });
 		redirect(303, '/shoots');
 	}
 } satisfies Actions;

@@ -4,7 +4,7 @@ import { revokeToken } from '$lib/server/tokens';
 import type { RequestHandler } from './$types';
 
 export const DELETE: RequestHandler = api(async (event) => {
-	const { person } = requireRole(event);
-	await revokeToken(person.id, event.params.id);
+	const { person, channel } = requireRole(event);
+	await revokeToken(person.id, channel.id, event.params.id);
 	return new Response(null, { status: 204 });
 });

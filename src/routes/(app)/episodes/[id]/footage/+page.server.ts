@@ -3,6 +3,7 @@ import { requireRole, hasRole } from '$lib/server/guard';
 import { deleteFootage, listFootage } from '$lib/server/footage';
 import { shootDayOptions } from '$lib/server/shoot-days';
 import { attempt, forPage } from '$lib/server/forms';
+import { assertInEpisode } from '$lib/server/ownership';
 import { UPLOAD_ROLES } from '$lib/server/uploads';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -23,7 +24,10 @@ export const actions = {
 		const { channel } = requireRole(event, 'producer');
 		const form = await event.request.formData();
 		const id = String(form.get('id') ?? '');
-		const result = await attempt({ id }, () => deleteFootage(channel.id, id));
+		const result = await attempt({ id }, async () => {
+			await assertInEpisode(channel.id, event.params.id, 'footage', id);
+			return deleteFootage(channel.id, id);
+		});
 		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
 		return { deleted: id };
 	}

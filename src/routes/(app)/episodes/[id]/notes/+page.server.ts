@@ -1,7 +1,8 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { DomainError } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { attempt, forPage, parseForm } from '$lib/server/forms';
+import { attempt, forPage, parseForm, readVersion } from '$lib/server/forms';
+import { assertInEpisode } from '$lib/server/ownership';
 import { createNote, deleteNote, notesPageFor, noteRightsFor, updateNote } from '$lib/server/notes';
 import { partIdBySku } from '$lib/server/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
@@ -36,7 +37,10 @@ async function change(event: Parameters<Actions[string]>[0], action: string, rol
 	}
 	const parsed = parseForm(noteUpdateSchema, values);
 	if (!parsed.ok) return fail(400, { action, noteId, errors: parsed.errors, values });
-	const result = await attempt(values, () => updateNote(caller.channel.id, actorOf(caller), noteId, parsed.data));
+	const result = await attempt(values, async () => {
+		await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
+		return updateNote(caller.channel.id, actorOf(caller), noteId, parsed.data);
+	});
 	if ('status' in result) return fail(result.status, { action, noteId, ...result.data });
 	return { action, noteId, saved: true };
 }
@@ -82,7 +86,12 @@ export const actions = {
 		const caller = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
 		const noteId = text(form, 'noteId');
-		const result = await attempt({}, () => deleteNote(caller.channel.id, actorOf(caller), noteId, version(form)));
+		const read = readVersion(form);
+		if (!read.ok) return fail(400, { action: 'remove', noteId, errors: read.errors, values: {} });
+		const result = await attempt({}, async () => {
+			await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
+			return deleteNote(caller.channel.id, actorOf(caller), noteId, read.version);
+		});
 		if ('status' in result) return fail(result.status, { action: 'remove', noteId, ...result.data });
 		return { action: 'remove', noteId, saved: true };
 	}

@@ -6,6 +6,7 @@ import { addShot } from '$lib/server/segments';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
 import { attempt, forPage, parseForm } from '$lib/server/forms';
+import { assertInEpisode } from '$lib/server/ownership';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -23,7 +24,10 @@ export const actions = {
 		const values = { what: text(form, 'what'), angle: text(form, 'angle'), roll: text(form, 'roll') || 'A', camera: text(form, 'camera'), notes: text(form, 'notes') };
 		const parsed = parseForm(shotCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'addShot', segmentId, errors: parsed.errors, values });
-		const result = await attempt(values, () => addShot(channel.id, segmentId, parsed.data));
+		const result = await attempt(values, async () => {
+			await assertInEpisode(channel.id, event.params.id, 'segment', segmentId);
+			return addShot(channel.id, segmentId, parsed.data);
+		});
 		if ('status' in result && 'data' in result) return fail(result.status, { action: 'addShot', segmentId, ...result.data });
 		return { action: 'addShot', segmentId, saved: true };
 	},
@@ -34,7 +38,10 @@ export const actions = {
 		const values = { clipName: text(form, 'clipName'), sourceIn: text(form, 'sourceIn'), sourceOut: text(form, 'sourceOut'), good: form.get('good') === 'on', note: text(form, 'note'), footageId: text(form, 'footageId') };
 		const parsed = parseForm(takeCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'logTake', shotId, errors: parsed.errors, values });
-		const result = await attempt(values, () => logTake(channel.id, shotId, parsed.data));
+		const result = await attempt(values, async () => {
+			await assertInEpisode(channel.id, event.params.id, 'shot', shotId);
+			return logTake(channel.id, shotId, parsed.data);
+		});
 		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'logTake', shotId, ...(result.data as object) });
 		return { action: 'logTake', shotId, saved: true };
 	},
@@ -49,7 +56,10 @@ export const actions = {
 		};
 		const parsed = parseForm(takeUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'updateTake', takeId, errors: parsed.errors });
-		const result = await attempt(values, () => updateTake(channel.id, takeId, parsed.data));
+		const result = await attempt(values, async () => {
+			await assertInEpisode(channel.id, event.params.id, 'take', takeId);
+			return updateTake(channel.id, takeId, parsed.data);
+		});
 		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'updateTake', takeId, ...(result.data as object) });
 		return { action: 'updateTake', takeId, saved: true };
 	},
@@ -58,7 +68,10 @@ export const actions = {
 		const form = await event.request.formData();
 		const parsed = parseForm(z.object({ takeId: z.string() }), { takeId: text(form, 'takeId') });
 		if (!parsed.ok) return fail(400, { action: 'deleteTake', errors: parsed.errors });
-		const result = await attempt({}, () => deleteTake(channel.id, parsed.data.takeId));
+		const result = await attempt({}, async () => {
+			await assertInEpisode(channel.id, event.params.id, 'take', parsed.data.takeId);
+			return deleteTake(channel.id, parsed.data.takeId);
+		});
 		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, { action: 'deleteTake', ...result.data });
 		return { action: 'deleteTake', saved: true };
 	}
