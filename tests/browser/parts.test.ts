@@ -99,4 +99,19 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	}
 	expect(copied).toMatch(/licensed professional/);
 	expect(await page.getByTestId('character-count').textContent()).toContain(`${[...copied].length.toLocaleString('en')} / 5,000 characters`);
+
+	// 4. The safety block can't be left out, and a hand edit that removes it is called out.
+	// (The product owner's rule: hazardous work carries its cautions and defers to licensed practice.)
+	const safety = page.locator('[data-block="safety"]');
+	const box = safety.getByRole('checkbox');
+	expect(await box.isChecked()).toBe(true);
+	expect(await box.isDisabled()).toBe(true);
+	expect(await safety.textContent()).toContain('Always in the description');
+	const whole = page.getByLabel('Whole description text');
+	const withoutSafety = (await whole.inputValue()).replace(/\nSafety\n[\s\S]*?licensed professionals?[^\n]*/, '');
+	await whole.fill(withoutSafety);
+	await expect.poll(() => page.getByTestId('required-missing').count()).toBe(1);
+	await page.getByRole('button', { name: 'Start again from the blocks' }).click();
+	await expect.poll(() => page.getByTestId('required-missing').count()).toBe(0);
+	expect(await whole.inputValue()).toMatch(/licensed professional/);
 });

@@ -34,6 +34,8 @@ export interface KitBlock {
 	markdown: string;
 	/** What is missing or wrong, in the crew's words. */
 	problems: string[];
+	/** Why this block cannot be left out of the description (absent: it can). */
+	required?: string;
 }
 
 export interface PublishKit {
@@ -174,7 +176,8 @@ function safetyBlock(row: KitRow): KitBlock {
 		title,
 		text: [title, ...cautions.map((caution) => `- ${caution}`), ...notes].join('\n'),
 		markdown: [`## ${title}`, '', ...cautions.map((caution) => `- ${escapeMarkdown(caution)}`), ...(cautions.length ? [''] : []), notes.map(escapeMarkdown).join('\n\n')].join('\n'),
-		problems: []
+		problems: [],
+		required: 'Always in the description: viewers copy this work, so the cautions and the note that defers to manufacturer instructions, local codes and licensed professionals go with it.'
 	};
 }
 
