@@ -82,7 +82,7 @@ describe('bad takes are refused in plain words and store nothing', () => {
 		const before = (await sql(`SELECT count(*)::int AS n FROM take`))[0].n;
 		const backwards = await camera.api(`/api/shots/${shotId}/takes`, { method: 'POST', json: { clipName: 'A002', sourceIn: '00:05:00:00', sourceOut: '00:04:00:00' } });
 		expect(backwards.status).toBe(400);
-		expect(backwards.body.issues.sourceOut[0]).toMatch(/out point comes after the in point/);
+		expect(backwards.body.issues.sourceOut[0]).toMatch(/Make the out point later than the in point/);
 		const dropped = await camera.api(`/api/shots/${shotId}/takes`, { method: 'POST', json: { clipName: 'A002', sourceIn: '00:01:00;00', sourceOut: '00:02:00;02' } });
 		expect(dropped.status).toBe(400);
 		expect(dropped.body.issues.sourceIn[0]).toMatch(/doesn't exist in drop-frame/);
@@ -105,5 +105,21 @@ describe('bad takes are refused in plain words and store nothing', () => {
 		expect(result.status).toBe(400);
 		expect(result.data.values.clipName).toBe('B001');
 		expect(result.data.errors.sourceIn[0]).toBeTruthy();
+	});
+});
+
+describe('the shot list carries the cautions', () => {
+	test('a segment flagged "vehicle raised on stands" shows its caution card text where the shots are planned', async () => {
+		// The product owner's rule: where work shown can hurt someone, the usual cautions are shown.
+		const [row] = await sql(
+			`SELECT e.id AS episode_id, c.text FROM caution c JOIN segment s ON s.id = c.segment_id JOIN episode e ON e.id = s.episode_id
+			 JOIN channel ch ON ch.id = e.channel_id WHERE ch.name = 'Torquehaven Garage' AND c.hazard = 'raised-vehicle' LIMIT 1`
+		);
+		const operator = await signedIn(demo.camera);
+		const html = await (await operator.request(`/episodes/${row.episode_id}/shots`)).text();
+		expect(html).toContain('Cautions for this segment');
+		expect(html).toContain('Vehicle raised on stands');
+		// Svelte escapes text for HTML, so compare with the same escaping of the stored words.
+		expect(html).toContain(row.text.replace(/&/g, '&amp;').replace(/</g, '&lt;'));
 	});
 });

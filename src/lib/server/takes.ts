@@ -9,12 +9,13 @@ import { isUuid } from './identity';
 import { episodeInChannel, rateOf } from './episodes';
 import { formatTimecode, parseTimecode, TimecodeError, type FrameRate } from '$lib/timecode';
 import type { TakeCreate, TakeUpdate } from '$lib/schemas/takes';
+import { hazardById } from '$lib/cautions';
 
 /** Every segment of the episode with its shots and their takes, and the footage a take can point at. */
 export async function shotListFor(channelId: string, episodeId: string) {
 	const episode = await episodeInChannel(db, channelId, episodeId);
 	const rate = rateOf(episode);
-	const [segments, shots, takes, footage] = await Promise.all([
+	const [segments, shots, takes, footage, cautions] = await Promise.all([
 		db.selectFrom('segment').select(['id', 'position', 'title', 'needsFootage']).where('episodeId', '=', episode.id).orderBy('position').execute(),
 		db.selectFrom('shot').innerJoin('segment', 'segment.id', 'shot.segmentId').selectAll('shot').where('segment.episodeId', '=', episode.id).orderBy('shot.position').execute(),
 		db
@@ -27,7 +28,9 @@ export async function shotListFor(channelId: string, episodeId: string) {
 			.where('segment.episodeId', '=', episode.id)
 			.orderBy('take.createdAt')
 			.execute(),
-		db.selectFrom('footage').select(['id', 'clipName', 'cameraLabel']).where('episodeId', '=', episode.id).where('purpose', '=', 'footage').orderBy('clipName').execute()
+		db.selectFrom('footage').select(['id', 'clipName', 'cameraLabel']).where('episodeId', '=', episode.id).where('purpose', '=', 'footage').orderBy('clipName').execute(),
+		// The cautions of each hazardous segment: the crew reads them before filming the work.
+		db.selectFrom('caution').innerJoin('segment', 'segment.id', 'caution.segmentId').select(['caution.segmentId', 'caution.hazard', 'caution.text']).where('segment.episodeId', '=', episode.id).orderBy('caution.hazard').execute()
 	]);
 	const tc = (frames: number, dropFrame: boolean) => formatTimecode(frames, rate, { dropFrame });
 	return {
@@ -35,6 +38,9 @@ export async function shotListFor(channelId: string, episodeId: string) {
 		footage,
 		segments: segments.map((segment) => ({
 			...segment,
+			cautions: cautions
+				.filter((caution) => caution.segmentId === segment.id)
+				.map((caution) => ({ hazard: caution.hazard, label: hazardById(caution.hazard)?.label ?? caution.hazard, text: caution.text })),
 			shots: shots
 				.filter((shot) => shot.segmentId === segment.id)
 				.map((shot) => ({
@@ -77,7 +83,7 @@ export async function logTake(channelId: string, shotId: string, input: TakeCrea
 	}
 	const sourceInFrames = sourceFrames(input.sourceIn, rate, 'sourceIn');
 	const sourceOutFrames = sourceFrames(input.sourceOut, rate, 'sourceOut');
-	if (sourceOutFrames <= sourceInFrames) throw new DomainError(400, 'The out point comes after the in point.', { sourceOut: ['The out point comes after the in point.'] });
+	if (sourceOutFrames <= sourceInFrames) throw new DomainError(400, 'Make the out point later than the in point.', { sourceOut: ['Make the out point later than the in point.'] });
 	await checkFootage(shot.episodeId, input.footageId);
 	return db
 		.insertInto('take')
