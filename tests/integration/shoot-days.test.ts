@@ -34,9 +34,19 @@ describe('planning a shoot day', () => {
 		const before = await sql(`SELECT count(*)::int AS n FROM shoot_day`);
 		const result = await camera.action('/shoots?/create', { episodeId, shootDate: '2027-01-15', locationName: 'Bay', callTime: '15:00', wrapTime: '09:00' });
 		expect(result.status).toBe(400);
-		expect(result.data.errors.wrapTime[0]).toMatch(/Wrap comes after/);
+		expect(result.data.errors.wrapTime[0]).toMatch(/Make the wrap later than the call time/);
 		expect(result.data.values.locationName).toBe('Bay');
 		expect((await sql(`SELECT count(*)::int AS n FROM shoot_day`))[0].n).toBe(before[0].n);
+	});
+
+	test('with no episode picked, every problem shows at once in plain words', async () => {
+		const result = await camera.action('/shoots?/create', { shootDate: '2027-01-15', locationName: '', callTime: '15:00', wrapTime: '09:00' });
+		expect(result.status).toBe(400);
+		expect(result.data.errors.episodeId).toEqual(['Pick an episode.']);
+		expect(result.data.errors.locationName[0]).toMatch(/Name the shop/);
+		// The wrap is checked in the same pass, not only once the rest is right.
+		expect(result.data.errors.wrapTime[0]).toMatch(/Make the wrap later/);
+		expect(JSON.stringify(result.data.errors)).not.toMatch(/Invalid input|expected string/);
 	});
 
 	test('the host may read a shoot day but not change it', async () => {

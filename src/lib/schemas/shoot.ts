@@ -1,15 +1,26 @@
 /** Shapes of shoot-day input: shared by the forms, the API and the client. */
 import { z } from 'zod';
 
-const time = z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time like 07:30.');
+const time = z.string({ error: 'Use a 24-hour time like 07:30.' }).regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time like 07:30.');
 const optionalTime = z.union([time, z.literal('')]).optional().transform((v) => v || null);
-const date = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.');
+const date = z.string({ error: 'Pick a date.' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.');
 const positive = (label: string, max: number) =>
 	z.coerce.number({ error: `Enter ${label}.` }).positive(`${label[0].toUpperCase() + label.slice(1)} must be more than zero.`).max(max, `That is more than ${max}.`);
 
+const readable = (value: unknown) => typeof value === 'string' && /^([01]\d|2[0-3]):[0-5]\d$/.test(value);
+/** A cross-field check runs when the fields it compares are readable, whatever else is wrong. */
+const timesReadable = (payload: { value: unknown }) => {
+	const input = payload.value as { callTime?: unknown; wrapTime?: unknown } | null;
+	return readable(input?.callTime) && readable(input?.wrapTime);
+};
+const bayTimesReadable = (payload: { value: unknown }) => {
+	const input = payload.value as { bayFrom?: unknown; bayUntil?: unknown } | null;
+	return readable(input?.bayFrom) && readable(input?.bayUntil);
+};
+
 export const shootDaySchema = z
 	.object({
-		episodeId: z.string().uuid('Pick an episode.'),
+		episodeId: z.string({ error: 'Pick an episode.' }).uuid('Pick an episode.'),
 		shootDate: date,
 		locationName: z.string().trim().min(1, 'Name the shop or location.').max(120),
 		locationAddress: z.string().trim().max(300).default(''),
@@ -20,8 +31,9 @@ export const shootDaySchema = z
 		wrapTime: time,
 		notes: z.string().trim().max(2000).default('')
 	})
-	.refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Wrap comes after the call time.' })
-	.refine((d) => !d.bayFrom || !d.bayUntil || d.bayUntil > d.bayFrom, { path: ['bayUntil'], message: 'The bay booking must end after it starts.' });
+	// Checked even when another field is wrong too, so every problem shows in one pass.
+	.refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Make the wrap later than the call time.', when: timesReadable })
+	.refine((d) => !d.bayFrom || !d.bayUntil || d.bayUntil > d.bayFrom, { path: ['bayUntil'], message: 'Make the bay booking end after it starts.', when: bayTimesReadable });
 
 export const shootDayUpdateSchema = z.object({
 	shootDate: date,
@@ -34,7 +46,7 @@ export const shootDayUpdateSchema = z.object({
 	wrapTime: time,
 	notes: z.string().trim().max(2000),
 	version: z.coerce.number().int().min(1)
-}).refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Wrap comes after the call time.' });
+}).refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Make the wrap later than the call time.', when: timesReadable });
 
 export const plannerSchema = z.object({
 	programMinutes: positive('the programme minutes', 600),
