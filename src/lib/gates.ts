@@ -71,7 +71,8 @@ export interface GateSnapshot {
 	/** Problems with the chapter list; null when there are no chapters (yet). */
 	chapterProblems: string[] | null;
 	/** Featured parts not linked to an active catalogue part, in words. */
-	featuredPartProblems: string[];
+	/** Why the featured parts aren't ready, each with whose job it is (merch links parts, the editor places notes). */
+	featuredPartProblems: { message: string; fixedBy: Role }[];
 }
 
 export type GateRule =
@@ -222,7 +223,7 @@ function lockRules(snapshot: GateSnapshot): GateReason[] {
 	} else {
 		for (const problem of snapshot.chapterProblems) reasons.push({ rule: 'chapter-problem', subject: 'Chapters', message: problem, fixedBy: 'editor' });
 	}
-	for (const problem of snapshot.featuredPartProblems) reasons.push({ rule: 'part-problem', subject: 'Featured parts', message: problem, fixedBy: 'merch' });
+	for (const problem of snapshot.featuredPartProblems) reasons.push({ rule: 'part-problem', subject: 'Featured parts', message: problem.message, fixedBy: problem.fixedBy });
 	reasons.push(...cautionRules(snapshot));
 	return reasons;
 }

@@ -221,6 +221,9 @@ describe('who may change notes', () => {
 		const wrong = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, { noteId: note.id, version: String(note.version + 1), sku: 'NOT-A-SKU' });
 		expect(wrong.type).toBe('failure');
 		expect(wrong.data.errors.sku[0]).toMatch(/No part with SKU “NOT-A-SKU”/);
+		const empty = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, { noteId: note.id, version: String(note.version + 1), sku: '  ' });
+		expect(empty.status).toBe(400);
+		expect(empty.data.errors.sku[0]).toMatch(/^Type the part’s SKU/);
 		expect((await sql(`SELECT p.sku FROM segment_note_part snp JOIN part p ON p.id = snp.part_id WHERE snp.note_id = $1`, [note.id])).map((row) => row.sku)).toEqual(['QS-MT-230R']);
 	});
 });
@@ -265,8 +268,10 @@ describe('the featured parts list', () => {
 			const linked = await patch(visitors.merch, note.id, { version: note.version, partIds: [old.id] });
 			const problems = await featuredPartProblemsFor(executor, channelId, episode.id);
 			expect(problems).toHaveLength(2);
-			expect(problems[0]).toMatch(/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/);
-			expect(problems[1]).toMatch(/no program time \(“Old kit”\): the editor places the note in the cut\.$/);
+			expect(problems[0].message).toMatch(/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/);
+			expect(problems[0].fixedBy).toBe('merch');
+			expect(problems[1].message).toMatch(/no program time \(“Old kit”\): the editor places the note in the cut\.$/);
+			expect(problems[1].fixedBy).toBe('editor');
 			const relinked = await patch(visitors.merch, note.id, { version: linked.body.note.version, partIds: [stands.id] });
 			await patch(visitors.editor, note.id, { version: relinked.body.note.version, programTime: '1:00' });
 			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);

@@ -155,9 +155,21 @@ describe('edit → locked', () => {
 		expect(reasons.map((r) => r.message)).toEqual(['The first chapter must start at 0:00.', 'Chapter 3 is 6 s long.']);
 	});
 
-	test('each featured part problem becomes a reason for the merch team', () => {
-		const reasons = gateChecksFor(ready({ stage: 'edit', featuredPartProblems: ['IBS-BL-OLD is discontinued: link a current part.'] }), 'locked');
-		expect(reasons).toMatchObject([{ rule: 'part-problem', fixedBy: 'merch' }]);
+	test('each featured part problem becomes a reason for whoever fixes it', () => {
+		const reasons = gateChecksFor(
+			ready({
+				stage: 'edit',
+				featuredPartProblems: [
+					{ message: 'IBS-BL-OLD is discontinued: link a current part.', fixedBy: 'merch' },
+					{ message: 'IBS-BS-6T is on a note with no program time: the editor places the note in the cut.', fixedBy: 'editor' }
+				]
+			}),
+			'locked'
+		);
+		expect(reasons).toMatchObject([
+			{ rule: 'part-problem', fixedBy: 'merch' },
+			{ rule: 'part-problem', fixedBy: 'editor' }
+		]);
 	});
 
 	test('a flagged segment with an unplaced caution is refused, naming the segment and the hazard', () => {

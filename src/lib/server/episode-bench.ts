@@ -90,7 +90,7 @@ async function cameraItems(channelId: string, personId: string | undefined): Pro
 			.where((eb) => eb.not(eb.exists(eb.selectFrom('shot').select('shot.id').whereRef('shot.segmentId', '=', 'segment.id'))))
 			.executeTakeFirstOrThrow();
 		if (Number(count) > 0) {
-			items.push({ title: `Shot list to plan: ${episode.title}`, detail: `${count} segment${Number(count) === 1 ? ' needs' : 's need'} footage but ${Number(count) === 1 ? 'has' : 'have'} no shots yet.`, href: `/episodes/${episode.id}/rundown`, tone: episode.stage === 'shoot' ? 'warn' : 'todo' });
+			items.push({ title: `Shot list to plan: ${episode.title}`, detail: `${count} segment${Number(count) === 1 ? ' needs' : 's need'} footage but ${Number(count) === 1 ? 'has' : 'have'} no shots yet.`, href: `/episodes/${episode.id}/shots`, tone: episode.stage === 'shoot' ? 'warn' : 'todo' });
 		}
 	}
 	return items;

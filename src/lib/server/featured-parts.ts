@@ -11,6 +11,7 @@ import { sql } from 'kysely';
 import { db } from './db';
 import { episodeInChannel, rateOf, type Executor } from './episodes';
 import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import type { Role } from '$lib/roles';
 
 export interface FeaturedAppearance {
 	noteId: string;
@@ -216,8 +217,9 @@ export async function featuredPartsFor(channelId: string, episodeId: string, exe
  * are): every featured part is an active catalogue part and every note showing one has a program
  * time. 404 for an episode of another channel.
  */
-export async function featuredPartProblemsFor(executor: Executor, channelId: string, episodeId: string): Promise<string[]> {
+export async function featuredPartProblemsFor(executor: Executor, channelId: string, episodeId: string): Promise<{ message: string; fixedBy: Role }[]> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const parts = groupFeatured(await featuredRows(executor, episode.id), rateOf(episode));
-	return lockWarnings(parts).map((warning) => warning.message);
+	// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
+	return lockWarnings(parts).map((warning) => ({ message: warning.message, fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch' }));
 }
