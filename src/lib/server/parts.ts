@@ -581,6 +581,10 @@ export async function exportPartsCsv(channelId: string, executor: Executor = db)
 
 /** The id of the part with exactly this SKU in the channel's catalogue; 400 in plain words when none. */
 export async function partIdBySku(channelId: string, sku: string, executor: Executor = db): Promise<string> {
+	if (sku.trim() === '') {
+		const message = 'Type the part’s SKU (or, with JavaScript, a name or brand and pick the part).';
+		throw new DomainError(400, message, { sku: [message] });
+	}
 	const part = await executor.selectFrom('part').select('id').where('channelId', '=', channelId).where('sku', '=', sku.trim()).executeTakeFirst();
 	if (!part) {
 		const message = `No part with SKU “${sku.trim()}” is in the catalogue; check the part number, or add the part first.`;
