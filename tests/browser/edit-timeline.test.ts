@@ -88,4 +88,28 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 	// 1050 frames = 35.035 s and 3750 frames = 125.125 s at 30000/1001; description timestamps are
 	// whole seconds from 0:00 (common practice of video platforms).
 	expect(text).toBe('0:00 Cold open\n0:35 Tyre sizes, by the numbers\n2:05 Speedometer check\n');
+
+	// A chapter picked with ] stays the target only while the playhead is inside it.
+	await timeline.focus();
+	await page.keyboard.press('Home');
+	await page.keyboard.press(']'); // picks chapter 2 and puts the playhead on it
+	for (let step = 0; step < 9; step++) await page.keyboard.press('Shift+ArrowRight'); // 1050 + 2700 = 3750: inside chapter 3
+	await page.keyboard.press('Enter');
+	await page.getByLabel('New title for chapter 3 “Speedometer check”').waitFor();
+	await page.keyboard.press('Escape');
+
+	// Two chapters removed one after the other come back with Z, Z, newest first.
+	await timeline.focus();
+	await page.keyboard.press('Delete'); // chapter 3 (under the playhead)
+	await expect.poll(() => rows.count()).toBe(2);
+	await page.keyboard.press('[');
+	await page.keyboard.press('Delete'); // chapter 2, picked with [
+	await expect.poll(() => rows.count()).toBe(1);
+	await page.keyboard.press('z');
+	await expect.poll(() => rows.count()).toBe(2);
+	await page.keyboard.press('z');
+	await expect.poll(() => rows.count()).toBe(3);
+	expect(await sql(`SELECT start_frame, title FROM chapter WHERE episode_id = $1 ORDER BY start_frame`, [episode.id])).toEqual(saved);
+	await page.keyboard.press('z');
+	await expect.poll(() => page.getByRole('status').textContent()).toContain('Nothing to put back');
 });
