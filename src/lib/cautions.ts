@@ -81,6 +81,10 @@ const hazardList: Hazard[] = [
 export const HAZARDS: readonly Readonly<Hazard>[] = Object.freeze(hazardList.map((hazard) => Object.freeze(hazard)));
 
 /** For episode descriptions and the publish kit: the video is general information and defers to the people and papers that govern the reader's vehicle. */
+/** Under the cautions where the crew plans or writes hazardous work (script, rundown, shot list). */
+export const SCRIPT_SAFETY_LINE =
+	"Film and present this work as the manufacturer's instructions say; local codes and the shop's licensed staff come before the shot.";
+
 export const GENERAL_SAFETY_NOTE =
 	"This video is general information, not instructions for your vehicle. Follow the manufacturer's instructions for your vehicle and parts, " +
 	'and your local codes and laws. Have safety-critical work done or inspected by a licensed professional. You are responsible for your own safety.';

@@ -123,3 +123,35 @@ describe('the shot list carries the cautions', () => {
 		expect(html).toContain(row.text.replace(/&/g, '&amp;').replace(/</g, '&lt;'));
 	});
 });
+
+describe('the script pages carry the cautions and the producer’s comments', () => {
+	test('a hazardous segment’s editor shows its caution card and the line that defers to licensed practice', async () => {
+		const [row] = await sql(
+			`SELECT e.id AS episode_id, s.id AS segment_id, c.text FROM caution c JOIN segment s ON s.id = c.segment_id JOIN episode e ON e.id = s.episode_id
+			 JOIN channel ch ON ch.id = e.channel_id WHERE ch.name = 'Torquehaven Garage' AND c.hazard = 'raised-vehicle' LIMIT 1`
+		);
+		const host = await signedIn(demo.host);
+		const editor = await (await host.request(`/episodes/${row.episode_id}/script/${row.segment_id}`)).text();
+		expect(editor).toContain('Cautions for this segment');
+		expect(editor).toContain(row.text.replace(/&/g, '&amp;').replace(/</g, '&lt;'));
+		expect(editor).toContain('licensed staff');
+		const whole = await (await host.request(`/episodes/${row.episode_id}/script`)).text();
+		expect(whole).toContain('licensed staff');
+		const rundown = await (await host.request(`/episodes/${row.episode_id}/rundown`)).text();
+		expect(rundown).toContain('licensed staff');
+	});
+
+	test('a comment the producer left on a segment shows in that segment’s editor', async () => {
+		const [segment] = await sql(
+			`SELECT s.id, s.episode_id FROM segment s JOIN episode e ON e.id = s.episode_id JOIN channel ch ON ch.id = e.channel_id WHERE ch.name = 'Torquehaven Garage' AND e.stage = 'script' ORDER BY s.position LIMIT 1`
+		);
+		const producer = await signedIn(demo.producer);
+		const note = `Say the torque figure twice ${Date.now()}`;
+		const commented = await producer.api(`/api/episodes/${segment.episode_id}/script-review`, { method: 'POST', json: { action: 'comment', body: note, segmentId: segment.id } });
+		expect(commented.status).toBe(200);
+		const host = await signedIn(demo.host);
+		const page = await (await host.request(`/episodes/${segment.episode_id}/script/${segment.id}`)).text();
+		expect(page).toContain('Comments on this segment');
+		expect(page).toContain(note);
+	});
+});

@@ -2,6 +2,7 @@ import { error, fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/guard';
 import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/segments';
 import { renderScriptMarkdown } from '$lib/server/markdown';
+import { reviewsFor } from '$lib/server/script-reviews';
 import { scriptSaveSchema } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/forms';
 import { attemptAction, found, text } from '$lib/server/episode-forms';
@@ -14,7 +15,10 @@ export const load = (async (event) => {
 	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
 	if (index === -1) error(404, 'That segment is not in this episode.');
 	const segment = rundown.segments[index];
+	// The producer's comments on this segment, so the host reads them where they write.
+	const comments = (await reviewsFor(channel.id, event.params.id)).filter((review) => review.segmentId === segment.id && review.body.trim());
 	return {
+		comments,
 		episode: rundown.episode,
 		pace: rundown.pace,
 		segment,
