@@ -32,7 +32,7 @@ function browserScheme(href: string): string | undefined {
 
 const allowedTags = new Set([
 	'p', 'br', 'strong', 'em', 'del', 'ul', 'ol', 'li', 'blockquote', 'h2', 'h3', 'h4',
-	'code', 'pre', 'a', 'hr', 'table', 'thead', 'tbody', 'tr', 'th', 'td'
+	'code', 'pre', 'a', 'hr', 'table', 'thead', 'tbody', 'tr', 'th', 'td', 'span'
 ]);
 
 function expectOnlySafeMarkup(html: string): void {
@@ -47,6 +47,26 @@ function expectOnlySafeMarkup(html: string): void {
 		}
 	}
 }
+
+describe('renderScriptMarkdown: crew directions', () => {
+	// Our own convention (see $lib/script/timing: [[…]] is not counted as spoken words).
+	test('[[…]] becomes a marked span, its Markdown kept, and the words around it stay prose', () => {
+		const html = renderScriptMarkdown('Hose off. [[B-roll: **hose** at droop]] Then the new one.');
+		const spans = elementsOf(html).filter((element) => element.name === 'span');
+		expect(spans).toHaveLength(1);
+		expect(spans[0].attribs.class).toBe('direction');
+		expect(html).toContain('<span class="direction">B-roll: <strong>hose</strong> at droop</span>');
+		expect(html).toContain('Hose off.');
+		expectOnlySafeMarkup(html);
+	});
+
+	test('a span class other than direction, or a direction carrying script, is cleaned', () => {
+		expect(renderScriptMarkdown('<span class="evil" onclick="x()">hi</span>')).toBe('<p><span>hi</span></p>\n');
+		const html = renderScriptMarkdown('[[<img src=x onerror=alert(1)> cue]]');
+		expectOnlySafeMarkup(html);
+		expect(html).not.toContain('onerror');
+	});
+});
 
 describe('renderScriptMarkdown: hostile input does not survive', () => {
 	const hostile: [string, string][] = [

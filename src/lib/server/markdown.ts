@@ -25,6 +25,29 @@ const allowedLinkSchemes = ['http', 'https', 'mailto'];
 const scriptMarked = new Marked({ gfm: true, breaks: false, pedantic: false, async: false });
 
 /**
+ * Crew directions in a script, `[[B-roll: hose at droop]]`, are not spoken (the word count skips
+ * them too); they render as a marked span so nobody reads them out. Same span as the word counter's
+ * pattern: no blank line inside.
+ */
+scriptMarked.use({
+	extensions: [
+		{
+			name: 'direction',
+			level: 'inline',
+			start: (src: string) => src.indexOf('[['),
+			tokenizer(src: string) {
+				const match = /^\[\[((?:(?!\n[ \t]*\n)[\s\S])*?)\]\]/.exec(src);
+				if (!match) return undefined;
+				return { type: 'direction', raw: match[0], text: match[1], tokens: this.lexer.inlineTokens(match[1]) };
+			},
+			renderer(token) {
+				return `<span class="direction">${this.parser.parseInline(token.tokens ?? [])}</span>`;
+			}
+		}
+	]
+});
+
+/**
  * Decides whether an href may stay, the way a browser will read it: the WHATWG
  * URL parser drops leading/trailing C0 controls and spaces and removes tab and
  * newline anywhere, so `jav&#x09;ascript:` (decoded by the HTML parser to
@@ -51,7 +74,7 @@ const sanitizeOptions: sanitizeHtml.IOptions = {
 	allowedTags: [
 		'p', 'br', 'strong', 'em', 'del', 'ul', 'ol', 'li', 'blockquote',
 		'h2', 'h3', 'h4', 'code', 'pre', 'a', 'hr',
-		'table', 'thead', 'tbody', 'tr', 'th', 'td'
+		'table', 'thead', 'tbody', 'tr', 'th', 'td', 'span'
 	],
 	allowedAttributes: {
 		a: ['href', 'title', 'rel'],
@@ -59,7 +82,7 @@ const sanitizeOptions: sanitizeHtml.IOptions = {
 		th: ['align'],
 		td: ['align']
 	},
-	allowedClasses: {},
+	allowedClasses: { span: ['direction'] },
 	allowedStyles: {},
 	allowedSchemes: allowedLinkSchemes,
 	allowedSchemesByTag: {},
@@ -79,8 +102,8 @@ const sanitizeOptions: sanitizeHtml.IOptions = {
 		a: (_tagName, attribs) => {
 			const href = attribs.href === undefined ? null : cleanedLinkHref(attribs.href);
 			if (href === null) {
-				// A link we will not keep becomes its text: 'span' is not allowed, so it is discarded.
-				return { tagName: 'span', attribs: {} };
+				// A link we will not keep becomes its text: this tag is not allowed, so it is discarded.
+				return { tagName: 'refused-link', attribs: {} };
 			}
 			const kept: sanitizeHtml.Attributes = { href, rel: SCRIPT_LINK_REL };
 			if (attribs.title !== undefined) kept.title = attribs.title;
