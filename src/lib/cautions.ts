@@ -16,7 +16,9 @@ export const HAZARD_IDS = [
 	'cutting-grinding',
 	'brakes',
 	'steering',
-	'airbags-electrical'
+	'airbags-electrical',
+	'tyre-inflation',
+	'road-test'
 ] as const;
 
 export type HazardId = (typeof HAZARD_IDS)[number];
@@ -74,6 +76,16 @@ const hazardList: Hazard[] = [
 		label: 'Airbags or electrical',
 		defaultCaution:
 			"Disconnect the battery and wait the time given in the manufacturer's instructions before working near airbags or wiring."
+	},
+	{
+		id: 'tyre-inflation',
+		label: 'Tyre mounting and inflation',
+		defaultCaution: 'Seat beads in a tyre cage with a clip-on chuck, standing clear. Never exceed the seating pressure printed on the tyre.'
+	},
+	{
+		id: 'road-test',
+		label: 'Road test',
+		defaultCaution: 'Check wheels, brakes and steering before driving. Test on a closed course or where the law allows, within the limits.'
 	}
 ];
 

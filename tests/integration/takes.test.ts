@@ -155,3 +155,17 @@ describe('the script pages carry the cautions and the producer’s comments', ()
 		expect(page).toContain(note);
 	});
 });
+
+describe('tyre mounting and road tests are hazards too', () => {
+	test('a segment flagged for tyre inflation and a road test gets both caution cards (migration 12 allows them)', async () => {
+		const producer = await signedIn(demo.producer);
+		const host = await signedIn(demo.host);
+		const created = await producer.api('/api/episodes', { method: 'POST', json: { title: `Hazards ${Date.now()}`, targetRuntimeSeconds: 600, frameRate: '29.97' } });
+		const segment = await host.api(`/api/episodes/${created.body.episode.id}/segments`, { method: 'POST', json: { kind: 'install-step', title: 'Seat the beads, then drive it', plannedSeconds: 90, hazards: ['tyre-inflation', 'road-test'] } });
+		expect(segment.status).toBe(201);
+		const cautions = segment.body.segment.cautions as { hazard: string; text: string }[];
+		expect(cautions.map((caution) => caution.hazard).sort()).toEqual(['road-test', 'tyre-inflation']);
+		expect(cautions.find((caution) => caution.hazard === 'tyre-inflation')!.text).toMatch(/tyre cage/);
+		await sql(`DELETE FROM episode WHERE id = $1`, [created.body.episode.id]);
+	});
+});

@@ -15,7 +15,7 @@ import {
 // each card must carry, not for our exact sentences.
 
 describe('HAZARDS', () => {
-	test('is the fixed list of seven hazards, in order', () => {
+	test('is the fixed list of nine hazards, in order', () => {
 		expect(HAZARDS.map((hazard) => hazard.id)).toEqual([
 			'raised-vehicle',
 			'compressed-springs',
@@ -23,7 +23,9 @@ describe('HAZARDS', () => {
 			'cutting-grinding',
 			'brakes',
 			'steering',
-			'airbags-electrical'
+			'airbags-electrical',
+			'tyre-inflation',
+			'road-test'
 		]);
 		expect(HAZARDS.map((hazard) => hazard.id)).toEqual([...HAZARD_IDS]);
 	});
@@ -61,6 +63,11 @@ describe('HAZARDS', () => {
 		expect(caution('steering')).toMatch(/inspected by a licensed professional before/);
 		expect(caution('airbags-electrical')).toMatch(/disconnect the battery/);
 		expect(caution('airbags-electrical')).toMatch(/manufacturer's instructions/);
+		// Bead seating: a cage and a clip-on chuck, and the tyre's printed maximum seating pressure (common practice).
+		expect(caution('tyre-inflation')).toMatch(/tyre cage/);
+		expect(caution('tyre-inflation')).toMatch(/seating pressure printed on the tyre/);
+		expect(caution('road-test')).toMatch(/check wheels, brakes and steering before driving/);
+		expect(caution('road-test')).toMatch(/where the law allows/);
 	});
 
 	test('the list cannot be edited in place', () => {
