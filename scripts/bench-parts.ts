@@ -18,7 +18,7 @@
  */
 import { randomBytes } from 'node:crypto';
 import pg from 'pg';
-import { openBenchWorld, signInCookie } from './lib/bench-world.ts';
+import { openBenchWorld, signedInSession as signIn, type BenchSession as Session } from './lib/bench-world.ts';
 
 const CATALOGUE_PARTS = 20_000;
 const WARM_UP_SEARCHES = 30;
@@ -44,21 +44,7 @@ function serverTiming(header: string | null): number {
 
 // ---------------------------------------------------------------- the world
 
-interface Session {
-	get(pathname: string): Promise<{ status: number; headers: Headers; body: string; wallMilliseconds: number }>;
-}
 
-async function signIn(baseUrl: string, email: string): Promise<Session> {
-	const cookie = await signInCookie(baseUrl, email);
-	return {
-		async get(pathname) {
-			const started = performance.now();
-			const answer = await fetch(baseUrl + pathname, { headers: { cookie } });
-			const body = await answer.text();
-			return { status: answer.status, headers: answer.headers, body, wallMilliseconds: performance.now() - started };
-		}
-	};
-}
 
 // ---------------------------------------------------------------- data
 

@@ -9,15 +9,11 @@
  */
 import path from 'node:path';
 import { projectRoot } from './lib/config.ts';
-import { openBenchWorld, signInCookie } from './lib/bench-world.ts';
+import { openBenchWorld, signedInSession as signIn, type BenchSession as Session } from './lib/bench-world.ts';
 import { secondsToFrames } from '../src/lib/timecode.ts';
 
 // ---------------------------------------------------------------- the framework
 
-interface Session {
-	/** A GET as the signed-in person; the body is read in full. */
-	get(pathname: string): Promise<{ status: number; headers: Headers; body: string; wallMilliseconds: number }>;
-}
 
 interface BenchContext {
 	baseUrl: string;
@@ -190,17 +186,6 @@ function printResult(result: BenchResult) {
 
 // ---------------------------------------------------------------- the world the benches run in
 
-async function signIn(baseUrl: string, email: string): Promise<Session> {
-	const cookie = await signInCookie(baseUrl, email);
-	return {
-		async get(pathname) {
-			const started = performance.now();
-			const answer = await fetch(baseUrl + pathname, { headers: { cookie } });
-			const body = await answer.text();
-			return { status: answer.status, headers: answer.headers, body, wallMilliseconds: performance.now() - started };
-		}
-	};
-}
 
 
 async function main() {

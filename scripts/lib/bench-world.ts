@@ -56,6 +56,23 @@ export async function signInCookie(baseUrl: string, email: string, password = 'w
 }
 
 /** Restarts the cluster with pg_stat_statements loaded (it must be preloaded) and creates the extension. */
+/** A signed-in person's GETs, timed on the wall clock; the body is read in full. */
+export interface BenchSession {
+	get(pathname: string): Promise<{ status: number; headers: Headers; body: string; wallMilliseconds: number }>;
+}
+
+export async function signedInSession(baseUrl: string, email: string): Promise<BenchSession> {
+	const cookie = await signInCookie(baseUrl, email);
+	return {
+		async get(pathname) {
+			const started = performance.now();
+			const answer = await fetch(baseUrl + pathname, { headers: { cookie } });
+			const body = await answer.text();
+			return { status: answer.status, headers: answer.headers, body, wallMilliseconds: performance.now() - started };
+		}
+	};
+}
+
 export async function withStatementCounting(start: () => Promise<Cluster>, cluster: Cluster): Promise<Cluster> {
 	const admin = new pg.Client({ connectionString: cluster.url });
 	await admin.connect();
