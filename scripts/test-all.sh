@@ -1,8 +1,9 @@
 #!/usr/bin/env bash
-# npm test: type-check, build the production server, then run every test (unit, integration, browser).
+# npm test: lint and format check, type-check, build the production server, then run every test (unit, integration, browser).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 node node_modules/@sveltejs/kit/svelte-kit.js sync
+npm run lint
 node node_modules/svelte-check/bin/svelte-check --tsconfig ./tsconfig.json --threshold error --output human
 node node_modules/vite/bin/vite.js build --logLevel warn
 node node_modules/vitest/vitest.mjs run "$@"
