@@ -30,7 +30,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 	await db.schema
 		.createTable('membership')
-		.addColumn('channel_id', 'uuid', (c) => c.notNull().references('channel.id').onDelete('cascade'))
+		.addColumn('channel_id', 'uuid', (c) =>
+			c.notNull().references('channel.id').onDelete('cascade')
+		)
 		.addColumn('person_id', 'uuid', (c) => c.notNull().references('person.id').onDelete('cascade'))
 		.addColumn('roles', sql`text[]`, (c) => c.notNull().defaultTo(sql`'{}'::text[]`))
 		.addColumn('disabled_at', 'timestamptz')
@@ -51,7 +53,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.addColumn('expires_at', 'timestamptz', (c) => c.notNull())
 		.execute();
-	await db.schema.createIndex('person_session_person').on('person_session').column('person_id').execute();
+	await db.schema
+		.createIndex('person_session_person')
+		.on('person_session')
+		.column('person_id')
+		.execute();
 
 	await db.schema
 		.createTable('one_time_link')
@@ -69,7 +75,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.createTable('api_token')
 		.addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
 		.addColumn('person_id', 'uuid', (c) => c.notNull().references('person.id').onDelete('cascade'))
-		.addColumn('channel_id', 'uuid', (c) => c.notNull().references('channel.id').onDelete('cascade'))
+		.addColumn('channel_id', 'uuid', (c) =>
+			c.notNull().references('channel.id').onDelete('cascade')
+		)
 		.addColumn('label', 'text', (c) => c.notNull())
 		.addColumn('token_hash', 'text', (c) => c.notNull().unique())
 		.addColumn('token_hint', 'text', (c) => c.notNull())
@@ -85,7 +93,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('email_key', 'text', (c) => c.notNull())
 		.addColumn('at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.execute();
-	await db.schema.createIndex('sign_in_failure_key_at').on('sign_in_failure').columns(['email_key', 'at']).execute();
+	await db.schema
+		.createIndex('sign_in_failure_key_at')
+		.on('sign_in_failure')
+		.columns(['email_key', 'at'])
+		.execute();
 
 	await db.schema
 		.createTable('outbox')
@@ -100,11 +112,22 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('sent_at', 'timestamptz')
 		.addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.execute();
-	await sql`CREATE INDEX outbox_pending ON outbox (next_attempt_at) WHERE sent_at IS NULL`.execute(db);
+	await sql`CREATE INDEX outbox_pending ON outbox (next_attempt_at) WHERE sent_at IS NULL`.execute(
+		db
+	);
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-	for (const table of ['outbox', 'sign_in_failure', 'api_token', 'one_time_link', 'person_session', 'membership', 'person', 'channel']) {
+	for (const table of [
+		'outbox',
+		'sign_in_failure',
+		'api_token',
+		'one_time_link',
+		'person_session',
+		'membership',
+		'person',
+		'channel'
+	]) {
 		await db.schema.dropTable(table).ifExists().execute();
 	}
 }

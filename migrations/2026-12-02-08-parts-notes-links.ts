@@ -16,17 +16,37 @@ import { type Kysely, sql } from 'kysely';
  */
 export async function up(db: Kysely<any>): Promise<void> {
 	await sql`CREATE EXTENSION IF NOT EXISTS pg_trgm`.execute(db);
-	await sql`ALTER TABLE part ADD COLUMN search_text text GENERATED ALWAYS AS (lower(sku || ' ' || name || ' ' || brand)) STORED`.execute(db);
+	await sql`ALTER TABLE part ADD COLUMN search_text text GENERATED ALWAYS AS (lower(sku || ' ' || name || ' ' || brand)) STORED`.execute(
+		db
+	);
 	await sql`CREATE INDEX part_search_trgm ON part USING gin (search_text gin_trgm_ops)`.execute(db);
-	await db.schema.createIndex('part_channel_name').on('part').columns(['channel_id', 'name']).execute();
-	await db.schema.createIndex('part_channel_brand').on('part').columns(['channel_id', 'brand', 'sku']).execute();
-	await db.schema.createIndex('part_channel_category').on('part').columns(['channel_id', 'category', 'sku']).execute();
-	await db.schema.createIndex('part_channel_price').on('part').columns(['channel_id', 'price_cents', 'sku']).execute();
+	await db.schema
+		.createIndex('part_channel_name')
+		.on('part')
+		.columns(['channel_id', 'name'])
+		.execute();
+	await db.schema
+		.createIndex('part_channel_brand')
+		.on('part')
+		.columns(['channel_id', 'brand', 'sku'])
+		.execute();
+	await db.schema
+		.createIndex('part_channel_category')
+		.on('part')
+		.columns(['channel_id', 'category', 'sku'])
+		.execute();
+	await db.schema
+		.createIndex('part_channel_price')
+		.on('part')
+		.columns(['channel_id', 'price_cents', 'sku'])
+		.execute();
 
 	await db.schema
 		.createTable('segment_note')
 		.addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
-		.addColumn('episode_id', 'uuid', (c) => c.notNull().references('episode.id').onDelete('cascade'))
+		.addColumn('episode_id', 'uuid', (c) =>
+			c.notNull().references('episode.id').onDelete('cascade')
+		)
 		.addColumn('segment_id', 'uuid', (c) => c.references('segment.id').onDelete('set null'))
 		.addColumn('program_frame', 'integer', (c) => c.check(sql`program_frame >= 0`))
 		.addColumn('take_id', 'uuid', (c) => c.references('take.id').onDelete('set null'))
@@ -38,24 +58,41 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('updated_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.execute();
 	// The notes page and the featured parts list read an episode's notes in program-time order.
-	await db.schema.createIndex('segment_note_episode_frame').on('segment_note').columns(['episode_id', 'program_frame']).execute();
+	await db.schema
+		.createIndex('segment_note_episode_frame')
+		.on('segment_note')
+		.columns(['episode_id', 'program_frame'])
+		.execute();
 	await db.schema.createIndex('segment_note_take').on('segment_note').column('take_id').execute();
 
 	await db.schema
 		.createTable('segment_note_part')
-		.addColumn('note_id', 'uuid', (c) => c.notNull().references('segment_note.id').onDelete('cascade'))
+		.addColumn('note_id', 'uuid', (c) =>
+			c.notNull().references('segment_note.id').onDelete('cascade')
+		)
 		// A part on a note can't be deleted from the catalogue; it is retired (discontinued) instead.
 		.addColumn('part_id', 'uuid', (c) => c.notNull().references('part.id').onDelete('restrict'))
 		.addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.addPrimaryKeyConstraint('segment_note_part_pk', ['note_id', 'part_id'])
 		.execute();
-	await db.schema.createIndex('segment_note_part_part').on('segment_note_part').column('part_id').execute();
+	await db.schema
+		.createIndex('segment_note_part_part')
+		.on('segment_note_part')
+		.column('part_id')
+		.execute();
 
 	await db.schema
 		.createTable('tracked_link')
 		.addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
-		.addColumn('code', 'text', (c) => c.notNull().unique().check(sql`code ~ '^[A-Za-z0-9]{6,16}$'`))
-		.addColumn('episode_id', 'uuid', (c) => c.notNull().references('episode.id').onDelete('cascade'))
+		.addColumn('code', 'text', (c) =>
+			c
+				.notNull()
+				.unique()
+				.check(sql`code ~ '^[A-Za-z0-9]{6,16}$'`)
+		)
+		.addColumn('episode_id', 'uuid', (c) =>
+			c.notNull().references('episode.id').onDelete('cascade')
+		)
 		.addColumn('part_id', 'uuid', (c) => c.notNull().references('part.id').onDelete('restrict'))
 		.addColumn('created_at', 'timestamptz', (c) => c.notNull().defaultTo(sql`now()`))
 		.addUniqueConstraint('tracked_link_episode_part', ['episode_id', 'part_id'])
@@ -64,9 +101,16 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 	await db.schema
 		.createTable('link_click_day')
-		.addColumn('link_id', 'uuid', (c) => c.notNull().references('tracked_link.id').onDelete('cascade'))
+		.addColumn('link_id', 'uuid', (c) =>
+			c.notNull().references('tracked_link.id').onDelete('cascade')
+		)
 		.addColumn('day', 'date', (c) => c.notNull())
-		.addColumn('clicks', 'integer', (c) => c.notNull().defaultTo(0).check(sql`clicks >= 0`))
+		.addColumn('clicks', 'integer', (c) =>
+			c
+				.notNull()
+				.defaultTo(0)
+				.check(sql`clicks >= 0`)
+		)
 		.addPrimaryKeyConstraint('link_click_day_pk', ['link_id', 'day'])
 		.execute();
 }
@@ -75,7 +119,13 @@ export async function down(db: Kysely<any>): Promise<void> {
 	for (const table of ['link_click_day', 'tracked_link', 'segment_note_part', 'segment_note']) {
 		await db.schema.dropTable(table).ifExists().execute();
 	}
-	for (const index of ['part_channel_price', 'part_channel_category', 'part_channel_brand', 'part_channel_name', 'part_search_trgm']) {
+	for (const index of [
+		'part_channel_price',
+		'part_channel_category',
+		'part_channel_brand',
+		'part_channel_name',
+		'part_search_trgm'
+	]) {
 		await db.schema.dropIndex(index).ifExists().execute();
 	}
 	await sql`ALTER TABLE part DROP COLUMN IF EXISTS search_text`.execute(db);

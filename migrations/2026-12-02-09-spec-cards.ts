@@ -16,7 +16,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 	await db.schema
 		.createTable('spec_card')
 		.addColumn('id', 'uuid', (c) => c.primaryKey().defaultTo(sql`gen_random_uuid()`))
-		.addColumn('episode_id', 'uuid', (c) => c.notNull().references('episode.id').onDelete('cascade'))
+		.addColumn('episode_id', 'uuid', (c) =>
+			c.notNull().references('episode.id').onDelete('cascade')
+		)
 		// A card outlives its segment being cut from the rundown: it just stops naming one.
 		.addColumn('segment_id', 'uuid', (c) => c.references('segment.id').onDelete('set null'))
 		.addColumn('kind', 'text', (c) => c.notNull().check(sql`kind IN (${textList(KINDS)})`))
@@ -32,7 +34,11 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addCheckConstraint('spec_card_input_kind', sql`input->>'kind' = kind`)
 		.execute();
 	// The page, the export and the timeline read an episode's cards in program-time order.
-	await db.schema.createIndex('spec_card_episode_at').on('spec_card').columns(['episode_id', 'at_frame', 'position']).execute();
+	await db.schema
+		.createIndex('spec_card_episode_at')
+		.on('spec_card')
+		.columns(['episode_id', 'at_frame', 'position'])
+		.execute();
 	await db.schema.createIndex('spec_card_segment').on('spec_card').column('segment_id').execute();
 }
 

@@ -13,8 +13,15 @@ export async function up(db: Kysely<any>): Promise<void> {
 			SELECT 1 FROM part JOIN episode ON episode.channel_id = part.channel_id
 			WHERE part.id = chapter.part_id AND episode.id = chapter.episode_id
 		)`.execute(db);
-	await sql`ALTER TABLE chapter ADD CONSTRAINT chapter_part_fk FOREIGN KEY (part_id) REFERENCES part (id) ON DELETE SET NULL`.execute(db);
-	await db.schema.createIndex('chapter_part').on('chapter').column('part_id').where(sql.ref('part_id'), 'is not', null).execute();
+	await sql`ALTER TABLE chapter ADD CONSTRAINT chapter_part_fk FOREIGN KEY (part_id) REFERENCES part (id) ON DELETE SET NULL`.execute(
+		db
+	);
+	await db.schema
+		.createIndex('chapter_part')
+		.on('chapter')
+		.column('part_id')
+		.where(sql.ref('part_id'), 'is not', null)
+		.execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -5,16 +5,28 @@ import { type Kysely, sql } from 'kysely';
  * segment.hazards and caution.hazard name the allowed ids, so both are replaced with the longer
  * list. Frozen in time: it imports no app code.
  */
-const BEFORE = ['raised-vehicle', 'compressed-springs', 'heat-torch', 'cutting-grinding', 'brakes', 'steering', 'airbags-electrical'];
+const BEFORE = [
+	'raised-vehicle',
+	'compressed-springs',
+	'heat-torch',
+	'cutting-grinding',
+	'brakes',
+	'steering',
+	'airbags-electrical'
+];
 const AFTER = [...BEFORE, 'tyre-inflation', 'road-test'];
 
 const textList = (values: string[]) => sql.join(values.map((value) => sql.lit(value)));
 
 async function allow(db: Kysely<any>, hazards: string[]): Promise<void> {
 	await sql`ALTER TABLE segment DROP CONSTRAINT IF EXISTS segment_hazards_check`.execute(db);
-	await sql`ALTER TABLE segment ADD CONSTRAINT segment_hazards_check CHECK (hazards <@ ARRAY[${textList(hazards)}]::text[])`.execute(db);
+	await sql`ALTER TABLE segment ADD CONSTRAINT segment_hazards_check CHECK (hazards <@ ARRAY[${textList(hazards)}]::text[])`.execute(
+		db
+	);
 	await sql`ALTER TABLE caution DROP CONSTRAINT IF EXISTS caution_hazard_check`.execute(db);
-	await sql`ALTER TABLE caution ADD CONSTRAINT caution_hazard_check CHECK (hazard IN (${textList(hazards)}))`.execute(db);
+	await sql`ALTER TABLE caution ADD CONSTRAINT caution_hazard_check CHECK (hazard IN (${textList(hazards)}))`.execute(
+		db
+	);
 }
 
 export async function up(db: Kysely<any>): Promise<void> {
@@ -23,6 +35,8 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 export async function down(db: Kysely<any>): Promise<void> {
 	await sql`DELETE FROM caution WHERE hazard IN ('tyre-inflation', 'road-test')`.execute(db);
-	await sql`UPDATE segment SET hazards = array_remove(array_remove(hazards, 'tyre-inflation'), 'road-test')`.execute(db);
+	await sql`UPDATE segment SET hazards = array_remove(array_remove(hazards, 'tyre-inflation'), 'road-test')`.execute(
+		db
+	);
 	await allow(db, BEFORE);
 }

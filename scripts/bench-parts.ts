@@ -18,7 +18,11 @@
  */
 import { randomBytes } from 'node:crypto';
 import pg from 'pg';
-import { openBenchWorld, signedInSession as signIn, type BenchSession as Session } from './lib/bench-world.ts';
+import {
+	openBenchWorld,
+	signedInSession as signIn,
+	type BenchSession as Session
+} from './lib/bench-world.ts';
 
 const CATALOGUE_PARTS = 20_000;
 const WARM_UP_SEARCHES = 30;
@@ -44,8 +48,6 @@ function serverTiming(header: string | null): number {
 
 // ---------------------------------------------------------------- the world
 
-
-
 // ---------------------------------------------------------------- data
 
 /** 20,000 parts of fictional brands, varied enough that words, SKUs and filters select differently. */
@@ -68,18 +70,38 @@ async function addCatalogue(pool: pg.Pool, channelId: string) {
 
 /** Searches of every kind the catalogue page makes, in a fixed order so runs compare. */
 function searchMix(): { kind: string; query: string }[] {
-	const words = ['coil', 'spacer pair', 'forged 3 in', 'quillon', 'polyurethane 4', 'brake line steel', 'track bar heavy', 'kestrelmark', 'zinc plated u-bolt', 'pitman'];
+	const words = [
+		'coil',
+		'spacer pair',
+		'forged 3 in',
+		'quillon',
+		'polyurethane 4',
+		'brake line steel',
+		'track bar heavy',
+		'kestrelmark',
+		'zinc plated u-bolt',
+		'pitman'
+	];
 	const skus = ['BN-LB', 'BN-CS-01', 'BN-SHK-1999', 'BN-TB-0', 'IBS-LB', 'BN-AAL-12'];
 	const mix: { kind: string; query: string }[] = [];
 	for (let index = 0; mix.length < WARM_UP_SEARCHES + MEASURED_SEARCHES; index++) {
 		const word = words[index % words.length];
 		const sku = skus[index % skus.length];
 		const variants = [
-			{ kind: 'whole catalogue, sorted', query: `sort=${['sku', 'name', 'brand', 'price', 'category'][index % 5]}&dir=${index % 2 ? 'desc' : 'asc'}&page=${1 + (index % 40)}` },
+			{
+				kind: 'whole catalogue, sorted',
+				query: `sort=${['sku', 'name', 'brand', 'price', 'category'][index % 5]}&dir=${index % 2 ? 'desc' : 'asc'}&page=${1 + (index % 40)}`
+			},
 			{ kind: 'words', query: `q=${encodeURIComponent(word)}` },
 			{ kind: 'SKU prefix', query: `q=${encodeURIComponent(sku)}` },
-			{ kind: 'words + filters + sort', query: `q=${encodeURIComponent(word.split(' ')[0])}&status=active&sort=price&dir=desc` },
-			{ kind: 'category filter, deep page', query: `category=Steering&sort=name&page=${1 + (index % 60)}&pageSize=25` },
+			{
+				kind: 'words + filters + sort',
+				query: `q=${encodeURIComponent(word.split(' ')[0])}&status=active&sort=price&dir=desc`
+			},
+			{
+				kind: 'category filter, deep page',
+				query: `category=Steering&sort=name&page=${1 + (index % 60)}&pageSize=25`
+			},
 			{ kind: 'no match', query: `q=${encodeURIComponent(`nothing-like-this-${index}`)}` }
 		];
 		mix.push(variants[index % variants.length]);
@@ -97,8 +119,14 @@ async function bigEpisode(pool: pg.Pool, channelId: string): Promise<string> {
 			[channelId]
 		)
 	).rows;
-	await pool.query(`INSERT INTO chapter (episode_id, start_frame, title) SELECT $1, (i * 8991), 'Chapter ' || (i + 1) FROM generate_series(0, 11) AS i`, [id]);
-	await pool.query(`INSERT INTO segment (episode_id, position, kind, title, hazards) SELECT $1, i, 'install-step', 'Step ' || i, ARRAY['raised-vehicle'] FROM generate_series(1, 10) AS i`, [id]);
+	await pool.query(
+		`INSERT INTO chapter (episode_id, start_frame, title) SELECT $1, (i * 8991), 'Chapter ' || (i + 1) FROM generate_series(0, 11) AS i`,
+		[id]
+	);
+	await pool.query(
+		`INSERT INTO segment (episode_id, position, kind, title, hazards) SELECT $1, i, 'install-step', 'Step ' || i, ARRAY['raised-vehicle'] FROM generate_series(1, 10) AS i`,
+		[id]
+	);
 	// About 1,500 characters of script per segment, naming a few catalogue parts by SKU.
 	await pool.query(
 		`INSERT INTO segment_script (segment_id, body)
@@ -116,14 +144,33 @@ async function bigEpisode(pool: pg.Pool, channelId: string): Promise<string> {
 		 FROM generate_series(1, ${KIT_NOTES}) AS i`,
 		[id]
 	);
-	const parts = (await pool.query(`SELECT id FROM part WHERE channel_id = $1 AND sku LIKE 'BN-%' AND status = 'active' ORDER BY sku LIMIT ${KIT_PARTS}`, [channelId])).rows.map((row) => row.id as string);
-	const notes = (await pool.query(`SELECT id FROM segment_note WHERE episode_id = $1 ORDER BY program_frame`, [id])).rows.map((row) => row.id as string);
+	const parts = (
+		await pool.query(
+			`SELECT id FROM part WHERE channel_id = $1 AND sku LIKE 'BN-%' AND status = 'active' ORDER BY sku LIMIT ${KIT_PARTS}`,
+			[channelId]
+		)
+	).rows.map((row) => row.id as string);
+	const notes = (
+		await pool.query(`SELECT id FROM segment_note WHERE episode_id = $1 ORDER BY program_frame`, [
+			id
+		])
+	).rows.map((row) => row.id as string);
 	// Each note shows two parts, so every one of the 100 parts appears on four notes.
-	const links = notes.flatMap((noteId, index) => [parts[index % KIT_PARTS], parts[(index + 50) % KIT_PARTS]].map((partId) => [noteId, partId]));
-	await pool.query(`INSERT INTO segment_note_part (note_id, part_id) SELECT * FROM unnest($1::uuid[], $2::uuid[])`, [links.map((link) => link[0]), links.map((link) => link[1])]);
+	const links = notes.flatMap((noteId, index) =>
+		[parts[index % KIT_PARTS], parts[(index + 50) % KIT_PARTS]].map((partId) => [noteId, partId])
+	);
+	await pool.query(
+		`INSERT INTO segment_note_part (note_id, part_id) SELECT * FROM unnest($1::uuid[], $2::uuid[])`,
+		[links.map((link) => link[0]), links.map((link) => link[1])]
+	);
 	const alphabet = 'ABCDEFGHJKLMNPQRSTUVWXYZabcdefghijkmnopqrstuvwxyz23456789';
-	const codes = parts.map(() => Array.from(randomBytes(8), (byte) => alphabet[byte % alphabet.length]).join(''));
-	await pool.query(`INSERT INTO tracked_link (episode_id, part_id, code) SELECT $1, * FROM unnest($2::uuid[], $3::text[])`, [id, parts, codes]);
+	const codes = parts.map(() =>
+		Array.from(randomBytes(8), (byte) => alphabet[byte % alphabet.length]).join('')
+	);
+	await pool.query(
+		`INSERT INTO tracked_link (episode_id, part_id, code) SELECT $1, * FROM unnest($2::uuid[], $3::text[])`,
+		[id, parts, codes]
+	);
 	return id;
 }
 
@@ -131,8 +178,15 @@ async function bigEpisode(pool: pg.Pool, channelId: string): Promise<string> {
 
 function printTable(title: string, target: string, rows: Record<string, string>[]) {
 	const columns = Object.keys(rows[0] ?? {});
-	const widths = columns.map((column) => Math.max(column.length, ...rows.map((row) => row[column].length)));
-	const line = (cells: string[]) => cells.map((cell, index) => (index === 0 ? cell.padEnd(widths[index]) : cell.padStart(widths[index]))).join('  ');
+	const widths = columns.map((column) =>
+		Math.max(column.length, ...rows.map((row) => row[column].length))
+	);
+	const line = (cells: string[]) =>
+		cells
+			.map((cell, index) =>
+				index === 0 ? cell.padEnd(widths[index]) : cell.padStart(widths[index])
+			)
+			.join('  ');
 	console.log(`\n${title}\ntarget: ${target}\n`);
 	console.log(line(columns));
 	console.log(widths.map((width) => '─'.repeat(width)).join('  '));
@@ -149,7 +203,8 @@ async function searchBench(session: Session): Promise<boolean> {
 	const server: number[] = [];
 	for (const { kind, query } of mix.slice(WARM_UP_SEARCHES)) {
 		const answer = await session.get(`/api/parts?${query}`);
-		if (answer.status !== 200) throw new Error(`search ${query} answered ${answer.status}: ${answer.body.slice(0, 200)}`);
+		if (answer.status !== 200)
+			throw new Error(`search ${query} answered ${answer.status}: ${answer.body.slice(0, 200)}`);
 		const samples = byKind.get(kind) ?? { wall: [], server: [], matches: [] };
 		samples.wall.push(answer.wallMilliseconds);
 		samples.server.push(serverTiming(answer.headers.get('server-timing')));
@@ -167,7 +222,9 @@ async function searchBench(session: Session): Promise<boolean> {
 		'handler median': ms(percentile(samples.server, 0.5)),
 		'handler p95': ms(percentile(samples.server, 0.95))
 	});
-	const rows = [...byKind].map(([kind, samples]) => row(kind, samples, `${Math.min(...samples.matches)}–${Math.max(...samples.matches)}`));
+	const rows = [...byKind].map(([kind, samples]) =>
+		row(kind, samples, `${Math.min(...samples.matches)}–${Math.max(...samples.matches)}`)
+	);
 	rows.push(row('all searches', { wall, server }, ''));
 	const median = percentile(wall, 0.5);
 	printTable(
@@ -175,16 +232,25 @@ async function searchBench(session: Session): Promise<boolean> {
 		`median API time under ${SEARCH_TARGET_MS} ms`,
 		rows
 	);
-	console.log(`\n• API time: the whole GET /api/parts on loopback from this script, session lookup included. Handler: the route's Server-Timing "total" (the page and the count queries, run side by side).`);
-	console.log(`• Median API time ${ms(median)}: ${median < SEARCH_TARGET_MS ? 'target met' : 'TARGET MISSED'}.`);
+	console.log(
+		`\n• API time: the whole GET /api/parts on loopback from this script, session lookup included. Handler: the route's Server-Timing "total" (the page and the count queries, run side by side).`
+	);
+	console.log(
+		`• Median API time ${ms(median)}: ${median < SEARCH_TARGET_MS ? 'target met' : 'TARGET MISSED'}.`
+	);
 	return median < SEARCH_TARGET_MS;
 }
 
 async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Promise<boolean> {
 	const first = await session.get(`/api/episodes/${episodeId}/publish-kit`);
-	if (first.status !== 200) throw new Error(`publish kit answered ${first.status}: ${first.body.slice(0, 300)}`);
-	const kit = JSON.parse(first.body) as { characters: number; blocks: { id: string; text: string }[] };
-	for (let index = 0; index < 10; index++) await session.get(`/api/episodes/${episodeId}/publish-kit`);
+	if (first.status !== 200)
+		throw new Error(`publish kit answered ${first.status}: ${first.body.slice(0, 300)}`);
+	const kit = JSON.parse(first.body) as {
+		characters: number;
+		blocks: { id: string; text: string }[];
+	};
+	for (let index = 0; index < 10; index++)
+		await session.get(`/api/episodes/${episodeId}/publish-kit`);
 	await pool.query('SELECT pg_stat_statements_reset()');
 	const wall: number[] = [];
 	const server: number[] = [];
@@ -203,7 +269,8 @@ async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Pro
 	// The kit's own statements read its tables; the rest are the hooks' session and channel lookups.
 	const kitTables = /\b(segment_note|segment_note_part|chapter|caution|tracked_link)\b/;
 	const kitStatements = statements.filter((statement) => kitTables.test(statement.query));
-	const perRequest = kitStatements.reduce((sum, statement) => sum + statement.calls, 0) / KIT_REQUESTS;
+	const perRequest =
+		kitStatements.reduce((sum, statement) => sum + statement.calls, 0) / KIT_REQUESTS;
 	const partLines = kit.blocks.find((block) => block.id === 'parts')!.text.split('\n').length - 1;
 	printTable(
 		`Publish kit, ${KIT_NOTES} notes showing ${KIT_PARTS} parts, 12 chapters, 10 caution cards, ${KIT_REQUESTS} requests after 11 warm-up`,
@@ -220,12 +287,21 @@ async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Pro
 			}
 		]
 	);
-	console.log(`\n• Counted with pg_stat_statements, reset before the ${KIT_REQUESTS} measured requests: statements naming segment_note, chapter, caution or tracked_link.`);
-	for (const statement of kitStatements) console.log(`  ${(statement.calls / KIT_REQUESTS).toFixed(2)} × ${statement.query.replace(/\s+/g, ' ').slice(0, 110)}…`);
+	console.log(
+		`\n• Counted with pg_stat_statements, reset before the ${KIT_REQUESTS} measured requests: statements naming segment_note, chapter, caution or tracked_link.`
+	);
+	for (const statement of kitStatements)
+		console.log(
+			`  ${(statement.calls / KIT_REQUESTS).toFixed(2)} × ${statement.query.replace(/\s+/g, ' ').slice(0, 110)}…`
+		);
 	const others = statements.filter((statement) => !kitStatements.includes(statement));
-	console.log(`• Other statements per request (sign-in session and channel lookups in the hooks): ${others.map((statement) => `${(statement.calls / KIT_REQUESTS).toFixed(2)} × ${statement.query.replace(/\s+/g, ' ').slice(0, 60)}…`).join('; ') || 'none'}.`);
+	console.log(
+		`• Other statements per request (sign-in session and channel lookups in the hooks): ${others.map((statement) => `${(statement.calls / KIT_REQUESTS).toFixed(2)} × ${statement.query.replace(/\s+/g, ' ').slice(0, 60)}…`).join('; ') || 'none'}.`
+	);
 	const ok = perRequest <= KIT_QUERY_TARGET && partLines === KIT_PARTS;
-	console.log(`• ${perRequest.toFixed(2)} kit queries per request: ${ok ? 'target met' : 'TARGET MISSED'}.`);
+	console.log(
+		`• ${perRequest.toFixed(2)} kit queries per request: ${ok ? 'target met' : 'TARGET MISSED'}.`
+	);
 
 	// No target: for the record, the featured parts list, whose script check reads the whole catalogue.
 	const featured: number[] = [];
@@ -236,23 +312,31 @@ async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Pro
 		warnings = JSON.parse(answer.body).warnings.length;
 		featured.push(answer.wallMilliseconds);
 	}
-	console.log(`• Featured parts list of the same episode (script of 10 segments checked against ${CATALOGUE_PARTS.toLocaleString('en')} parts, ${warnings} warnings): API median ${ms(percentile(featured.slice(5), 0.5))}, p95 ${ms(percentile(featured.slice(5), 0.95))} (no target).`);
+	console.log(
+		`• Featured parts list of the same episode (script of 10 segments checked against ${CATALOGUE_PARTS.toLocaleString('en')} parts, ${warnings} warnings): API median ${ms(percentile(featured.slice(5), 0.5))}, p95 ${ms(percentile(featured.slice(5), 0.95))} (no target).`
+	);
 	return ok;
 }
 
 async function main() {
 	const world = await openBenchWorld('bench-parts');
-	let ok = false;
+	let ok: boolean;
 	try {
 		const pool = world.pool;
-		const [{ id: channelId }] = (await pool.query(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`)).rows;
+		const [{ id: channelId }] = (
+			await pool.query(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`)
+		).rows;
 		const filled = performance.now();
 		await addCatalogue(pool, channelId);
 		const episodeId = await bigEpisode(pool, channelId);
-		console.log(`Added ${CATALOGUE_PARTS.toLocaleString('en')} parts and the big episode in ${((performance.now() - filled) / 1000).toFixed(1)} s.`);
+		console.log(
+			`Added ${CATALOGUE_PARTS.toLocaleString('en')} parts and the big episode in ${((performance.now() - filled) / 1000).toFixed(1)} s.`
+		);
 
 		const baseUrl = await world.startServer();
-		console.log(`Wrenchroll parts bench on ${process.platform} ${process.arch}, Node ${process.version}, built server ${world.buildDir}`);
+		console.log(
+			`Wrenchroll parts bench on ${process.platform} ${process.arch}, Node ${process.version}, built server ${world.buildDir}`
+		);
 		const session = await signIn(baseUrl, 'priya@torquehaven.test');
 		const searchOk = await searchBench(session);
 		const kitOk = await kitBench(session, pool, episodeId);

@@ -5,7 +5,17 @@
  * (target ≥ 70%) and the server's peak resident memory (target < 200 MB).
  */
 import { spawn } from 'node:child_process';
-import { chmodSync, createReadStream, createWriteStream, mkdtempSync, openSync, readFileSync, rmSync, writeSync, closeSync } from 'node:fs';
+import {
+	chmodSync,
+	createReadStream,
+	createWriteStream,
+	mkdtempSync,
+	openSync,
+	readFileSync,
+	rmSync,
+	writeSync,
+	closeSync
+} from 'node:fs';
 import { createServer } from 'node:http';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
@@ -18,14 +28,17 @@ import { freePort, runScript, signInCookie, waitForHttp } from './lib/bench-worl
 import { BODY_SIZE_LIMIT_BYTES, UPLOAD_CHUNK_BYTES } from '../src/lib/uploads.ts';
 
 const SIZE = Number(process.env.BENCH_UPLOAD_BYTES ?? 2 * 1024 ** 3);
-const work = mkdtempSync(path.join(process.env.BENCH_DIR ?? path.join(projectRoot, '.data'), 'bench-uploads-'));
+const work = mkdtempSync(
+	path.join(process.env.BENCH_DIR ?? path.join(projectRoot, '.data'), 'bench-uploads-')
+);
 chmodSync(work, 0o755); // the postgres OS user must reach the cluster folder inside
 const buildDir = path.resolve(projectRoot, process.env.WRENCHROLL_BUILD_DIR ?? 'build');
 
 function makeSourceFile(file: string) {
 	const block = randomBytes(16 * 1024 * 1024);
 	const fd = openSync(file, 'w');
-	for (let written = 0; written < SIZE; written += block.length) writeSync(fd, block, 0, Math.min(block.length, SIZE - written));
+	for (let written = 0; written < SIZE; written += block.length)
+		writeSync(fd, block, 0, Math.min(block.length, SIZE - written));
 	closeSync(fd);
 }
 
@@ -33,17 +46,23 @@ function makeSourceFile(file: string) {
 async function baselineSeconds(source: string): Promise<number> {
 	const target = path.join(work, 'baseline.bin');
 	const server = createServer((req, res) => {
-		pipeline(req, createWriteStream(target)).then(() => res.writeHead(204).end(), () => res.writeHead(500).end());
+		pipeline(req, createWriteStream(target)).then(
+			() => res.writeHead(204).end(),
+			() => res.writeHead(500).end()
+		);
 	});
 	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
 	const { port } = server.address() as { port: number };
 	const started = performance.now();
 	const { request } = await import('node:http');
 	await new Promise<void>((resolve, reject) => {
-		const req = request({ host: '127.0.0.1', port, method: 'POST', path: '/', headers: { 'content-length': SIZE } }, (res) => {
-			res.resume();
-			res.on('end', resolve);
-		});
+		const req = request(
+			{ host: '127.0.0.1', port, method: 'POST', path: '/', headers: { 'content-length': SIZE } },
+			(res) => {
+				res.resume();
+				res.on('end', resolve);
+			}
+		);
 		req.on('error', reject);
 		createReadStream(source).pipe(req);
 	});
@@ -59,10 +78,16 @@ function residentMegabytes(pid: number): number {
 }
 
 async function main() {
-	console.log(`upload benchmark: ${(SIZE / 1024 ** 3).toFixed(2)} GiB over loopback, chunk ${UPLOAD_CHUNK_BYTES / 1024 ** 2} MiB`);
+	console.log(
+		`upload benchmark: ${(SIZE / 1024 ** 3).toFixed(2)} GiB over loopback, chunk ${UPLOAD_CHUNK_BYTES / 1024 ** 2} MiB`
+	);
 	const source = path.join(work, 'source.bin');
 	makeSourceFile(source);
-	const cluster = await startCluster({ dataDir: path.join(work, 'pg'), port: await freePort(), database: 'bench' });
+	const cluster = await startCluster({
+		dataDir: path.join(work, 'pg'),
+		port: await freePort(),
+		database: 'bench'
+	});
 	const mail = await startFakeMail({ port: await freePort(), dir: path.join(work, 'mail') });
 	let server: ReturnType<typeof spawn> | null = null;
 	try {
@@ -71,17 +96,37 @@ async function main() {
 		const port = await freePort();
 		const base = `http://127.0.0.1:${port}`;
 		server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
-			env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: base, DATABASE_URL: cluster.url, SMTP_URL: mail.url, AUTH_SECRET: 'bench-secret-0123456789-0123456789', UPLOAD_DIR: path.join(work, 'uploads'), BODY_SIZE_LIMIT: process.env.BENCH_BODY_LIMIT ?? String(BODY_SIZE_LIMIT_BYTES) },
+			env: {
+				...process.env,
+				NODE_ENV: 'production',
+				HOST: '127.0.0.1',
+				PORT: String(port),
+				ORIGIN: base,
+				DATABASE_URL: cluster.url,
+				SMTP_URL: mail.url,
+				AUTH_SECRET: 'bench-secret-0123456789-0123456789',
+				UPLOAD_DIR: path.join(work, 'uploads'),
+				BODY_SIZE_LIMIT: process.env.BENCH_BODY_LIMIT ?? String(BODY_SIZE_LIMIT_BYTES)
+			},
 			stdio: ['ignore', 'ignore', 'inherit']
 		});
 		await waitForHttp(`${base}/healthz`, 30_000);
 		const cookie = await signInCookie(base, 'mika@torquehaven.test');
-		const episode = await (await fetch(`${base}/api/episodes`, { headers: { cookie } })).json().catch(() => null);
-		const episodeId: string = episode?.episodes?.[0]?.id ?? (await (await fetch(`${base}/api/me`, { headers: { cookie } })).json()).channel.id;
+		const episode = await (
+			await fetch(`${base}/api/episodes`, { headers: { cookie } })
+		)
+			.json()
+			.catch(() => null);
+		const episodeId: string =
+			episode?.episodes?.[0]?.id ??
+			(await (await fetch(`${base}/api/me`, { headers: { cookie } })).json()).channel.id;
 
 		const baseline = await baselineSeconds(source);
 		let peakMb = residentMegabytes(server.pid!);
-		const sampler = setInterval(() => (peakMb = Math.max(peakMb, residentMegabytes(server!.pid!))), 100);
+		const sampler = setInterval(
+			() => (peakMb = Math.max(peakMb, residentMegabytes(server!.pid!))),
+			100
+		);
 		const started = performance.now();
 		await new Promise<void>((resolve, reject) => {
 			new tus.Upload(createReadStream(source), {
@@ -97,10 +142,18 @@ async function main() {
 		clearInterval(sampler);
 		const mbps = (s: number) => SIZE / 1e6 / s;
 		const ratio = baseline / seconds;
-		console.log(`baseline (bare Node.js, one streamed POST): ${mbps(baseline).toFixed(0)} MB/s in ${baseline.toFixed(2)} s`);
-		console.log(`Wrenchroll (tus, incl. SHA-256 on completion): ${mbps(seconds).toFixed(0)} MB/s in ${seconds.toFixed(2)} s`);
-		console.log(`ratio: ${(ratio * 100).toFixed(0)}% of baseline (target ≥ 70%) ${ratio >= 0.7 ? 'PASS' : 'FAIL'}`);
-		console.log(`server peak resident memory: ${peakMb.toFixed(0)} MB (target < 200 MB) ${peakMb < 200 ? 'PASS' : 'FAIL'}`);
+		console.log(
+			`baseline (bare Node.js, one streamed POST): ${mbps(baseline).toFixed(0)} MB/s in ${baseline.toFixed(2)} s`
+		);
+		console.log(
+			`Wrenchroll (tus, incl. SHA-256 on completion): ${mbps(seconds).toFixed(0)} MB/s in ${seconds.toFixed(2)} s`
+		);
+		console.log(
+			`ratio: ${(ratio * 100).toFixed(0)}% of baseline (target ≥ 70%) ${ratio >= 0.7 ? 'PASS' : 'FAIL'}`
+		);
+		console.log(
+			`server peak resident memory: ${peakMb.toFixed(0)} MB (target < 200 MB) ${peakMb < 200 ? 'PASS' : 'FAIL'}`
+		);
 		return ratio >= 0.7 && peakMb < 200;
 	} finally {
 		server?.kill('SIGTERM');

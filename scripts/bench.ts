@@ -9,11 +9,14 @@
  */
 import path from 'node:path';
 import { projectRoot } from './lib/config.ts';
-import { openBenchWorld, signedInSession as signIn, type BenchSession as Session } from './lib/bench-world.ts';
+import {
+	openBenchWorld,
+	signedInSession as signIn,
+	type BenchSession as Session
+} from './lib/bench-world.ts';
 import { secondsToFrames } from '../src/lib/timecode.ts';
 
 // ---------------------------------------------------------------- the framework
-
 
 interface BenchContext {
 	baseUrl: string;
@@ -62,7 +65,8 @@ const MEASURED_REQUESTS = 200;
 /** Reads `name;dur=1.23` from a Server-Timing header. */
 function serverTiming(header: string | null, name: string): number {
 	const match = new RegExp(`(?:^|,)\\s*${name};dur=([0-9.]+)`).exec(header ?? '');
-	if (!match) throw new Error(`the response has no Server-Timing "${name}" entry (got: ${header ?? 'none'})`);
+	if (!match)
+		throw new Error(`the response has no Server-Timing "${name}" entry (got: ${header ?? 'none'})`);
 	return Number(match[1]);
 }
 
@@ -85,10 +89,14 @@ const BENCH_TITLES = [
 const chapterExportBench: Bench = {
 	name: 'chapter export',
 	async run(context) {
-		const [channel] = await context.sql<{ id: string }>(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
+		const [channel] = await context.sql<{ id: string }>(
+			`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`
+		);
 		const rate = '29.97';
 		// A chapter every 12 s (the rules ask for at least 10 s) and 15 s for the last one.
-		const starts = Array.from({ length: EXPORT_CHAPTERS }, (_, index) => secondsToFrames(index * 12, rate));
+		const starts = Array.from({ length: EXPORT_CHAPTERS }, (_, index) =>
+			secondsToFrames(index * 12, rate)
+		);
 		const cut = secondsToFrames(EXPORT_CHAPTERS * 12 + 3, rate);
 		const [episode] = await context.sql<{ id: string }>(
 			`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage, cut_duration_frames)
@@ -97,14 +105,19 @@ const chapterExportBench: Bench = {
 		);
 		await context.sql(
 			`INSERT INTO chapter (episode_id, start_frame, title) SELECT $1, unnest($2::int[]), unnest($3::text[])`,
-			[episode.id, starts, starts.map((_, index) => `${index + 1}. ${BENCH_TITLES[index % BENCH_TITLES.length]}`)]
+			[
+				episode.id,
+				starts,
+				starts.map((_, index) => `${index + 1}. ${BENCH_TITLES[index % BENCH_TITLES.length]}`)
+			]
 		);
 
 		const session = await context.signIn('dana@torquehaven.test');
 		const exportPath = (format: string) => `/api/episodes/${episode.id}/chapters?format=${format}`;
 		for (const format of EXPORT_FORMATS) {
 			const first = await session.get(exportPath(format));
-			if (first.status !== 200) throw new Error(`export ${format} answered ${first.status}: ${first.body.slice(0, 300)}`);
+			if (first.status !== 200)
+				throw new Error(`export ${format} answered ${first.status}: ${first.body.slice(0, 300)}`);
 			for (let index = 1; index < WARM_UP_REQUESTS; index++) await session.get(exportPath(format));
 		}
 
@@ -117,7 +130,8 @@ const chapterExportBench: Bench = {
 			let bytes = 0;
 			for (let index = 0; index < MEASURED_REQUESTS; index++) {
 				const response = await session.get(exportPath(format));
-				if (response.status !== 200) throw new Error(`export ${format} answered ${response.status}`);
+				if (response.status !== 200)
+					throw new Error(`export ${format} answered ${response.status}`);
 				total.push(serverTiming(response.headers.get('server-timing'), 'total'));
 				database.push(serverTiming(response.headers.get('server-timing'), 'db'));
 				wall.push(response.wallMilliseconds);
@@ -146,7 +160,9 @@ const chapterExportBench: Bench = {
 			   AND query NOT ILIKE '%pg_stat_statements%'
 			 ORDER BY calls DESC`
 		);
-		const readsEdit = statements.filter((statement) => /\b(chapter|episode)\b/i.test(statement.query));
+		const readsEdit = statements.filter((statement) =>
+			/\b(chapter|episode)\b/i.test(statement.query)
+		);
 		const others = statements.filter((statement) => !readsEdit.includes(statement));
 		const exportCalls = readsEdit.reduce((sum, statement) => sum + statement.calls, 0);
 		const oneRoundTrip = readsEdit.length === 1 && exportCalls === requests;
@@ -173,7 +189,12 @@ function printResult(result: BenchResult) {
 	const columns = ['', ...Object.keys(result.rows[0]?.cells ?? {})];
 	const table = [columns, ...result.rows.map((row) => [row.label, ...Object.values(row.cells)])];
 	const widths = columns.map((_, index) => Math.max(...table.map((line) => line[index].length)));
-	const line = (cells: string[]) => cells.map((cell, index) => (index === 0 ? cell.padEnd(widths[index]) : cell.padStart(widths[index]))).join('  ');
+	const line = (cells: string[]) =>
+		cells
+			.map((cell, index) =>
+				index === 0 ? cell.padEnd(widths[index]) : cell.padStart(widths[index])
+			)
+			.join('  ');
 	console.log(`\n${result.title}`);
 	console.log(`target: ${result.target}\n`);
 	console.log(line(table[0]));
@@ -186,8 +207,6 @@ function printResult(result: BenchResult) {
 
 // ---------------------------------------------------------------- the world the benches run in
 
-
-
 async function main() {
 	const world = await openBenchWorld('bench');
 	let ok = true;
@@ -199,7 +218,9 @@ async function main() {
 			signIn: (email) => signIn(baseUrl, email)
 		};
 		const buildDir = world.buildDir;
-		console.log(`Wrenchroll benches on ${process.platform} ${process.arch}, Node ${process.version}, built server ${path.relative(projectRoot, buildDir).startsWith('..') ? buildDir : path.relative(projectRoot, buildDir)}`);
+		console.log(
+			`Wrenchroll benches on ${process.platform} ${process.arch}, Node ${process.version}, built server ${path.relative(projectRoot, buildDir).startsWith('..') ? buildDir : path.relative(projectRoot, buildDir)}`
+		);
 		for (const bench of BENCHES) {
 			const result = await bench.run(context);
 			printResult(result);

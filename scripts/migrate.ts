@@ -3,7 +3,13 @@ import { migrateToLatest } from './lib/migrator.ts';
 import { startCluster } from './lib/postgres.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT } from './lib/config.ts';
 
-const cluster = process.env.DATABASE_URL ? null : await startCluster({ dataDir: EMBEDDED_PG_DIR, port: EMBEDDED_PG_PORT, database: EMBEDDED_DATABASE });
+const cluster = process.env.DATABASE_URL
+	? null
+	: await startCluster({
+			dataDir: EMBEDDED_PG_DIR,
+			port: EMBEDDED_PG_PORT,
+			database: EMBEDDED_DATABASE
+		});
 const url = process.env.DATABASE_URL ?? cluster!.url;
 await migrateToLatest(url);
 console.log('database is up to date');

@@ -32,17 +32,30 @@ function fail(message: string): never {
 let databaseUrl = process.env.DATABASE_URL;
 if (!databaseUrl) {
 	try {
-		cluster = await startCluster({ dataDir: EMBEDDED_PG_DIR, port: EMBEDDED_PG_PORT, database: EMBEDDED_DATABASE });
+		cluster = await startCluster({
+			dataDir: EMBEDDED_PG_DIR,
+			port: EMBEDDED_PG_PORT,
+			database: EMBEDDED_DATABASE
+		});
 	} catch (failure) {
 		fail(failure instanceof Error ? failure.message : String(failure));
 	}
 	databaseUrl = cluster.url;
-	console.log(`database: embedded PostgreSQL on 127.0.0.1:${EMBEDDED_PG_PORT} (data in .data/postgres)`);
+	console.log(
+		`database: embedded PostgreSQL on 127.0.0.1:${EMBEDDED_PG_PORT} (data in .data/postgres)`
+	);
 }
 await migrateToLatest(databaseUrl, (line) => console.log(line));
-if ((await seedDemo(databaseUrl)) === 'seeded') console.log('demo data written (see README for the demo logins)');
+if ((await seedDemo(databaseUrl)) === 'seeded')
+	console.log('demo data written (see README for the demo logins)');
 
-const env: Record<string, string> = { ...(process.env as Record<string, string>), DATABASE_URL: databaseUrl, HOST: host, PORT: String(port), ORIGIN: origin };
+const env: Record<string, string> = {
+	...(process.env as Record<string, string>),
+	DATABASE_URL: databaseUrl,
+	HOST: host,
+	PORT: String(port),
+	ORIGIN: origin
+};
 if (!env.SMTP_URL) {
 	const mailPort = Number(process.env.FAKE_SMTP_PORT ?? 2526);
 	const mailbox = path.join(dataDir, 'mail');
@@ -54,7 +67,8 @@ if (!env.SMTP_URL) {
 if (!env.AUTH_SECRET) {
 	// For the local demo only: a secret kept under .data so sessions survive a restart.
 	const secretFile = path.join(dataDir, 'auth-secret');
-	if (!existsSync(secretFile)) writeFileSync(secretFile, randomBytes(32).toString('base64url'), { mode: 0o600 });
+	if (!existsSync(secretFile))
+		writeFileSync(secretFile, randomBytes(32).toString('base64url'), { mode: 0o600 });
 	env.AUTH_SECRET = readFileSync(secretFile, 'utf8').trim();
 }
 env.UPLOAD_DIR ??= path.join(projectRoot, 'uploads');
@@ -62,11 +76,18 @@ env.BODY_SIZE_LIMIT ??= String(BODY_SIZE_LIMIT_BYTES);
 
 if (!existsSync(path.join(projectRoot, 'build', 'index.js'))) {
 	console.log('building the app (first start)…');
-	const built = spawnSync(process.execPath, [path.join(projectRoot, 'node_modules/vite/bin/vite.js'), 'build'], { stdio: 'inherit', cwd: projectRoot });
+	const built = spawnSync(
+		process.execPath,
+		[path.join(projectRoot, 'node_modules/vite/bin/vite.js'), 'build'],
+		{ stdio: 'inherit', cwd: projectRoot }
+	);
 	if (built.status !== 0) fail('the build failed (see above).');
 }
 
-const server = spawn(process.execPath, [path.join(projectRoot, 'build', 'index.js')], { env, stdio: ['ignore', 'inherit', 'inherit'] });
+const server = spawn(process.execPath, [path.join(projectRoot, 'build', 'index.js')], {
+	env,
+	stdio: ['ignore', 'inherit', 'inherit']
+});
 console.log(`\nWrenchroll is serving ${origin}\n`);
 
 let stopping = false;

@@ -14,7 +14,11 @@ class TooManyAttempts extends CredentialsSignin {
 	code = 'throttled';
 }
 
-export const { handle: authHandle, signIn, signOut } = SvelteKitAuth({
+export const {
+	handle: authHandle,
+	signIn,
+	signOut
+} = SvelteKitAuth({
 	trustHost: dev || env.AUTH_TRUST_HOST === 'true' || Boolean(env.ORIGIN),
 	basePath: '/auth',
 	session: { strategy: 'jwt', maxAge: SESSION_DAYS * 24 * 3600 },

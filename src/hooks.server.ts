@@ -1,4 +1,10 @@
-import { redirect, json, type Handle, type ServerInit, type HandleServerError } from '@sveltejs/kit';
+import {
+	redirect,
+	json,
+	type Handle,
+	type ServerInit,
+	type HandleServerError
+} from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { getToken } from '@auth/core/jwt';
 import { env } from '$env/dynamic/private';
@@ -28,7 +34,11 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 	const authorization = event.request.headers.get('authorization');
 	if (authorization?.startsWith('Bearer ')) {
 		const identity = await identityFromToken(authorization.slice(7).trim());
-		if (!identity.person) return json({ error: 'That API token is unknown or revoked. Create a new one under Account.' }, { status: 401 });
+		if (!identity.person)
+			return json(
+				{ error: 'That API token is unknown or revoked. Create a new one under Account.' },
+				{ status: 401 }
+			);
 		Object.assign(event.locals, identity, { via: 'token' });
 		return resolve(event);
 	}
@@ -37,7 +47,11 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 	// own getToken (same cookie name, salt and secret) instead of a full round through its session
 	// endpoint, which would also re-encrypt the cookie on every request. A forged, stale or expired
 	// cookie decodes to null: simply no session.
-	const token = await getToken({ req: event.request, secret: env.AUTH_SECRET, secureCookie: event.url.protocol === 'https:' }).catch(() => null);
+	const token = await getToken({
+		req: event.request,
+		secret: env.AUTH_SECRET,
+		secureCookie: event.url.protocol === 'https:'
+	}).catch(() => null);
 	const sid = typeof token?.sid === 'string' ? token.sid : undefined;
 	if (sid) {
 		const identity = await identityFromSession(sid, event.cookies.get(CHANNEL_COOKIE));
@@ -46,15 +60,31 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-const PUBLIC_PATHS = [/^\/signin$/, /^\/auth\//, /^\/welcome\//, /^\/reset(\/|$)/, /^\/go\//, /^\/dev\/mail/, /^\/healthz$/];
+const PUBLIC_PATHS = [
+	/^\/signin$/,
+	/^\/auth\//,
+	/^\/welcome\//,
+	/^\/reset(\/|$)/,
+	/^\/go\//,
+	/^\/dev\/mail/,
+	/^\/healthz$/
+];
 
 /** Everything but the public pages needs a signed-in crew member; roles are checked again in each route. */
 const guardHandle: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
 	if (PUBLIC_PATHS.some((pattern) => pattern.test(path))) return resolve(event);
 	if (!event.locals.person) {
-		if (path.startsWith('/api/')) return json({ error: 'Sign in, or send a personal API token as "Authorization: Bearer …".' }, { status: 401 });
-		if (event.request.method !== 'GET') return json({ error: 'Your session has ended. Sign in again; nothing was changed.' }, { status: 401 });
+		if (path.startsWith('/api/'))
+			return json(
+				{ error: 'Sign in, or send a personal API token as "Authorization: Bearer …".' },
+				{ status: 401 }
+			);
+		if (event.request.method !== 'GET')
+			return json(
+				{ error: 'Your session has ended. Sign in again; nothing was changed.' },
+				{ status: 401 }
+			);
 		redirect(303, `/signin?next=${encodeURIComponent(path + event.url.search)}`);
 	}
 	return resolve(event);

@@ -35,19 +35,32 @@ export async function waitForHttp(url: string, timeoutMs: number) {
 
 /** Runs scripts/migrate.ts or scripts/seed.ts against a database, as npm start does. */
 export function runScript(script: string, databaseUrl: string) {
-	const result = spawnSync(path.join(projectRoot, 'node_modules/.bin/tsx'), [script], { cwd: projectRoot, env: { ...process.env, DATABASE_URL: databaseUrl }, encoding: 'utf8' });
+	const result = spawnSync(path.join(projectRoot, 'node_modules/.bin/tsx'), [script], {
+		cwd: projectRoot,
+		env: { ...process.env, DATABASE_URL: databaseUrl },
+		encoding: 'utf8'
+	});
 	if (result.status !== 0) throw new Error(`${script} failed:\n${result.stdout}\n${result.stderr}`);
 }
 
 /** Signs in through the real form and returns the session cookie header. */
-export async function signInCookie(baseUrl: string, email: string, password = 'wrenchroll-demo-bay3'): Promise<string> {
+export async function signInCookie(
+	baseUrl: string,
+	email: string,
+	password = 'wrenchroll-demo-bay3'
+): Promise<string> {
 	const response = await fetch(`${baseUrl}/signin`, {
 		method: 'POST',
-		headers: { origin: baseUrl, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
+		headers: {
+			origin: baseUrl,
+			accept: 'text/html',
+			'content-type': 'application/x-www-form-urlencoded'
+		},
 		body: new URLSearchParams({ email, password }),
 		redirect: 'manual'
 	});
-	if (response.status !== 303) throw new Error(`signing in as ${email} answered ${response.status}`);
+	if (response.status !== 303)
+		throw new Error(`signing in as ${email} answered ${response.status}`);
 	return response.headers
 		.getSetCookie()
 		.map((line) => line.split(';')[0])
@@ -58,7 +71,9 @@ export async function signInCookie(baseUrl: string, email: string, password = 'w
 /** Restarts the cluster with pg_stat_statements loaded (it must be preloaded) and creates the extension. */
 /** A signed-in person's GETs, timed on the wall clock; the body is read in full. */
 export interface BenchSession {
-	get(pathname: string): Promise<{ status: number; headers: Headers; body: string; wallMilliseconds: number }>;
+	get(
+		pathname: string
+	): Promise<{ status: number; headers: Headers; body: string; wallMilliseconds: number }>;
 }
 
 export async function signedInSession(baseUrl: string, email: string): Promise<BenchSession> {
@@ -68,12 +83,20 @@ export async function signedInSession(baseUrl: string, email: string): Promise<B
 			const started = performance.now();
 			const answer = await fetch(baseUrl + pathname, { headers: { cookie } });
 			const body = await answer.text();
-			return { status: answer.status, headers: answer.headers, body, wallMilliseconds: performance.now() - started };
+			return {
+				status: answer.status,
+				headers: answer.headers,
+				body,
+				wallMilliseconds: performance.now() - started
+			};
 		}
 	};
 }
 
-export async function withStatementCounting(start: () => Promise<Cluster>, cluster: Cluster): Promise<Cluster> {
+export async function withStatementCounting(
+	start: () => Promise<Cluster>,
+	cluster: Cluster
+): Promise<Cluster> {
 	const admin = new pg.Client({ connectionString: cluster.url });
 	await admin.connect();
 	await admin.query(`ALTER SYSTEM SET shared_preload_libraries = 'pg_stat_statements'`);
@@ -111,7 +134,8 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 	const work = mkdtempSync(path.join(tmpdir(), `wrenchroll-${name}-`));
 	chmodSync(work, 0o755); // the postgres OS user must reach the cluster folder inside
 	const pgPort = await freePort();
-	const start = () => startCluster({ dataDir: path.join(work, 'pg'), port: pgPort, database: 'wrenchroll_bench' });
+	const start = () =>
+		startCluster({ dataDir: path.join(work, 'pg'), port: pgPort, database: 'wrenchroll_bench' });
 	const cluster = await withStatementCounting(start, await start());
 	runScript('scripts/migrate.ts', cluster.url);
 	runScript('scripts/seed.ts', cluster.url);
@@ -125,7 +149,16 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 			const port = await freePort();
 			const baseUrl = `http://127.0.0.1:${port}`;
 			server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
-				env: { ...process.env, NODE_ENV: 'production', HOST: '127.0.0.1', PORT: String(port), ORIGIN: baseUrl, DATABASE_URL: cluster.url, AUTH_SECRET: randomBytes(32).toString('base64url'), UPLOAD_DIR: path.join(work, 'uploads') },
+				env: {
+					...process.env,
+					NODE_ENV: 'production',
+					HOST: '127.0.0.1',
+					PORT: String(port),
+					ORIGIN: baseUrl,
+					DATABASE_URL: cluster.url,
+					AUTH_SECRET: randomBytes(32).toString('base64url'),
+					UPLOAD_DIR: path.join(work, 'uploads')
+				},
 				stdio: ['ignore', 'ignore', 'inherit']
 			});
 			await waitForHttp(`${baseUrl}/healthz`, 30_000);

@@ -31,7 +31,9 @@ export async function startFakeMail(options: { port: number; dir: string }): Pro
 					const record = {
 						id,
 						receivedAt,
-						from: parsed.from?.address ?? String(session.envelope.mailFrom && session.envelope.mailFrom.address),
+						from:
+							parsed.from?.address ??
+							String(session.envelope.mailFrom && session.envelope.mailFrom.address),
 						to: session.envelope.rcptTo.map((r) => r.address),
 						subject: parsed.subject ?? '',
 						text: parsed.text ?? ''

@@ -5,10 +5,18 @@ import { fileURLToPath } from 'node:url';
 import { FileMigrationProvider, Kysely, Migrator, PostgresDialect } from 'kysely';
 import pg from 'pg';
 
-const migrationFolder = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../migrations');
+const migrationFolder = path.resolve(
+	path.dirname(fileURLToPath(import.meta.url)),
+	'../../migrations'
+);
 
-export async function migrateToLatest(databaseUrl: string, log: (line: string) => void = console.log): Promise<void> {
-	const db = new Kysely<any>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: databaseUrl, max: 1 }) }) });
+export async function migrateToLatest(
+	databaseUrl: string,
+	log: (line: string) => void = console.log
+): Promise<void> {
+	const db = new Kysely<any>({
+		dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: databaseUrl, max: 1 }) })
+	});
 	try {
 		const migrator = new Migrator({
 			db,

@@ -66,7 +66,7 @@ export async function startCluster({ dataDir, port, database }: ClusterOptions):
 	const binaries = findPostgresBinaries();
 	if (!binaries) {
 		throw new Error(
-			'PostgreSQL is not installed. Install Debian\'s package with: apt-get install postgresql ' +
+			"PostgreSQL is not installed. Install Debian's package with: apt-get install postgresql " +
 				'(or set DATABASE_URL to a server you already run).'
 		);
 	}
@@ -82,7 +82,20 @@ export async function startCluster({ dataDir, port, database }: ClusterOptions):
 		if (runningAsRoot) execFileSync('chown', ['postgres', pwfile]);
 		runAsOwner(
 			binaries.initdb,
-			['-D', data, '-U', 'wrenchroll', '--pwfile', pwfile, '-A', 'scram-sha-256', '-E', 'UTF8', '--locale', 'C.UTF-8'],
+			[
+				'-D',
+				data,
+				'-U',
+				'wrenchroll',
+				'--pwfile',
+				pwfile,
+				'-A',
+				'scram-sha-256',
+				'-E',
+				'UTF8',
+				'--locale',
+				'C.UTF-8'
+			],
 			{ quiet: true }
 		);
 	}
@@ -132,7 +145,8 @@ async function ensureDatabase(adminUrl: string, database: string) {
 	await client.connect();
 	try {
 		const found = await client.query('SELECT 1 FROM pg_database WHERE datname = $1', [database]);
-		if (found.rowCount === 0) await client.query(`CREATE DATABASE ${pg.escapeIdentifier(database)}`);
+		if (found.rowCount === 0)
+			await client.query(`CREATE DATABASE ${pg.escapeIdentifier(database)}`);
 	} finally {
 		await client.end();
 	}

@@ -43,7 +43,11 @@ const demoEdits: Record<string, DemoEdit> = {
 			{ at: '0:00', title: 'Cold open: an inch and a half, and no extra travel' },
 			{ at: '0:41', title: 'What coil spacers do, and what they don’t' },
 			{ at: '1:55', title: 'Safety: supporting a coil-sprung axle' },
-			{ at: '3:02', title: 'Front: dropping the axle and fitting the spacers', partSku: 'IBS-CS-150' },
+			{
+				at: '3:02',
+				title: 'Front: dropping the axle and fitting the spacers',
+				partSku: 'IBS-CS-150'
+			},
 			{ at: '5:20', title: 'Front: sway bar links and brake line slack' },
 			{ at: '6:48', title: 'Rear: spacers in, shock length checked', partSku: 'IBS-CS-150' },
 			{ at: '8:35', title: 'Alignment check and headlight aim' },
@@ -57,16 +61,32 @@ export async function seedEdit(trx: Transaction<Database>, context: SeedContext)
 	for (const [slug, edit] of Object.entries(demoEdits)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate)) throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
+		if (!isFrameRate(episode.frameRate))
+			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate: FrameRate = episode.frameRate;
-		await trx.updateTable('episode').set({ cutDurationFrames: parseTimecode(edit.cut, rate) }).where('id', '=', episode.id).execute();
+		await trx
+			.updateTable('episode')
+			.set({ cutDurationFrames: parseTimecode(edit.cut, rate) })
+			.where('id', '=', episode.id)
+			.execute();
 		for (const chapter of edit.chapters) {
 			const part = chapter.partSku
-				? await trx.selectFrom('part').select(['id', 'storeUrl']).where('channelId', '=', episode.channelId).where('sku', '=', chapter.partSku).executeTakeFirst()
+				? await trx
+						.selectFrom('part')
+						.select(['id', 'storeUrl'])
+						.where('channelId', '=', episode.channelId)
+						.where('sku', '=', chapter.partSku)
+						.executeTakeFirst()
 				: undefined;
 			await trx
 				.insertInto('chapter')
-				.values({ episodeId: episode.id, startFrame: chapterStartFromText(chapter.at, rate), title: chapter.title, url: part?.storeUrl ?? null, partId: part?.id ?? null })
+				.values({
+					episodeId: episode.id,
+					startFrame: chapterStartFromText(chapter.at, rate),
+					title: chapter.title,
+					url: part?.storeUrl ?? null,
+					partId: part?.id ?? null
+				})
 				.execute();
 		}
 	}

@@ -12,11 +12,24 @@ import { hazardById, type HazardId } from '../../src/lib/cautions.ts';
 import type { SegmentKind } from '../../src/lib/rundown.ts';
 import type { Stage } from '../../src/lib/stages.ts';
 import { countSpokenWords } from '../../src/lib/script/timing.ts';
-import { framesToSeconds, isFrameRate, parseTimecode, secondsToFrames, type FrameRate } from '../../src/lib/timecode.ts';
+import {
+	framesToSeconds,
+	isFrameRate,
+	parseTimecode,
+	secondsToFrames,
+	type FrameRate
+} from '../../src/lib/timecode.ts';
 import { scriptFingerprint } from '../../src/lib/server/fingerprint.ts';
 import type { SeedContext } from './seed-context.ts';
 
-type TakeSeed = [clip: string, sourceIn: string, sourceOut: string, good: boolean, withFootage: boolean, note?: string];
+type TakeSeed = [
+	clip: string,
+	sourceIn: string,
+	sourceOut: string,
+	good: boolean,
+	withFootage: boolean,
+	note?: string
+];
 
 interface ShotSeed {
 	what: string;
@@ -73,14 +86,35 @@ const work: Record<string, EpisodeWorkSeed> = {
 		scriptStatus: 'approved',
 		history: [
 			{ to: 'script', by: dana, daysAgo: 32, note: 'Episode created' },
-			{ to: 'shoot', by: rico, daysAgo: 15, note: 'Script approved, shot list planned with Mika. Bay 3 booked for Saturday.' },
-			{ to: 'edit', by: mika, daysAgo: 7, note: 'All rushes uploaded. B-cam clips are the C-numbered ones.' }
+			{
+				to: 'shoot',
+				by: rico,
+				daysAgo: 15,
+				note: 'Script approved, shot list planned with Mika. Bay 3 booked for Saturday.'
+			},
+			{
+				to: 'edit',
+				by: mika,
+				daysAgo: 7,
+				note: 'All rushes uploaded. B-cam clips are the C-numbered ones.'
+			}
 		],
 		reviews: [
 			{ kind: 'submitted', by: rico, daysAgo: 19 },
-			{ kind: 'returned', by: dana, daysAgo: 18, body: 'Segment 4 spends a minute on pinion angle maths. Keep one sentence and let the angle finder show it.' },
+			{
+				kind: 'returned',
+				by: dana,
+				daysAgo: 18,
+				body: 'Segment 4 spends a minute on pinion angle maths. Keep one sentence and let the angle finder show it.'
+			},
 			{ kind: 'submitted', by: rico, daysAgo: 17 },
-			{ kind: 'comment', by: dana, daysAgo: 16, segment: 6, body: 'Say the brake hose check out loud: people skip it, and a stretched hose is how this goes wrong.' },
+			{
+				kind: 'comment',
+				by: dana,
+				daysAgo: 16,
+				segment: 6,
+				body: 'Say the brake hose check out loud: people skip it, and a stretched hose is how this goes wrong.'
+			},
 			{ kind: 'approved', by: dana, daysAgo: 16, body: 'Good to shoot.' }
 		],
 		segments: [
@@ -92,8 +126,23 @@ const work: Record<string, EpisodeWorkSeed> = {
 				script:
 					'[[A-roll: Mule side-on in the lot, camper hitched]]\n\nHook up a camper to **Project Mule** and the tail drops like it’s apologising. Today we fix that: a tapered three-inch block, longer U-bolts and matched shocks, in one afternoon in Bay 3.\n\n[[B-roll: tape measure at the rear arch, then the front]]\n\nBy the end, Mule sits level loaded, and you’ll know exactly which numbers to check on your own truck.',
 				shots: [
-					{ what: 'Mule side-on, camper hitched, tail down', angle: 'Wide, low', roll: 'A', camera: 'A-cam', takes: [['A001_C001', '09:02:10:00', '09:02:41:12', true, true]] },
-					{ what: 'Tape measure at rear and front arch', angle: 'Close-up', roll: 'B', camera: 'B-cam', takes: [['B001_C002', '09:05:00:00', '09:05:20:00', false, true, 'Focus hunted'], ['B001_C003', '09:05:30:00', '09:05:52:04', true, true]] }
+					{
+						what: 'Mule side-on, camper hitched, tail down',
+						angle: 'Wide, low',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A001_C001', '09:02:10:00', '09:02:41:12', true, true]]
+					},
+					{
+						what: 'Tape measure at rear and front arch',
+						angle: 'Close-up',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [
+							['B001_C002', '09:05:00:00', '09:05:20:00', false, true, 'Focus hunted'],
+							['B001_C003', '09:05:30:00', '09:05:52:04', true, true]
+						]
+					}
 				]
 			},
 			{
@@ -106,8 +155,20 @@ const work: Record<string, EpisodeWorkSeed> = {
 				script:
 					'Before a single bolt turns: **chocks on the front wheels**, jack under the rear axle, and stands under the frame rails, not the axle, because the axle is about to move.\n\nLower the truck onto the stands, then give it a firm shove. If it moves, start again.\n\n[[B-roll: stand pin going in, ratchet clicks]]',
 				shots: [
-					{ what: 'Chocks on the front wheels', angle: 'Medium', roll: 'B', camera: 'B-cam', takes: [['B002_C001', '09:20:00:00', '09:20:12:00', true, true]] },
-					{ what: 'Stands under the frame rails, shove test', angle: 'Wide, low', roll: 'A', camera: 'A-cam', takes: [['A002_C004', '09:22:00:00', '09:23:10:00', true, true]] }
+					{
+						what: 'Chocks on the front wheels',
+						angle: 'Medium',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B002_C001', '09:20:00:00', '09:20:12:00', true, true]]
+					},
+					{
+						what: 'Stands under the frame rails, shove test',
+						angle: 'Wide, low',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A002_C004', '09:22:00:00', '09:23:10:00', true, true]]
+					}
 				]
 			},
 			{
@@ -118,13 +179,29 @@ const work: Record<string, EpisodeWorkSeed> = {
 				hazards: ['raised-vehicle', 'cutting-grinding'],
 				cautions: {
 					'raised-vehicle': { at: '00:02:12;00' },
-					'cutting-grinding': { at: '00:03:05;00', text: 'Seized U-bolts get cut, not fought: eye, ear and hand protection on, and sparks pointed away from the fuel tank.' }
+					'cutting-grinding': {
+						at: '00:03:05;00',
+						text: 'Seized U-bolts get cut, not fought: eye, ear and hand protection on, and sparks pointed away from the fuel tank.'
+					}
 				},
 				script:
 					'The jack stays under the axle, just taking the weight. Now the U-bolts. Ours have twenty years of road salt on them, so two came off with a breaker bar and **two got cut**.\n\n[[B-roll: grinder sparks, close, then wide]]\n\nNever reuse a U-bolt. They stretch when they’re torqued, and a stretched one won’t hold its clamp load again.',
 				shots: [
-					{ what: 'Breaker bar on the U-bolt nuts', angle: 'Close-up', roll: 'A', camera: 'A-cam', takes: [['A003_C001', '10:01:00:00', '10:02:30:00', true, true]] },
-					{ what: 'Cutting the seized U-bolt', angle: 'Close, then wide', roll: 'B', camera: 'B-cam', notes: 'Shield between grinder and camera', takes: [['B003_C002', '10:05:00:00', '10:05:45:00', true, true]] }
+					{
+						what: 'Breaker bar on the U-bolt nuts',
+						angle: 'Close-up',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A003_C001', '10:01:00:00', '10:02:30:00', true, true]]
+					},
+					{
+						what: 'Cutting the seized U-bolt',
+						angle: 'Close, then wide',
+						roll: 'B',
+						camera: 'B-cam',
+						notes: 'Shield between grinder and camera',
+						takes: [['B003_C002', '10:05:00:00', '10:05:45:00', true, true]]
+					}
 				]
 			},
 			{
@@ -137,8 +214,20 @@ const work: Record<string, EpisodeWorkSeed> = {
 				script:
 					'Lower the axle just enough to slide the block in. It’s **tapered two degrees**, thick end to the back, so the pinion points back up at the transfer case instead of at the ground.\n\n[[Spec card: lift 3 in rear, 2 in front strut spacers]]\n\nAngle finder on the pinion flange: we’re within a degree of the driveshaft. That’s the one sentence of maths today.\n\n- Centre pin in the block’s hole\n- Block’s pin in the axle perch\n- Thick end towards the rear',
 				shots: [
-					{ what: 'Block sliding onto the perch', angle: 'Close-up', roll: 'A', camera: 'A-cam', takes: [['A004_C002', '10:40:00:00', '10:41:20:00', true, true]] },
-					{ what: 'Angle finder on the pinion flange', angle: 'Insert', roll: 'B', camera: 'B-cam', takes: [['B004_C001', '10:45:00:00', '10:45:18:00', true, true]] }
+					{
+						what: 'Block sliding onto the perch',
+						angle: 'Close-up',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A004_C002', '10:40:00:00', '10:41:20:00', true, true]]
+					},
+					{
+						what: 'Angle finder on the pinion flange',
+						angle: 'Insert',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B004_C001', '10:45:00:00', '10:45:18:00', true, true]]
+					}
 				]
 			},
 			{
@@ -150,7 +239,15 @@ const work: Record<string, EpisodeWorkSeed> = {
 				cautions: { 'raised-vehicle': { at: '00:06:42;00' } },
 				script:
 					'New **5/8 by 11 inch** U-bolts, snugged by hand first. Then torque in a cross pattern, like wheel nuts, in three passes. Check the number in your kit’s instructions; ours is on the card.\n\n[[Spec card: torque, from the kit sheet]]\n\nAnd put a note in your phone: **re-torque after 50 miles**. The block and the spring settle.',
-				shots: [{ what: 'Cross-pattern torque passes', angle: 'Medium', roll: 'A', camera: 'A-cam', takes: [['A005_C003', '11:10:00:00', '11:12:05:00', true, true]] }]
+				shots: [
+					{
+						what: 'Cross-pattern torque passes',
+						angle: 'Medium',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A005_C003', '11:10:00:00', '11:12:05:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -162,8 +259,20 @@ const work: Record<string, EpisodeWorkSeed> = {
 				script:
 					'Three inches taller means the old shocks top out. The new ones are sized for the lift.\n\nNow the bit people skip: **let the axle hang to full droop and look at the brake hose**. If it’s tight, it needs the longer hose before this truck moves.\n\n[[B-roll: hose at full droop, finger showing the slack]]',
 				shots: [
-					{ what: 'Shock swap, both sides', angle: 'Medium', roll: 'A', camera: 'A-cam', takes: [['A006_C001', '11:40:00:00', '11:43:00:00', true, true]] },
-					{ what: 'Brake hose at full droop', angle: 'Close-up', roll: 'B', camera: 'B-cam', takes: [['B006_C002', '11:50:00:00', '11:50:25:00', true, true]] }
+					{
+						what: 'Shock swap, both sides',
+						angle: 'Medium',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A006_C001', '11:40:00:00', '11:43:00:00', true, true]]
+					},
+					{
+						what: 'Brake hose at full droop',
+						angle: 'Close-up',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B006_C002', '11:50:00:00', '11:50:25:00', true, true]]
+					}
 				]
 			},
 			{
@@ -171,15 +280,25 @@ const work: Record<string, EpisodeWorkSeed> = {
 				title: 'Road test with the camper',
 				planned: 80,
 				build: 'mule',
-				script: 'Camper back on, same tape measure: the rear sits a touch higher than the front, which is where you want it with a load. It drives flat, no bump-steer, no clunks.\n\n[[A-roll: in-cab, then tracking shot from the chase car]]',
-				shots: [{ what: 'Tracking shot with camper', angle: 'Chase car', roll: 'B', camera: 'B-cam', takes: [['B007_C001', '14:00:00:00', '14:01:30:00', true, true]] }]
+				script:
+					'Camper back on, same tape measure: the rear sits a touch higher than the front, which is where you want it with a load. It drives flat, no bump-steer, no clunks.\n\n[[A-roll: in-cab, then tracking shot from the chase car]]',
+				shots: [
+					{
+						what: 'Tracking shot with camper',
+						angle: 'Chase car',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B007_C001', '14:00:00:00', '14:01:30:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'call-to-action',
 				title: 'What it cost',
 				planned: 30,
 				needsFootage: false,
-				script: 'Blocks, U-bolts and shocks came to just over four hundred dollars. Every part is linked below, and the torque figures are on screen, but your kit’s instructions win every time.'
+				script:
+					'Blocks, U-bolts and shocks came to just over four hundred dollars. Every part is linked below, and the torque figures are on screen, but your kit’s instructions win every time.'
 			},
 			{
 				kind: 'teaser',
@@ -187,7 +306,8 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 20,
 				needsFootage: false,
 				promise: { slug: 'mule-285-tyres' },
-				script: 'Next time: now it sits level, we fit **285/70R17s**, and find out whether they rub at full lock.'
+				script:
+					'Next time: now it sits level, we fit **285/70R17s**, and find out whether they rub at full lock.'
 			}
 		]
 	},
@@ -209,8 +329,16 @@ const work: Record<string, EpisodeWorkSeed> = {
 				title: 'The rub at full lock',
 				planned: 25,
 				build: 'mule',
-				script: '[[A-roll: wheel at full lock, tyre kissing the liner]]\n\nThat sound? That’s a **285** touching the inner liner at full lock. Today we find out if it’s a trim job or a wrong tyre.',
-				shots: [{ what: 'Wheel at full lock, tyre on the liner', angle: 'Close, low', roll: 'A', camera: 'A-cam' }]
+				script:
+					'[[A-roll: wheel at full lock, tyre kissing the liner]]\n\nThat sound? That’s a **285** touching the inner liner at full lock. Today we find out if it’s a trim job or a wrong tyre.',
+				shots: [
+					{
+						what: 'Wheel at full lock, tyre on the liner',
+						angle: 'Close, low',
+						roll: 'A',
+						camera: 'A-cam'
+					}
+				]
 			},
 			{
 				kind: 'overview',
@@ -235,8 +363,11 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 80,
 				build: 'mule',
 				hazards: ['raised-vehicle'],
-				script: 'Same drill as always: chocks, jack at the jacking point, **stands under the frame** before a wheel comes off. Loosen the lug nuts a half turn while the tyre is still on the ground.',
-				shots: [{ what: 'Stands placed, lug nuts cracked', angle: 'Wide', roll: 'A', camera: 'A-cam' }]
+				script:
+					'Same drill as always: chocks, jack at the jacking point, **stands under the frame** before a wheel comes off. Loosen the lug nuts a half turn while the tyre is still on the ground.',
+				shots: [
+					{ what: 'Stands placed, lug nuts cracked', angle: 'Wide', roll: 'A', camera: 'A-cam' }
+				]
 			},
 			{
 				kind: 'wheels-tyres',
@@ -244,11 +375,30 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 100,
 				build: 'mule',
 				hazards: ['raised-vehicle'],
-				script: 'Mounted and balanced at the tyre bench. On the truck, lug nuts go on by hand, then torque in a star pattern to the figure in your owner’s manual.\n\n[[Spec card: lug nut torque]]'
+				script:
+					'Mounted and balanced at the tyre bench. On the truck, lug nuts go on by hand, then torque in a star pattern to the figure in your owner’s manual.\n\n[[Spec card: lug nut torque]]'
 			},
-			{ kind: 'wheels-tyres', title: 'Full-lock clearance check', planned: 60, build: 'mule', script: '' },
-			{ kind: 'test-drive', title: 'Speedometer check on the highway', planned: 60, build: 'mule', script: '' },
-			{ kind: 'call-to-action', title: 'Parts and the shop', planned: 25, needsFootage: false, script: 'Both tyre sizes and the wheels are in the Torquehaven shop, linked below.' }
+			{
+				kind: 'wheels-tyres',
+				title: 'Full-lock clearance check',
+				planned: 60,
+				build: 'mule',
+				script: ''
+			},
+			{
+				kind: 'test-drive',
+				title: 'Speedometer check on the highway',
+				planned: 60,
+				build: 'mule',
+				script: ''
+			},
+			{
+				kind: 'call-to-action',
+				title: 'Parts and the shop',
+				planned: 25,
+				needsFootage: false,
+				script: 'Both tyre sizes and the wheels are in the Torquehaven shop, linked below.'
+			}
 		]
 	},
 	'tallboy-coil-spacers': {
@@ -257,12 +407,22 @@ const work: Record<string, EpisodeWorkSeed> = {
 			{ to: 'script', by: dana, daysAgo: 60, note: 'Episode created' },
 			{ to: 'shoot', by: rico, daysAgo: 41, note: 'Approved. Quarry booked for the trail test.' },
 			{ to: 'edit', by: mika, daysAgo: 33, note: 'Rushes up, quarry footage included.' },
-			{ to: 'locked', by: jules, daysAgo: 20, note: 'Chapters and cautions placed; picture locked.' },
+			{
+				to: 'locked',
+				by: jules,
+				daysAgo: 20,
+				note: 'Chapters and cautions placed; picture locked.'
+			},
 			{ to: 'published', by: dana, daysAgo: 14, note: 'Live.' }
 		],
 		reviews: [
 			{ kind: 'submitted', by: rico, daysAgo: 45 },
-			{ kind: 'approved', by: dana, daysAgo: 43, body: 'Love the “no extra travel” line. Shoot it.' }
+			{
+				kind: 'approved',
+				by: dana,
+				daysAgo: 43,
+				body: 'Love the “no extra travel” line. Shoot it.'
+			}
 		],
 		segments: [
 			{
@@ -273,7 +433,15 @@ const work: Record<string, EpisodeWorkSeed> = {
 				recorded: 'spoken',
 				script:
 					'An inch and a half of lift, front and rear, for under a hundred and fifty dollars, and you can do it in a Saturday. But here’s the thing nobody puts on the box: coil spacers give you height, not travel. Your suspension moves exactly as far as it did before, it just does it higher up. If that’s what you need, for taller tyres or a bit more clearance over rocks, stick around, because this is the cheapest, simplest lift there is.',
-				shots: [{ what: 'Tallboy parked at the quarry edge', angle: 'Wide', roll: 'A', camera: 'A-cam', takes: [['A101_C001', '08:00:00:00', '08:00:45:00', true, true]] }]
+				shots: [
+					{
+						what: 'Tallboy parked at the quarry edge',
+						angle: 'Wide',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A101_C001', '08:00:00:00', '08:00:45:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'overview',
@@ -283,7 +451,15 @@ const work: Record<string, EpisodeWorkSeed> = {
 				recorded: 'spoken',
 				script:
 					'A coil spacer is a ring, polyurethane or aluminium, that sits on top of the spring and pushes the body up by its own thickness. Ours are one and a half inch polyurethane. They keep your factory springs, your factory ride, and your factory shocks, as long as the shocks still have some travel left at full droop. What they don’t do is add any travel, and past about two inches they start asking your shocks, sway bar links and brake lines for more length than they have. So we stay at one and a half, and we check all three.',
-				shots: [{ what: 'Spacer in hand, next to the spring', angle: 'Insert', roll: 'B', camera: 'B-cam', takes: [['B101_C002', '08:30:00:00', '08:30:40:00', true, true]] }]
+				shots: [
+					{
+						what: 'Spacer in hand, next to the spring',
+						angle: 'Insert',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B101_C002', '08:30:00:00', '08:30:40:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -292,8 +468,17 @@ const work: Record<string, EpisodeWorkSeed> = {
 				build: 'tallboy',
 				hazards: ['raised-vehicle'],
 				cautions: { 'raised-vehicle': { at: '00:01:57;00' } },
-				script: 'Stands under the frame, jack under the axle. The axle is going to drop, so the **stands are what hold the truck**. Shove test before anything else.',
-				shots: [{ what: 'Stands under the frame, shove test', angle: 'Wide', roll: 'A', camera: 'A-cam', takes: [['A102_C001', '09:00:00:00', '09:01:00:00', true, true]] }]
+				script:
+					'Stands under the frame, jack under the axle. The axle is going to drop, so the **stands are what hold the truck**. Shove test before anything else.',
+				shots: [
+					{
+						what: 'Stands under the frame, shove test',
+						angle: 'Wide',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A102_C001', '09:00:00:00', '09:01:00:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -301,9 +486,21 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 140,
 				build: 'tallboy',
 				hazards: ['raised-vehicle', 'compressed-springs'],
-				cautions: { 'raised-vehicle': { at: '00:03:04;00' }, 'compressed-springs': { at: '00:03:40;00' } },
-				script: 'Shocks off, sway bar links off, and lower the axle slowly until the spring is **completely free**. If it’s still under load, stop and lower more. Spacer on top, spring back in, and raise the axle to seat it.',
-				shots: [{ what: 'Spring coming out, spacer going in', angle: 'Medium', roll: 'A', camera: 'A-cam', takes: [['A103_C002', '09:30:00:00', '09:33:00:00', true, true]] }]
+				cautions: {
+					'raised-vehicle': { at: '00:03:04;00' },
+					'compressed-springs': { at: '00:03:40;00' }
+				},
+				script:
+					'Shocks off, sway bar links off, and lower the axle slowly until the spring is **completely free**. If it’s still under load, stop and lower more. Spacer on top, spring back in, and raise the axle to seat it.',
+				shots: [
+					{
+						what: 'Spring coming out, spacer going in',
+						angle: 'Medium',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A103_C002', '09:30:00:00', '09:33:00:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -312,8 +509,17 @@ const work: Record<string, EpisodeWorkSeed> = {
 				build: 'tallboy',
 				hazards: ['brakes'],
 				cautions: { brakes: { at: '00:05:22;00' } },
-				script: 'At full droop, the brake lines still have slack: we checked both sides with the axle hanging. The sway bar links got the longer ones.',
-				shots: [{ what: 'Brake line slack at full droop', angle: 'Close-up', roll: 'B', camera: 'B-cam', takes: [['B104_C001', '10:00:00:00', '10:00:30:00', true, true]] }]
+				script:
+					'At full droop, the brake lines still have slack: we checked both sides with the axle hanging. The sway bar links got the longer ones.',
+				shots: [
+					{
+						what: 'Brake line slack at full droop',
+						angle: 'Close-up',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B104_C001', '10:00:00:00', '10:00:30:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -321,17 +527,38 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 105,
 				build: 'tallboy',
 				hazards: ['raised-vehicle', 'compressed-springs'],
-				cautions: { 'raised-vehicle': { at: '00:06:50;00' }, 'compressed-springs': { at: '00:07:15;00' } },
-				script: 'Same again at the back. Before the shocks go back on, measure them extended against the gap at full droop: ours have **three quarters of an inch** to spare.',
-				shots: [{ what: 'Measuring shock length at droop', angle: 'Insert', roll: 'B', camera: 'B-cam', takes: [['B105_C003', '10:40:00:00', '10:41:00:00', true, true]] }]
+				cautions: {
+					'raised-vehicle': { at: '00:06:50;00' },
+					'compressed-springs': { at: '00:07:15;00' }
+				},
+				script:
+					'Same again at the back. Before the shocks go back on, measure them extended against the gap at full droop: ours have **three quarters of an inch** to spare.',
+				shots: [
+					{
+						what: 'Measuring shock length at droop',
+						angle: 'Insert',
+						roll: 'B',
+						camera: 'B-cam',
+						takes: [['B105_C003', '10:40:00:00', '10:41:00:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'test-drive',
 				title: 'Trail test at the quarry',
 				planned: 90,
 				build: 'tallboy',
-				script: '[[A-roll: quarry climb, then the ledge]]\n\nSame ledge, same line: the front bumper clears where it used to scrape.',
-				shots: [{ what: 'Quarry ledge climb', angle: 'Wide, low', roll: 'A', camera: 'A-cam', takes: [['A106_C001', '13:00:00:00', '13:02:00:00', true, true]] }]
+				script:
+					'[[A-roll: quarry climb, then the ledge]]\n\nSame ledge, same line: the front bumper clears where it used to scrape.',
+				shots: [
+					{
+						what: 'Quarry ledge climb',
+						angle: 'Wide, low',
+						roll: 'A',
+						camera: 'A-cam',
+						takes: [['A106_C001', '13:00:00:00', '13:02:00:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'call-to-action',
@@ -348,7 +575,8 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 20,
 				needsFootage: false,
 				promise: { title: 'Tallboy front axle regear' },
-				script: 'Bigger tyres are coming, and that means new gears. We’ll open up the front axle in a future episode.'
+				script:
+					'Bigger tyres are coming, and that means new gears. We’ll open up the front axle in a future episode.'
 			}
 		]
 	},
@@ -358,15 +586,26 @@ const work: Record<string, EpisodeWorkSeed> = {
 			{ to: 'script', by: sam, daysAgo: 20, note: 'Episode created' },
 			{ to: 'shoot', by: sam, daysAgo: 6, note: 'Shooting over two Saturdays.' }
 		],
-		reviews: [{ kind: 'approved', by: sam, daysAgo: 7, body: 'Self-approved: one-person crew this season.' }],
+		reviews: [
+			{ kind: 'approved', by: sam, daysAgo: 7, body: 'Self-approved: one-person crew this season.' }
+		],
 		segments: [
 			{
 				kind: 'cold-open',
 				title: 'A pedal that sinks',
 				planned: 30,
 				build: 'sandpiper',
-				script: 'Push the pedal on Sandpiper and it sinks halfway to the floor. Forty-five-year-old lines, tired pads, and fluid the colour of tea. All of it goes today.',
-				shots: [{ what: 'Foot on the pedal, pedal sinking', angle: 'Footwell', roll: 'A', camera: 'Action cam', takes: [['AC01_0001', '09:00:00:00', '09:00:20:00', true, true]] }]
+				script:
+					'Push the pedal on Sandpiper and it sinks halfway to the floor. Forty-five-year-old lines, tired pads, and fluid the colour of tea. All of it goes today.',
+				shots: [
+					{
+						what: 'Foot on the pedal, pedal sinking',
+						angle: 'Footwell',
+						roll: 'A',
+						camera: 'Action cam',
+						takes: [['AC01_0001', '09:00:00:00', '09:00:20:00', true, true]]
+					}
+				]
 			},
 			{
 				kind: 'install-step',
@@ -374,10 +613,32 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 120,
 				build: 'sandpiper',
 				hazards: ['raised-vehicle', 'brakes'],
-				script: 'Rail on stands, wheels off. Flare-nut wrench on every fitting, never an open-ended spanner: the old nuts are soft and they round off.\n\n[[B-roll: fluid dripping into the catch pan]]',
+				script:
+					'Rail on stands, wheels off. Flare-nut wrench on every fitting, never an open-ended spanner: the old nuts are soft and they round off.\n\n[[B-roll: fluid dripping into the catch pan]]',
 				shots: [
-					{ what: 'Flare-nut wrench on the front fitting', angle: 'Close-up', roll: 'A', camera: 'Main cam', takes: [['MC01_0004', '09:30:00:00', '09:31:10:00', true, true]] },
-					{ what: 'Fluid into the catch pan', angle: 'Insert', roll: 'B', camera: 'Main cam', takes: [['MC01_0007', '09:40:00:00', '09:40:15:00', true, false, 'On the card, not uploaded yet']] }
+					{
+						what: 'Flare-nut wrench on the front fitting',
+						angle: 'Close-up',
+						roll: 'A',
+						camera: 'Main cam',
+						takes: [['MC01_0004', '09:30:00:00', '09:31:10:00', true, true]]
+					},
+					{
+						what: 'Fluid into the catch pan',
+						angle: 'Insert',
+						roll: 'B',
+						camera: 'Main cam',
+						takes: [
+							[
+								'MC01_0007',
+								'09:40:00:00',
+								'09:40:15:00',
+								true,
+								false,
+								'On the card, not uploaded yet'
+							]
+						]
+					}
 				]
 			},
 			{
@@ -386,7 +647,8 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 120,
 				build: 'sandpiper',
 				hazards: ['brakes'],
-				script: 'Bleed from the wheel furthest from the master cylinder, and keep the reservoir topped up so it never draws air. Then bed the pads in: the procedure is in the box, follow it.',
+				script:
+					'Bleed from the wheel furthest from the master cylinder, and keep the reservoir topped up so it never draws air. Then bed the pads in: the procedure is in the box, follow it.',
 				shots: [{ what: 'Bleeding the rear right', angle: 'Medium', roll: 'A', camera: 'Main cam' }]
 			},
 			{
@@ -395,10 +657,25 @@ const work: Record<string, EpisodeWorkSeed> = {
 				planned: 90,
 				build: 'sandpiper',
 				hazards: ['raised-vehicle', 'steering'],
-				script: 'While it’s on stands: the tie rod ends have play. New ones, castle nuts torqued, **new cotter pins**, and an alignment before it goes on the sand.',
-				shots: [{ what: 'Checking tie rod play by hand', angle: 'Close-up', roll: 'A', camera: 'Main cam', takes: [['MC02_0002', '10:20:00:00', '10:20:40:00', true, true]] }]
+				script:
+					'While it’s on stands: the tie rod ends have play. New ones, castle nuts torqued, **new cotter pins**, and an alignment before it goes on the sand.',
+				shots: [
+					{
+						what: 'Checking tie rod play by hand',
+						angle: 'Close-up',
+						roll: 'A',
+						camera: 'Main cam',
+						takes: [['MC02_0002', '10:20:00:00', '10:20:40:00', true, true]]
+					}
+				]
 			},
-			{ kind: 'call-to-action', title: 'More rebuilds weekly', planned: 20, needsFootage: false, script: 'More sand-rail rebuilds every week.' }
+			{
+				kind: 'call-to-action',
+				title: 'More rebuilds weekly',
+				planned: 20,
+				needsFootage: false,
+				script: 'More sand-rail rebuilds every week.'
+			}
 		]
 	}
 };
@@ -414,7 +691,16 @@ const DEMO_BITRATE_MBPS = 100;
  */
 async function demoFootage(
 	trx: Transaction<Database>,
-	input: { channelId: string; episodeId: string; clipName: string; camera: string; seconds: number; rate: FrameRate; uploadedBy: string; uploadedAt: Date }
+	input: {
+		channelId: string;
+		episodeId: string;
+		clipName: string;
+		camera: string;
+		seconds: number;
+		rate: FrameRate;
+		uploadedBy: string;
+		uploadedAt: Date;
+	}
 ): Promise<string> {
 	const row = await trx
 		.insertInto('footage')
@@ -446,19 +732,46 @@ function frames(text: string, rate: FrameRate): number {
 	return parseTimecode(text, rate);
 }
 
-const daysAgo = (days: number, minutes = 0) => new Date(Date.now() - days * 86_400_000 + minutes * 60_000);
+const daysAgo = (days: number, minutes = 0) =>
+	new Date(Date.now() - days * 86_400_000 + minutes * 60_000);
 
-export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedContext): Promise<void> {
+export async function seedEpisodeWork(
+	trx: Transaction<Database>,
+	context: SeedContext
+): Promise<void> {
 	const person = (email: string) => {
 		const id = context.people.get(email);
 		if (!id) throw new Error(`demo person ${email} is missing`);
 		return id;
 	};
 
-	const springs: Record<string, { frontSpring: 'leaf' | 'coil' | 'torsion' | 'strut'; rearSpring: 'leaf' | 'coil' | 'torsion' | 'strut'; frontLiftMethod: string | null; rearLiftMethod: string | null }> = {
-		mule: { frontSpring: 'strut', rearSpring: 'leaf', frontLiftMethod: 'strut-spacer', rearLiftMethod: 'lift-block' },
-		tallboy: { frontSpring: 'coil', rearSpring: 'coil', frontLiftMethod: 'coil-spacer', rearLiftMethod: 'coil-spacer' },
-		sandpiper: { frontSpring: 'torsion', rearSpring: 'torsion', frontLiftMethod: null, rearLiftMethod: null }
+	const springs: Record<
+		string,
+		{
+			frontSpring: 'leaf' | 'coil' | 'torsion' | 'strut';
+			rearSpring: 'leaf' | 'coil' | 'torsion' | 'strut';
+			frontLiftMethod: string | null;
+			rearLiftMethod: string | null;
+		}
+	> = {
+		mule: {
+			frontSpring: 'strut',
+			rearSpring: 'leaf',
+			frontLiftMethod: 'strut-spacer',
+			rearLiftMethod: 'lift-block'
+		},
+		tallboy: {
+			frontSpring: 'coil',
+			rearSpring: 'coil',
+			frontLiftMethod: 'coil-spacer',
+			rearLiftMethod: 'coil-spacer'
+		},
+		sandpiper: {
+			frontSpring: 'torsion',
+			rearSpring: 'torsion',
+			frontLiftMethod: null,
+			rearLiftMethod: null
+		}
 	};
 	for (const [key, values] of Object.entries(springs)) {
 		const buildId = context.builds.get(key);
@@ -468,19 +781,32 @@ export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedC
 	for (const [slug, seed] of Object.entries(work)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate)) throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
+		if (!isFrameRate(episode.frameRate))
+			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate = episode.frameRate;
 		const lastMove = seed.history[seed.history.length - 1];
-		if (lastMove.to !== episode.stage) throw new Error(`demo history of ${slug} ends at ${lastMove.to}, but the episode is at ${episode.stage}`);
+		if (lastMove.to !== episode.stage)
+			throw new Error(
+				`demo history of ${slug} ends at ${lastMove.to}, but the episode is at ${episode.stage}`
+			);
 
 		for (const move of seed.history) {
 			const previous = seed.history[seed.history.indexOf(move) - 1];
 			await trx
 				.insertInto('stageMove')
-				.values({ episodeId: episode.id, personId: person(move.by), fromStage: previous?.to ?? null, toStage: move.to, note: move.note ?? '', createdAt: daysAgo(move.daysAgo) })
+				.values({
+					episodeId: episode.id,
+					personId: person(move.by),
+					fromStage: previous?.to ?? null,
+					toStage: move.to,
+					note: move.note ?? '',
+					createdAt: daysAgo(move.daysAgo)
+				})
 				.execute();
 		}
-		await sql`UPDATE episode SET created_at = ${daysAgo(seed.history[0].daysAgo)} WHERE id = ${episode.id}`.execute(trx);
+		await sql`UPDATE episode SET created_at = ${daysAgo(seed.history[0].daysAgo)} WHERE id = ${episode.id}`.execute(
+			trx
+		);
 
 		const segmentIds: string[] = [];
 		const scripts: { id: string; body: string }[] = [];
@@ -492,7 +818,9 @@ export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedC
 					: segment.recorded === 'spoken'
 						? secondsToFrames(Math.round((words / RICO_RECORDED_WPM) * 60 + 2), rate)
 						: frames(segment.recorded, rate);
-			const promiseEpisodeId = segment.promise?.slug ? (context.episodes.get(segment.promise.slug)?.id ?? null) : null;
+			const promiseEpisodeId = segment.promise?.slug
+				? (context.episodes.get(segment.promise.slug)?.id ?? null)
+				: null;
 			const hazards = segment.hazards ?? [];
 			const row = await trx
 				.insertInto('segment')
@@ -514,29 +842,74 @@ export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedC
 				.executeTakeFirstOrThrow();
 			segmentIds.push(row.id);
 			scripts.push({ id: row.id, body: segment.script });
-			const author = context.episodes.get(slug)!.channelId === context.channels.get('dunewagon') ? sam : rico;
-			await trx.insertInto('segmentScript').values({ segmentId: row.id, body: segment.script, updatedBy: segment.script ? person(author) : null }).execute();
+			const author =
+				context.episodes.get(slug)!.channelId === context.channels.get('dunewagon') ? sam : rico;
+			await trx
+				.insertInto('segmentScript')
+				.values({
+					segmentId: row.id,
+					body: segment.script,
+					updatedBy: segment.script ? person(author) : null
+				})
+				.execute();
 			for (const hazard of hazards) {
 				const placement = segment.cautions?.[hazard];
 				await trx
 					.insertInto('caution')
-					.values({ segmentId: row.id, hazard, text: placement?.text ?? hazardById(hazard).defaultCaution, atFrame: placement?.at ? frames(placement.at, rate) : null })
+					.values({
+						segmentId: row.id,
+						hazard,
+						text: placement?.text ?? hazardById(hazard).defaultCaution,
+						atFrame: placement?.at ? frames(placement.at, rate) : null
+					})
 					.execute();
 			}
 			for (const [shotIndex, shot] of (segment.shots ?? []).entries()) {
 				const shotRow = await trx
 					.insertInto('shot')
-					.values({ segmentId: row.id, what: shot.what, angle: shot.angle, roll: shot.roll, camera: shot.camera, notes: shot.notes ?? '', position: shotIndex + 1 })
+					.values({
+						segmentId: row.id,
+						what: shot.what,
+						angle: shot.angle,
+						roll: shot.roll,
+						camera: shot.camera,
+						notes: shot.notes ?? '',
+						position: shotIndex + 1
+					})
 					.returning('id')
 					.executeTakeFirstOrThrow();
 				for (const [clipName, sourceIn, sourceOut, good, withFootage, note] of shot.takes ?? []) {
 					const sourceInFrames = frames(sourceIn, rate);
 					const sourceOutFrames = frames(sourceOut, rate);
 					// Rushes go up the day the episode moved to the edit (or the latest move, if it hasn't yet).
-					const rushesUp = (seed.history.find((move) => move.to === 'edit') ?? seed.history[seed.history.length - 1]).daysAgo;
+					const rushesUp = (
+						seed.history.find((move) => move.to === 'edit') ?? seed.history[seed.history.length - 1]
+					).daysAgo;
 					const uploadedAt = daysAgo(rushesUp, index + shotIndex);
-					const footageId = withFootage ? await demoFootage(trx, { channelId: episode.channelId, episodeId: episode.id, clipName, camera: shot.camera, seconds: framesToSeconds(sourceOutFrames - sourceInFrames, rate), rate, uploadedBy: person(uploader(slug)), uploadedAt }) : null;
-					await trx.insertInto('take').values({ shotId: shotRow.id, clipName, sourceInFrames, sourceOutFrames, good, note: note ?? '', footageId }).execute();
+					const footageId = withFootage
+						? await demoFootage(trx, {
+								channelId: episode.channelId,
+								episodeId: episode.id,
+								clipName,
+								camera: shot.camera,
+								seconds: framesToSeconds(sourceOutFrames - sourceInFrames, rate),
+								rate,
+								uploadedBy: person(uploader(slug)),
+								uploadedAt
+							})
+						: null;
+					await trx
+						.insertInto('take')
+						.values({
+							shotId: shotRow.id,
+							clipName,
+							sourceInFrames,
+							sourceOutFrames,
+							good,
+							note: note ?? '',
+							footageId
+						})
+						.execute();
 				}
 			}
 		}
@@ -548,7 +921,8 @@ export async function seedEpisodeWork(trx: Transaction<Database>, context: SeedC
 			.set({
 				scriptStatus: seed.scriptStatus,
 				scriptApprovedFingerprint: seed.scriptStatus === 'approved' ? fingerprint : null,
-				scriptApprovedAt: seed.scriptStatus === 'approved' && approval ? daysAgo(approval.daysAgo) : null,
+				scriptApprovedAt:
+					seed.scriptStatus === 'approved' && approval ? daysAgo(approval.daysAgo) : null,
 				scriptApprovedBy: seed.scriptStatus === 'approved' && approval ? person(approval.by) : null
 			})
 			.where('id', '=', episode.id)

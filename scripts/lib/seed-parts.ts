@@ -27,27 +27,118 @@ const camera = 'mika@torquehaven.test';
 
 const demoNotes: Record<string, NoteSeed[]> = {
 	'mule-rear-block-lift': [
-		{ segment: 1, take: 'A001_C001', source: '09:02:15:00', at: '0:08', text: 'Camper hitched, tail down. The kit is laid out on the bench behind Rico.', parts: ['IBS-LB-300T', 'IBS-UB-58-11', 'QS-MT-230R'] },
-		{ segment: 2, take: 'A002_C004', source: '09:22:20:00', at: '1:02', text: 'Stands under the frame rails, then the shove test.', parts: ['IBS-BS-6T'] },
-		{ segment: 4, take: 'A004_C002', source: '10:40:20:00', at: '4:12', text: 'Tapered block onto the perch, thick end to the rear. Label readable on the block.', parts: ['IBS-LB-300T'] },
-		{ segment: 5, take: 'A005_C003', source: '11:10:30:00', at: '6:48', text: 'New U-bolts snugged by hand, torque wrench in shot for the cross pattern.', parts: ['IBS-UB-58-11', 'IBS-TW-250'] },
-		{ segment: 6, take: 'A006_C001', source: '11:41:00:00', at: '9:12', text: 'Shock swap, driver side first. Box label faces the camera.', parts: ['QS-MT-230R'] },
+		{
+			segment: 1,
+			take: 'A001_C001',
+			source: '09:02:15:00',
+			at: '0:08',
+			text: 'Camper hitched, tail down. The kit is laid out on the bench behind Rico.',
+			parts: ['IBS-LB-300T', 'IBS-UB-58-11', 'QS-MT-230R']
+		},
+		{
+			segment: 2,
+			take: 'A002_C004',
+			source: '09:22:20:00',
+			at: '1:02',
+			text: 'Stands under the frame rails, then the shove test.',
+			parts: ['IBS-BS-6T']
+		},
+		{
+			segment: 4,
+			take: 'A004_C002',
+			source: '10:40:20:00',
+			at: '4:12',
+			text: 'Tapered block onto the perch, thick end to the rear. Label readable on the block.',
+			parts: ['IBS-LB-300T']
+		},
+		{
+			segment: 5,
+			take: 'A005_C003',
+			source: '11:10:30:00',
+			at: '6:48',
+			text: 'New U-bolts snugged by hand, torque wrench in shot for the cross pattern.',
+			parts: ['IBS-UB-58-11', 'IBS-TW-250']
+		},
+		{
+			segment: 6,
+			take: 'A006_C001',
+			source: '11:41:00:00',
+			at: '9:12',
+			text: 'Shock swap, driver side first. Box label faces the camera.',
+			parts: ['QS-MT-230R']
+		},
 		// Logged on set; the editor hasn't placed it yet, so the featured parts list warns.
-		{ segment: 6, take: 'B006_C002', source: '11:50:10:00', text: 'Brake hose at full droop; Rico holds up the extended hose for the close-up.', parts: ['NB-BL-REAR'] },
-		{ segment: 7, take: 'B007_C001', source: '14:00:30:00', at: '11:35', text: 'Chase-car tracking shot, camper back on. No parts in frame.', parts: [] }
+		{
+			segment: 6,
+			take: 'B006_C002',
+			source: '11:50:10:00',
+			text: 'Brake hose at full droop; Rico holds up the extended hose for the close-up.',
+			parts: ['NB-BL-REAR']
+		},
+		{
+			segment: 7,
+			take: 'B007_C001',
+			source: '14:00:30:00',
+			at: '11:35',
+			text: 'Chase-car tracking shot, camper back on. No parts in frame.',
+			parts: []
+		}
 	],
 	'tallboy-coil-spacers': [
-		{ segment: 2, take: 'B101_C002', source: '08:30:12:00', at: '0:52', text: 'Spacer in hand next to the spring, part number on the box.', parts: ['IBS-CS-150'] },
-		{ segment: 3, take: 'A102_C001', source: '09:00:20:00', at: '2:05', text: 'Stands under the frame before the axle drops.', parts: ['IBS-BS-6T'] },
-		{ segment: 4, take: 'A103_C002', source: '09:31:00:00', at: '3:10', text: 'Spacer seated on the front spring perch.', parts: ['IBS-CS-150'] },
-		{ segment: 5, take: 'B104_C001', source: '10:00:10:00', at: '5:31', text: 'Brake line slack at full droop; the extended lines go on.', parts: ['NB-BL-EXT2'] },
-		{ segment: 6, take: 'B105_C003', source: '10:40:30:00', at: '7:02', text: 'Rear spacer in, shock length checked at droop.', parts: ['IBS-CS-150', 'QS-TT-250'] },
-		{ segment: 7, take: 'A106_C001', source: '13:00:40:00', at: '10:05', text: 'Quarry ledge climb; the tyre sidewall fills the frame.', parts: ['CT-MT-33125015'] }
+		{
+			segment: 2,
+			take: 'B101_C002',
+			source: '08:30:12:00',
+			at: '0:52',
+			text: 'Spacer in hand next to the spring, part number on the box.',
+			parts: ['IBS-CS-150']
+		},
+		{
+			segment: 3,
+			take: 'A102_C001',
+			source: '09:00:20:00',
+			at: '2:05',
+			text: 'Stands under the frame before the axle drops.',
+			parts: ['IBS-BS-6T']
+		},
+		{
+			segment: 4,
+			take: 'A103_C002',
+			source: '09:31:00:00',
+			at: '3:10',
+			text: 'Spacer seated on the front spring perch.',
+			parts: ['IBS-CS-150']
+		},
+		{
+			segment: 5,
+			take: 'B104_C001',
+			source: '10:00:10:00',
+			at: '5:31',
+			text: 'Brake line slack at full droop; the extended lines go on.',
+			parts: ['NB-BL-EXT2']
+		},
+		{
+			segment: 6,
+			take: 'B105_C003',
+			source: '10:40:30:00',
+			at: '7:02',
+			text: 'Rear spacer in, shock length checked at droop.',
+			parts: ['IBS-CS-150', 'QS-TT-250']
+		},
+		{
+			segment: 7,
+			take: 'A106_C001',
+			source: '13:00:40:00',
+			at: '10:05',
+			text: 'Quarry ledge climb; the tyre sidewall fills the frame.',
+			parts: ['CT-MT-33125015']
+		}
 	]
 };
 
 /** Clicks per day for the published episode's links, days since it went live (0 = launch day). */
-const clickShape = (day: number, rank: number) => Math.max(0, Math.round((38 - rank * 7) * Math.exp(-day / 5) + ((day * 7 + rank * 3) % 5)));
+const clickShape = (day: number, rank: number) =>
+	Math.max(0, Math.round((38 - rank * 7) * Math.exp(-day / 5) + ((day * 7 + rank * 3) % 5)));
 
 // The same alphabet as src/lib/server/tracked-links.ts (which the seed can't import: it reads $env).
 const CODE_ALPHABET = 'ABCDEFGHJKLMNPQRSTUVWXYZabcdefghijkmnopqrstuvwxyz23456789';
@@ -66,9 +157,14 @@ export async function seedParts(trx: Transaction<Database>, context: SeedContext
 	for (const [slug, notes] of Object.entries(demoNotes)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate)) throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
+		if (!isFrameRate(episode.frameRate))
+			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate: FrameRate = episode.frameRate;
-		const segments = await trx.selectFrom('segment').select(['id', 'position']).where('episodeId', '=', episode.id).execute();
+		const segments = await trx
+			.selectFrom('segment')
+			.select(['id', 'position'])
+			.where('episodeId', '=', episode.id)
+			.execute();
 		const takes = await trx
 			.selectFrom('take')
 			.innerJoin('shot', 'shot.id', 'take.shotId')
@@ -76,7 +172,11 @@ export async function seedParts(trx: Transaction<Database>, context: SeedContext
 			.select(['take.id', 'take.clipName'])
 			.where('segment.episodeId', '=', episode.id)
 			.execute();
-		const parts = await trx.selectFrom('part').select(['id', 'sku']).where('channelId', '=', episode.channelId).execute();
+		const parts = await trx
+			.selectFrom('part')
+			.select(['id', 'sku'])
+			.where('channelId', '=', episode.channelId)
+			.execute();
 		const partId = (sku: string) => {
 			const found = parts.find((part) => part.sku === sku);
 			if (!found) throw new Error(`demo note names ${sku}, which is not in the demo catalogue`);
@@ -85,7 +185,9 @@ export async function seedParts(trx: Transaction<Database>, context: SeedContext
 		const featured = new Set<string>();
 		for (const [index, note] of notes.entries()) {
 			const segmentId = segments.find((segment) => segment.position === note.segment)?.id ?? null;
-			const takeId = note.take ? (takes.find((take) => take.clipName === note.take)?.id ?? null) : null;
+			const takeId = note.take
+				? (takes.find((take) => take.clipName === note.take)?.id ?? null)
+				: null;
 			const row = await trx
 				.insertInto('segmentNote')
 				.values({
@@ -102,17 +204,28 @@ export async function seedParts(trx: Transaction<Database>, context: SeedContext
 				.returning('id')
 				.executeTakeFirstOrThrow();
 			for (const sku of note.parts) {
-				await trx.insertInto('segmentNotePart').values({ noteId: row.id, partId: partId(sku) }).execute();
+				await trx
+					.insertInto('segmentNotePart')
+					.values({ noteId: row.id, partId: partId(sku) })
+					.execute();
 				featured.add(sku);
 			}
 		}
 		const links: { id: string; sku: string }[] = [];
 		for (const sku of featured) {
-			const link = await trx.insertInto('trackedLink').values({ code: linkCode(), episodeId: episode.id, partId: partId(sku) }).returning('id').executeTakeFirstOrThrow();
+			const link = await trx
+				.insertInto('trackedLink')
+				.values({ code: linkCode(), episodeId: episode.id, partId: partId(sku) })
+				.returning('id')
+				.executeTakeFirstOrThrow();
 			links.push({ id: link.id, sku });
 		}
 		if (episode.stage !== 'published') continue;
-		const today = Date.UTC(new Date().getUTCFullYear(), new Date().getUTCMonth(), new Date().getUTCDate());
+		const today = Date.UTC(
+			new Date().getUTCFullYear(),
+			new Date().getUTCMonth(),
+			new Date().getUTCDate()
+		);
 		const liveForDays = 14;
 		const rows = links.flatMap((link, rank) =>
 			Array.from({ length: liveForDays + 1 }, (_, day) => ({

@@ -25,7 +25,14 @@ const demoCards: Record<string, DemoCard[]> = {
 			segment: 'Tapered block in, pinion angle checked',
 			at: '00:04:48;00',
 			// Project Mule: independent front on coil-over struts (2 in strut spacers), leaf-sprung rear axle (3 in block).
-			input: { kind: 'lift', frontLiftIn: 2, rearLiftIn: 3, frontSuspension: 'strut', rearSuspension: 'leaf', method: { front: 'strut-spacer', rear: 'lift-block' } }
+			input: {
+				kind: 'lift',
+				frontLiftIn: 2,
+				rearLiftIn: 3,
+				frontSuspension: 'strut',
+				rearSuspension: 'leaf',
+				method: { front: 'strut-spacer', rear: 'lift-block' }
+			}
 		},
 		{
 			segment: 'New U-bolts, torqued in a cross pattern',
@@ -35,22 +42,41 @@ const demoCards: Record<string, DemoCard[]> = {
 			input: { kind: 'torque', value: 85, unit: 'ft·lbf', fastener: 'U-bolt nuts, 5/8 in' }
 		}
 	],
-	'mule-285-tyres': [{ segment: 'The numbers: diameter and clearance', at: null, input: { kind: 'tyre-change', from: '265/70R17', to: '285/70R17' } }]
+	'mule-285-tyres': [
+		{
+			segment: 'The numbers: diameter and clearance',
+			at: null,
+			input: { kind: 'tyre-change', from: '265/70R17', to: '285/70R17' }
+		}
+	]
 };
 
-export async function seedSpecCards(trx: Transaction<Database>, context: SeedContext): Promise<void> {
+export async function seedSpecCards(
+	trx: Transaction<Database>,
+	context: SeedContext
+): Promise<void> {
 	const editor = context.people.get('jules@cutbench.test') ?? null;
 	for (const [slug, cards] of Object.entries(demoCards)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate)) throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
+		if (!isFrameRate(episode.frameRate))
+			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate = episode.frameRate;
 		let position = 0;
 		for (const card of cards) {
 			const checked = checkSpecCard(card.input);
-			if (!checked.ok) throw new Error(`demo spec card on ${slug} does not check: ${checked.message}`);
-			const segment = await trx.selectFrom('segment').select('id').where('episodeId', '=', episode.id).where('title', '=', card.segment).executeTakeFirst();
-			if (!segment) throw new Error(`demo spec card on ${slug} names a segment that is not in the rundown: ${card.segment}`);
+			if (!checked.ok)
+				throw new Error(`demo spec card on ${slug} does not check: ${checked.message}`);
+			const segment = await trx
+				.selectFrom('segment')
+				.select('id')
+				.where('episodeId', '=', episode.id)
+				.where('title', '=', card.segment)
+				.executeTakeFirst();
+			if (!segment)
+				throw new Error(
+					`demo spec card on ${slug} names a segment that is not in the rundown: ${card.segment}`
+				);
 			await trx
 				.insertInto('specCard')
 				.values({

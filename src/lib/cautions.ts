@@ -80,17 +80,21 @@ const hazardList: Hazard[] = [
 	{
 		id: 'tyre-inflation',
 		label: 'Tyre mounting and inflation',
-		defaultCaution: 'Seat beads in a tyre cage with a clip-on chuck, standing clear. Never exceed the seating pressure printed on the tyre.'
+		defaultCaution:
+			'Seat beads in a tyre cage with a clip-on chuck, standing clear. Never exceed the seating pressure printed on the tyre.'
 	},
 	{
 		id: 'road-test',
 		label: 'Road test',
-		defaultCaution: 'Check wheels, brakes and steering before driving. Test on a closed course or where the law allows, within the limits.'
+		defaultCaution:
+			'Check wheels, brakes and steering before driving. Test on a closed course or where the law allows, within the limits.'
 	}
 ];
 
 /** The fixed hazard list, in the order the rundown shows the flags. Frozen: edit a segment's copy, never these. */
-export const HAZARDS: readonly Readonly<Hazard>[] = Object.freeze(hazardList.map((hazard) => Object.freeze(hazard)));
+export const HAZARDS: readonly Readonly<Hazard>[] = Object.freeze(
+	hazardList.map((hazard) => Object.freeze(hazard))
+);
 
 /** For episode descriptions and the publish kit: the video is general information and defers to the people and papers that govern the reader's vehicle. */
 /** Under the cautions where the crew plans or writes hazardous work (script, rundown, shot list). */

@@ -108,7 +108,9 @@ export const CHAPTERS_MISSING_MESSAGE = 'Mark at least three chapters on the edi
 /** `Segment 4 “Swap the blocks”`: one-based like the crew counts. */
 export function segmentName(segment: Pick<GateSegment, 'position' | 'title'>): string {
 	const title = segment.title.trim();
-	return title ? `Segment ${segment.position} “${title}”` : `Segment ${segment.position} (no title)`;
+	return title
+		? `Segment ${segment.position} “${title}”`
+		: `Segment ${segment.position} (no title)`;
 }
 
 function shotListRule(snapshot: GateSnapshot): GateReason[] {
@@ -117,7 +119,8 @@ function shotListRule(snapshot: GateSnapshot): GateReason[] {
 		.map((segment) => ({
 			rule: 'shot-list-missing' as const,
 			subject: segmentName(segment),
-			message: 'Needs footage but has no shot list yet: the camera operator adds at least one shot on the rundown (or untick “needs footage” if it is read over other footage).',
+			message:
+				'Needs footage but has no shot list yet: the camera operator adds at least one shot on the rundown (or untick “needs footage” if it is read over other footage).',
 			fixedBy: 'camera' as const,
 			segmentId: segment.id
 		}));
@@ -137,22 +140,59 @@ function assigneeRule(snapshot: GateSnapshot, role: Role, words: string): GateRe
 
 function scriptRules(snapshot: GateSnapshot): GateReason[] {
 	if (snapshot.segments.length === 0) {
-		return [{ rule: 'rundown-empty', subject: 'Rundown', message: 'The rundown has no segments: the host adds them on the rundown page and writes each one.', fixedBy: 'host' }];
+		return [
+			{
+				rule: 'rundown-empty',
+				subject: 'Rundown',
+				message:
+					'The rundown has no segments: the host adds them on the rundown page and writes each one.',
+				fixedBy: 'host'
+			}
+		];
 	}
 	const reasons: GateReason[] = [];
 	if (snapshot.segments.every((segment) => segment.words === 0)) {
-		reasons.push({ rule: 'script-empty', subject: 'Script', message: 'No segment has any script yet: the host writes the segments on the script page.', fixedBy: 'host' });
+		reasons.push({
+			rule: 'script-empty',
+			subject: 'Script',
+			message: 'No segment has any script yet: the host writes the segments on the script page.',
+			fixedBy: 'host'
+		});
 	}
 	const { status, approvedFingerprint, currentFingerprint } = snapshot.script;
-	if (status === 'approved' && approvedFingerprint !== null && approvedFingerprint !== currentFingerprint) {
-		reasons.push({ rule: 'script-changed', subject: 'Script', message: 'The script changed after it was approved: a producer reads it again and approves it on the script page.', fixedBy: 'producer' });
+	if (
+		status === 'approved' &&
+		approvedFingerprint !== null &&
+		approvedFingerprint !== currentFingerprint
+	) {
+		reasons.push({
+			rule: 'script-changed',
+			subject: 'Script',
+			message:
+				'The script changed after it was approved: a producer reads it again and approves it on the script page.',
+			fixedBy: 'producer'
+		});
 	} else if (status !== 'approved') {
 		const messages: Record<Exclude<ScriptStatus, 'approved'>, { text: string; fixedBy: Role }> = {
-			draft: { text: 'The script is not approved: the host sends it for approval on the script page, then a producer approves it.', fixedBy: 'host' },
-			submitted: { text: 'The script is waiting for a producer to approve it on the script page.', fixedBy: 'producer' },
-			returned: { text: 'The producer returned the script with comments: the host works through them and sends it again.', fixedBy: 'host' }
+			draft: {
+				text: 'The script is not approved: the host sends it for approval on the script page, then a producer approves it.',
+				fixedBy: 'host'
+			},
+			submitted: {
+				text: 'The script is waiting for a producer to approve it on the script page.',
+				fixedBy: 'producer'
+			},
+			returned: {
+				text: 'The producer returned the script with comments: the host works through them and sends it again.',
+				fixedBy: 'host'
+			}
 		};
-		reasons.push({ rule: 'script-not-approved', subject: 'Script', message: messages[status].text, fixedBy: messages[status].fixedBy });
+		reasons.push({
+			rule: 'script-not-approved',
+			subject: 'Script',
+			message: messages[status].text,
+			fixedBy: messages[status].fixedBy
+		});
 	}
 	return reasons;
 }
@@ -167,9 +207,10 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 				reasons.push({
 					rule: 'take-missing',
 					subject,
-					message: shot.takes.length === 0
-						? 'No take is logged: film it and log the take on the shot list.'
-						: 'No take is marked good: mark the usable take good, or film it again.',
+					message:
+						shot.takes.length === 0
+							? 'No take is logged: film it and log the take on the shot list.'
+							: 'No take is marked good: mark the usable take good, or film it again.',
 					fixedBy: 'camera',
 					segmentId: segment.id
 				});
@@ -191,19 +232,33 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 function cautionRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
 	const rate = snapshot.frameRate;
-	const at = (frames: number) => (isFrameRate(rate) ? formatTimecode(frames, rate) : `frame ${frames}`);
+	const at = (frames: number) =>
+		isFrameRate(rate) ? formatTimecode(frames, rate) : `frame ${frames}`;
 	for (const segment of snapshot.segments) {
 		for (const hazard of segment.hazards) {
 			const label = hazardById(hazard)?.label ?? hazard;
 			const caution = segment.cautions.find((candidate) => candidate.hazard === hazard);
 			const base = { subject: segmentName(segment), segmentId: segment.id };
 			if (!caution || caution.text.trim() === '') {
-				reasons.push({ ...base, rule: 'caution-text-missing', message: `The “${label}” caution has no text: write it on the rundown (the default wording is a good start).`, fixedBy: 'host' });
+				reasons.push({
+					...base,
+					rule: 'caution-text-missing',
+					message: `The “${label}” caution has no text: write it on the rundown (the default wording is a good start).`,
+					fixedBy: 'host'
+				});
 				continue;
 			}
 			if (caution.atFrame === null) {
-				reasons.push({ ...base, rule: 'caution-unplaced', message: `The “${label}” caution is not placed in the cut: type the time where its card appears, on the rundown.`, fixedBy: 'editor' });
-			} else if (snapshot.cutDurationFrames !== null && caution.atFrame >= snapshot.cutDurationFrames) {
+				reasons.push({
+					...base,
+					rule: 'caution-unplaced',
+					message: `The “${label}” caution is not placed in the cut: type the time where its card appears, on the rundown.`,
+					fixedBy: 'editor'
+				});
+			} else if (
+				snapshot.cutDurationFrames !== null &&
+				caution.atFrame >= snapshot.cutDurationFrames
+			) {
 				reasons.push({
 					...base,
 					rule: 'caution-past-end',
@@ -219,11 +274,28 @@ function cautionRules(snapshot: GateSnapshot): GateReason[] {
 function lockRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
 	if (snapshot.chapterProblems === null) {
-		reasons.push({ rule: 'chapters-missing', subject: 'Chapters', message: CHAPTERS_MISSING_MESSAGE, fixedBy: 'editor' });
+		reasons.push({
+			rule: 'chapters-missing',
+			subject: 'Chapters',
+			message: CHAPTERS_MISSING_MESSAGE,
+			fixedBy: 'editor'
+		});
 	} else {
-		for (const problem of snapshot.chapterProblems) reasons.push({ rule: 'chapter-problem', subject: 'Chapters', message: problem, fixedBy: 'editor' });
+		for (const problem of snapshot.chapterProblems)
+			reasons.push({
+				rule: 'chapter-problem',
+				subject: 'Chapters',
+				message: problem,
+				fixedBy: 'editor'
+			});
 	}
-	for (const problem of snapshot.featuredPartProblems) reasons.push({ rule: 'part-problem', subject: 'Featured parts', message: problem.message, fixedBy: problem.fixedBy });
+	for (const problem of snapshot.featuredPartProblems)
+		reasons.push({
+			rule: 'part-problem',
+			subject: 'Featured parts',
+			message: problem.message,
+			fixedBy: problem.fixedBy
+		});
 	reasons.push(...cautionRules(snapshot));
 	return reasons;
 }
@@ -234,15 +306,28 @@ export function gateChecksFor(snapshot: GateSnapshot, to: Stage): GateReason[] {
 		case 'script':
 			return [];
 		case 'shoot':
-			return [...scriptRules(snapshot), ...shotListRule(snapshot), ...assigneeRule(snapshot, 'camera', 'camera operator')];
+			return [
+				...scriptRules(snapshot),
+				...shotListRule(snapshot),
+				...assigneeRule(snapshot, 'camera', 'camera operator')
+			];
 		case 'edit':
-			return [...shotListRule(snapshot), ...footageRules(snapshot), ...assigneeRule(snapshot, 'editor', 'editor')];
+			return [
+				...shotListRule(snapshot),
+				...footageRules(snapshot),
+				...assigneeRule(snapshot, 'editor', 'editor')
+			];
 		case 'locked':
 			return lockRules(snapshot);
 		case 'published': {
 			const reasons = lockRules(snapshot);
 			if (!snapshot.publishDate) {
-				reasons.push({ rule: 'publish-date-missing', subject: 'Publish date', message: 'No publish date is set: a producer sets it on the episode page.', fixedBy: 'producer' });
+				reasons.push({
+					rule: 'publish-date-missing',
+					subject: 'Publish date',
+					message: 'No publish date is set: a producer sets it on the episode page.',
+					fixedBy: 'producer'
+				});
 			}
 			return reasons;
 		}

@@ -20,5 +20,7 @@ export const NAV_ITEMS: NavItem[] = [
 ];
 
 export function navFor(roles: Role[]): NavItem[] {
-	return NAV_ITEMS.filter((item) => item.roles === 'all' || item.roles.some((role) => roles.includes(role)));
+	return NAV_ITEMS.filter(
+		(item) => item.roles === 'all' || item.roles.some((role) => roles.includes(role))
+	);
 }

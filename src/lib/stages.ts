@@ -40,7 +40,11 @@ export const STAGE_OWNER: Record<Stage, Role | null> = {
 };
 
 /** The roles whose assignee may move an episode forward out of a stage (besides any producer). */
-const FORWARD_BY_ASSIGNEE: Partial<Record<Stage, Role>> = { script: 'host', shoot: 'camera', edit: 'editor' };
+const FORWARD_BY_ASSIGNEE: Partial<Record<Stage, Role>> = {
+	script: 'host',
+	shoot: 'camera',
+	edit: 'editor'
+};
 
 export function isStage(value: unknown): value is Stage {
 	return typeof value === 'string' && (STAGES as readonly string[]).includes(value);
@@ -75,7 +79,12 @@ export interface Mover {
 }
 
 /** Whether this person may make this move, by the rule in this module's header; the gate checks are separate. */
-export function mayMoveStage(mover: Mover, assignments: Partial<Record<Role, string>>, from: Stage, to: Stage): boolean {
+export function mayMoveStage(
+	mover: Mover,
+	assignments: Partial<Record<Role, string>>,
+	from: Stage,
+	to: Stage
+): boolean {
 	const direction = moveDirection(from, to);
 	if (direction === null) return false;
 	if (mover.roles.includes('producer')) return true;
@@ -87,7 +96,13 @@ export function mayMoveStage(mover: Mover, assignments: Partial<Record<Role, str
 /** Who may move an episode forward from a stage, in words for the page. */
 export function forwardMoversText(stage: Stage): string {
 	const role = FORWARD_BY_ASSIGNEE[stage];
-	const names: Record<Role, string> = { producer: 'producer', host: 'host', camera: 'camera operator', editor: 'editor', merch: 'merch team' };
+	const names: Record<Role, string> = {
+		producer: 'producer',
+		host: 'host',
+		camera: 'camera operator',
+		editor: 'editor',
+		merch: 'merch team'
+	};
 	return role ? `A producer or the assigned ${names[role]}` : 'A producer';
 }
 
@@ -99,9 +114,14 @@ export function forwardMoversText(stage: Stage): string {
 export function editLocks(stage: Stage): { cut: string | null; chapters: string | null } {
 	const back = (to: Stage) => `A producer can move it back to ${STAGE_LABELS[to]} to change it.`;
 	if (stage === 'published') {
-		const why = 'This episode is published: its chapters are in the live description and the cut is final.';
+		const why =
+			'This episode is published: its chapters are in the live description and the cut is final.';
 		return { cut: `${why} ${back('edit')}`, chapters: `${why} ${back('locked')}` };
 	}
-	if (stage === 'locked') return { cut: `The picture is locked, so the cut's length is final. ${back('edit')}`, chapters: null };
+	if (stage === 'locked')
+		return {
+			cut: `The picture is locked, so the cut's length is final. ${back('edit')}`,
+			chapters: null
+		};
 	return { cut: null, chapters: null };
 }

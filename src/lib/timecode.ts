@@ -126,7 +126,9 @@ export function framesToSeconds(frames: number, rate: FrameRate): number {
 /** Nearest frame to a real time in seconds, using the exact rational rate (halves round up). */
 export function secondsToFrames(seconds: number, rate: FrameRate): number {
 	if (!Number.isFinite(seconds) || seconds < 0) {
-		throw new TimecodeError(`${String(seconds)} s isn't a time in the cut: it has to be 0 or more.`);
+		throw new TimecodeError(
+			`${String(seconds)} s isn't a time in the cut: it has to be 0 or more.`
+		);
 	}
 	const { numerator, denominator } = factsFor(rate);
 	return Math.round((seconds * numerator) / denominator);
@@ -181,7 +183,8 @@ export function formatTimecode(
 const TIMECODE_PATTERN = /^(\d+):(\d{2}):(\d{2})([:;])(\d{2})$/;
 // H:MM:SS needs two-digit minutes; M:SS takes any number of minute digits (still below 60).
 const CLOCK_PATTERN = /^(?:(\d+):(\d{2})|(\d+)):(\d{2})(?:\.(\d+))?$/;
-const EXAMPLES = 'Write it as HH:MM:SS:FF (e.g. 00:04:30:12) or as a clock time like 4:30 or 0:04:30.500.';
+const EXAMPLES =
+	'Write it as HH:MM:SS:FF (e.g. 00:04:30:12) or as a clock time like 4:30 or 0:04:30.500.';
 
 function describeBadText(text: string): string {
 	if (text === '') return `Type a timecode or a time. ${EXAMPLES}`;
@@ -279,7 +282,8 @@ export function parseTimecode(
 			(3600 * hours + 60 * minutes + seconds) * facts.nominal +
 			frameLabel -
 			dropped * (totalMinutes - Math.floor(totalMinutes / 10));
-		if (!Number.isSafeInteger(frames)) throw new TimecodeError(`“${trimmed}” is far too long a time.`);
+		if (!Number.isSafeInteger(frames))
+			throw new TimecodeError(`“${trimmed}” is far too long a time.`);
 		return frames;
 	}
 
@@ -300,7 +304,9 @@ export function formatClock(
 	opts: { hours?: 'auto' | 'always'; millis?: boolean } = {}
 ): string {
 	if (!Number.isFinite(seconds) || seconds < 0) {
-		throw new TimecodeError(`${String(seconds)} s isn't a time in the cut: it has to be 0 or more.`);
+		throw new TimecodeError(
+			`${String(seconds)} s isn't a time in the cut: it has to be 0 or more.`
+		);
 	}
 	return formatMilliseconds(Math.round(seconds * 1000), opts);
 }

@@ -18,7 +18,12 @@ export function restoreTypedBeforeReady(doc: Document = document): number {
 	let restored = 0;
 	for (const [id, typed] of capture.typed) {
 		const field = doc.getElementById(id);
-		if (!(field instanceof HTMLInputElement || field instanceof HTMLTextAreaElement || field instanceof HTMLSelectElement)) continue;
+		if (!(
+			field instanceof HTMLInputElement ||
+			field instanceof HTMLTextAreaElement ||
+			field instanceof HTMLSelectElement
+		))
+			continue;
 		if ('checked' in typed) {
 			if (!(field instanceof HTMLInputElement) || field.checked === typed.checked) continue;
 			field.checked = typed.checked;

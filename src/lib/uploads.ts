@@ -14,10 +14,12 @@ export const DEFAULT_MAX_UPLOAD_BYTES = 50 * 1024 ** 3;
  * Footage, sound and stills only. Image types that are documents with markup (SVG and any other
  * `+xml` type) can carry scripts, so they are refused.
  */
-export const ALLOWED_UPLOAD_TYPE = /^(?:video|audio|image)\/(?![a-z0-9.+-]*(?:svg|xml))[a-z0-9.+-]+$/i;
+export const ALLOWED_UPLOAD_TYPE =
+	/^(?:video|audio|image)\/(?![a-z0-9.+-]*(?:svg|xml))[a-z0-9.+-]+$/i;
 
 /** Types a browser may show in place (the player, a still); anything else is served as a download. */
-export const INLINE_TYPE = /^(?:video|audio)\/[a-z0-9.+-]+$|^image\/(?:jpeg|png|gif|webp|avif|heic|heif)$/i;
+export const INLINE_TYPE =
+	/^(?:video|audio)\/[a-z0-9.+-]+$|^image\/(?:jpeg|png|gif|webp|avif|heic|heif)$/i;
 
 /** A file name safe to store and show: no folders, no control characters, no leading dots, at most 120 characters. */
 export function cleanFileName(name: string): string {

@@ -16,7 +16,11 @@ afterEach(async () => {
 });
 
 /** Opens a form page while its scripts are held back, fills it, and waits for hydration. */
-async function typeBeforeHydration(path: string, fill: Record<string, string>, signInFirst?: string) {
+async function typeBeforeHydration(
+	path: string,
+	fill: Record<string, string>,
+	signInFirst?: string
+) {
 	browser = await openBrowser();
 	const { page } = browser;
 	if (signInFirst) await signInAs(page, signInFirst);
@@ -28,15 +32,21 @@ async function typeBeforeHydration(path: string, fill: Record<string, string>, s
 	});
 	// `commit` returns as soon as the HTML starts arriving, before any script can run.
 	await page.goto(path, { waitUntil: 'commit' });
-	for (const [label, value] of Object.entries(fill)) await page.getByLabel(label, { exact: true }).fill(value);
-	expect(await page.evaluate(() => document.documentElement.hasAttribute('data-hydrated'))).toBe(false);
+	for (const [label, value] of Object.entries(fill))
+		await page.getByLabel(label, { exact: true }).fill(value);
+	expect(await page.evaluate(() => document.documentElement.hasAttribute('data-hydrated'))).toBe(
+		false
+	);
 	release();
 	await page.waitForSelector('html[data-hydrated]', { state: 'attached' });
 	return page;
 }
 
 test('an e-mail and password typed before the page hydrates are kept, and the sign-in goes through', async () => {
-	const page = await typeBeforeHydration('/signin', { 'E-mail': demo.producer, Password: DEMO_PASSWORD });
+	const page = await typeBeforeHydration('/signin', {
+		'E-mail': demo.producer,
+		Password: DEMO_PASSWORD
+	});
 	expect(await page.getByLabel('E-mail').inputValue()).toBe(demo.producer);
 	expect(await page.getByLabel('Password').inputValue()).toBe(DEMO_PASSWORD);
 	await page.getByRole('button', { name: 'Sign in' }).click();
@@ -52,11 +62,19 @@ test('an e-mail typed into the reset form before the page hydrates is kept', asy
 test('a title retyped on a freshly loaded episode page before it hydrates is kept and saved', async () => {
 	const producer = await signedIn(demo.producer);
 	const title = `Hydration check ${Date.now()}`;
-	const created = await producer.action('/episodes/new?/create', { title, targetRuntime: '8:00', frameRate: '25' });
+	const created = await producer.action('/episodes/new?/create', {
+		title,
+		targetRuntime: '8:00',
+		frameRate: '25'
+	});
 	expect(created.location).toMatch(/^\/episodes\//);
 	// A new episode opens on its rundown; the details form is on the overview, /episodes/<id>.
 	const episodePath = created.location!.split('?')[0].split('/').slice(0, 3).join('/');
-	const page = await typeBeforeHydration(episodePath, { Title: `${title} retitled` }, demo.producer);
+	const page = await typeBeforeHydration(
+		episodePath,
+		{ Title: `${title} retitled` },
+		demo.producer
+	);
 	expect(await page.getByLabel('Title', { exact: true }).inputValue()).toBe(`${title} retitled`);
 	await page.getByRole('button', { name: 'Save details' }).click();
 	await expect.poll(() => page.getByRole('status').filter({ hasText: 'Saved.' }).count()).toBe(1);
@@ -80,7 +98,11 @@ test('without scripts, the refused sign-in page is rendered with the typed e-mai
 	const base = inject('baseUrl');
 	const response = await fetch(`${base}/signin`, {
 		method: 'POST',
-		headers: { origin: base, accept: 'text/html', 'content-type': 'application/x-www-form-urlencoded' },
+		headers: {
+			origin: base,
+			accept: 'text/html',
+			'content-type': 'application/x-www-form-urlencoded'
+		},
 		body: new URLSearchParams({ email: demo.host, password: 'not the password at all' })
 	});
 	expect(response.status).toBe(400);

@@ -13,11 +13,14 @@ beforeAll(async () => {
 afterAll(async () => browser?.close());
 
 /** Pages in a PDF: each page object is "/Type /Page" (ISO 32000-1 §7.7.3.3); "/Pages" is the tree. */
-const pageCount = (pdf: Buffer) => (pdf.toString('latin1').match(/\/Type\s*\/Page(?!s)/g) ?? []).length;
+const pageCount = (pdf: Buffer) =>
+	(pdf.toString('latin1').match(/\/Type\s*\/Page(?!s)/g) ?? []).length;
 
 test('the demo shoot day’s call sheet fits one A4 and one Letter page and shows its cautions', async () => {
 	const { page } = browser;
-	const [day] = await sql(`SELECT sd.id FROM shoot_day sd JOIN episode e ON e.id = sd.episode_id WHERE e.slug = 'mule-rear-block-lift' LIMIT 1`);
+	const [day] = await sql(
+		`SELECT sd.id FROM shoot_day sd JOIN episode e ON e.id = sd.episode_id WHERE e.slug = 'mule-rear-block-lift' LIMIT 1`
+	);
 	await signInAs(page, demo.camera);
 	await page.goto(`/shoots/${day.id}/call-sheet`);
 	await expect.poll(() => page.getByText('Cautions for today’s work').count()).toBe(1);

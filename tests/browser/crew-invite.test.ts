@@ -23,8 +23,12 @@ test('producer invites a camera operator who sets a password and lands on the ca
 	await invite.getByLabel('Camera operator').check();
 	const sentAt = Date.now() - 1000;
 	await invite.getByRole('button', { name: 'Send invite' }).click();
-	await expect.poll(() => page.getByRole('status').textContent()).toContain('Invite sent to tomas.browser@example.test');
-	await expect.poll(() => page.getByRole('row', { name: /Tomas Reyne/ }).textContent()).toContain('Invite sent');
+	await expect
+		.poll(() => page.getByRole('status').textContent())
+		.toContain('Invite sent to tomas.browser@example.test');
+	await expect
+		.poll(() => page.getByRole('row', { name: /Tomas Reyne/ }).textContent())
+		.toContain('Invite sent');
 
 	await page.getByRole('button', { name: 'Sign out' }).click();
 	await page.waitForURL('**/signin');
@@ -32,13 +36,18 @@ test('producer invites a camera operator who sets a password and lands on the ca
 	// The fake mailbox page is what a person would open on the demo.
 	const mail = await mailTo('tomas.browser@example.test', { after: sentAt });
 	await page.goto('/dev/mail');
-	await page.getByRole('button', { name: /invited to the Torquehaven Garage crew/ }).first().click();
+	await page
+		.getByRole('button', { name: /invited to the Torquehaven Garage crew/ })
+		.first()
+		.click();
 	const link = linkIn(mail.text);
 	await expect.poll(() => page.getByRole('link', { name: link }).count()).toBe(1);
 	await page.getByRole('link', { name: link }).click();
 
 	await page.waitForURL('**/welcome/**');
-	expect(await page.getByRole('heading', { level: 1 }).textContent()).toContain('Welcome to the Torquehaven Garage crew');
+	expect(await page.getByRole('heading', { level: 1 }).textContent()).toContain(
+		'Welcome to the Torquehaven Garage crew'
+	);
 	await page.getByLabel('New password').fill('the camera rolls at seven');
 	await page.getByLabel('Type it again').fill('the camera rolls at seven');
 	await page.getByRole('button', { name: 'Set password' }).click();
@@ -49,7 +58,9 @@ test('producer invites a camera operator who sets a password and lands on the ca
 	await expect.poll(() => page.getByRole('heading', { name: 'Camera operator' }).count()).toBe(1);
 	expect(await page.getByRole('heading', { level: 1 }).textContent()).toMatch(/Tomas/);
 	// The camera operator is not shown the producer's crew link, and the server refuses the page anyway.
-	expect(await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Crew' }).count()).toBe(0);
+	expect(
+		await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Crew' }).count()
+	).toBe(0);
 	const response = await page.goto('/crew');
 	expect(response?.status()).toBe(403);
 	await context.clearCookies();

@@ -13,7 +13,11 @@ import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
 import { demo, sql } from '../helpers/http';
 
 const require = createRequire(import.meta.url);
-const smpte = require('smpte-timecode') as (frames: number, rate: [number, number], dropFrame: boolean) => { toString(): string };
+const smpte = require('smpte-timecode') as (
+	frames: number,
+	rate: [number, number],
+	dropFrame: boolean
+) => { toString(): string };
 const dropFrameLabel = (frames: number) => smpte(frames, [30000, 1001], true).toString();
 
 let browser: BrowserSession;
@@ -24,7 +28,9 @@ afterAll(async () => browser?.close());
 
 test('the editor marks three chapters with the keyboard and downloads the txt export', async () => {
 	const { page } = browser;
-	const [episode] = await sql(`SELECT id, cut_duration_frames FROM episode WHERE slug = 'mule-285-tyres'`);
+	const [episode] = await sql(
+		`SELECT id, cut_duration_frames FROM episode WHERE slug = 'mule-285-tyres'`
+	);
 	expect(episode.cut_duration_frames).toBeNull();
 	expect(await sql(`SELECT id FROM chapter WHERE episode_id = $1`, [episode.id])).toEqual([]);
 
@@ -51,12 +57,16 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 	async function markAt(expectedFrame: number, title: string, count: number) {
 		expect(await playhead.textContent()).toBe(dropFrameLabel(expectedFrame));
 		await page.keyboard.press('m');
-		await page.getByLabel(`Title for the new chapter at ${dropFrameLabel(expectedFrame)}`).waitFor();
+		await page
+			.getByLabel(`Title for the new chapter at ${dropFrameLabel(expectedFrame)}`)
+			.waitFor();
 		await page.keyboard.type(title);
 		await page.keyboard.press('Enter');
 		await expect.poll(() => rows.count()).toBe(count);
 		// Focus comes back to the playhead, so the next key press moves it.
-		await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute('role'))).toBe('slider');
+		await expect
+			.poll(() => page.evaluate(() => document.activeElement?.getAttribute('role')))
+			.toBe('slider');
 	}
 
 	await timeline.focus();
@@ -74,7 +84,10 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 	await markAt(3750, 'Speedometer check', 3);
 
 	expect(await page.getByText('Every rule met: ready to download.').count()).toBe(1);
-	const saved = await sql(`SELECT start_frame, title FROM chapter WHERE episode_id = $1 ORDER BY start_frame`, [episode.id]);
+	const saved = await sql(
+		`SELECT start_frame, title FROM chapter WHERE episode_id = $1 ORDER BY start_frame`,
+		[episode.id]
+	);
 	expect(saved).toEqual([
 		{ start_frame: 0, title: 'Cold open' },
 		{ start_frame: 1050, title: 'Tyre sizes, by the numbers' },
@@ -82,7 +95,10 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 	]);
 
 	await page.getByText('Download chapters').click();
-	const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: /Description text/ }).click()]);
+	const [download] = await Promise.all([
+		page.waitForEvent('download'),
+		page.getByRole('link', { name: /Description text/ }).click()
+	]);
 	expect(download.suggestedFilename()).toBe('mule-285-tyres-chapters.txt');
 	const text = readFileSync((await download.path())!, 'utf8');
 	// 1050 frames = 35.035 s and 3750 frames = 125.125 s at 30000/1001; description timestamps are
@@ -109,7 +125,11 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 	await expect.poll(() => rows.count()).toBe(2);
 	await page.keyboard.press('z');
 	await expect.poll(() => rows.count()).toBe(3);
-	expect(await sql(`SELECT start_frame, title FROM chapter WHERE episode_id = $1 ORDER BY start_frame`, [episode.id])).toEqual(saved);
+	expect(
+		await sql(`SELECT start_frame, title FROM chapter WHERE episode_id = $1 ORDER BY start_frame`, [
+			episode.id
+		])
+	).toEqual(saved);
 	await page.keyboard.press('z');
 	await expect.poll(() => page.getByRole('status').textContent()).toContain('Nothing to put back');
 });

@@ -26,7 +26,11 @@ describe('from an idea to the shoot', () => {
 	let host: BrowserSession;
 	let camera: BrowserSession;
 	beforeAll(async () => {
-		[producer, host, camera] = await Promise.all([browserFor(demo.producer), browserFor(demo.host), browserFor(demo.camera)]);
+		[producer, host, camera] = await Promise.all([
+			browserFor(demo.producer),
+			browserFor(demo.host),
+			browserFor(demo.camera)
+		]);
 	});
 
 	test('producer, host and camera operator take a new episode through the script gate', async () => {
@@ -40,41 +44,66 @@ describe('from an idea to the shoot', () => {
 		await page.getByLabel('Planned publish date').fill('2027-04-16');
 		await page.getByLabel(/Project Tallboy/).check();
 		await page.getByLabel('Host', { exact: true }).selectOption({ label: 'Rico Valdane' });
-		await page.getByLabel('Camera operator', { exact: true }).selectOption({ label: 'Mika Strand' });
+		await page
+			.getByLabel('Camera operator', { exact: true })
+			.selectOption({ label: 'Mika Strand' });
 		await page.getByLabel('Editor', { exact: true }).selectOption({ label: 'Jules Farrow' });
 		await page.getByRole('button', { name: 'Create episode' }).click();
 		await page.waitForURL(/\/rundown\?created=1/);
 		const episodeId = /episodes\/([0-9a-f-]{36})/.exec(page.url())![1];
-		expect(await page.getByRole('status').first().textContent()).toContain('Episode created at the script stage');
+		expect(await page.getByRole('status').first().textContent()).toContain(
+			'Episode created at the script stage'
+		);
 
 		// The host finds it on the bench and plans the rundown.
 		page = host.page;
 		await page.goto('/');
 		await page.getByRole('link', { name: `Rundown to plan: ${title}` }).click();
 		await page.waitForURL(`**/episodes/${episodeId}/rundown`);
-		const add = async (kind: string, segmentTitle: string, planned: string, hazards: string[] = []) => {
+		const add = async (
+			kind: string,
+			segmentTitle: string,
+			planned: string,
+			hazards: string[] = []
+		) => {
 			await page.getByLabel('Kind').selectOption({ label: kind });
 			await page.getByLabel('Title', { exact: true }).fill(segmentTitle);
 			await page.getByLabel('Planned duration').fill(planned);
-			for (const hazard of hazards) await page.locator('label').filter({ hasText: hazard }).first().click();
+			for (const hazard of hazards)
+				await page.locator('label').filter({ hasText: hazard }).first().click();
 			await page.getByRole('button', { name: 'Add segment' }).click();
-			await expect.poll(() => page.getByRole('status').first().textContent()).toContain(`Added “${segmentTitle}”`);
+			await expect
+				.poll(() => page.getByRole('status').first().textContent())
+				.toContain(`Added “${segmentTitle}”`);
 		};
 		await add('Cold open', 'Why a winch bumper', '0:30');
-		await add('Install step', 'Bolting the bumper on', '2:30', ['Vehicle raised on stands', 'Cutting or grinding']);
+		await add('Install step', 'Bolting the bumper on', '2:30', [
+			'Vehicle raised on stands',
+			'Cutting or grinding'
+		]);
 		await add('Call to action', 'Parts and the shop', '0:20');
 		const rundown = page.getByTestId('rundown');
-		await expect.poll(() => rundown.locator('li a.font-bold').allTextContents()).toEqual(['Why a winch bumper', 'Bolting the bumper on', 'Parts and the shop']);
+		await expect
+			.poll(() => rundown.locator('li a.font-bold').allTextContents())
+			.toEqual(['Why a winch bumper', 'Bolting the bumper on', 'Parts and the shop']);
 		expect(await rundown.textContent()).toContain('⚠ Cutting or grinding · not placed');
 
 		// The host writes two segments.
 		await page.getByRole('link', { name: 'Write' }).first().click();
-		await page.locator('#script-body').fill('The stock bumper on **Tallboy** bends if you look at it. Today it comes off for a steel one with a winch plate.');
+		await page
+			.locator('#script-body')
+			.fill(
+				'The stock bumper on **Tallboy** bends if you look at it. Today it comes off for a steel one with a winch plate.'
+			);
 		await page.getByRole('button', { name: 'Save script' }).click();
 		await expect.poll(() => page.getByTestId('save-status').textContent()).toMatch(/Saved/);
 		await page.getByRole('link', { name: 'Segment 2 →' }).click();
 		await page.waitForURL(/script\/[0-9a-f-]{36}$/);
-		await page.locator('#script-body').fill('Frame on stands, never the jack alone. Four bolts a side, then the old brackets get cut off. [[B-roll: sparks]]');
+		await page
+			.locator('#script-body')
+			.fill(
+				'Frame on stands, never the jack alone. Four bolts a side, then the old brackets get cut off. [[B-roll: sparks]]'
+			);
 		await page.getByRole('button', { name: 'Save script' }).click();
 		await expect.poll(() => page.getByTestId('save-status').textContent()).toMatch(/Saved/);
 
@@ -82,12 +111,18 @@ describe('from an idea to the shoot', () => {
 		await page.goto(`/episodes/${episodeId}/rundown`);
 		await page.getByRole('link', { name: 'Bolting the bumper on' }).click();
 		const cutting = page.getByRole('article', { name: 'Caution: Cutting or grinding' });
-		await cutting.getByLabel(/Words on screen/).fill('Eye, ear and hand protection on. Sparks away from the fuel tank and lines.');
+		await cutting
+			.getByLabel(/Words on screen/)
+			.fill('Eye, ear and hand protection on. Sparks away from the fuel tank and lines.');
 		await cutting.getByRole('button', { name: 'Save caution' }).click();
-		await expect.poll(() => cutting.textContent()).toContain('Sparks away from the fuel tank and lines.');
+		await expect
+			.poll(() => cutting.textContent())
+			.toContain('Sparks away from the fuel tank and lines.');
 		await page.goto(`/episodes/${episodeId}/script`);
 		await page.getByRole('button', { name: 'Send for approval' }).click();
-		await expect.poll(() => page.getByRole('status').first().textContent()).toContain('Sent to the producer for approval');
+		await expect
+			.poll(() => page.getByRole('status').first().textContent())
+			.toContain('Sent to the producer for approval');
 
 		// The gate still refuses, and says whose turn it is.
 		await page.goto(`/episodes/${episodeId}`);
@@ -121,15 +156,21 @@ describe('from an idea to the shoot', () => {
 		page = host.page;
 		const sentAt = Date.now() - 1000;
 		await page.goto(`/episodes/${episodeId}`);
-		expect(await page.getByTestId('gate-passes').textContent()).toContain('Every gate check for Shoot passes');
+		expect(await page.getByTestId('gate-passes').textContent()).toContain(
+			'Every gate check for Shoot passes'
+		);
 		await page.getByLabel(/Note for the history/).fill('Bay 3, Saturday 8:00');
 		await page.getByRole('button', { name: 'Move to Shoot' }).click();
 		await page.waitForURL(/moved=shoot/);
-		expect(await page.getByTestId('stage-history').textContent()).toMatch(/Script → Shoot\s*Rico Valdane/);
+		expect(await page.getByTestId('stage-history').textContent()).toMatch(
+			/Script → Shoot\s*Rico Valdane/
+		);
 		const mail = await mailTo(demo.camera, { after: sentAt });
 		expect(mail.subject).toBe(`Shoot is yours: ${title}`);
 		expect(mail.text).toContain('Bay 3, Saturday 8:00');
-		expect((await sql(`SELECT stage FROM episode WHERE id = $1`, [episodeId]))[0].stage).toBe('shoot');
+		expect((await sql(`SELECT stage FROM episode WHERE id = $1`, [episodeId]))[0].stage).toBe(
+			'shoot'
+		);
 	});
 });
 
@@ -137,38 +178,82 @@ describe('two people on one script', () => {
 	test('the second save shows both versions, the merge is saved, and nothing is lost', async () => {
 		const api = await signedIn(demo.producer);
 		const [rico] = await sql(`SELECT id FROM person WHERE email = $1`, [demo.host]);
-		const episode = (await api.api('/api/episodes', { method: 'POST', json: { title: `Two writers ${Date.now()}`, targetRuntimeSeconds: 300, frameRate: '25', assignments: { host: rico.id } } })).body.episode;
-		const segment = (await api.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'Intro', plannedSeconds: 60 } })).body.segment;
-		await api.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Line one.', version: segment.script.version } });
+		const episode = (
+			await api.api('/api/episodes', {
+				method: 'POST',
+				json: {
+					title: `Two writers ${Date.now()}`,
+					targetRuntimeSeconds: 300,
+					frameRate: '25',
+					assignments: { host: rico.id }
+				}
+			})
+		).body.episode;
+		const segment = (
+			await api.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'Intro', plannedSeconds: 60 }
+			})
+		).body.segment;
+		await api.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'Line one.', version: segment.script.version }
+		});
 		const path = `/episodes/${episode.id}/script/${segment.id}`;
-		const [hostSession, producerSession] = await Promise.all([browserFor(demo.host), browserFor(demo.producer)]);
+		const [hostSession, producerSession] = await Promise.all([
+			browserFor(demo.host),
+			browserFor(demo.producer)
+		]);
 		const hostPage = hostSession.page;
 		const producerPage = producerSession.page;
 		await Promise.all([hostPage.goto(path), producerPage.goto(path)]);
 
 		await hostPage.locator('#script-body').fill('Line one.\n\nHost adds the torque figure.');
 		await hostPage.getByRole('button', { name: 'Save script' }).click();
-		await expect.poll(() => hostPage.getByTestId('save-status').textContent()).toMatch(/Saved · version 3/);
+		await expect
+			.poll(() => hostPage.getByTestId('save-status').textContent())
+			.toMatch(/Saved · version 3/);
 
 		await producerPage.locator('#script-body').fill('Line one, tighter.');
 		await producerPage.getByRole('button', { name: 'Save script' }).click();
 		const merge = producerPage.getByTestId('merge-panel');
-		await expect.poll(() => merge.textContent()).toContain('Rico Valdane saved this segment while you were writing');
-		expect(await producerPage.getByTestId('their-version').textContent()).toContain('＋ Host adds the torque figure.');
+		await expect
+			.poll(() => merge.textContent())
+			.toContain('Rico Valdane saved this segment while you were writing');
+		expect(await producerPage.getByTestId('their-version').textContent()).toContain(
+			'＋ Host adds the torque figure.'
+		);
 		expect(await producerPage.locator('#script-body').inputValue()).toBe('Line one, tighter.');
-		expect((await sql(`SELECT body FROM segment_script WHERE segment_id = $1`, [segment.id]))[0].body).toBe('Line one.\n\nHost adds the torque figure.');
+		expect(
+			(await sql(`SELECT body FROM segment_script WHERE segment_id = $1`, [segment.id]))[0].body
+		).toBe('Line one.\n\nHost adds the torque figure.');
 
 		await producerPage.getByRole('button', { name: 'Put their text below mine' }).click();
-		expect(await producerPage.locator('#script-body').inputValue()).toBe('Line one, tighter.\n\nLine one.\n\nHost adds the torque figure.');
-		await producerPage.locator('#script-body').fill('Line one, tighter.\n\nHost adds the torque figure.');
+		expect(await producerPage.locator('#script-body').inputValue()).toBe(
+			'Line one, tighter.\n\nLine one.\n\nHost adds the torque figure.'
+		);
+		await producerPage
+			.locator('#script-body')
+			.fill('Line one, tighter.\n\nHost adds the torque figure.');
 		await producerPage.getByRole('button', { name: 'Save script' }).click();
-		await expect.poll(() => producerPage.getByTestId('save-status').textContent()).toMatch(/Saved · version 4/);
-		expect((await sql(`SELECT body, version FROM segment_script WHERE segment_id = $1`, [segment.id]))[0]).toEqual({ body: 'Line one, tighter.\n\nHost adds the torque figure.', version: 4 });
+		await expect
+			.poll(() => producerPage.getByTestId('save-status').textContent())
+			.toMatch(/Saved · version 4/);
+		expect(
+			(await sql(`SELECT body, version FROM segment_script WHERE segment_id = $1`, [segment.id]))[0]
+		).toEqual({ body: 'Line one, tighter.\n\nHost adds the torque figure.', version: 4 });
 
 		// The host, still on the old text, is told on their next save rather than overwriting the merge.
-		await hostPage.locator('#script-body').fill('Line one.\n\nHost adds the torque figure. And a tip.');
+		await hostPage
+			.locator('#script-body')
+			.fill('Line one.\n\nHost adds the torque figure. And a tip.');
 		await hostPage.getByRole('button', { name: 'Save script' }).click();
-		await expect.poll(() => hostPage.getByTestId('merge-panel').textContent()).toContain('Dana Okafor saved this segment');
-		expect((await sql(`SELECT version FROM segment_script WHERE segment_id = $1`, [segment.id]))[0].version).toBe(4);
+		await expect
+			.poll(() => hostPage.getByTestId('merge-panel').textContent())
+			.toContain('Dana Okafor saved this segment');
+		expect(
+			(await sql(`SELECT version FROM segment_script WHERE segment_id = $1`, [segment.id]))[0]
+				.version
+		).toBe(4);
 	});
 });

@@ -12,7 +12,11 @@ let browser: BrowserSession;
 const stamp = Date.now();
 const skus = [`NOJS-${stamp}-1`, `NOJS-${stamp}-2`];
 const header = ['sku', 'name', 'category', 'brand', 'price', 'store_url'];
-const file = (rows: string[][]) => ({ name: 'bracket-order.csv', mimeType: 'text/csv', buffer: Buffer.from(Papa.unparse([header, ...rows], { newline: '\r\n' })) });
+const file = (rows: string[][]) => ({
+	name: 'bracket-order.csv',
+	mimeType: 'text/csv',
+	buffer: Buffer.from(Papa.unparse([header, ...rows], { newline: '\r\n' }))
+});
 
 beforeAll(async () => {
 	browser = await openBrowser(undefined, { javaScript: false });
@@ -29,22 +33,43 @@ test('without JavaScript, a CSV is checked, previewed and imported from the same
 	await page.goto('/parts/import');
 	await page.getByLabel('CSV file').setInputFiles(
 		file([
-			[skus[0], 'Shock relocation bracket, left', 'Brackets', 'Ironbark Suspension', '39.00', 'https://shop.torquehaven.test/p/nojs-1'],
-			[skus[1], 'Shock relocation bracket, right', 'Brackets', 'Ironbark Suspension', '39.00', 'https://shop.torquehaven.test/p/nojs-2']
+			[
+				skus[0],
+				'Shock relocation bracket, left',
+				'Brackets',
+				'Ironbark Suspension',
+				'39.00',
+				'https://shop.torquehaven.test/p/nojs-1'
+			],
+			[
+				skus[1],
+				'Shock relocation bracket, right',
+				'Brackets',
+				'Ironbark Suspension',
+				'39.00',
+				'https://shop.torquehaven.test/p/nojs-2'
+			]
 		])
 	);
 	await page.getByRole('button', { name: 'Check the file' }).click();
 	await page.waitForURL('**/parts/import?/check');
 	const summary = page.getByRole('status');
-	expect(await summary.textContent()).toMatch(/bracket-order\.csv: 2 rows · 2 new · 0 to update · 0 problems/);
+	expect(await summary.textContent()).toMatch(
+		/bracket-order\.csv: 2 rows · 2 new · 0 to update · 0 problems/
+	);
 	// The columns were guessed from the headers and are listed.
 	expect(await page.getByRole('definition').filter({ hasText: 'store_url' }).count()).toBe(1);
 	expect(await sql(`SELECT sku FROM part WHERE sku = ANY($1)`, [skus])).toEqual([]);
 
 	await page.getByRole('button', { name: 'Import 2 parts' }).click();
 	await page.waitForURL('**/parts/import?/commit');
-	expect(await page.getByRole('status').textContent()).toContain('Imported bracket-order.csv: 2 new, 0 updated');
-	const stored = await sql(`SELECT sku, name, price_cents FROM part WHERE sku = ANY($1) ORDER BY sku`, [skus]);
+	expect(await page.getByRole('status').textContent()).toContain(
+		'Imported bracket-order.csv: 2 new, 0 updated'
+	);
+	const stored = await sql(
+		`SELECT sku, name, price_cents FROM part WHERE sku = ANY($1) ORDER BY sku`,
+		[skus]
+	);
 	expect(stored).toEqual([
 		{ sku: skus[0], name: 'Shock relocation bracket, left', price_cents: 3900 },
 		{ sku: skus[1], name: 'Shock relocation bracket, right', price_cents: 3900 }
@@ -54,7 +79,20 @@ test('without JavaScript, a CSV is checked, previewed and imported from the same
 test('without JavaScript, a file with a bad row names the row and offers no import', async () => {
 	const { page } = browser;
 	await page.goto('/parts/import');
-	await page.getByLabel('CSV file').setInputFiles(file([[`NOJS-${stamp}-bad`, 'Bracket with no price', 'Brackets', 'Ironbark Suspension', 'free', 'https://shop.torquehaven.test/p/bad']]));
+	await page
+		.getByLabel('CSV file')
+		.setInputFiles(
+			file([
+				[
+					`NOJS-${stamp}-bad`,
+					'Bracket with no price',
+					'Brackets',
+					'Ironbark Suspension',
+					'free',
+					'https://shop.torquehaven.test/p/bad'
+				]
+			])
+		);
 	await page.getByRole('button', { name: 'Check the file' }).click();
 	await page.waitForURL('**/parts/import?/check');
 	expect(await page.getByRole('status').textContent()).toContain('1 problem');

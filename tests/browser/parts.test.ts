@@ -27,13 +27,24 @@ beforeAll(async () => {
 		[channel.id, `browser-kit-${stamp}`]
 	);
 	episodeId = episode.id;
-	await sql(`INSERT INTO chapter (episode_id, start_frame, title) VALUES ($1, 0, 'Cold open'), ($1, 3000, 'Fitting'), ($1, 9000, 'Road test')`, [episodeId]);
-	const [segment] = await sql(`INSERT INTO segment (episode_id, position, kind, title) VALUES ($1, 1, 'install-step', 'Fitting') RETURNING id`, [episodeId]);
+	await sql(
+		`INSERT INTO chapter (episode_id, start_frame, title) VALUES ($1, 0, 'Cold open'), ($1, 3000, 'Fitting'), ($1, 9000, 'Road test')`,
+		[episodeId]
+	);
+	const [segment] = await sql(
+		`INSERT INTO segment (episode_id, position, kind, title) VALUES ($1, 1, 'install-step', 'Fitting') RETURNING id`,
+		[episodeId]
+	);
 	const [camera] = await sql(`SELECT id FROM person WHERE email = $1`, [demo.camera]);
 	// Frame 1799 is 60.03 s at 30000/1001 fps: the description shows 1:00.
-	[{ id: noteId }] = await sql(`INSERT INTO segment_note (episode_id, segment_id, program_frame, text, author_id) VALUES ($1, $2, 1799, 'Both new brackets on the bench', $3) RETURNING id`, [episodeId, segment.id, camera.id]);
+	[{ id: noteId }] = await sql(
+		`INSERT INTO segment_note (episode_id, segment_id, program_frame, text, author_id) VALUES ($1, $2, 1799, 'Both new brackets on the bench', $3) RETURNING id`,
+		[episodeId, segment.id, camera.id]
+	);
 	browser = await openBrowser();
-	await browser.context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: baseUrl() });
+	await browser.context.grantPermissions(['clipboard-read', 'clipboard-write'], {
+		origin: baseUrl()
+	});
 });
 
 afterAll(async () => {
@@ -51,17 +62,37 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	const csv = Papa.unparse(
 		[
 			['Part Number', 'Name', 'Category', 'Brand', 'Price', 'Store URL'],
-			[skus[0], 'Browser test bracket, left', 'Brackets', 'Ironbark Suspension', '12.00', `https://shop.torquehaven.test/p/${skus[0].toLowerCase()}`],
-			[skus[1], 'Browser test bracket, right', 'Brackets', 'Ironbark Suspension', '12.50', `https://shop.torquehaven.test/p/${skus[1].toLowerCase()}?ref=test`]
+			[
+				skus[0],
+				'Browser test bracket, left',
+				'Brackets',
+				'Ironbark Suspension',
+				'12.00',
+				`https://shop.torquehaven.test/p/${skus[0].toLowerCase()}`
+			],
+			[
+				skus[1],
+				'Browser test bracket, right',
+				'Brackets',
+				'Ironbark Suspension',
+				'12.50',
+				`https://shop.torquehaven.test/p/${skus[1].toLowerCase()}?ref=test`
+			]
 		],
 		{ newline: '\r\n' }
 	);
-	await page.getByLabel('CSV file').setInputFiles({ name: 'brackets.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+	await page
+		.getByLabel('CSV file')
+		.setInputFiles({ name: 'brackets.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
 	await page.getByText('2 rows · 2 new').waitFor();
 	expect(await page.getByLabel('SKU (part number) *').inputValue()).toBe('Part Number');
 	await page.getByRole('button', { name: 'Import 2 parts' }).click();
 	await page.getByText(/Imported brackets\.csv: 2 new, 0 updated/).waitFor();
-	expect((await sql(`SELECT sku, price_cents FROM part WHERE sku = ANY($1) ORDER BY sku`, [skus])).map((row) => [row.sku, row.price_cents])).toEqual([
+	expect(
+		(await sql(`SELECT sku, price_cents FROM part WHERE sku = ANY($1) ORDER BY sku`, [skus])).map(
+			(row) => [row.sku, row.price_cents]
+		)
+	).toEqual([
 		[skus[0], 1200],
 		[skus[1], 1250]
 	]);
@@ -71,7 +102,9 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	const card = page.locator(`[data-note="${noteId}"]`);
 	const picker = card.getByRole('combobox', { name: 'Link a part' });
 	await picker.fill(`BRWS-${stamp}`);
-	await card.getByRole('option', { name: new RegExp(`${skus[0]} Browser test bracket, left`) }).click();
+	await card
+		.getByRole('option', { name: new RegExp(`${skus[0]} Browser test bracket, left`) })
+		.click();
 	await card.getByRole('list', { name: 'Featured parts' }).getByText(skus[0]).waitFor();
 
 	await card.getByRole('combobox', { name: 'Link a part' }).fill(`BRWS-${stamp}`);
@@ -80,7 +113,10 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	expect(await card.getByRole('option').count()).toBe(1);
 	await page.keyboard.press('Enter');
 	await card.getByRole('list', { name: 'Featured parts' }).getByText(skus[1]).waitFor();
-	const linked = await sql(`SELECT p.sku FROM segment_note_part snp JOIN part p ON p.id = snp.part_id WHERE snp.note_id = $1 ORDER BY p.sku`, [noteId]);
+	const linked = await sql(
+		`SELECT p.sku FROM segment_note_part snp JOIN part p ON p.id = snp.part_id WHERE snp.note_id = $1 ORDER BY p.sku`,
+		[noteId]
+	);
 	expect(linked.map((row) => row.sku)).toEqual(skus);
 
 	// 3. Copy the whole publish kit and read the clipboard back.
@@ -91,14 +127,26 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	expect(copied).toBe(await page.getByLabel('Whole description text').inputValue());
 	const lines = copied.split('\n');
 	expect(lines[0]).toBe('A short test install.');
-	expect(lines.slice(2, 6)).toEqual(['Chapters', '0:00 Cold open', '1:40 Fitting', '5:00 Road test']);
-	const codes = await sql(`SELECT p.sku, l.code FROM tracked_link l JOIN part p ON p.id = l.part_id WHERE l.episode_id = $1 ORDER BY p.sku`, [episodeId]);
+	expect(lines.slice(2, 6)).toEqual([
+		'Chapters',
+		'0:00 Cold open',
+		'1:40 Fitting',
+		'5:00 Road test'
+	]);
+	const codes = await sql(
+		`SELECT p.sku, l.code FROM tracked_link l JOIN part p ON p.id = l.part_id WHERE l.episode_id = $1 ORDER BY p.sku`,
+		[episodeId]
+	);
 	expect(codes).toHaveLength(2);
 	for (const [index, side] of ['left', 'right'].entries()) {
-		expect(lines).toContain(`- Browser test bracket, ${side} (Ironbark Suspension, ${skus[index]}), at 1:00: ${baseUrl()}/go/${codes[index].code}`);
+		expect(lines).toContain(
+			`- Browser test bracket, ${side} (Ironbark Suspension, ${skus[index]}), at 1:00: ${baseUrl()}/go/${codes[index].code}`
+		);
 	}
 	expect(copied).toMatch(/licensed professional/);
-	expect(await page.getByTestId('character-count').textContent()).toContain(`${[...copied].length.toLocaleString('en')} / 5,000 characters`);
+	expect(await page.getByTestId('character-count').textContent()).toContain(
+		`${[...copied].length.toLocaleString('en')} / 5,000 characters`
+	);
 
 	// 4. The safety block can't be left out, and a hand edit that removes it is called out.
 	// (The product owner's rule: hazardous work carries its cautions and defers to licensed practice.)
@@ -108,7 +156,10 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	expect(await box.isDisabled()).toBe(true);
 	expect(await safety.textContent()).toContain('Always in the description');
 	const whole = page.getByLabel('Whole description text');
-	const withoutSafety = (await whole.inputValue()).replace(/\nSafety\n[\s\S]*?licensed professionals?[^\n]*/, '');
+	const withoutSafety = (await whole.inputValue()).replace(
+		/\nSafety\n[\s\S]*?licensed professionals?[^\n]*/,
+		''
+	);
 	await whole.fill(withoutSafety);
 	await expect.poll(() => page.getByTestId('required-missing').count()).toBe(1);
 	await page.getByRole('button', { name: 'Start again from the blocks' }).click();

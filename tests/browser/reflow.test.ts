@@ -14,16 +14,49 @@ let ids: { edit: string; published: string; shootDay: string };
 beforeAll(async () => {
 	const [edit] = await sql(`SELECT id FROM episode WHERE slug = 'mule-285-tyres'`);
 	const [published] = await sql(`SELECT id FROM episode WHERE slug = 'tallboy-coil-spacers'`);
-	const [shootDay] = await sql(`SELECT d.id FROM shoot_day d JOIN channel c ON c.id = d.channel_id WHERE c.name = 'Torquehaven Garage' LIMIT 1`);
+	const [shootDay] = await sql(
+		`SELECT d.id FROM shoot_day d JOIN channel c ON c.id = d.channel_id WHERE c.name = 'Torquehaven Garage' LIMIT 1`
+	);
 	ids = { edit: edit.id, published: published.id, shootDay: shootDay.id };
 });
 
 const pagesByRole: { who: keyof typeof demo; pages: () => string[] }[] = [
-	{ who: 'producer', pages: () => ['/', '/episodes', `/episodes/${ids.published}`, '/crew', '/channel', '/builds', '/follow-ups'] },
+	{
+		who: 'producer',
+		pages: () => [
+			'/',
+			'/episodes',
+			`/episodes/${ids.published}`,
+			'/crew',
+			'/channel',
+			'/builds',
+			'/follow-ups'
+		]
+	},
 	{ who: 'host', pages: () => [`/episodes/${ids.edit}/rundown`, `/episodes/${ids.edit}/script`] },
-	{ who: 'camera', pages: () => ['/shoots', `/shoots/${ids.shootDay}`, `/episodes/${ids.edit}/shots`, `/episodes/${ids.edit}/footage`] },
-	{ who: 'producer', pages: () => [`/episodes/${ids.published}/edit`, `/episodes/${ids.published}/spec-cards`] },
-	{ who: 'merch', pages: () => ['/parts', '/parts/import', `/episodes/${ids.published}/notes`, `/episodes/${ids.published}/parts`, `/episodes/${ids.published}/publish`] }
+	{
+		who: 'camera',
+		pages: () => [
+			'/shoots',
+			`/shoots/${ids.shootDay}`,
+			`/episodes/${ids.edit}/shots`,
+			`/episodes/${ids.edit}/footage`
+		]
+	},
+	{
+		who: 'producer',
+		pages: () => [`/episodes/${ids.published}/edit`, `/episodes/${ids.published}/spec-cards`]
+	},
+	{
+		who: 'merch',
+		pages: () => [
+			'/parts',
+			'/parts/import',
+			`/episodes/${ids.published}/notes`,
+			`/episodes/${ids.published}/parts`,
+			`/episodes/${ids.published}/publish`
+		]
+	}
 ];
 
 describe('every page fits a 320 px wide phone (WCAG 2.1 SC 1.4.10 Reflow)', () => {

@@ -14,12 +14,31 @@ let segmentId: string;
 beforeAll(async () => {
 	const producer = await signedIn(demo.producer);
 	const host = await signedIn(demo.host);
-	const created = await producer.api('/api/episodes', { method: 'POST', json: { title: `Approval race ${Date.now()}`, targetRuntimeSeconds: 600, frameRate: '29.97' } });
+	const created = await producer.api('/api/episodes', {
+		method: 'POST',
+		json: { title: `Approval race ${Date.now()}`, targetRuntimeSeconds: 600, frameRate: '29.97' }
+	});
 	episodeId = created.body.episode.id;
-	const segment = await host.api(`/api/episodes/${episodeId}/segments`, { method: 'POST', json: { kind: 'overview', title: 'What we fit today', plannedSeconds: 60 } });
+	const segment = await host.api(`/api/episodes/${episodeId}/segments`, {
+		method: 'POST',
+		json: { kind: 'overview', title: 'What we fit today', plannedSeconds: 60 }
+	});
 	segmentId = segment.body.segment.id;
-	await host.api(`/api/segments/${segmentId}/script`, { method: 'PUT', json: { body: 'First draft of the intro, long enough to read out loud on camera.', version: segment.body.segment.script.version } });
-	expect((await host.api(`/api/episodes/${episodeId}/script-review`, { method: 'POST', json: { action: 'submit' } })).status).toBe(200);
+	await host.api(`/api/segments/${segmentId}/script`, {
+		method: 'PUT',
+		json: {
+			body: 'First draft of the intro, long enough to read out loud on camera.',
+			version: segment.body.segment.script.version
+		}
+	});
+	expect(
+		(
+			await host.api(`/api/episodes/${episodeId}/script-review`, {
+				method: 'POST',
+				json: { action: 'submit' }
+			})
+		).status
+	).toBe(200);
 	browser = await openBrowser();
 	await signInAs(browser.page, demo.producer);
 });
@@ -37,13 +56,28 @@ test('a refused approval loads the changed text, and approving again approves wh
 	// The host edits while the producer reads.
 	const host = await signedIn(demo.host);
 	const script = await host.api(`/api/segments/${segmentId}/script`);
-	await host.api(`/api/segments/${segmentId}/script`, { method: 'PUT', json: { body: 'Second draft: the intro now names the lift kit and the cautions.', version: script.body.script.version } });
+	await host.api(`/api/segments/${segmentId}/script`, {
+		method: 'PUT',
+		json: {
+			body: 'Second draft: the intro now names the lift kit and the cautions.',
+			version: script.body.script.version
+		}
+	});
 
 	await page.getByRole('button', { name: 'Approve this script' }).click();
-	await expect.poll(() => page.locator('main').textContent()).toContain('The script changed while you were reading it');
+	await expect
+		.poll(() => page.locator('main').textContent())
+		.toContain('The script changed while you were reading it');
 	// The new text is on the page without a reload…
-	await expect.poll(() => page.locator('main').textContent()).toContain('Second draft: the intro now names the lift kit');
+	await expect
+		.poll(() => page.locator('main').textContent())
+		.toContain('Second draft: the intro now names the lift kit');
 	// …so the next Approve is for it, and goes through.
 	await page.getByRole('button', { name: 'Approve this script' }).click();
-	await expect.poll(async () => (await sql(`SELECT script_status FROM episode WHERE id = $1`, [episodeId]))[0].script_status).toBe('approved');
+	await expect
+		.poll(
+			async () =>
+				(await sql(`SELECT script_status FROM episode WHERE id = $1`, [episodeId]))[0].script_status
+		)
+		.toBe('approved');
 });

@@ -21,7 +21,11 @@ import { demo, sql } from '../helpers/http';
 import { parseTyreSize } from '$lib/specs';
 
 const require = createRequire(import.meta.url);
-const smpte = require('smpte-timecode') as (frames: number, rate: [number, number], dropFrame: boolean) => { toString(): string };
+const smpte = require('smpte-timecode') as (
+	frames: number,
+	rate: [number, number],
+	dropFrame: boolean
+) => { toString(): string };
 const dropFrameLabel = (frames: number) => smpte(frames, [30000, 1001], true).toString();
 
 let browser: BrowserSession;
@@ -34,9 +38,15 @@ afterAll(async () => browser?.close());
 async function previewLines(page: Page): Promise<string[][]> {
 	const preview = page.locator('#card-form [data-testid="spec-card-preview"]');
 	await preview.waitFor();
-	return preview.locator('[data-spec-line]').evaluateAll((rows) =>
-		rows.map((row) => [...row.querySelectorAll('[role="rowheader"], [role="cell"]')].map((cell) => cell.textContent?.trim() ?? ''))
-	);
+	return preview
+		.locator('[data-spec-line]')
+		.evaluateAll((rows) =>
+			rows.map((row) =>
+				[...row.querySelectorAll('[role="rowheader"], [role="cell"]')].map(
+					(cell) => cell.textContent?.trim() ?? ''
+				)
+			)
+		);
 }
 
 test('the editor adds a tyre-change card and a torque card, sees the right numbers, and downloads the CSV', async () => {
@@ -46,7 +56,10 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 
 	await signInAs(page, demo.editor);
 	// The shared editor may start in the other channel: switch like a person would.
-	await Promise.all([page.waitForResponse((response) => response.url().includes('/channel?/switch')), page.getByLabel('Channel').selectOption({ label: 'Torquehaven Garage' })]);
+	await Promise.all([
+		page.waitForResponse((response) => response.url().includes('/channel?/switch')),
+		page.getByLabel('Channel').selectOption({ label: 'Torquehaven Garage' })
+	]);
 	await page.waitForLoadState();
 	await page.goto(`/episodes/${episode.id}/spec-cards`);
 	expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Spec cards');
@@ -67,7 +80,9 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 	const newSize = page.getByLabel('New tyre size');
 	expect(await newSize.getAttribute('aria-invalid')).toBe('true');
 	// The message is tied to the field for screen readers, not only placed beside it.
-	expect(await page.locator(`#${await newSize.getAttribute('aria-describedby')}`).textContent()).toBe(parserWords);
+	expect(
+		await page.locator(`#${await newSize.getAttribute('aria-describedby')}`).textContent()
+	).toBe(parserWords);
 
 	await page.getByLabel('New tyre size').fill('285/70R17');
 	const tyreLines = await previewLines(page);
@@ -75,11 +90,21 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 	expect(tyreLines).toContainEqual(['Overall diameter', '31.6 in → 32.7 in', '803 mm → 831 mm']);
 	expect(tyreLines).toContainEqual(['Diameter change', '+1.1 in', '+28 mm']);
 	// Half of 1.10 in = 0.55 in (shown to 0.01 in, half of a 0.1 in figure); half of 28 mm = 14 mm (common practice).
-	expect(tyreLines).toContainEqual(['Axle height change (half the diameter change)', '+0.55 in', '+14 mm']);
+	expect(tyreLines).toContainEqual([
+		'Axle height change (half the diameter change)',
+		'+0.55 in',
+		'+14 mm'
+	]);
 	// 60 × 32.71 ÷ 31.61 = 62.09 mph; 100 × 32.71 ÷ 31.61 = 103.48 km/h.
-	expect(tyreLines).toContainEqual(['True speed at an indicated 60 mph / 100 km/h', '62.1 mph', '103.5 km/h']);
+	expect(tyreLines).toContainEqual([
+		'True speed at an indicated 60 mph / 100 km/h',
+		'62.1 mph',
+		'103.5 km/h'
+	]);
 
-	await page.getByLabel('Segment').selectOption({ label: '3. The numbers: diameter and clearance' });
+	await page
+		.getByLabel('Segment')
+		.selectOption({ label: '3. The numbers: diameter and clearance' });
 	await page.getByLabel('Program time').fill('3:00');
 	// 180 s × 30000/1001 = 5394.6 → frame 5395.
 	await page.getByText(`Reads as ${dropFrameLabel(5395)} at 29.97 fps drop-frame.`).waitFor();
@@ -97,7 +122,10 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 	await page.getByLabel('Fastener').fill('Lug nuts');
 	// NIST SP 811 B.8: 95 × 1.355818 = 128.80 N·m → 129 N·m.
 	expect(await previewLines(page)).toEqual([['Torque', '95 ft·lbf', '129 N·m']]);
-	await page.locator('#card-form').getByText("Verify against the manufacturer's instructions.").waitFor();
+	await page
+		.locator('#card-form')
+		.getByText("Verify against the manufacturer's instructions.")
+		.waitFor();
 	await page.getByLabel('Segment').selectOption({ label: '5. Mount, balance and torque' });
 	await page.getByLabel('Program time').fill('6:10');
 	await page.getByRole('button', { name: 'Add card' }).click();
@@ -106,22 +134,51 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 	const listed = rows.filter({ hasText: 'Lug nuts' });
 	expect(await listed.textContent()).toContain("Verify against the manufacturer's instructions.");
 
-	const saved = await sql(`SELECT kind, input, at_frame FROM spec_card WHERE episode_id = $1 AND at_frame IS NOT NULL ORDER BY at_frame`, [episode.id]);
+	const saved = await sql(
+		`SELECT kind, input, at_frame FROM spec_card WHERE episode_id = $1 AND at_frame IS NOT NULL ORDER BY at_frame`,
+		[episode.id]
+	);
 	expect(saved).toEqual([
-		{ kind: 'tyre-change', input: { kind: 'tyre-change', from: '265/70R17', to: '285/70R17' }, at_frame: 5395 },
-		{ kind: 'torque', input: { kind: 'torque', value: 95, unit: 'ft·lbf', fastener: 'Lug nuts' }, at_frame: 11089 }
+		{
+			kind: 'tyre-change',
+			input: { kind: 'tyre-change', from: '265/70R17', to: '285/70R17' },
+			at_frame: 5395
+		},
+		{
+			kind: 'torque',
+			input: { kind: 'torque', value: 95, unit: 'ft·lbf', fastener: 'Lug nuts' },
+			at_frame: 11089
+		}
 	]);
-	expect((await sql(`SELECT id FROM spec_card WHERE episode_id = $1`, [episode.id])).length).toBe(before.length + 2);
+	expect((await sql(`SELECT id FROM spec_card WHERE episode_id = $1`, [episode.id])).length).toBe(
+		before.length + 2
+	);
 
-	const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download CSV' }).click()]);
+	const [download] = await Promise.all([
+		page.waitForEvent('download'),
+		page.getByRole('link', { name: 'Download CSV' }).click()
+	]);
 	expect(download.suggestedFilename()).toBe(`${episode.slug}-spec-cards.csv`);
-	const parsed = Papa.parse<Record<string, string>>(readFileSync((await download.path())!, 'utf8'), { header: true, skipEmptyLines: true });
+	const parsed = Papa.parse<Record<string, string>>(
+		readFileSync((await download.path())!, 'utf8'),
+		{ header: true, skipEmptyLines: true }
+	);
 	expect(parsed.errors).toEqual([]);
 	const placed = parsed.data.filter((row) => row.start_timecode !== '');
 	expect(placed.map((row) => [row.kind, row.start_timecode])).toEqual([
 		['tyre-change', dropFrameLabel(5395)],
 		['torque', dropFrameLabel(11089)]
 	]);
-	expect(placed[0]).toMatchObject({ heading: '265/70R17 → 285/70R17', line_1_imperial: '31.6 in → 32.7 in', line_1_metric: '803 mm → 831 mm', line_3_imperial: '+0.55 in' });
-	expect(placed[1]).toMatchObject({ heading: 'Lug nuts', line_1_imperial: '95 ft·lbf', line_1_metric: '129 N·m', cautions: "Verify against the manufacturer's instructions." });
+	expect(placed[0]).toMatchObject({
+		heading: '265/70R17 → 285/70R17',
+		line_1_imperial: '31.6 in → 32.7 in',
+		line_1_metric: '803 mm → 831 mm',
+		line_3_imperial: '+0.55 in'
+	});
+	expect(placed[1]).toMatchObject({
+		heading: 'Lug nuts',
+		line_1_imperial: '95 ft·lbf',
+		line_1_metric: '129 N·m',
+		cautions: "Verify against the manufacturer's instructions."
+	});
 });

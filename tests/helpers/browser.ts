@@ -17,7 +17,10 @@ export interface BrowserSession {
 	close(): Promise<void>;
 }
 
-export async function openBrowser(viewport = { width: 1280, height: 860 }, options: { javaScript?: boolean } = {}): Promise<BrowserSession> {
+export async function openBrowser(
+	viewport = { width: 1280, height: 860 },
+	options: { javaScript?: boolean } = {}
+): Promise<BrowserSession> {
 	const javaScript = options.javaScript ?? true;
 	const profile = mkdtempSync(path.join(tmpdir(), 'wrenchroll-chromium-'));
 	const context = await chromium.launchPersistentContext(profile, {
@@ -27,7 +30,15 @@ export async function openBrowser(viewport = { width: 1280, height: 860 }, optio
 		viewport,
 		javaScriptEnabled: javaScript,
 		baseURL: inject('baseUrl'),
-		args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync']
+		args: [
+			'--no-sandbox',
+			'--disable-gpu',
+			'--disable-quic',
+			'--no-first-run',
+			'--disable-background-networking',
+			'--disable-component-update',
+			'--disable-sync'
+		]
 	});
 	context.setDefaultTimeout(15_000);
 	const page = context.pages()[0] ?? (await context.newPage());
@@ -59,8 +70,10 @@ function waitForHydrationOnLoad(page: Page): void {
 	const goto = page.goto.bind(page);
 	const reload = page.reload.bind(page);
 	// A caller that asks for `commit` wants the page before it is ready, so it gets it as it is.
-	page.goto = async (url, options) => (options?.waitUntil === 'commit' ? goto(url, options) : settle(await goto(url, options)));
-	page.reload = async (options) => (options?.waitUntil === 'commit' ? reload(options) : settle(await reload(options)));
+	page.goto = async (url, options) =>
+		options?.waitUntil === 'commit' ? goto(url, options) : settle(await goto(url, options));
+	page.reload = async (options) =>
+		options?.waitUntil === 'commit' ? reload(options) : settle(await reload(options));
 }
 
 /** Signs in through the real sign-in form and waits for the bench (home page). */

@@ -27,14 +27,24 @@ declare module 'vitest' {
 }
 
 export default async function setup(project: TestProject) {
-	if (!existsSync(path.join(buildDir, 'index.js'))) throw new Error('Build the app first: npm run build (npm test does it for you).');
+	if (!existsSync(path.join(buildDir, 'index.js')))
+		throw new Error('Build the app first: npm run build (npm test does it for you).');
 	const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-test-'));
 	chmodSync(work, 0o755);
-	const cluster = await startCluster({ dataDir: path.join(work, 'pg'), port: await freePort(), database: 'wrenchroll_test' });
+	const cluster = await startCluster({
+		dataDir: path.join(work, 'pg'),
+		port: await freePort(),
+		database: 'wrenchroll_test'
+	});
 	const tsx = path.join(root, 'node_modules/.bin/tsx');
 	for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
-		const result = spawnSync(tsx, [script], { cwd: root, env: { ...process.env, DATABASE_URL: cluster.url }, encoding: 'utf8' });
-		if (result.status !== 0) throw new Error(`${script} failed:\n${result.stdout}\n${result.stderr}`);
+		const result = spawnSync(tsx, [script], {
+			cwd: root,
+			env: { ...process.env, DATABASE_URL: cluster.url },
+			encoding: 'utf8'
+		});
+		if (result.status !== 0)
+			throw new Error(`${script} failed:\n${result.stdout}\n${result.stderr}`);
 	}
 	const mailboxDir = path.join(work, 'mail');
 	const mail = await startFakeMail({ port: await freePort(), dir: mailboxDir });
@@ -85,6 +95,9 @@ export function stopServer(child: ChildProcess): Promise<void> {
 }
 
 export function startServer(env: Record<string, string>): ChildProcess {
-	const child = spawn(process.execPath, [path.join(buildDir, 'index.js')], { env, stdio: ['ignore', 'ignore', 'inherit'] });
+	const child = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
+		env,
+		stdio: ['ignore', 'ignore', 'inherit']
+	});
 	return child;
 }

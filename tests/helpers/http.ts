@@ -23,7 +23,10 @@ export class Visitor {
 		return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
 	}
 
-	async request(path: string, init: RequestInit & { json?: unknown; form?: Record<string, string | string[]> } = {}): Promise<Response> {
+	async request(
+		path: string,
+		init: RequestInit & { json?: unknown; form?: Record<string, string | string[]> } = {}
+	): Promise<Response> {
 		const headers = new Headers(init.headers);
 		headers.set('origin', baseUrl());
 		if (this.cookies.size) headers.set('cookie', this.cookieHeader());
@@ -34,7 +37,8 @@ export class Visitor {
 		}
 		if (init.form) {
 			const params = new URLSearchParams();
-			for (const [key, value] of Object.entries(init.form)) for (const v of [value].flat()) params.append(key, v);
+			for (const [key, value] of Object.entries(init.form))
+				for (const v of [value].flat()) params.append(key, v);
 			body = params;
 			if (!headers.has('accept')) headers.set('accept', 'text/html');
 		}
@@ -43,7 +47,9 @@ export class Visitor {
 			const [pair, ...attributes] = line.split(';');
 			const [name, ...rest] = pair.split('=');
 			const value = rest.join('=');
-			const expired = attributes.some((a) => /max-age=0/i.test(a) || /expires=Thu, 01 Jan 1970/i.test(a));
+			const expired = attributes.some(
+				(a) => /max-age=0/i.test(a) || /expires=Thu, 01 Jan 1970/i.test(a)
+			);
 			if (expired || value === '') this.cookies.delete(name.trim());
 			else this.cookies.set(name.trim(), value);
 		}
@@ -51,8 +57,15 @@ export class Visitor {
 	}
 
 	/** Posts a SvelteKit form action the way `use:enhance` does, and decodes its answer. */
-	async action(path: string, form: Record<string, string | string[]>): Promise<{ type: string; status: number; data?: any; location?: string }> {
-		const response = await this.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
+	async action(
+		path: string,
+		form: Record<string, string | string[]>
+	): Promise<{ type: string; status: number; data?: any; location?: string }> {
+		const response = await this.request(path, {
+			method: 'POST',
+			form,
+			headers: { accept: 'application/json', 'x-sveltekit-action': 'true' }
+		});
 		const result = await response.json();
 		if (result.data) result.data = parseDevalue(result.data);
 		if (result.type === 'error') result.status = response.status;
@@ -87,7 +100,9 @@ export async function mailTo(address: string, { after = 0, timeoutMs = 15_000 } 
 	const deadline = Date.now() + timeoutMs;
 	while (Date.now() < deadline) {
 		const response = await fetch(`${baseUrl()}/dev/mail/messages.json`);
-		const { messages } = (await response.json()) as { messages: { to: string[]; subject: string; text: string; receivedAt: string }[] };
+		const { messages } = (await response.json()) as {
+			messages: { to: string[]; subject: string; text: string; receivedAt: string }[];
+		};
 		const found = messages.find((m) => m.to.includes(address) && Date.parse(m.receivedAt) >= after);
 		if (found) return found;
 		await new Promise((resolve) => setTimeout(resolve, 200));

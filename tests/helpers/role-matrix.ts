@@ -16,8 +16,16 @@ export interface Case {
 }
 
 /** Posts a form action the way use:enhance does and answers its status (303 for a redirect). */
-export async function actionStatus(v: Visitor, path: string, form: Record<string, string | string[]>): Promise<number> {
-	const response = await v.request(path, { method: 'POST', form, headers: { accept: 'application/json', 'x-sveltekit-action': 'true' } });
+export async function actionStatus(
+	v: Visitor,
+	path: string,
+	form: Record<string, string | string[]>
+): Promise<number> {
+	const response = await v.request(path, {
+		method: 'POST',
+		form,
+		headers: { accept: 'application/json', 'x-sveltekit-action': 'true' }
+	});
 	if (response.status !== 200) return response.status; // 401 from the guard
 	const result = await response.json();
 	return result.type === 'redirect' ? 303 : result.status;

@@ -4,7 +4,16 @@
  * session handling follows OWASP ASVS 4.0 V3 (server-side invalidation on sign-out and reset).
  */
 import { describe, expect, test } from 'vitest';
-import { DEMO_PASSWORD, Visitor, baseUrl, demo, linkIn, mailTo, signedIn, sql } from '../helpers/http';
+import {
+	DEMO_PASSWORD,
+	Visitor,
+	baseUrl,
+	demo,
+	linkIn,
+	mailTo,
+	signedIn,
+	sql
+} from '../helpers/http';
 
 describe('sign-in', () => {
 	test('a crew member signs in with e-mail and password and /api/me names them, their channel and roles', async () => {
@@ -19,7 +28,10 @@ describe('sign-in', () => {
 
 	test('a wrong password is refused with a plain message and keeps the typed e-mail', async () => {
 		const visitor = new Visitor();
-		const result = await visitor.action('/signin', { email: demo.host, password: 'not the password at all' });
+		const result = await visitor.action('/signin', {
+			email: demo.host,
+			password: 'not the password at all'
+		});
 		expect(result.type).toBe('failure');
 		expect(result.status).toBe(400);
 		expect(result.data.errors.form[0]).toMatch(/don't match/);
@@ -34,10 +46,16 @@ describe('sign-in', () => {
 	});
 
 	test('guessing is throttled after ten failures for one address (NIST SP 800-63B rate limiting)', async () => {
-		await sql(`INSERT INTO person (email, name, password_hash) VALUES ('throttle@example.test', 'Throttle Test', NULL)`);
+		await sql(
+			`INSERT INTO person (email, name, password_hash) VALUES ('throttle@example.test', 'Throttle Test', NULL)`
+		);
 		const visitor = new Visitor();
 		let last: Awaited<ReturnType<Visitor['action']>> | null = null;
-		for (let i = 0; i < 11; i++) last = await visitor.action('/signin', { email: 'throttle@example.test', password: `guess number ${i}` });
+		for (let i = 0; i < 11; i++)
+			last = await visitor.action('/signin', {
+				email: 'throttle@example.test',
+				password: `guess number ${i}`
+			});
 		expect(last?.status).toBe(429);
 		expect(last?.data.errors.form[0]).toMatch(/Too many tries/);
 	});
@@ -53,7 +71,10 @@ describe('sign-in', () => {
 
 	test('a forged session cookie is treated as signed out', async () => {
 		const visitor = new Visitor();
-		visitor.cookies.set('authjs.session-token', 'eyJhbGciOiJkaXIiLCJlbmMiOiJBMjU2Q0JDLUhTNTEyIn0..forged.forged.forged');
+		visitor.cookies.set(
+			'authjs.session-token',
+			'eyJhbGciOiJkaXIiLCJlbmMiOiJBMjU2Q0JDLUhTNTEyIn0..forged.forged.forged'
+		);
 		const me = await visitor.api('/api/me');
 		expect(me.status).toBe(401);
 		expect(me.body.error).toMatch(/Sign in/);
@@ -66,7 +87,12 @@ describe('sign-in', () => {
 describe('where sign-in sends you next', () => {
 	// Browsers read "\\" in a URL as "/" (WHATWG URL Standard, special schemes), so "/\\host" and
 	// "//host" both name another host: an open redirect if followed (OWASP Unvalidated Redirects).
-	const offSite = ['//evil.example/x', '/\\evil.example/x', 'https://evil.example/x', '/\t/evil.example'];
+	const offSite = [
+		'//evil.example/x',
+		'/\\evil.example/x',
+		'https://evil.example/x',
+		'/\t/evil.example'
+	];
 
 	test('a signed-in visitor sent to /signin?next=… stays on this site', async () => {
 		const visitor = await signedIn(demo.host);
@@ -83,12 +109,18 @@ describe('where sign-in sends you next', () => {
 	test('signing in with an off-site next lands on the bench; an on-site next is kept', async () => {
 		for (const next of offSite) {
 			const visitor = new Visitor();
-			const answer = await visitor.request('/signin', { method: 'POST', form: { email: demo.host, password: DEMO_PASSWORD, next } });
+			const answer = await visitor.request('/signin', {
+				method: 'POST',
+				form: { email: demo.host, password: DEMO_PASSWORD, next }
+			});
 			expect(answer.status, next).toBe(303);
 			expect(new URL(answer.headers.get('location')!, baseUrl()).origin, next).toBe(baseUrl());
 		}
 		const visitor = new Visitor();
-		const answer = await visitor.request('/signin', { method: 'POST', form: { email: demo.host, password: DEMO_PASSWORD, next: '/episodes' } });
+		const answer = await visitor.request('/signin', {
+			method: 'POST',
+			form: { email: demo.host, password: DEMO_PASSWORD, next: '/episodes' }
+		});
 		expect(answer.headers.get('location')).toBe('/episodes');
 	});
 });
@@ -97,7 +129,14 @@ describe('crew management', () => {
 	test('an invite arrives by mail, its link sets a password, and the invitee signs in with their roles', async () => {
 		const producer = await signedIn(demo.producer);
 		const started = Date.now() - 1000;
-		const invited = await producer.api('/api/crew', { method: 'POST', json: { email: 'lena.invite@example.test', name: 'Lena Brightwater', roles: ['camera', 'merch'] } });
+		const invited = await producer.api('/api/crew', {
+			method: 'POST',
+			json: {
+				email: 'lena.invite@example.test',
+				name: 'Lena Brightwater',
+				roles: ['camera', 'merch']
+			}
+		});
 		expect(invited.status).toBe(201);
 		const mail = await mailTo('lena.invite@example.test', { after: started });
 		expect(mail.subject).toMatch(/Torquehaven Garage/);
@@ -108,37 +147,61 @@ describe('crew management', () => {
 		const tooShort = await invitee.action(link.pathname, { password: 'short', confirm: 'short' });
 		expect(tooShort.status).toBe(400);
 		expect(tooShort.data.errors.password[0]).toMatch(/at least 15/);
-		const breached = await invitee.action(link.pathname, { password: 'passwordpassword', confirm: 'passwordpassword' });
+		const breached = await invitee.action(link.pathname, {
+			password: 'passwordpassword',
+			confirm: 'passwordpassword'
+		});
 		expect(breached.status).toBe(400);
 		expect(breached.data.errors.password[0]).toMatch(/leaked/);
-		const set = await invitee.action(link.pathname, { password: 'three blocks and a shackle', confirm: 'three blocks and a shackle' });
+		const set = await invitee.action(link.pathname, {
+			password: 'three blocks and a shackle',
+			confirm: 'three blocks and a shackle'
+		});
 		expect(set.type).toBe('redirect');
 
-		const again = await invitee.action(link.pathname, { password: 'three blocks and a shackle', confirm: 'three blocks and a shackle' });
+		const again = await invitee.action(link.pathname, {
+			password: 'three blocks and a shackle',
+			confirm: 'three blocks and a shackle'
+		});
 		expect(again.status).toBe(404); // the link works once
 
 		const signedInInvitee = new Visitor();
-		expect((await signedInInvitee.signIn('lena.invite@example.test', 'three blocks and a shackle')).status).toBe(303);
+		expect(
+			(await signedInInvitee.signIn('lena.invite@example.test', 'three blocks and a shackle'))
+				.status
+		).toBe(303);
 		const me = await signedInInvitee.api('/api/me');
 		expect(me.body.roles.sort()).toEqual(['camera', 'merch']);
 	});
 
 	test('inviting someone already on the crew answers 409', async () => {
 		const producer = await signedIn(demo.producer);
-		const again = await producer.api('/api/crew', { method: 'POST', json: { email: demo.host, name: 'Rico again', roles: ['host'] } });
+		const again = await producer.api('/api/crew', {
+			method: 'POST',
+			json: { email: demo.host, name: 'Rico again', roles: ['host'] }
+		});
 		expect(again.status).toBe(409);
 		expect(again.body.error).toMatch(/already on the Torquehaven Garage crew/);
 	});
 
 	test('a disabled account loses access on its next request, and regains it when enabled', async () => {
 		const producer = await signedIn(demo.producer);
-		await producer.api('/api/crew', { method: 'POST', json: { email: 'temp.disable@example.test', name: 'Temp Hand', roles: ['host'] } });
+		await producer.api('/api/crew', {
+			method: 'POST',
+			json: { email: 'temp.disable@example.test', name: 'Temp Hand', roles: ['host'] }
+		});
 		const [row] = await sql(`SELECT id FROM person WHERE email = 'temp.disable@example.test'`);
-		await sql(`UPDATE person SET password_hash = (SELECT password_hash FROM person WHERE email = $1) WHERE id = $2`, [demo.host, row.id]);
+		await sql(
+			`UPDATE person SET password_hash = (SELECT password_hash FROM person WHERE email = $1) WHERE id = $2`,
+			[demo.host, row.id]
+		);
 		const temp = await signedIn('temp.disable@example.test');
 		expect((await temp.api('/api/me')).status).toBe(200);
 
-		const disabled = await producer.api(`/api/crew/${row.id}`, { method: 'PATCH', json: { disabled: true } });
+		const disabled = await producer.api(`/api/crew/${row.id}`, {
+			method: 'PATCH',
+			json: { disabled: true }
+		});
 		expect(disabled.status).toBe(200);
 		expect((await temp.api('/api/me')).status).toBe(401);
 		expect((await new Visitor().signIn('temp.disable@example.test')).status).toBe(400);
@@ -150,7 +213,10 @@ describe('crew management', () => {
 	test('the last producer cannot drop their own producer role', async () => {
 		const producer = await signedIn(demo.producer);
 		const me = await producer.api('/api/me');
-		const result = await producer.api(`/api/crew/${me.body.person.id}`, { method: 'PATCH', json: { roles: ['host'] } });
+		const result = await producer.api(`/api/crew/${me.body.person.id}`, {
+			method: 'PATCH',
+			json: { roles: ['host'] }
+		});
 		expect(result.status).toBe(409);
 		expect(result.body.error).toMatch(/only producer/);
 	});
@@ -159,8 +225,14 @@ describe('crew management', () => {
 		await sql(`INSERT INTO person (email, name) VALUES ('reset.me@example.test', 'Reset Me')`);
 		const [person] = await sql(`SELECT id FROM person WHERE email = 'reset.me@example.test'`);
 		const [channel] = await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
-		await sql(`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, '{host}')`, [channel.id, person.id]);
-		await sql(`UPDATE person SET password_hash = (SELECT password_hash FROM person WHERE email = $1) WHERE id = $2`, [demo.host, person.id]);
+		await sql(`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, '{host}')`, [
+			channel.id,
+			person.id
+		]);
+		await sql(
+			`UPDATE person SET password_hash = (SELECT password_hash FROM person WHERE email = $1) WHERE id = $2`,
+			[demo.host, person.id]
+		);
 		const oldSession = await signedIn('reset.me@example.test');
 
 		const started = Date.now() - 1000;
@@ -170,23 +242,33 @@ describe('crew management', () => {
 		expect(unknown.data.sent).toBe(true); // same answer: no account enumeration
 		const mail = await mailTo('reset.me@example.test', { after: started });
 		const link = new URL(linkIn(mail.text));
-		const done = await new Visitor().action(link.pathname, { password: 'new springs on the rear axle', confirm: 'new springs on the rear axle' });
+		const done = await new Visitor().action(link.pathname, {
+			password: 'new springs on the rear axle',
+			confirm: 'new springs on the rear axle'
+		});
 		expect(done.type).toBe('redirect');
 		expect((await oldSession.api('/api/me')).status).toBe(401);
 		expect((await new Visitor().signIn('reset.me@example.test', DEMO_PASSWORD)).status).toBe(400);
-		expect((await new Visitor().signIn('reset.me@example.test', 'new springs on the rear axle')).status).toBe(303);
+		expect(
+			(await new Visitor().signIn('reset.me@example.test', 'new springs on the rear axle')).status
+		).toBe(303);
 	});
 });
 
 describe('personal API tokens', () => {
 	test('a token is shown once, works as Bearer, is stored hashed, and stops working when revoked', async () => {
 		const editor = await signedIn(demo.editor);
-		const created = await editor.api('/api/tokens', { method: 'POST', json: { label: 'graphics laptop' } });
+		const created = await editor.api('/api/tokens', {
+			method: 'POST',
+			json: { label: 'graphics laptop' }
+		});
 		expect(created.status).toBe(201);
 		const secret: string = created.body.token.token;
 		expect(secret).toMatch(/^wr_/);
 
-		const stored = await sql(`SELECT token_hash FROM api_token WHERE id = $1`, [created.body.token.id]);
+		const stored = await sql(`SELECT token_hash FROM api_token WHERE id = $1`, [
+			created.body.token.id
+		]);
 		expect(stored[0].token_hash).not.toContain(secret);
 		const listed = await editor.api('/api/tokens');
 		expect(JSON.stringify(listed.body)).not.toContain(secret);
@@ -197,8 +279,12 @@ describe('personal API tokens', () => {
 		expect(me.body.via).toBe('token');
 		expect(me.body.person.email).toBe(demo.editor);
 
-		expect((await editor.api(`/api/tokens/${created.body.token.id}`, { method: 'DELETE' })).status).toBe(204);
-		const revoked = await viaToken.api('/api/me', { headers: { authorization: `Bearer ${secret}` } });
+		expect(
+			(await editor.api(`/api/tokens/${created.body.token.id}`, { method: 'DELETE' })).status
+		).toBe(204);
+		const revoked = await viaToken.api('/api/me', {
+			headers: { authorization: `Bearer ${secret}` }
+		});
 		expect(revoked.status).toBe(401);
 		expect(revoked.body.error).toMatch(/revoked/);
 	});

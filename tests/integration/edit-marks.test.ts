@@ -30,12 +30,20 @@ test('an uploaded cut becomes the video under the edit timeline, and placed caut
 			endpoint: `${inject('baseUrl')}/api/uploads`,
 			chunkSize: 1024 * 1024,
 			headers: { cookie: editor.cookieHeader(), origin: inject('baseUrl') },
-			metadata: { filename: 'mule-proxy.mp4', filetype: 'video/mp4', episodeId: episode.id, purpose: 'cut' },
+			metadata: {
+				filename: 'mule-proxy.mp4',
+				filetype: 'video/mp4',
+				episodeId: episode.id,
+				purpose: 'cut'
+			},
 			onError: reject,
 			onSuccess: () => resolve()
 		}).start()
 	);
-	const [cut] = await sql(`SELECT id FROM footage WHERE episode_id = $1 AND purpose = 'cut' ORDER BY created_at DESC LIMIT 1`, [episode.id]);
+	const [cut] = await sql(
+		`SELECT id FROM footage WHERE episode_id = $1 AND purpose = 'cut' ORDER BY created_at DESC LIMIT 1`,
+		[episode.id]
+	);
 
 	const [caution] = await sql(
 		`SELECT c.id, s.title AS text FROM caution c JOIN segment s ON s.id = c.segment_id WHERE s.episode_id = $1 AND c.hazard = ANY(s.hazards) ORDER BY s.position LIMIT 1`,
@@ -50,7 +58,9 @@ test('an uploaded cut becomes the video under the edit timeline, and placed caut
 	expect(text).toContain(caution.text.slice(0, 30)); // the mark names the segment
 	expect(text).toContain('spec-card'); // the demo lift and torque cards are placed on this cut
 
-	const head = await editor.request(`/api/footage/${cut.id}/file`, { headers: { range: 'bytes=0-1023' } });
+	const head = await editor.request(`/api/footage/${cut.id}/file`, {
+		headers: { range: 'bytes=0-1023' }
+	});
 	expect(head.status).toBe(206);
 	expect(head.headers.get('accept-ranges')).toBe('bytes');
 });

@@ -28,11 +28,23 @@ interface Mail {
 }
 
 /** The first message to `address` since `after` whose subject matches. */
-async function mailMatching(address: string, subject: RegExp, after: number, timeoutMs = 15_000): Promise<Mail> {
+async function mailMatching(
+	address: string,
+	subject: RegExp,
+	after: number,
+	timeoutMs = 15_000
+): Promise<Mail> {
 	const deadline = Date.now() + timeoutMs;
 	while (Date.now() < deadline) {
-		const { messages } = (await (await fetch(`${baseUrl()}/dev/mail/messages.json`)).json()) as { messages: Mail[] };
-		const found = messages.find((message) => message.to.includes(address) && subject.test(message.subject) && Date.parse(message.receivedAt) >= after);
+		const { messages } = (await (await fetch(`${baseUrl()}/dev/mail/messages.json`)).json()) as {
+			messages: Mail[];
+		};
+		const found = messages.find(
+			(message) =>
+				message.to.includes(address) &&
+				subject.test(message.subject) &&
+				Date.parse(message.receivedAt) >= after
+		);
 		if (found) return found;
 		await new Promise((resolve) => setTimeout(resolve, 200));
 	}
@@ -57,7 +69,13 @@ let seq = 0;
 async function newEpisode(title = `Gate test ${Date.now()}-${seq++}`) {
 	const created = await producer.api('/api/episodes', {
 		method: 'POST',
-		json: { title, targetRuntimeSeconds: '10:00', frameRate: '29.97', publishDate: '2027-03-05', assignments: { host: people.host, camera: people.camera, editor: people.editor } }
+		json: {
+			title,
+			targetRuntimeSeconds: '10:00',
+			frameRate: '29.97',
+			publishDate: '2027-03-05',
+			assignments: { host: people.host, camera: people.camera, editor: people.editor }
+		}
 	});
 	expect(created.status).toBe(201);
 	return created.body.episode as { id: string; slug: string; stage: string; version: number };
@@ -68,7 +86,12 @@ beforeAll(async () => {
 		const [row] = await sql(`SELECT id FROM person WHERE email = $1`, [email]);
 		people[role] = row.id;
 	}
-	[producer, host, camera, merch] = await Promise.all([signedIn(demo.producer), signedIn(demo.host), signedIn(demo.camera), signedIn(demo.merch)]);
+	[producer, host, camera, merch] = await Promise.all([
+		signedIn(demo.producer),
+		signedIn(demo.host),
+		signedIn(demo.camera),
+		signedIn(demo.merch)
+	]);
 	editor = await inTorquehaven(await signedIn(demo.editor));
 });
 
@@ -80,92 +103,204 @@ describe('an episode from idea to shoot and on', () => {
 		expect(episode.slug).toBe('brake-line-swap-on-project-mule');
 		// Created at the script stage, with a first history row, and the host told.
 		const history0 = await producer.api(`/api/episodes/${episode.id}/stage`);
-		expect(history0.body.history).toMatchObject([{ fromStage: null, toStage: 'script', note: 'Episode created', personName: 'Dana Okafor' }]);
+		expect(history0.body.history).toMatchObject([
+			{ fromStage: null, toStage: 'script', note: 'Episode created', personName: 'Dana Okafor' }
+		]);
 		await mailMatching(demo.host, /You're the host on “Brake line swap on Project Mule”/, start);
 
 		// The host plans two segments: one shows brake work and needs footage, one is read over the end card.
-		const brakes = await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'install-step', title: 'Swap the rear brake hose', plannedSeconds: '2:00', hazards: ['brakes', 'raised-vehicle'] } });
+		const brakes = await host.api(`/api/episodes/${episode.id}/segments`, {
+			method: 'POST',
+			json: {
+				kind: 'install-step',
+				title: 'Swap the rear brake hose',
+				plannedSeconds: '2:00',
+				hazards: ['brakes', 'raised-vehicle']
+			}
+		});
 		expect(brakes.status).toBe(201);
-		expect(brakes.body.segment.cautions.map((c: { hazard: string }) => c.hazard)).toEqual(['raised-vehicle', 'brakes']);
+		expect(brakes.body.segment.cautions.map((c: { hazard: string }) => c.hazard)).toEqual([
+			'raised-vehicle',
+			'brakes'
+		]);
 		expect(brakes.body.segment.needsFootage).toBe(true);
-		const outro = await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'call-to-action', title: 'Parts and the shop', plannedSeconds: 30 } });
+		const outro = await host.api(`/api/episodes/${episode.id}/segments`, {
+			method: 'POST',
+			json: { kind: 'call-to-action', title: 'Parts and the shop', plannedSeconds: 30 }
+		});
 		expect(outro.body.segment.needsFootage).toBe(false);
 		const brakesId = brakes.body.segment.id as string;
 
 		// First try: refused, with a reason per thing to do, naming the segment.
-		const refused = await host.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot' } });
+		const refused = await host.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'script', to: 'shoot' }
+		});
 		expect(refused.status).toBe(422);
 		expect(refused.body.gate.passed).toBe(false);
-		expect(refused.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual(['script-empty', 'script-not-approved', 'shot-list-missing']);
+		expect(refused.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
+			'script-empty',
+			'script-not-approved',
+			'shot-list-missing'
+		]);
 		expect(refused.body.gate.reasons[2].subject).toBe('Segment 1 “Swap the rear brake hose”');
 		expect(refused.body.error).toMatch(/Not ready for Shoot yet: 3 things to do first/);
-		expect((await sql(`SELECT stage FROM episode WHERE id = $1`, [episode.id]))[0].stage).toBe('script');
+		expect((await sql(`SELECT stage FROM episode WHERE id = $1`, [episode.id]))[0].stage).toBe(
+			'script'
+		);
 
 		// The host writes the segment; [[directions]] and Markdown marks are not spoken words.
 		const script = await host.api(`/api/segments/${brakesId}/script`);
 		const words = Array.from({ length: 150 }, (_, i) => `word${i}`).join(' ');
-		const saved = await host.api(`/api/segments/${brakesId}/script`, { method: 'PUT', json: { body: `Hose off, **new hose** on. ${words} [[B-roll: hose at droop]]`, version: script.body.script.version } });
+		const saved = await host.api(`/api/segments/${brakesId}/script`, {
+			method: 'PUT',
+			json: {
+				body: `Hose off, **new hose** on. ${words} [[B-roll: hose at droop]]`,
+				version: script.body.script.version
+			}
+		});
 		expect(saved.status).toBe(200);
 		expect(saved.body.script.words).toBe(155);
 
 		// Sent for approval: every producer hears about it.
 		const submitAt = Date.now() - 1000;
-		expect((await host.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'submit' } })).status).toBe(200);
+		expect(
+			(
+				await host.api(`/api/episodes/${episode.id}/script-review`, {
+					method: 'POST',
+					json: { action: 'submit' }
+				})
+			).status
+		).toBe(200);
 		await mailMatching(demo.producer, /Script ready for approval: Brake line swap/, submitAt);
 
 		// The producer approves the text they read; the host is told.
 		const state = await producer.api(`/api/episodes/${episode.id}/script-review`);
 		expect(state.body.status).toBe('submitted');
 		const approveAt = Date.now() - 1000;
-		const approved = await producer.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'approve', fingerprint: state.body.fingerprint, body: 'Good to shoot.' } });
+		const approved = await producer.api(`/api/episodes/${episode.id}/script-review`, {
+			method: 'POST',
+			json: { action: 'approve', fingerprint: state.body.fingerprint, body: 'Good to shoot.' }
+		});
 		expect(approved.status).toBe(200);
 		await mailMatching(demo.host, /Script approved: Brake line swap/, approveAt);
 
 		// The camera operator plans a shot for the segment that needs footage.
-		const shot = await camera.api(`/api/segments/${brakesId}/shots`, { method: 'POST', json: { what: 'Hose at full droop', angle: 'Close-up', roll: 'B', camera: 'B-cam' } });
+		const shot = await camera.api(`/api/segments/${brakesId}/shots`, {
+			method: 'POST',
+			json: { what: 'Hose at full droop', angle: 'Close-up', roll: 'B', camera: 'B-cam' }
+		});
 		expect(shot.status).toBe(201);
 
 		// An edit after approval voids it: the gate says so, and the producer approves again.
 		const current = await host.api(`/api/segments/${brakesId}/script`);
-		await host.api(`/api/segments/${brakesId}/script`, { method: 'PUT', json: { body: `${current.body.script.body} One more line.`, version: current.body.script.version } });
-		const changed = await host.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot' } });
+		await host.api(`/api/segments/${brakesId}/script`, {
+			method: 'PUT',
+			json: {
+				body: `${current.body.script.body} One more line.`,
+				version: current.body.script.version
+			}
+		});
+		const changed = await host.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'script', to: 'shoot' }
+		});
 		expect(changed.status).toBe(422);
-		expect(changed.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual(['script-changed']);
+		expect(changed.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
+			'script-changed'
+		]);
 		const again = await producer.api(`/api/episodes/${episode.id}/script-review`);
 		expect(again.body.changedSinceApproval).toBe(true);
-		expect((await producer.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'approve', fingerprint: again.body.fingerprint } })).status).toBe(200);
+		expect(
+			(
+				await producer.api(`/api/episodes/${episode.id}/script-review`, {
+					method: 'POST',
+					json: { action: 'approve', fingerprint: again.body.fingerprint }
+				})
+			).status
+		).toBe(200);
 
 		// Nobody but a producer or the assigned host moves it on from script.
-		expect((await merch.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot' } })).status).toBe(403);
-		expect((await camera.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot' } })).status).toBe(403);
+		expect(
+			(
+				await merch.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'script', to: 'shoot' }
+				})
+			).status
+		).toBe(403);
+		expect(
+			(
+				await camera.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'script', to: 'shoot' }
+				})
+			).status
+		).toBe(403);
 		// Skipping a stage is not a move.
-		expect((await producer.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'edit' } })).status).toBe(400);
+		expect(
+			(
+				await producer.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'script', to: 'edit' }
+				})
+			).status
+		).toBe(400);
 
 		// Now the host moves it on: the gate passes, one history row, the camera operator is mailed.
 		const moveAt = Date.now() - 1000;
-		const moved = await host.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot', note: 'Bay 2 on Saturday' } });
+		const moved = await host.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'script', to: 'shoot', note: 'Bay 2 on Saturday' }
+		});
 		expect(moved.status).toBe(200);
 		expect(moved.body.gate).toEqual({ passed: true, to: 'shoot', reasons: [] });
 		const shootMail = await mailMatching(demo.camera, /Shoot is yours: Brake line swap/, moveAt);
 		expect(shootMail.text).toContain('Bay 2 on Saturday');
 		expect(shootMail.text).toContain(`/episodes/${episode.id}`);
-		const rows = await sql(`SELECT from_stage, to_stage, note, person_id FROM stage_move WHERE episode_id = $1 ORDER BY created_at`, [episode.id]);
-		expect(rows.map((row) => [row.from_stage, row.to_stage])).toEqual([[null, 'script'], ['script', 'shoot']]);
+		const rows = await sql(
+			`SELECT from_stage, to_stage, note, person_id FROM stage_move WHERE episode_id = $1 ORDER BY created_at`,
+			[episode.id]
+		);
+		expect(rows.map((row) => [row.from_stage, row.to_stage])).toEqual([
+			[null, 'script'],
+			['script', 'shoot']
+		]);
 		expect(rows[1]).toMatchObject({ note: 'Bay 2 on Saturday', person_id: people.host });
 
 		// A second click from a page that still shows "script" changes nothing: 409.
-		const stale = await host.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'shoot' } });
+		const stale = await host.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'script', to: 'shoot' }
+		});
 		expect(stale.status).toBe(409);
 		expect(stale.body.current.stage).toBe('shoot');
-		expect(await sql(`SELECT 1 FROM stage_move WHERE episode_id = $1`, [episode.id])).toHaveLength(2);
+		expect(await sql(`SELECT 1 FROM stage_move WHERE episode_id = $1`, [episode.id])).toHaveLength(
+			2
+		);
 
 		// Shoot → edit needs a good take with footage for every planned shot.
-		const noTake = await camera.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'shoot', to: 'edit' } });
+		const noTake = await camera.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'shoot', to: 'edit' }
+		});
 		expect(noTake.status).toBe(422);
-		expect(noTake.body.gate.reasons).toMatchObject([{ rule: 'take-missing', subject: 'Shot “Hose at full droop” in segment 1 “Swap the rear brake hose”', fixedBy: 'camera' }]);
+		expect(noTake.body.gate.reasons).toMatchObject([
+			{
+				rule: 'take-missing',
+				subject: 'Shot “Hose at full droop” in segment 1 “Swap the rear brake hose”',
+				fixedBy: 'camera'
+			}
+		]);
 		// Takes are logged by the shoot work (its own issue); the gate reads them from the table.
-		await sql(`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, 'B014_C002', 1000, 1600, true)`, [shot.body.shot.id]);
-		const noFootage = await camera.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'shoot', to: 'edit' } });
+		await sql(
+			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, 'B014_C002', 1000, 1600, true)`,
+			[shot.body.shot.id]
+		);
+		const noFootage = await camera.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'shoot', to: 'edit' }
+		});
 		expect(noFootage.body.gate.reasons).toMatchObject([{ rule: 'footage-missing' }]);
 		expect(noFootage.body.gate.reasons[0].message).toContain('B014_C002');
 		const [channel] = await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
@@ -175,41 +310,95 @@ describe('an episode from idea to shoot and on', () => {
 		);
 		await sql(`UPDATE take SET footage_id = $1 WHERE clip_name = 'B014_C002'`, [footage.id]);
 		const editAt = Date.now() - 1000;
-		expect((await camera.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'shoot', to: 'edit' } })).status).toBe(200);
+		expect(
+			(
+				await camera.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'shoot', to: 'edit' }
+				})
+			).status
+		).toBe(200);
 		await mailMatching(demo.editor, /Edit is yours: Brake line swap/, editAt);
 
 		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced; each named.
-		const lock = await editor.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'edit', to: 'locked' } });
+		const lock = await editor.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'edit', to: 'locked' }
+		});
 		expect(lock.status).toBe(422);
 		const lockRules = lock.body.gate.reasons.map((r: { rule: string }) => r.rule);
 		expect(lockRules).toEqual(['chapters-missing', 'caution-unplaced', 'caution-unplaced']);
-		expect(lock.body.gate.reasons[0].message).toBe('Mark at least three chapters on the edit timeline.');
-		expect(lock.body.gate.reasons[2]).toMatchObject({ subject: 'Segment 1 “Swap the rear brake hose”', fixedBy: 'editor' });
+		expect(lock.body.gate.reasons[0].message).toBe(
+			'Mark at least three chapters on the edit timeline.'
+		);
+		expect(lock.body.gate.reasons[2]).toMatchObject({
+			subject: 'Segment 1 “Swap the rear brake hose”',
+			fixedBy: 'editor'
+		});
 		expect(lock.body.gate.reasons[2].message).toMatch(/“Brakes” caution is not placed/);
 
 		// The editor places both by typing timecode and clock time at 29.97 drop-frame.
-		const cautions = (await editor.api(`/api/segments/${brakesId}`)).body.segment.cautions as { hazard: string; version: number }[];
-		const placedA = await editor.api(`/api/segments/${brakesId}/cautions/raised-vehicle`, { method: 'PATCH', json: { at: '00:00:10;00', version: cautions[0].version } });
+		const cautions = (await editor.api(`/api/segments/${brakesId}`)).body.segment.cautions as {
+			hazard: string;
+			version: number;
+		}[];
+		const placedA = await editor.api(`/api/segments/${brakesId}/cautions/raised-vehicle`, {
+			method: 'PATCH',
+			json: { at: '00:00:10;00', version: cautions[0].version }
+		});
 		expect(placedA.status).toBe(200);
 		expect(placedA.body.caution.atFrame).toBe(300); // 10 s × 30 labels, no drops in minute 0 (SMPTE ST 12-1)
-		const placedB = await editor.api(`/api/segments/${brakesId}/cautions/brakes`, { method: 'PATCH', json: { at: '1:00', version: cautions[1].version } });
+		const placedB = await editor.api(`/api/segments/${brakesId}/cautions/brakes`, {
+			method: 'PATCH',
+			json: { at: '1:00', version: cautions[1].version }
+		});
 		// 60 s at 30000/1001 fps is 1798.2 frames, nearest 1798 = label 00:00:59;28 (REFERENCES.md exact rates).
 		expect(placedB.body.caution.atFrame).toBe(1798);
 		expect(placedB.body.caution.atTimecode).toBe('00:00:59;28');
-		const lock2 = await editor.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'edit', to: 'locked' } });
-		expect(lock2.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual(['chapters-missing']);
+		const lock2 = await editor.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'edit', to: 'locked' }
+		});
+		expect(lock2.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
+			'chapters-missing'
+		]);
 
 		// The editor may not move it back; a producer may, without a gate, and the host is told why.
-		expect((await editor.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'edit', to: 'shoot' } })).status).toBe(403);
+		expect(
+			(
+				await editor.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'edit', to: 'shoot' }
+				})
+			).status
+		).toBe(403);
 		const backAt = Date.now() - 1000;
-		const back = await producer.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'edit', to: 'script', note: 'Rewrite the outro' } });
+		const back = await producer.api(`/api/episodes/${episode.id}/stage`, {
+			method: 'POST',
+			json: { from: 'edit', to: 'script', note: 'Rewrite the outro' }
+		});
 		expect(back.status).toBe(200);
 		const backMail = await mailMatching(demo.host, /Back to Script: Brake line swap/, backAt);
 		expect(backMail.text).toContain('Rewrite the outro');
-		expect((await editor.api(`/api/episodes/${episode.id}/stage`, { method: 'POST', json: { from: 'script', to: 'script' } })).status).toBe(400);
+		expect(
+			(
+				await editor.api(`/api/episodes/${episode.id}/stage`, {
+					method: 'POST',
+					json: { from: 'script', to: 'script' }
+				})
+			).status
+		).toBe(400);
 
 		const history = await producer.api(`/api/episodes/${episode.id}/stage`);
-		expect(history.body.history.map((row: { fromStage: string | null; toStage: string; personName: string }) => [row.fromStage, row.toStage, row.personName])).toEqual([
+		expect(
+			history.body.history.map(
+				(row: { fromStage: string | null; toStage: string; personName: string }) => [
+					row.fromStage,
+					row.toStage,
+					row.personName
+				]
+			)
+		).toEqual([
 			['edit', 'script', 'Dana Okafor'],
 			['shoot', 'edit', 'Mika Strand'],
 			['script', 'shoot', 'Rico Valdane'],
@@ -221,7 +410,12 @@ describe('an episode from idea to shoot and on', () => {
 		const episode = await newEpisode();
 		const report = await host.api(`/api/episodes/${episode.id}/stage`);
 		expect(report.status).toBe(200);
-		expect(report.body).toMatchObject({ stage: 'script', next: 'shoot', mayMoveForward: true, mayMoveBackTo: [] });
+		expect(report.body).toMatchObject({
+			stage: 'script',
+			next: 'shoot',
+			mayMoveForward: true,
+			mayMoveBackTo: []
+		});
 		// An empty rundown is the one thing to fix first: approval and shot lists follow from it.
 		expect(report.body.reasons.map((r: { rule: string }) => r.rule)).toEqual(['rundown-empty']);
 		expect((await merch.api(`/api/episodes/${episode.id}/stage`)).body.mayMoveForward).toBe(false);
@@ -235,8 +429,14 @@ describe('an episode from idea to shoot and on', () => {
 		expect(report.body.reasons).toHaveLength(2);
 		expect(report.body.reasons).toEqual(
 			expect.arrayContaining([
-				expect.objectContaining({ rule: 'caution-unplaced', subject: 'Segment 6 “Matched rear shocks and the brake hose”' }),
-				expect.objectContaining({ rule: 'part-problem', message: expect.stringContaining('NB-BL-REAR') })
+				expect.objectContaining({
+					rule: 'caution-unplaced',
+					subject: 'Segment 6 “Matched rear shocks and the brake hose”'
+				}),
+				expect.objectContaining({
+					rule: 'part-problem',
+					message: expect.stringContaining('NB-BL-REAR')
+				})
 			])
 		);
 	});
@@ -244,34 +444,57 @@ describe('an episode from idea to shoot and on', () => {
 
 describe('episode list and details', () => {
 	test('filters by stage, assignee and publish dates, and sorts', async () => {
-		const all = (await producer.api('/api/episodes?sort=title')).body.episodes as { title: string; stage: string }[];
+		const all = (await producer.api('/api/episodes?sort=title')).body.episodes as {
+			title: string;
+			stage: string;
+		}[];
 		const titles = all.map((e) => e.title);
-		expect(titles).toEqual([...titles].sort((a, b) => a.toLowerCase().localeCompare(b.toLowerCase())));
-		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.episodes as { stage: string }[];
+		expect(titles).toEqual(
+			[...titles].sort((a, b) => a.toLowerCase().localeCompare(b.toLowerCase()))
+		);
+		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.episodes as {
+			stage: string;
+		}[];
 		expect(inEdit.length).toBeGreaterThan(0);
 		expect(inEdit.every((e) => e.stage === 'edit')).toBe(true);
-		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.episodes as { assignments: { personId: string }[] }[];
+		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.episodes as {
+			assignments: { personId: string }[];
+		}[];
 		expect(priyas.length).toBeGreaterThan(0);
 		expect(priyas.every((e) => e.assignments.some((a) => a.personId === people.merch))).toBe(true);
-		const march = (await producer.api('/api/episodes?from=2027-03-01&to=2027-03-31')).body.episodes as { publishDate: string }[];
+		const march = (await producer.api('/api/episodes?from=2027-03-01&to=2027-03-31')).body
+			.episodes as { publishDate: string }[];
 		expect(march.length).toBeGreaterThan(0);
-		expect(march.every((e) => e.publishDate >= '2027-03-01' && e.publishDate <= '2027-03-31')).toBe(true);
+		expect(march.every((e) => e.publishDate >= '2027-03-01' && e.publishDate <= '2027-03-31')).toBe(
+			true
+		);
 		expect((await producer.api('/api/episodes?stage=finished')).status).toBe(400);
 	});
 
 	test('a stale episode save answers 409 with the saved episode, and the first save stays', async () => {
 		const episode = await newEpisode();
-		const first = await producer.api(`/api/episodes/${episode.id}`, { method: 'PATCH', json: { logline: 'First save wins.', version: episode.version } });
+		const first = await producer.api(`/api/episodes/${episode.id}`, {
+			method: 'PATCH',
+			json: { logline: 'First save wins.', version: episode.version }
+		});
 		expect(first.status).toBe(200);
-		const stale = await producer.api(`/api/episodes/${episode.id}`, { method: 'PATCH', json: { logline: 'Stale save.', version: episode.version } });
+		const stale = await producer.api(`/api/episodes/${episode.id}`, {
+			method: 'PATCH',
+			json: { logline: 'Stale save.', version: episode.version }
+		});
 		expect(stale.status).toBe(409);
 		expect(stale.body.current.logline).toBe('First save wins.');
-		expect((await producer.api(`/api/episodes/${episode.id}`)).body.episode.logline).toBe('First save wins.');
+		expect((await producer.api(`/api/episodes/${episode.id}`)).body.episode.logline).toBe(
+			'First save wins.'
+		);
 	});
 
 	test('crew can only be assigned to people holding that role', async () => {
 		const episode = await newEpisode();
-		const wrong = await producer.api(`/api/episodes/${episode.id}`, { method: 'PATCH', json: { assignments: { editor: people.merch }, version: episode.version } });
+		const wrong = await producer.api(`/api/episodes/${episode.id}`, {
+			method: 'PATCH',
+			json: { assignments: { editor: people.merch }, version: episode.version }
+		});
 		expect(wrong.status).toBe(400);
 		expect(wrong.body.issues['assignments.editor'][0]).toMatch(/does not have the editor role/);
 	});
@@ -280,24 +503,61 @@ describe('episode list and details', () => {
 describe('no lost edits', () => {
 	test('two writers on one script: the second save gets 409 with the first one’s text, then saves a merge', async () => {
 		const episode = await newEpisode();
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'What we do today', plannedSeconds: 60 } })).body.segment;
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'What we do today', plannedSeconds: 60 }
+			})
+		).body.segment;
 		const base = segment.script.version;
-		const hosts = await host.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Rico’s opening line.', version: base } });
+		const hosts = await host.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'Rico’s opening line.', version: base }
+		});
 		expect(hosts.status).toBe(200);
-		const producers = await producer.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Dana’s tighter line.', version: base } });
+		const producers = await producer.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'Dana’s tighter line.', version: base }
+		});
 		expect(producers.status).toBe(409);
-		expect(producers.body.current).toMatchObject({ body: 'Rico’s opening line.', version: base + 1, updatedByName: 'Rico Valdane' });
-		const merged = await producer.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Rico’s opening line.\n\nDana’s tighter line.', version: producers.body.current.version } });
+		expect(producers.body.current).toMatchObject({
+			body: 'Rico’s opening line.',
+			version: base + 1,
+			updatedByName: 'Rico Valdane'
+		});
+		const merged = await producer.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: {
+				body: 'Rico’s opening line.\n\nDana’s tighter line.',
+				version: producers.body.current.version
+			}
+		});
 		expect(merged.status).toBe(200);
-		const [row] = await sql(`SELECT body, version FROM segment_script WHERE segment_id = $1`, [segment.id]);
-		expect(row).toEqual({ body: 'Rico’s opening line.\n\nDana’s tighter line.', version: base + 2 });
+		const [row] = await sql(`SELECT body, version FROM segment_script WHERE segment_id = $1`, [
+			segment.id
+		]);
+		expect(row).toEqual({
+			body: 'Rico’s opening line.\n\nDana’s tighter line.',
+			version: base + 2
+		});
 	});
 
 	test('without JavaScript, a stale script form comes back with both versions on the page', async () => {
 		const episode = await newEpisode();
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'Plain form', plannedSeconds: 60 } })).body.segment;
-		await host.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'The host got there first.', version: segment.script.version } });
-		const response = await producer.request(`/episodes/${episode.id}/script/${segment.id}?/save`, { method: 'POST', form: { body: 'The producer’s plain-form text.', version: String(segment.script.version) } });
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'Plain form', plannedSeconds: 60 }
+			})
+		).body.segment;
+		await host.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'The host got there first.', version: segment.script.version }
+		});
+		const response = await producer.request(`/episodes/${episode.id}/script/${segment.id}?/save`, {
+			method: 'POST',
+			form: { body: 'The producer’s plain-form text.', version: String(segment.script.version) }
+		});
 		expect(response.status).toBe(409);
 		const html = await response.text();
 		expect(html).toContain('Rico Valdane saved this segment while you were writing');
@@ -305,33 +565,83 @@ describe('no lost edits', () => {
 		expect(html).toContain('The producer’s plain-form text.');
 		// The form now carries the saved version, so the next plain save (after merging) goes through.
 		expect(html).toMatch(new RegExp(`name="version" value="${segment.script.version + 1}"`));
-		expect((await sql(`SELECT body FROM segment_script WHERE segment_id = $1`, [segment.id]))[0].body).toBe('The host got there first.');
+		expect(
+			(await sql(`SELECT body FROM segment_script WHERE segment_id = $1`, [segment.id]))[0].body
+		).toBe('The host got there first.');
 	});
 
 	test('stale segment and caution saves answer 409 with the current row', async () => {
 		const episode = await newEpisode();
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'install-step', title: 'Torch the seized bolt', plannedSeconds: 45, hazards: ['heat-torch'] } })).body.segment;
-		expect((await host.api(`/api/segments/${segment.id}`, { method: 'PATCH', json: { title: 'Heat the seized bolt', version: segment.version } })).status).toBe(200);
-		const stale = await producer.api(`/api/segments/${segment.id}`, { method: 'PATCH', json: { title: 'Cut the seized bolt', version: segment.version } });
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: {
+					kind: 'install-step',
+					title: 'Torch the seized bolt',
+					plannedSeconds: 45,
+					hazards: ['heat-torch']
+				}
+			})
+		).body.segment;
+		expect(
+			(
+				await host.api(`/api/segments/${segment.id}`, {
+					method: 'PATCH',
+					json: { title: 'Heat the seized bolt', version: segment.version }
+				})
+			).status
+		).toBe(200);
+		const stale = await producer.api(`/api/segments/${segment.id}`, {
+			method: 'PATCH',
+			json: { title: 'Cut the seized bolt', version: segment.version }
+		});
 		expect(stale.status).toBe(409);
 		expect(stale.body.current.title).toBe('Heat the seized bolt');
 
 		const caution = segment.cautions[0];
 		expect(caution.text).toMatch(/fire extinguisher/);
-		expect((await host.api(`/api/segments/${segment.id}/cautions/heat-torch`, { method: 'PATCH', json: { text: 'Extinguisher in reach, fuel lines covered, gloves and glasses on.', version: caution.version } })).status).toBe(200);
-		const staleCaution = await producer.api(`/api/segments/${segment.id}/cautions/heat-torch`, { method: 'PATCH', json: { text: 'Other words.', version: caution.version } });
+		expect(
+			(
+				await host.api(`/api/segments/${segment.id}/cautions/heat-torch`, {
+					method: 'PATCH',
+					json: {
+						text: 'Extinguisher in reach, fuel lines covered, gloves and glasses on.',
+						version: caution.version
+					}
+				})
+			).status
+		).toBe(200);
+		const staleCaution = await producer.api(`/api/segments/${segment.id}/cautions/heat-torch`, {
+			method: 'PATCH',
+			json: { text: 'Other words.', version: caution.version }
+		});
 		expect(staleCaution.status).toBe(409);
-		expect(staleCaution.body.current.text).toBe('Extinguisher in reach, fuel lines covered, gloves and glasses on.');
+		expect(staleCaution.body.current.text).toBe(
+			'Extinguisher in reach, fuel lines covered, gloves and glasses on.'
+		);
 	});
 
 	test('approving a script that changed while the producer read it is refused', async () => {
 		const episode = await newEpisode();
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'Intro', plannedSeconds: 30 } })).body.segment;
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'Intro', plannedSeconds: 30 }
+			})
+		).body.segment;
 		const read = await producer.api(`/api/episodes/${episode.id}/script-review`);
-		await host.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Changed while Dana read.', version: segment.script.version } });
-		const approve = await producer.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'approve', fingerprint: read.body.fingerprint } });
+		await host.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'Changed while Dana read.', version: segment.script.version }
+		});
+		const approve = await producer.api(`/api/episodes/${episode.id}/script-review`, {
+			method: 'POST',
+			json: { action: 'approve', fingerprint: read.body.fingerprint }
+		});
 		expect(approve.status).toBe(409);
-		expect((await sql(`SELECT script_status FROM episode WHERE id = $1`, [episode.id]))[0].script_status).toBe('draft');
+		expect(
+			(await sql(`SELECT script_status FROM episode WHERE id = $1`, [episode.id]))[0].script_status
+		).toBe('draft');
 	});
 });
 
@@ -339,49 +649,123 @@ describe('rundown', () => {
 	test('reorder saves the new order; a list with missing, foreign or repeated ids changes nothing', async () => {
 		const episode = await newEpisode();
 		const ids: string[] = [];
-		for (const title of ['One', 'Two', 'Three']) ids.push((await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'install-step', title, plannedSeconds: 10 } })).body.segment.id);
-		const reordered = await host.api(`/api/episodes/${episode.id}/segments/order`, { method: 'PUT', json: { order: [ids[2], ids[0], ids[1]] } });
+		for (const title of ['One', 'Two', 'Three'])
+			ids.push(
+				(
+					await host.api(`/api/episodes/${episode.id}/segments`, {
+						method: 'POST',
+						json: { kind: 'install-step', title, plannedSeconds: 10 }
+					})
+				).body.segment.id
+			);
+		const reordered = await host.api(`/api/episodes/${episode.id}/segments/order`, {
+			method: 'PUT',
+			json: { order: [ids[2], ids[0], ids[1]] }
+		});
 		expect(reordered.status).toBe(200);
-		const titles = async () => (await host.api(`/api/episodes/${episode.id}/segments`)).body.segments.map((s: { title: string }) => s.title);
+		const titles = async () =>
+			(await host.api(`/api/episodes/${episode.id}/segments`)).body.segments.map(
+				(s: { title: string }) => s.title
+			);
 		expect(await titles()).toEqual(['Three', 'One', 'Two']);
 
-		const [foreign] = await sql(`SELECT s.id FROM segment s JOIN episode e ON e.id = s.episode_id WHERE e.slug = 'mule-rear-block-lift' LIMIT 1`);
-		const missing = await host.api(`/api/episodes/${episode.id}/segments/order`, { method: 'PUT', json: { order: [ids[0], ids[1]] } });
+		const [foreign] = await sql(
+			`SELECT s.id FROM segment s JOIN episode e ON e.id = s.episode_id WHERE e.slug = 'mule-rear-block-lift' LIMIT 1`
+		);
+		const missing = await host.api(`/api/episodes/${episode.id}/segments/order`, {
+			method: 'PUT',
+			json: { order: [ids[0], ids[1]] }
+		});
 		expect(missing.status).toBe(400);
 		expect(missing.body.error).toMatch(/1 segment is missing from the new order/);
 		expect(missing.body.missing).toEqual([ids[2]]);
-		const withForeign = await host.api(`/api/episodes/${episode.id}/segments/order`, { method: 'PUT', json: { order: [...ids, foreign.id] } });
+		const withForeign = await host.api(`/api/episodes/${episode.id}/segments/order`, {
+			method: 'PUT',
+			json: { order: [...ids, foreign.id] }
+		});
 		expect(withForeign.status).toBe(400);
 		expect(withForeign.body.unknown).toEqual([foreign.id]);
-		const repeated = await host.api(`/api/episodes/${episode.id}/segments/order`, { method: 'PUT', json: { order: [ids[0], ids[0], ids[1], ids[2]] } });
+		const repeated = await host.api(`/api/episodes/${episode.id}/segments/order`, {
+			method: 'PUT',
+			json: { order: [ids[0], ids[0], ids[1], ids[2]] }
+		});
 		expect(repeated.status).toBe(400);
-		const notIds = await host.api(`/api/episodes/${episode.id}/segments/order`, { method: 'PUT', json: { order: ['../../etc', 42] } });
+		const notIds = await host.api(`/api/episodes/${episode.id}/segments/order`, {
+			method: 'PUT',
+			json: { order: ['../../etc', 42] }
+		});
 		expect(notIds.status).toBe(400);
 		expect(await titles()).toEqual(['Three', 'One', 'Two']);
 	});
 
 	test('deleting a segment closes the gap; one with logged takes is kept', async () => {
 		const episode = await newEpisode();
-		const a = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'cold-open', title: 'A', plannedSeconds: 10 } })).body.segment;
-		const b = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'B', plannedSeconds: 10 } })).body.segment;
-		expect((await host.api(`/api/segments/${a.id}`, { method: 'DELETE', json: { version: a.version } })).status).toBe(200);
+		const a = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'cold-open', title: 'A', plannedSeconds: 10 }
+			})
+		).body.segment;
+		const b = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'B', plannedSeconds: 10 }
+			})
+		).body.segment;
+		expect(
+			(await host.api(`/api/segments/${a.id}`, { method: 'DELETE', json: { version: a.version } }))
+				.status
+		).toBe(200);
 		expect((await sql(`SELECT position FROM segment WHERE id = $1`, [b.id]))[0].position).toBe(1);
-		const shot = (await camera.api(`/api/segments/${b.id}/shots`, { method: 'POST', json: { what: 'Wide' } })).body.shot;
-		await sql(`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames) VALUES ($1, 'A1', 0, 10)`, [shot.id]);
-		const refused = await host.api(`/api/segments/${b.id}`, { method: 'DELETE', json: { version: b.version } });
+		const shot = (
+			await camera.api(`/api/segments/${b.id}/shots`, { method: 'POST', json: { what: 'Wide' } })
+		).body.shot;
+		await sql(
+			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames) VALUES ($1, 'A1', 0, 10)`,
+			[shot.id]
+		);
+		const refused = await host.api(`/api/segments/${b.id}`, {
+			method: 'DELETE',
+			json: { version: b.version }
+		});
 		expect(refused.status).toBe(409);
 		expect(refused.body.error).toMatch(/1 logged take/);
 	});
 
 	test('the editor sets a segment’s length in the cut, and the host’s pace is measured from it', async () => {
 		const episode = await newEpisode();
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'overview', title: 'Talk to camera', plannedSeconds: 60 } })).body.segment;
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'overview', title: 'Talk to camera', plannedSeconds: 60 }
+			})
+		).body.segment;
 		const words = Array.from({ length: 300 }, () => 'spanner').join(' ');
-		await host.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: words, version: segment.script.version } });
+		await host.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: words, version: segment.script.version }
+		});
 		// The host may not set the length; the editor may not change the plan.
-		expect((await host.api(`/api/segments/${segment.id}`, { method: 'PATCH', json: { recorded: '00:02:00;00', version: segment.version } })).status).toBe(403);
-		expect((await editor.api(`/api/segments/${segment.id}`, { method: 'PATCH', json: { title: 'Mine now', version: segment.version } })).status).toBe(403);
-		const recorded = await editor.api(`/api/segments/${segment.id}`, { method: 'PATCH', json: { recorded: '00:02:00;04', version: segment.version } });
+		expect(
+			(
+				await host.api(`/api/segments/${segment.id}`, {
+					method: 'PATCH',
+					json: { recorded: '00:02:00;00', version: segment.version }
+				})
+			).status
+		).toBe(403);
+		expect(
+			(
+				await editor.api(`/api/segments/${segment.id}`, {
+					method: 'PATCH',
+					json: { title: 'Mine now', version: segment.version }
+				})
+			).status
+		).toBe(403);
+		const recorded = await editor.api(`/api/segments/${segment.id}`, {
+			method: 'PATCH',
+			json: { recorded: '00:02:00;04', version: segment.version }
+		});
 		expect(recorded.status).toBe(200);
 		// 00:02:00;04 at 29.97 DF = (120 × 30 + 4) − 2 × 2 = 3600 frames (SMPTE ST 12-1 formula, REFERENCES.md).
 		expect(recorded.body.segment.recordedFrames).toBe(3600);
@@ -392,11 +776,19 @@ describe('rundown', () => {
 });
 
 describe('the bench shows what waits for each person', () => {
-	const bench = async (visitor: Visitor) => (await (await visitor.request('/', { headers: { accept: 'text/html' } })).text()).replace(/<!--[\s\S]*?-->/g, '');
+	const bench = async (visitor: Visitor) =>
+		(await (await visitor.request('/', { headers: { accept: 'text/html' } })).text()).replace(
+			/<!--[\s\S]*?-->/g,
+			''
+		);
 
 	test('host: the returned script; camera: shot lists to plan; editor: cautions to place (demo data)', async () => {
-		expect(await bench(host)).toContain('Script returned with comments: Fitting 285/70R17 tyres without rubbing');
-		expect(await bench(camera)).toContain('Shot list to plan: Fitting 285/70R17 tyres without rubbing');
+		expect(await bench(host)).toContain(
+			'Script returned with comments: Fitting 285/70R17 tyres without rubbing'
+		);
+		expect(await bench(camera)).toContain(
+			'Shot list to plan: Fitting 285/70R17 tyres without rubbing'
+		);
 		const editorBench = await bench(editor);
 		expect(editorBench).toContain('Cautions to place: 3-inch rear block lift on Project Mule');
 		expect(editorBench).toContain('1 caution card is not placed in the cut yet');
@@ -405,12 +797,26 @@ describe('the bench shows what waits for each person', () => {
 
 	test('producer: a script sent for approval, then an episode whose gate passes', async () => {
 		const episode = await newEpisode(`Bench check ${Date.now()}`);
-		const segment = (await host.api(`/api/episodes/${episode.id}/segments`, { method: 'POST', json: { kind: 'call-to-action', title: 'Outro', plannedSeconds: 20 } })).body.segment;
-		await host.api(`/api/segments/${segment.id}/script`, { method: 'PUT', json: { body: 'Subscribe for the next one.', version: segment.script.version } });
-		await host.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'submit' } });
+		const segment = (
+			await host.api(`/api/episodes/${episode.id}/segments`, {
+				method: 'POST',
+				json: { kind: 'call-to-action', title: 'Outro', plannedSeconds: 20 }
+			})
+		).body.segment;
+		await host.api(`/api/segments/${segment.id}/script`, {
+			method: 'PUT',
+			json: { body: 'Subscribe for the next one.', version: segment.script.version }
+		});
+		await host.api(`/api/episodes/${episode.id}/script-review`, {
+			method: 'POST',
+			json: { action: 'submit' }
+		});
 		expect(await bench(producer)).toContain(`Script awaiting your approval: Bench check`);
 		const state = await producer.api(`/api/episodes/${episode.id}/script-review`);
-		await producer.api(`/api/episodes/${episode.id}/script-review`, { method: 'POST', json: { action: 'approve', fingerprint: state.body.fingerprint } });
+		await producer.api(`/api/episodes/${episode.id}/script-review`, {
+			method: 'POST',
+			json: { action: 'approve', fingerprint: state.body.fingerprint }
+		});
 		const after = await bench(producer);
 		expect(after).not.toContain('Script awaiting your approval: Bench check');
 		expect(after).toContain('Ready for Shoot: Bench check');
@@ -419,14 +825,26 @@ describe('the bench shows what waits for each person', () => {
 
 describe('what the stage module offers the edit work', () => {
 	test('placed cautions as timeline marks, in cut order; chapter problems through one function', async () => {
-		const executor = new Kysely<Database>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 }) }), plugins: [new CamelCasePlugin()] });
+		const executor = new Kysely<Database>({
+			dialect: new PostgresDialect({
+				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
+			}),
+			plugins: [new CamelCasePlugin()]
+		});
 		try {
-			const [mule] = await sql(`SELECT id, channel_id FROM episode WHERE slug = 'mule-rear-block-lift'`);
+			const [mule] = await sql(
+				`SELECT id, channel_id FROM episode WHERE slug = 'mule-rear-block-lift'`
+			);
 			const marks = await cautionMarksFor(mule.channel_id, mule.id, executor);
 			// Six placed in the demo; segment 6's brakes caution is not placed, so it is not a mark.
 			expect(marks).toHaveLength(6);
-			expect(marks.map((mark) => mark.atFrame)).toEqual([...marks.map((mark) => mark.atFrame)].sort((a, b) => a - b));
-			expect(marks[0]).toMatchObject({ kind: 'caution', label: 'Vehicle raised on stands · segment 2 “Chocks, jack and stands”' });
+			expect(marks.map((mark) => mark.atFrame)).toEqual(
+				[...marks.map((mark) => mark.atFrame)].sort((a, b) => a - b)
+			);
+			expect(marks[0]).toMatchObject({
+				kind: 'caution',
+				label: 'Vehicle raised on stands · segment 2 “Chocks, jack and stands”'
+			});
 			expect(marks.some((mark) => mark.label.startsWith('Brakes'))).toBe(false);
 			// The demo edit has a valid chapter list (seeded by the edit work), so nothing to report.
 			expect(await chapterProblemsFor(executor, mule.channel_id, mule.id)).toEqual([]);

@@ -20,13 +20,21 @@ import { featuredPartProblemsFor } from '$lib/server/featured-parts';
 import type { Database } from '$lib/server/db/types';
 
 const require = createRequire(import.meta.url);
-const smpte = require('smpte-timecode') as (timecode: string, rate: [number, number], dropFrame: boolean) => { frameCount: number };
+const smpte = require('smpte-timecode') as (
+	timecode: string,
+	rate: [number, number],
+	dropFrame: boolean
+) => { frameCount: number };
 /** First frame at or after `seconds` at 30000/1001 fps, in exact integers. */
 const firstFrameAtOrAfter = (seconds: number) => Math.ceil((seconds * 30000) / 1001);
 
 let channelId: string;
-const visitors: Record<'producer' | 'host' | 'camera' | 'editor' | 'merch' | 'other', Visitor> = {} as never;
-const part = async (sku: string) => (await sql(`SELECT id, name FROM part WHERE channel_id = $1 AND sku = $2`, [channelId, sku]))[0] as { id: string; name: string };
+const visitors: Record<'producer' | 'host' | 'camera' | 'editor' | 'merch' | 'other', Visitor> =
+	{} as never;
+const part = async (sku: string) =>
+	(
+		await sql(`SELECT id, name FROM part WHERE channel_id = $1 AND sku = $2`, [channelId, sku])
+	)[0] as { id: string; name: string };
 
 interface TestEpisode {
 	id: string;
@@ -39,15 +47,30 @@ let episodeSeq = 0;
 async function newEpisode(script = ''): Promise<TestEpisode> {
 	const slug = `notes-test-${Date.now()}-${episodeSeq++}`;
 	// 10:00 at 29.97 = 600 × 30000/1001 = 17982.02 → 17982 frames (SMPTE ST 12-1: 17982 per 10 minutes).
-	const [episode] = await sql(`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage, cut_duration_frames) VALUES ($1, $2, $3, 600, '29.97', 'edit', 17982) RETURNING id`, [channelId, `Notes test ${slug}`, slug]);
+	const [episode] = await sql(
+		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage, cut_duration_frames) VALUES ($1, $2, $3, 600, '29.97', 'edit', 17982) RETURNING id`,
+		[channelId, `Notes test ${slug}`, slug]
+	);
 	const segments: string[] = [];
 	const takes: string[] = [];
 	for (const position of [1, 2]) {
-		const [segment] = await sql(`INSERT INTO segment (episode_id, position, kind, title) VALUES ($1, $2, 'install-step', $3) RETURNING id`, [episode.id, position, `Step ${position}`]);
-		await sql(`INSERT INTO segment_script (segment_id, body) VALUES ($1, $2)`, [segment.id, position === 1 ? script : '']);
-		const [shot] = await sql(`INSERT INTO shot (segment_id, what, position) VALUES ($1, 'Close-up', 1) RETURNING id`, [segment.id]);
+		const [segment] = await sql(
+			`INSERT INTO segment (episode_id, position, kind, title) VALUES ($1, $2, 'install-step', $3) RETURNING id`,
+			[episode.id, position, `Step ${position}`]
+		);
+		await sql(`INSERT INTO segment_script (segment_id, body) VALUES ($1, $2)`, [
+			segment.id,
+			position === 1 ? script : ''
+		]);
+		const [shot] = await sql(
+			`INSERT INTO shot (segment_id, what, position) VALUES ($1, 'Close-up', 1) RETURNING id`,
+			[segment.id]
+		);
 		// Take A00n_C001 runs 09:00:00:00–09:01:00:00 non-drop: 9 h × 3600 × 30 = 972000 frames.
-		const [take] = await sql(`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, $2, 972000, 973800, true) RETURNING id`, [shot.id, `A00${position}_C001`]);
+		const [take] = await sql(
+			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, $2, 972000, 973800, true) RETURNING id`,
+			[shot.id, `A00${position}_C001`]
+		);
 		segments.push(segment.id);
 		takes.push(take.id);
 	}
@@ -57,20 +80,40 @@ async function newEpisode(script = ''): Promise<TestEpisode> {
 const notesPath = (episodeId: string) => `/api/episodes/${episodeId}/notes`;
 
 async function writeNote(episode: TestEpisode, body: Record<string, unknown> = {}) {
-	const answer = await visitors.camera.api(notesPath(episode.id), { method: 'POST', json: { text: 'Block on the perch', ...body } });
+	const answer = await visitors.camera.api(notesPath(episode.id), {
+		method: 'POST',
+		json: { text: 'Block on the perch', ...body }
+	});
 	expect(answer.status, JSON.stringify(answer.body)).toBe(201);
-	return answer.body.note as { id: string; version: number; programFrame: number | null; sourceFrame: number | null; parts: { sku: string }[] };
+	return answer.body.note as {
+		id: string;
+		version: number;
+		programFrame: number | null;
+		sourceFrame: number | null;
+		parts: { sku: string }[];
+	};
 }
 
-const patch = (visitor: Visitor, noteId: string, json: Record<string, unknown>) => visitor.api(`/api/notes/${noteId}`, { method: 'PATCH', json });
-const noteRow = async (noteId: string) => (await sql(`SELECT text, program_frame, source_frame, take_id, segment_id, version FROM segment_note WHERE id = $1`, [noteId]))[0];
+const patch = (visitor: Visitor, noteId: string, json: Record<string, unknown>) =>
+	visitor.api(`/api/notes/${noteId}`, { method: 'PATCH', json });
+const noteRow = async (noteId: string) =>
+	(
+		await sql(
+			`SELECT text, program_frame, source_frame, take_id, segment_id, version FROM segment_note WHERE id = $1`,
+			[noteId]
+		)
+	)[0];
 
 beforeAll(async () => {
 	channelId = (await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`))[0].id;
-	for (const role of ['producer', 'host', 'camera', 'merch'] as const) visitors[role] = await signedIn(demo[role]);
+	for (const role of ['producer', 'host', 'camera', 'merch'] as const)
+		visitors[role] = await signedIn(demo[role]);
 	visitors.editor = await signedIn(demo.editor);
 	// The shared editor starts in the other channel (channels sort by name): switch as the switcher does.
-	expect((await visitors.editor.request('/channel?/switch', { method: 'POST', form: { channelId } })).status).toBe(303);
+	expect(
+		(await visitors.editor.request('/channel?/switch', { method: 'POST', form: { channelId } }))
+			.status
+	).toBe(303);
 	visitors.other = await signedIn(demo.otherProducer);
 });
 
@@ -91,14 +134,22 @@ describe('writing, placing and linking notes', () => {
 	test('the editor places the program time, typed as a clock time or as drop-frame timecode', async () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
-		const clock = await patch(visitors.editor, note.id, { version: note.version, programTime: '4:05' });
+		const clock = await patch(visitors.editor, note.id, {
+			version: note.version,
+			programTime: '4:05'
+		});
 		expect(clock.status, JSON.stringify(clock.body)).toBe(200);
 		// 245 s × 30000/1001 = 7342.66 → the first frame at or after it is 7343.
 		expect(clock.body.note.programFrame).toBe(firstFrameAtOrAfter(245));
 		expect(clock.body.note.programClock).toBe('4:05');
-		const timecode = await patch(visitors.editor, note.id, { version: clock.body.note.version, programTime: '00:04:05;00' });
+		const timecode = await patch(visitors.editor, note.id, {
+			version: clock.body.note.version,
+			programTime: '00:04:05;00'
+		});
 		// 00:04:05;00 drop-frame: 245 × 30 − 2 × 4 = 7342 (SMPTE ST 12-1), as smpte-timecode counts it.
-		expect(timecode.body.note.programFrame).toBe(smpte('00:04:05;00', [30000, 1001], true).frameCount);
+		expect(timecode.body.note.programFrame).toBe(
+			smpte('00:04:05;00', [30000, 1001], true).frameCount
+		);
 		expect(timecode.body.note.programTimecode).toBe('00:04:05;00');
 	});
 
@@ -106,27 +157,48 @@ describe('writing, placing and linking notes', () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
 		const [block, bolts] = [await part('IBS-LB-300T'), await part('IBS-UB-58-11')];
-		const linked = await patch(visitors.merch, note.id, { version: note.version, partIds: [block.id, bolts.id] });
+		const linked = await patch(visitors.merch, note.id, {
+			version: note.version,
+			partIds: [block.id, bolts.id]
+		});
 		expect(linked.status).toBe(200);
-		expect(linked.body.note.parts.map((p: { sku: string }) => p.sku).sort()).toEqual(['IBS-LB-300T', 'IBS-UB-58-11']);
-		const links = await sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [episode.id]);
+		expect(linked.body.note.parts.map((p: { sku: string }) => p.sku).sort()).toEqual([
+			'IBS-LB-300T',
+			'IBS-UB-58-11'
+		]);
+		const links = await sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [
+			episode.id
+		]);
 		expect(links.map((link) => link.part_id).sort()).toEqual([block.id, bolts.id].sort());
 		for (const link of links) expect(link.code).toMatch(/^[A-Za-z0-9]{8}$/);
 		// Unlinking one leaves the other, and the tracked link (and its clicks) stays.
-		const unlinked = await patch(visitors.merch, note.id, { version: linked.body.note.version, partIds: [bolts.id] });
+		const unlinked = await patch(visitors.merch, note.id, {
+			version: linked.body.note.version,
+			partIds: [bolts.id]
+		});
 		expect(unlinked.body.note.parts.map((p: { sku: string }) => p.sku)).toEqual(['IBS-UB-58-11']);
-		expect(await sql(`SELECT id FROM tracked_link WHERE episode_id = $1`, [episode.id])).toHaveLength(2);
+		expect(
+			await sql(`SELECT id FROM tracked_link WHERE episode_id = $1`, [episode.id])
+		).toHaveLength(2);
 	});
 
 	test('a part of another channel’s catalogue is refused', async () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
 		const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
-		const [foreign] = await sql(`INSERT INTO part (channel_id, sku, name, category, brand, price_cents, store_url) VALUES ($1, 'DW-TEST-1', 'Rail clamp', 'Clamps', 'Dune Parts', 100, 'https://dune.test/1') RETURNING id`, [dunewagon.id]);
+		const [foreign] = await sql(
+			`INSERT INTO part (channel_id, sku, name, category, brand, price_cents, store_url) VALUES ($1, 'DW-TEST-1', 'Rail clamp', 'Clamps', 'Dune Parts', 100, 'https://dune.test/1') RETURNING id`,
+			[dunewagon.id]
+		);
 		try {
-			const answer = await patch(visitors.merch, note.id, { version: note.version, partIds: [foreign.id] });
+			const answer = await patch(visitors.merch, note.id, {
+				version: note.version,
+				partIds: [foreign.id]
+			});
 			expect(answer.status).toBe(400);
-			expect(await sql(`SELECT * FROM segment_note_part WHERE note_id = $1`, [note.id])).toEqual([]);
+			expect(await sql(`SELECT * FROM segment_note_part WHERE note_id = $1`, [note.id])).toEqual(
+				[]
+			);
 		} finally {
 			await sql(`DELETE FROM part WHERE id = $1`, [foreign.id]);
 		}
@@ -136,15 +208,29 @@ describe('writing, placing and linking notes', () => {
 		const episode = await newEpisode();
 		const other = await newEpisode();
 		const note = await writeNote(episode);
-		const past = await patch(visitors.editor, note.id, { version: note.version, programTime: '10:30' });
+		const past = await patch(visitors.editor, note.id, {
+			version: note.version,
+			programTime: '10:30'
+		});
 		expect(past.status).toBe(400);
 		expect(past.body.issues.programTime[0]).toMatch(/past the end of the cut \(00:10:00;00\)/);
-		const outside = await visitors.camera.api(notesPath(episode.id), { method: 'POST', json: { text: 'x', takeId: episode.takes[0], sourceTime: '09:05:00:00' } });
+		const outside = await visitors.camera.api(notesPath(episode.id), {
+			method: 'POST',
+			json: { text: 'x', takeId: episode.takes[0], sourceTime: '09:05:00:00' }
+		});
 		expect(outside.status).toBe(400);
-		expect(outside.body.issues.sourceTime[0]).toMatch(/outside take A001_C001 \(09:00:00:00–09:01:00:00\)/);
-		const foreignTake = await visitors.camera.api(notesPath(episode.id), { method: 'POST', json: { text: 'x', takeId: other.takes[0] } });
+		expect(outside.body.issues.sourceTime[0]).toMatch(
+			/outside take A001_C001 \(09:00:00:00–09:01:00:00\)/
+		);
+		const foreignTake = await visitors.camera.api(notesPath(episode.id), {
+			method: 'POST',
+			json: { text: 'x', takeId: other.takes[0] }
+		});
 		expect(foreignTake.status).toBe(400);
-		const dropped = await patch(visitors.editor, note.id, { version: note.version, programTime: '00:01:00;00' });
+		const dropped = await patch(visitors.editor, note.id, {
+			version: note.version,
+			programTime: '00:01:00;00'
+		});
 		// SMPTE ST 12-1: ;00 and ;01 don't exist at minute 1 in drop-frame.
 		expect(dropped.status).toBe(400);
 		expect(dropped.body.issues.programTime[0]).toMatch(/doesn't exist in drop-frame/);
@@ -154,10 +240,19 @@ describe('writing, placing and linking notes', () => {
 	test('a stale version answers 409 with the note as it is now', async () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
-		expect((await patch(visitors.camera, note.id, { version: note.version, text: 'First edit' })).status).toBe(200);
-		const stale = await patch(visitors.editor, note.id, { version: note.version, programTime: '1:00' });
+		expect(
+			(await patch(visitors.camera, note.id, { version: note.version, text: 'First edit' })).status
+		).toBe(200);
+		const stale = await patch(visitors.editor, note.id, {
+			version: note.version,
+			programTime: '1:00'
+		});
 		expect(stale.status).toBe(409);
-		expect(stale.body.current).toMatchObject({ text: 'First edit', version: note.version + 1, programFrame: null });
+		expect(stale.body.current).toMatchObject({
+			text: 'First edit',
+			version: note.version + 1,
+			programFrame: null
+		});
 	});
 });
 
@@ -183,19 +278,44 @@ describe('who may change notes', () => {
 		}
 		expect(await noteRow(note.id)).toEqual(before);
 		// The producer may do all three at once.
-		const all = await patch(visitors.producer, note.id, { version: note.version, text: 'Producer', programTime: '0:30', partIds: [partId] });
+		const all = await patch(visitors.producer, note.id, {
+			version: note.version,
+			text: 'Producer',
+			programTime: '0:30',
+			partIds: [partId]
+		});
 		expect(all.status).toBe(200);
-		expect(all.body.note).toMatchObject({ text: 'Producer', programFrame: firstFrameAtOrAfter(30), parts: [expect.objectContaining({ sku: 'IBS-LB-300T' })] });
+		expect(all.body.note).toMatchObject({
+			text: 'Producer',
+			programFrame: firstFrameAtOrAfter(30),
+			parts: [expect.objectContaining({ sku: 'IBS-LB-300T' })]
+		});
 	});
 
 	test('only the camera operator and the producer write and remove notes', async () => {
 		const episode = await newEpisode();
 		for (const who of ['editor', 'merch', 'host'] as const) {
-			expect((await visitors[who].api(notesPath(episode.id), { method: 'POST', json: { text: 'Not mine to write' } })).status).toBe(403);
+			expect(
+				(
+					await visitors[who].api(notesPath(episode.id), {
+						method: 'POST',
+						json: { text: 'Not mine to write' }
+					})
+				).status
+			).toBe(403);
 		}
 		const note = await writeNote(episode);
-		for (const who of ['editor', 'merch', 'host'] as const) expect((await visitors[who].api(`/api/notes/${note.id}`, { method: 'DELETE' })).status).toBe(403);
-		expect((await visitors.camera.api(`/api/notes/${note.id}?version=${note.version}`, { method: 'DELETE' })).status).toBe(200);
+		for (const who of ['editor', 'merch', 'host'] as const)
+			expect((await visitors[who].api(`/api/notes/${note.id}`, { method: 'DELETE' })).status).toBe(
+				403
+			);
+		expect(
+			(
+				await visitors.camera.api(`/api/notes/${note.id}?version=${note.version}`, {
+					method: 'DELETE'
+				})
+			).status
+		).toBe(200);
 		expect(await sql(`SELECT id FROM segment_note WHERE id = $1`, [note.id])).toEqual([]);
 	});
 
@@ -204,79 +324,161 @@ describe('who may change notes', () => {
 		const note = await writeNote(episode);
 		const nobody = new Visitor();
 		expect((await nobody.api(notesPath(episode.id))).status).toBe(401);
-		expect((await nobody.api(`/api/notes/${note.id}`, { method: 'PATCH', json: { version: 1, text: 'x' } })).status).toBe(401);
+		expect(
+			(
+				await nobody.api(`/api/notes/${note.id}`, {
+					method: 'PATCH',
+					json: { version: 1, text: 'x' }
+				})
+			).status
+		).toBe(401);
 		expect((await visitors.other.api(notesPath(episode.id))).status).toBe(404);
-		expect((await visitors.other.api(notesPath(episode.id), { method: 'POST', json: { text: 'x' } })).status).toBe(404);
-		expect((await patch(visitors.other, note.id, { version: note.version, text: 'Theirs' })).status).toBe(404);
-		expect((await visitors.other.api(`/api/notes/${note.id}`, { method: 'DELETE' })).status).toBe(404);
-		expect((await visitors.other.api(`/api/episodes/${episode.id}/featured-parts`)).status).toBe(404);
+		expect(
+			(await visitors.other.api(notesPath(episode.id), { method: 'POST', json: { text: 'x' } }))
+				.status
+		).toBe(404);
+		expect(
+			(await patch(visitors.other, note.id, { version: note.version, text: 'Theirs' })).status
+		).toBe(404);
+		expect((await visitors.other.api(`/api/notes/${note.id}`, { method: 'DELETE' })).status).toBe(
+			404
+		);
+		expect((await visitors.other.api(`/api/episodes/${episode.id}/featured-parts`)).status).toBe(
+			404
+		);
 		expect((await noteRow(note.id)).text).toBe('Block on the perch');
 	});
 
 	test('without JavaScript the merch team links a part by typing its SKU into the notes page form', async () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
-		const result = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, { noteId: note.id, version: String(note.version), sku: 'QS-MT-230R' });
+		const result = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, {
+			noteId: note.id,
+			version: String(note.version),
+			sku: 'QS-MT-230R'
+		});
 		expect(result.type).toBe('success');
-		const wrong = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, { noteId: note.id, version: String(note.version + 1), sku: 'NOT-A-SKU' });
+		const wrong = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, {
+			noteId: note.id,
+			version: String(note.version + 1),
+			sku: 'NOT-A-SKU'
+		});
 		expect(wrong.type).toBe('failure');
 		expect(wrong.data.errors.sku[0]).toMatch(/No part with SKU “NOT-A-SKU”/);
-		const empty = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, { noteId: note.id, version: String(note.version + 1), sku: '  ' });
+		const empty = await visitors.merch.action(`/episodes/${episode.id}/notes?/link`, {
+			noteId: note.id,
+			version: String(note.version + 1),
+			sku: '  '
+		});
 		expect(empty.status).toBe(400);
 		expect(empty.data.errors.sku[0]).toMatch(/^Type the part’s SKU/);
-		expect((await sql(`SELECT p.sku FROM segment_note_part snp JOIN part p ON p.id = snp.part_id WHERE snp.note_id = $1`, [note.id])).map((row) => row.sku)).toEqual(['QS-MT-230R']);
+		expect(
+			(
+				await sql(
+					`SELECT p.sku FROM segment_note_part snp JOIN part p ON p.id = snp.part_id WHERE snp.note_id = $1`,
+					[note.id]
+				)
+			).map((row) => row.sku)
+		).toEqual(['QS-MT-230R']);
 	});
 });
 
 describe('the featured parts list', () => {
 	test('parts in order of first appearance with every time, and the warnings', async () => {
 		// The script names one part by SKU, one by its exact name, and one SKU that contains another.
-		const episode = await newEpisode('Swap in the **CS-TB-ADJ** track bar, then the steering stabiliser, 110 mm stroke. The IBS-LB-300T block goes first.');
-		const [bolts, shock, old] = [await part('IBS-UB-58-11'), await part('QS-MT-230R'), await part('IBS-BL-OLD')];
+		const episode = await newEpisode(
+			'Swap in the **CS-TB-ADJ** track bar, then the steering stabiliser, 110 mm stroke. The IBS-LB-300T block goes first.'
+		);
+		const [bolts, shock, old] = [
+			await part('IBS-UB-58-11'),
+			await part('QS-MT-230R'),
+			await part('IBS-BL-OLD')
+		];
 		const late = await writeNote(episode, { text: 'Bolts again' });
 		const early = await writeNote(episode, { text: 'Bolts and shock' });
 		const loose = await writeNote(episode, { text: 'Old block kit on the shelf' });
-		await patch(visitors.producer, late.id, { version: late.version, programTime: '6:00', partIds: [bolts.id] });
-		await patch(visitors.producer, early.id, { version: early.version, programTime: '2:00', partIds: [bolts.id, shock.id] });
+		await patch(visitors.producer, late.id, {
+			version: late.version,
+			programTime: '6:00',
+			partIds: [bolts.id]
+		});
+		await patch(visitors.producer, early.id, {
+			version: early.version,
+			programTime: '2:00',
+			partIds: [bolts.id, shock.id]
+		});
 		await patch(visitors.merch, loose.id, { version: loose.version, partIds: [old.id] });
 
 		const answer = await visitors.host.api(`/api/episodes/${episode.id}/featured-parts`);
 		expect(answer.status).toBe(200);
-		const parts = answer.body.parts as { sku: string; appearances: { clock: string; programFrame: number }[]; unplaced: unknown[] }[];
+		const parts = answer.body.parts as {
+			sku: string;
+			appearances: { clock: string; programFrame: number }[];
+			unplaced: unknown[];
+		}[];
 		expect(parts.map((p) => p.sku)).toEqual(['IBS-UB-58-11', 'QS-MT-230R', 'IBS-BL-OLD']);
 		expect(parts[0].appearances.map((a) => a.clock)).toEqual(['2:00', '6:00']);
-		expect(parts[0].appearances.map((a) => a.programFrame)).toEqual([firstFrameAtOrAfter(120), firstFrameAtOrAfter(360)]);
-		expect(parts[2]).toMatchObject({ appearances: [], unplaced: [expect.objectContaining({ text: 'Old block kit on the shelf' })] });
+		expect(parts[0].appearances.map((a) => a.programFrame)).toEqual([
+			firstFrameAtOrAfter(120),
+			firstFrameAtOrAfter(360)
+		]);
+		expect(parts[2]).toMatchObject({
+			appearances: [],
+			unplaced: [expect.objectContaining({ text: 'Old block kit on the shelf' })]
+		});
 
 		const warnings = answer.body.warnings as { kind: string; sku: string; blocksLock: boolean }[];
 		expect(warnings.filter((w) => w.blocksLock).map((w) => [w.kind, w.sku])).toEqual([
 			['discontinued', 'IBS-BL-OLD'],
 			['no-program-time', 'IBS-BL-OLD']
 		]);
-		const named = warnings.filter((w) => w.kind === 'named-not-linked').map((w) => w.sku).sort();
+		const named = warnings
+			.filter((w) => w.kind === 'named-not-linked')
+			.map((w) => w.sku)
+			.sort();
 		// Whole words only: "IBS-LB-300T" in the script doesn't name IBS-LB-300.
 		expect(named).toEqual(['CS-SS-110', 'CS-TB-ADJ', 'IBS-LB-300T']);
 	});
 
 	test('featuredPartProblemsFor (for the lock gate): the blocking reasons, then [] once fixed; 404 elsewhere', async () => {
-		const executor = new Kysely<Database>({ dialect: new PostgresDialect({ pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 }) }), plugins: [new CamelCasePlugin()] });
+		const executor = new Kysely<Database>({
+			dialect: new PostgresDialect({
+				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
+			}),
+			plugins: [new CamelCasePlugin()]
+		});
 		try {
 			const episode = await newEpisode();
 			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
 			const [old, stands] = [await part('IBS-BL-OLD'), await part('IBS-BS-6T')];
 			const note = await writeNote(episode, { text: 'Old kit' });
-			const linked = await patch(visitors.merch, note.id, { version: note.version, partIds: [old.id] });
+			const linked = await patch(visitors.merch, note.id, {
+				version: note.version,
+				partIds: [old.id]
+			});
 			const problems = await featuredPartProblemsFor(executor, channelId, episode.id);
 			expect(problems).toHaveLength(2);
-			expect(problems[0].message).toMatch(/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/);
+			expect(problems[0].message).toMatch(
+				/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/
+			);
 			expect(problems[0].fixedBy).toBe('merch');
-			expect(problems[1].message).toMatch(/no program time \(“Old kit”\): the editor places the note in the cut\.$/);
+			expect(problems[1].message).toMatch(
+				/no program time \(“Old kit”\): the editor places the note in the cut\.$/
+			);
 			expect(problems[1].fixedBy).toBe('editor');
-			const relinked = await patch(visitors.merch, note.id, { version: linked.body.note.version, partIds: [stands.id] });
-			await patch(visitors.editor, note.id, { version: relinked.body.note.version, programTime: '1:00' });
+			const relinked = await patch(visitors.merch, note.id, {
+				version: linked.body.note.version,
+				partIds: [stands.id]
+			});
+			await patch(visitors.editor, note.id, {
+				version: relinked.body.note.version,
+				programTime: '1:00'
+			});
 			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
 			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
-			await expect(featuredPartProblemsFor(executor, dunewagon.id, episode.id)).rejects.toMatchObject({ status: 404 });
+			await expect(
+				featuredPartProblemsFor(executor, dunewagon.id, episode.id)
+			).rejects.toMatchObject({ status: 404 });
 		} finally {
 			await executor.destroy();
 		}
@@ -286,10 +488,21 @@ describe('the featured parts list', () => {
 		const [mule] = await sql(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`);
 		const muleAnswer = (await visitors.merch.api(`/api/episodes/${mule.id}/featured-parts`)).body;
 		expect(muleAnswer.parts[0].sku).toBe('IBS-LB-300T');
-		expect(muleAnswer.warnings.filter((w: { blocksLock: boolean }) => w.blocksLock).map((w: { kind: string; sku: string }) => [w.kind, w.sku])).toEqual([['no-program-time', 'NB-BL-REAR']]);
+		expect(
+			muleAnswer.warnings
+				.filter((w: { blocksLock: boolean }) => w.blocksLock)
+				.map((w: { kind: string; sku: string }) => [w.kind, w.sku])
+		).toEqual([['no-program-time', 'NB-BL-REAR']]);
 		const [tallboy] = await sql(`SELECT id FROM episode WHERE slug = 'tallboy-coil-spacers'`);
-		const tallboyAnswer = (await visitors.merch.api(`/api/episodes/${tallboy.id}/featured-parts`)).body;
+		const tallboyAnswer = (await visitors.merch.api(`/api/episodes/${tallboy.id}/featured-parts`))
+			.body;
 		expect(tallboyAnswer.warnings).toEqual([]);
-		expect(tallboyAnswer.parts.map((p: { sku: string }) => p.sku)).toEqual(['IBS-CS-150', 'IBS-BS-6T', 'NB-BL-EXT2', 'QS-TT-250', 'CT-MT-33125015']);
+		expect(tallboyAnswer.parts.map((p: { sku: string }) => p.sku)).toEqual([
+			'IBS-CS-150',
+			'IBS-BS-6T',
+			'NB-BL-EXT2',
+			'QS-TT-250',
+			'CT-MT-33125015'
+		]);
 	});
 });

@@ -50,8 +50,9 @@ describe('HAZARDS', () => {
 		expect(CAUTION_MAX_CHARACTERS).toBe(140);
 	});
 
-	test('each caution carries its hazard\'s usual precaution (common practice)', () => {
-		const caution = (id: (typeof HAZARD_IDS)[number]) => hazardById(id).defaultCaution.toLowerCase();
+	test("each caution carries its hazard's usual precaution (common practice)", () => {
+		const caution = (id: (typeof HAZARD_IDS)[number]) =>
+			hazardById(id).defaultCaution.toLowerCase();
 		expect(caution('raised-vehicle')).toMatch(/jack stands/);
 		expect(caution('raised-vehicle')).toMatch(/level ground/);
 		expect(caution('raised-vehicle')).toMatch(/never work under a vehicle held up only by a jack/);

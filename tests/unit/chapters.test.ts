@@ -52,7 +52,9 @@ interface SmpteTimecodeFactory {
 
 // The reference packages ship CommonJS without type declarations their exports map can reach.
 const require = createRequire(import.meta.url);
-const { parse: parseFfmetadata } = require('ffmeta') as { parse(source: string): FfmetadataDocument };
+const { parse: parseFfmetadata } = require('ffmeta') as {
+	parse(source: string): FfmetadataDocument;
+};
 const { WebVTTParser } = require('webvtt-parser') as { WebVTTParser: WebVttParserConstructor };
 // webvtt-parser's built-in entity table lacks the `;` forms and decodes `&amp;` as `&;`; its
 // README says to pass html-entities.json for the spec's full character references.
@@ -148,7 +150,7 @@ describe('chapter rules (common practice of video platforms, from memory)', () =
 				index: 2,
 				field: 'start',
 				message:
-					'Chapter 3 “Set the new springs and shackles” starts at 0:30, which isn\'t after chapter 2 “Pull the old leaf pack” (0:42); each chapter has to start after the one before.'
+					"Chapter 3 “Set the new springs and shackles” starts at 0:30, which isn't after chapter 2 “Pull the old leaf pack” (0:42); each chapter has to start after the one before."
 			}
 		]);
 	});
@@ -158,7 +160,9 @@ describe('chapter rules (common practice of video platforms, from memory)', () =
 		chapters[3] = { ...chapters[3], startFrame: chapters[2].startFrame };
 		const problems = validateChapters(chapters, LIFT_CUT_END, '25');
 		expect(problemsAt(problems, 3).map((problem) => problem.message)).toEqual([
-			expect.stringContaining('Chapter 4 “Torque the U-bolts” starts at 3:05, which isn\'t after chapter 3')
+			expect.stringContaining(
+				"Chapter 4 “Torque the U-bolts” starts at 3:05, which isn't after chapter 3"
+			)
 		]);
 	});
 
@@ -242,7 +246,8 @@ describe('chapter rules (common practice of video platforms, from memory)', () =
 			{
 				index: 1,
 				field: 'start',
-				message: 'Chapter 2 “Pull the old leaf pack” has no usable start time; set it to a frame inside the cut.'
+				message:
+					'Chapter 2 “Pull the old leaf pack” has no usable start time; set it to a frame inside the cut.'
 			}
 		]);
 	});
@@ -290,7 +295,9 @@ describe('chapter rules (common practice of video platforms, from memory)', () =
 			'3:start', // not after chapter 3
 			'3:start' // 5 s to the cut's end
 		]);
-		expect(problems[1].message).toBe('Chapter 1 “Cold open” is 6 s long; chapters need at least 10 s.');
+		expect(problems[1].message).toBe(
+			'Chapter 1 “Cold open” is 6 s long; chapters need at least 10 s.'
+		);
 	});
 
 	test('sortChapters orders by start without touching the original, keeping ties in order', () => {
@@ -341,7 +348,11 @@ const TRICKY_TITLES: { title: string; oneLine: string; kept: string }[] = [
 	},
 	{ title: 'リフトアップ完了', oneLine: 'リフトアップ完了', kept: 'リフトアップ完了' },
 	{ title: 'Подвеска: проверка', oneLine: 'Подвеска: проверка', kept: 'Подвеска: проверка' },
-	{ title: 'Ανάρτηση και ευθυγράμμιση', oneLine: 'Ανάρτηση και ευθυγράμμιση', kept: 'Ανάρτηση και ευθυγράμμιση' }
+	{
+		title: 'Ανάρτηση και ευθυγράμμιση',
+		oneLine: 'Ανάρτηση και ευθυγράμμιση',
+		kept: 'Ανάρτηση και ευθυγράμμιση'
+	}
 ];
 
 /** Starts at 29.97 chosen to fall between milliseconds (1 frame = 33.366… ms). */
@@ -391,7 +402,9 @@ describe('description text export', () => {
 		expect(exported.extension).toBe('txt');
 		const lines = readDescription(exported.body);
 		expect(lines.map((line) => line.title)).toEqual(TRICKY_TITLES.map(({ oneLine }) => oneLine));
-		expect(lines.map((line) => line.seconds)).toEqual(trickyTimes().map(({ start }) => Math.floor(start / 1000)));
+		expect(lines.map((line) => line.seconds)).toEqual(
+			trickyTimes().map(({ start }) => Math.floor(start / 1000))
+		);
 		expect(lines[0].stamp).toBe('0:00');
 		// Under an hour: M:SS on every line.
 		expect(lines.every((line) => /^\d{1,2}:\d{2}$/.test(line.stamp))).toBe(true);
@@ -402,10 +415,16 @@ describe('description text export', () => {
 		const chapters = liftEpisode();
 		const exported = exportChapters('txt', chapters, { rate: '25', cutEndFrame: 90000 });
 		const lines = readDescription(exported.body);
-		expect(lines.map((line) => line.stamp)).toEqual(['0:00:00', '0:00:42', '0:03:05', '0:06:30', '0:08:40']);
-		expect(exportChapters('txt', chapters, { rate: '25', cutEndFrame: 89999 }).body.split('\n')[0]).toBe(
-			'0:00 Cold open'
-		);
+		expect(lines.map((line) => line.stamp)).toEqual([
+			'0:00:00',
+			'0:00:42',
+			'0:03:05',
+			'0:06:30',
+			'0:08:40'
+		]);
+		expect(
+			exportChapters('txt', chapters, { rate: '25', cutEndFrame: 89999 }).body.split('\n')[0]
+		).toBe('0:00 Cold open');
 	});
 });
 
@@ -466,7 +485,9 @@ describe('FFmpeg metadata export', () => {
 			{ startFrame: 500, title: 'Path C:\\shop\\bay2\\' },
 			{ startFrame: 1000, title: 'Torque the U-bolts' }
 		];
-		const parsed = parseFfmetadata(exportChapters('ffmetadata', chapters, { rate: '25', cutEndFrame: 2000 }).body);
+		const parsed = parseFfmetadata(
+			exportChapters('ffmetadata', chapters, { rate: '25', cutEndFrame: 2000 }).body
+		);
 		expect(parsed.chapters.map((chapter) => chapter.metadata.title)).toEqual([
 			'Cold open',
 			'Path C:\\shop\\bay2\\ ',
@@ -514,12 +535,14 @@ function podcastChaptersProblem(document: unknown): string | null {
 	let previousStart = -Infinity;
 	for (const chapter of chapters as Record<string, unknown>[]) {
 		const { startTime, endTime, title, url } = chapter;
-		if (typeof startTime !== 'number' || !Number.isFinite(startTime) || startTime < 0) return 'bad startTime';
+		if (typeof startTime !== 'number' || !Number.isFinite(startTime) || startTime < 0)
+			return 'bad startTime';
 		if (startTime < previousStart) return 'not ascending by startTime';
 		previousStart = startTime;
 		if (title !== undefined && typeof title !== 'string') return 'title is not a string';
 		if (url !== undefined && typeof url !== 'string') return 'url is not a string';
-		if (endTime !== undefined && (typeof endTime !== 'number' || endTime < startTime)) return 'bad endTime';
+		if (endTime !== undefined && (typeof endTime !== 'number' || endTime < startTime))
+			return 'bad endTime';
 	}
 	return null;
 }
@@ -536,25 +559,35 @@ describe('Podcasting 2.0 JSON chapters export', () => {
 		expect(podcastChaptersProblem(document)).toBeNull();
 		expect(document.version).toBe('1.2.0');
 		const times = trickyTimes();
-		expect(document.chapters.map((chapter) => chapter.startTime)).toEqual(times.map(({ start }) => start / 1000));
-		expect(document.chapters.map((chapter) => chapter.endTime)).toEqual(times.map(({ end }) => end / 1000));
-		expect(document.chapters.map((chapter) => chapter.title)).toEqual(TRICKY_TITLES.map(({ kept }) => kept));
+		expect(document.chapters.map((chapter) => chapter.startTime)).toEqual(
+			times.map(({ start }) => start / 1000)
+		);
+		expect(document.chapters.map((chapter) => chapter.endTime)).toEqual(
+			times.map(({ end }) => end / 1000)
+		);
+		expect(document.chapters.map((chapter) => chapter.title)).toEqual(
+			TRICKY_TITLES.map(({ kept }) => kept)
+		);
 		expect(document.chapters[1].url).toBe('https://example.com/parts/leaf-spring-hangers');
 		expect(document.chapters.filter((chapter) => 'url' in chapter)).toHaveLength(1);
 	});
 
 	test('the checker itself rejects documents that break the rules', () => {
 		expect(podcastChaptersProblem({ chapters: [] })).toBe('version is not a string');
-		expect(podcastChaptersProblem({ version: '1.2.0', chapters: [{ startTime: '0' }] })).toBe('bad startTime');
-		expect(podcastChaptersProblem({ version: '1.2.0', chapters: [{ startTime: 5 }, { startTime: 1 }] })).toBe(
-			'not ascending by startTime'
+		expect(podcastChaptersProblem({ version: '1.2.0', chapters: [{ startTime: '0' }] })).toBe(
+			'bad startTime'
 		);
+		expect(
+			podcastChaptersProblem({ version: '1.2.0', chapters: [{ startTime: 5 }, { startTime: 1 }] })
+		).toBe('not ascending by startTime');
 	});
 
 	test('a link that is not a web address is refused with a plain message', () => {
 		const chapters = liftEpisode();
 		chapters[2] = { ...chapters[2], url: 'javascript:alert(1)' };
-		expect(() => exportChapters('json', chapters, { rate: '25', cutEndFrame: LIFT_CUT_END })).toThrow(
+		expect(() =>
+			exportChapters('json', chapters, { rate: '25', cutEndFrame: LIFT_CUT_END })
+		).toThrow(
 			/Chapter 3 “Set the new springs and shackles” links to “javascript:alert\(1\)”, which isn't a web address/
 		);
 	});
@@ -565,13 +598,20 @@ describe('CSV export, read back by papaparse (RFC 4180)', () => {
 		const exported = exportChapters('csv', trickyChapters(), trickyOptions);
 		expect(exported.contentType).toBe('text/csv; charset=utf-8');
 		expect(exported.extension).toBe('csv');
-		const parsed = Papa.parse<Record<string, string>>(exported.body, { header: true, skipEmptyLines: true });
+		const parsed = Papa.parse<Record<string, string>>(exported.body, {
+			header: true,
+			skipEmptyLines: true
+		});
 		expect(parsed.errors).toEqual([]);
 		expect(parsed.meta.fields).toEqual(['start_timecode', 'start_seconds', 'end_seconds', 'title']);
 		const times = trickyTimes();
 		expect(parsed.data.map((row) => row.title)).toEqual(TRICKY_TITLES.map(({ kept }) => kept));
-		expect(parsed.data.map((row) => Number(row.start_seconds))).toEqual(times.map(({ start }) => start / 1000));
-		expect(parsed.data.map((row) => Number(row.end_seconds))).toEqual(times.map(({ end }) => end / 1000));
+		expect(parsed.data.map((row) => Number(row.start_seconds))).toEqual(
+			times.map(({ start }) => start / 1000)
+		);
+		expect(parsed.data.map((row) => Number(row.end_seconds))).toEqual(
+			times.map(({ end }) => end / 1000)
+		);
 		// Start timecodes at 29.97 drop-frame, checked against smpte-timecode.
 		expect(parsed.data.map((row) => row.start_timecode)).toEqual(
 			TRICKY_STARTS.map((frame) => referenceTimecode(frame, [30000, 1001], true).toString())
@@ -580,7 +620,10 @@ describe('CSV export, read back by papaparse (RFC 4180)', () => {
 	});
 
 	test('non-drop timecode when asked, and rows end in CRLF', () => {
-		const { body } = exportChapters('csv', trickyChapters(), { ...trickyOptions, dropFrame: false });
+		const { body } = exportChapters('csv', trickyChapters(), {
+			...trickyOptions,
+			dropFrame: false
+		});
 		const parsed = Papa.parse<Record<string, string>>(body, { header: true, skipEmptyLines: true });
 		expect(parsed.data[2].start_timecode).toBe('00:01:00:00');
 		expect(body.startsWith('start_timecode,start_seconds,end_seconds,title\r\n')).toBe(true);
@@ -608,9 +651,9 @@ describe('every format', () => {
 			expect(() => exportChapters(format, [], options)).toThrow(ChapterExportError);
 			expect(() => exportChapters(format, sameFrame, options)).toThrow(/start on the same frame/);
 			expect(() => exportChapters(format, untitled, options)).toThrow('Chapter 2 has no title');
-			expect(() => exportChapters(format, liftEpisode(), { rate: '25', cutEndFrame: at25(500) })).toThrow(
-				/Chapter 5 “Road test and re-torque” starts at or after the end of the cut/
-			);
+			expect(() =>
+				exportChapters(format, liftEpisode(), { rate: '25', cutEndFrame: at25(500) })
+			).toThrow(/Chapter 5 “Road test and re-torque” starts at or after the end of the cut/);
 		}
 	});
 
@@ -637,14 +680,18 @@ describe('every format', () => {
 		const ffmetadata = parseFfmetadata(exportChapters('ffmetadata', chapters, options).body);
 		expect(ffmetadata.chapters.map((chapter) => Number(chapter.START))).toEqual(startMs);
 		expect(ffmetadata.chapters.map((chapter) => Number(chapter.END))).toEqual(endMs);
-		expect(ffmetadata.chapters.map((chapter) => chapter.metadata.title)).toEqual(chapters.map(({ title }) => title));
+		expect(ffmetadata.chapters.map((chapter) => chapter.metadata.title)).toEqual(
+			chapters.map(({ title }) => title)
+		);
 
 		const json = JSON.parse(exportChapters('json', chapters, options).body) as {
 			chapters: { startTime: number; title: string }[];
 		};
 		expect(podcastChaptersProblem(json)).toBeNull();
 		expect(json.chapters.map((chapter) => Math.round(chapter.startTime * 1000))).toEqual(startMs);
-		expect(json.chapters.map((chapter) => chapter.title)).toEqual(chapters.map(({ title }) => title));
+		expect(json.chapters.map((chapter) => chapter.title)).toEqual(
+			chapters.map(({ title }) => title)
+		);
 
 		const csv = Papa.parse<Record<string, string>>(exportChapters('csv', chapters, options).body, {
 			header: true,
@@ -654,7 +701,9 @@ describe('every format', () => {
 		expect(csv.data.map((row) => row.title)).toEqual(chapters.map(({ title }) => title));
 		expect(csv.data.map((row) => Math.round(Number(row.start_seconds) * 1000))).toEqual(startMs);
 		expect(csv.data.map((row) => row.start_timecode)).toEqual(
-			chapters.map(({ startFrame }) => referenceTimecode(startFrame, [24000, 1001], false).toString())
+			chapters.map(({ startFrame }) =>
+				referenceTimecode(startFrame, [24000, 1001], false).toString()
+			)
 		);
 
 		// Over an hour (1000 × 12.5 s ≈ 3.5 h): H:MM:SS on every line, seconds cut off.

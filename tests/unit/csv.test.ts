@@ -12,7 +12,12 @@ import { csvText, unguardCell } from '$lib/csv';
 
 describe('RFC 4180 framing', () => {
 	test('every record ends in CRLF, including the last', () => {
-		expect(csvText([['a', 'b'], ['1', '2']])).toBe('a,b\r\n1,2\r\n');
+		expect(
+			csvText([
+				['a', 'b'],
+				['1', '2']
+			])
+		).toBe('a,b\r\n1,2\r\n');
 	});
 
 	test('a quote inside a field is doubled and the field quoted (RFC 4180 §2 rule 7)', () => {
@@ -20,7 +25,11 @@ describe('RFC 4180 framing', () => {
 	});
 
 	test('commas and line breaks are enclosed in quotes (rule 6) and read back whole', () => {
-		const records = [['title', 'note'], ['Lift, then level', 'line one\r\nline two'], ['Caution', 'Stands, not jacks\nalways']];
+		const records = [
+			['title', 'note'],
+			['Lift, then level', 'line one\r\nline two'],
+			['Caution', 'Stands, not jacks\nalways']
+		];
 		const text = csvText(records);
 		expect(text).toContain('"Lift, then level","line one\r\nline two"');
 		const parsed = Papa.parse<string[]>(text, { skipEmptyLines: true });
@@ -50,7 +59,9 @@ describe('spreadsheet formula guard (OWASP CSV Injection)', () => {
 
 	test('unguardCell takes the guard off, so a guarded export reads back exactly', () => {
 		const cells = [...triggers, "'quoted on purpose", 'plain'];
-		const read = Papa.parse<string[]>(csvText([cells], { escapeFormulae: true })).data[0].map(unguardCell);
+		const read = Papa.parse<string[]>(csvText([cells], { escapeFormulae: true })).data[0].map(
+			unguardCell
+		);
 		expect(read).toEqual(cells);
 		// An apostrophe not followed by a trigger character is the person's own and stays.
 		expect(unguardCell("'quoted on purpose")).toBe("'quoted on purpose");

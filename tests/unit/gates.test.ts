@@ -5,7 +5,13 @@
  * (via /work/shared/REFERENCES.md: 17982 frames at 29.97 drop-frame is 00:10:00;00).
  */
 import { describe, expect, test } from 'vitest';
-import { CHAPTERS_MISSING_MESSAGE, gateChecksFor, segmentName, type GateSegment, type GateSnapshot } from '../../src/lib/gates.ts';
+import {
+	CHAPTERS_MISSING_MESSAGE,
+	gateChecksFor,
+	segmentName,
+	type GateSegment,
+	type GateSnapshot
+} from '../../src/lib/gates.ts';
 import { mayMoveStage, moveDirection, nextStage } from '../../src/lib/stages.ts';
 
 function segment(overrides: Partial<GateSegment> = {}): GateSegment {
@@ -16,7 +22,13 @@ function segment(overrides: Partial<GateSegment> = {}): GateSegment {
 		needsFootage: true,
 		words: 120,
 		hazards: [],
-		shots: [{ id: 'shot-1', what: 'Wide of the rear axle', takes: [{ clipName: 'A001_C004', good: true, hasFootage: true }] }],
+		shots: [
+			{
+				id: 'shot-1',
+				what: 'Wide of the rear axle',
+				takes: [{ clipName: 'A001_C004', good: true, hasFootage: true }]
+			}
+		],
 		cautions: [],
 		...overrides
 	};
@@ -31,21 +43,33 @@ function ready(overrides: Partial<GateSnapshot> = {}): GateSnapshot {
 		publishDate: '2027-01-15',
 		assignments: { host: 'Rico', camera: 'Mika', editor: 'Jules', merch: 'Priya' },
 		script: { status: 'approved', approvedFingerprint: 'abc', currentFingerprint: 'abc' },
-		segments: [segment({ position: 1, id: 's1', title: 'Cold open' }), segment({ position: 2, id: 's2' })],
+		segments: [
+			segment({ position: 1, id: 's1', title: 'Cold open' }),
+			segment({ position: 2, id: 's2' })
+		],
 		chapterProblems: [],
 		featuredPartProblems: [],
 		...overrides
 	};
 }
 
-const rules = (snapshot: GateSnapshot, to: Parameters<typeof gateChecksFor>[1]) => gateChecksFor(snapshot, to).map((reason) => reason.rule);
+const rules = (snapshot: GateSnapshot, to: Parameters<typeof gateChecksFor>[1]) =>
+	gateChecksFor(snapshot, to).map((reason) => reason.rule);
 
 describe('every gate passes for a finished episode', () => {
 	test.each(['shoot', 'edit', 'locked', 'published'] as const)('to %s: no reasons', (to) => {
 		expect(gateChecksFor(ready(), to)).toEqual([]);
 	});
 	test('moving back (to script) is never gated', () => {
-		expect(gateChecksFor(ready({ segments: [], script: { status: 'draft', approvedFingerprint: null, currentFingerprint: 'x' } }), 'script')).toEqual([]);
+		expect(
+			gateChecksFor(
+				ready({
+					segments: [],
+					script: { status: 'draft', approvedFingerprint: null, currentFingerprint: 'x' }
+				}),
+				'script'
+			)
+		).toEqual([]);
 	});
 });
 
@@ -65,27 +89,58 @@ describe('script → shoot', () => {
 		['submitted', /waiting for a producer/, 'producer'],
 		['returned', /returned the script with comments/, 'host']
 	] as const)('a %s script is refused with the next step', (status, message, fixedBy) => {
-		const reasons = gateChecksFor(ready({ script: { status, approvedFingerprint: null, currentFingerprint: 'abc' } }), 'shoot');
+		const reasons = gateChecksFor(
+			ready({ script: { status, approvedFingerprint: null, currentFingerprint: 'abc' } }),
+			'shoot'
+		);
 		expect(reasons).toHaveLength(1);
 		expect(reasons[0]).toMatchObject({ rule: 'script-not-approved', fixedBy });
 		expect(reasons[0].message).toMatch(message);
 	});
 
 	test('a script edited after approval is refused until it is approved again', () => {
-		const reasons = gateChecksFor(ready({ script: { status: 'approved', approvedFingerprint: 'abc', currentFingerprint: 'def' } }), 'shoot');
+		const reasons = gateChecksFor(
+			ready({
+				script: { status: 'approved', approvedFingerprint: 'abc', currentFingerprint: 'def' }
+			}),
+			'shoot'
+		);
 		expect(reasons.map((r) => r.rule)).toEqual(['script-changed']);
 		expect(reasons[0].fixedBy).toBe('producer');
 	});
 
 	test('a segment that needs footage but has no shots is named, and its camera job stated', () => {
-		const reasons = gateChecksFor(ready({ segments: [segment({ position: 1, id: 'a' }), segment({ position: 2, id: 'b', title: 'Torque the U-bolts', shots: [] })] }), 'shoot');
+		const reasons = gateChecksFor(
+			ready({
+				segments: [
+					segment({ position: 1, id: 'a' }),
+					segment({ position: 2, id: 'b', title: 'Torque the U-bolts', shots: [] })
+				]
+			}),
+			'shoot'
+		);
 		expect(reasons).toHaveLength(1);
-		expect(reasons[0]).toMatchObject({ rule: 'shot-list-missing', subject: 'Segment 2 “Torque the U-bolts”', segmentId: 'b', fixedBy: 'camera' });
+		expect(reasons[0]).toMatchObject({
+			rule: 'shot-list-missing',
+			subject: 'Segment 2 “Torque the U-bolts”',
+			segmentId: 'b',
+			fixedBy: 'camera'
+		});
 		expect(reasons[0].message).toMatch(/adds at least one shot/);
 	});
 
 	test('a segment read over other footage (needs footage unticked) needs no shots', () => {
-		expect(gateChecksFor(ready({ segments: [segment({ position: 1 }), segment({ position: 2, id: 'cta', needsFootage: false, shots: [] })] }), 'shoot')).toEqual([]);
+		expect(
+			gateChecksFor(
+				ready({
+					segments: [
+						segment({ position: 1 }),
+						segment({ position: 2, id: 'cta', needsFootage: false, shots: [] })
+					]
+				}),
+				'shoot'
+			)
+		).toEqual([]);
 	});
 
 	test('no camera operator assigned is refused', () => {
@@ -100,28 +155,50 @@ describe('script → shoot', () => {
 			script: { status: 'draft', approvedFingerprint: null, currentFingerprint: 'x' },
 			segments: [segment({ shots: [] }), segment({ position: 2, id: 's2', shots: [] })]
 		});
-		expect(rules(snapshot, 'shoot')).toEqual(['script-not-approved', 'shot-list-missing', 'shot-list-missing', 'assignee-missing']);
+		expect(rules(snapshot, 'shoot')).toEqual([
+			'script-not-approved',
+			'shot-list-missing',
+			'shot-list-missing',
+			'assignee-missing'
+		]);
 	});
 });
 
 describe('shoot → edit', () => {
-	const shootSnapshot = (shots: GateSegment['shots']) => ready({ stage: 'shoot', segments: [segment({ shots })] });
+	const shootSnapshot = (shots: GateSegment['shots']) =>
+		ready({ stage: 'shoot', segments: [segment({ shots })] });
 
 	test('a shot with no take is refused, naming the shot and its segment', () => {
-		const reasons = gateChecksFor(shootSnapshot([{ id: 'x', what: 'Close-up of the block', takes: [] }]), 'edit');
+		const reasons = gateChecksFor(
+			shootSnapshot([{ id: 'x', what: 'Close-up of the block', takes: [] }]),
+			'edit'
+		);
 		expect(reasons).toHaveLength(1);
-		expect(reasons[0]).toMatchObject({ rule: 'take-missing', subject: 'Shot “Close-up of the block” in segment 1 “Swap the blocks”' });
+		expect(reasons[0]).toMatchObject({
+			rule: 'take-missing',
+			subject: 'Shot “Close-up of the block” in segment 1 “Swap the blocks”'
+		});
 		expect(reasons[0].message).toMatch(/No take is logged/);
 	});
 
 	test('a shot whose takes are all no good is refused', () => {
-		const reasons = gateChecksFor(shootSnapshot([{ id: 'x', what: 'Wide', takes: [{ clipName: 'A002', good: false, hasFootage: true }] }]), 'edit');
+		const reasons = gateChecksFor(
+			shootSnapshot([
+				{ id: 'x', what: 'Wide', takes: [{ clipName: 'A002', good: false, hasFootage: true }] }
+			]),
+			'edit'
+		);
 		expect(reasons[0].rule).toBe('take-missing');
 		expect(reasons[0].message).toMatch(/No take is marked good/);
 	});
 
 	test('a good take without uploaded footage is refused, naming the clip', () => {
-		const reasons = gateChecksFor(shootSnapshot([{ id: 'x', what: 'Wide', takes: [{ clipName: 'A003_C011', good: true, hasFootage: false }] }]), 'edit');
+		const reasons = gateChecksFor(
+			shootSnapshot([
+				{ id: 'x', what: 'Wide', takes: [{ clipName: 'A003_C011', good: true, hasFootage: false }] }
+			]),
+			'edit'
+		);
 		expect(reasons.map((r) => r.rule)).toEqual(['footage-missing']);
 		expect(reasons[0].message).toContain('A003_C011');
 	});
@@ -135,24 +212,47 @@ describe('shoot → edit', () => {
 	});
 
 	test('the shot list rule still holds, and an editor must be assigned', () => {
-		const snapshot = ready({ stage: 'shoot', assignments: { camera: 'Mika' }, segments: [segment({ shots: [] })] });
+		const snapshot = ready({
+			stage: 'shoot',
+			assignments: { camera: 'Mika' },
+			segments: [segment({ shots: [] })]
+		});
 		expect(rules(snapshot, 'edit')).toEqual(['shot-list-missing', 'assignee-missing']);
 	});
 });
 
 describe('edit → locked', () => {
 	const flagged = (cautions: GateSegment['cautions']) =>
-		ready({ stage: 'edit', segments: [segment({ position: 3, title: 'Bleed the brakes', hazards: ['brakes'], cautions })] });
+		ready({
+			stage: 'edit',
+			segments: [segment({ position: 3, title: 'Bleed the brakes', hazards: ['brakes'], cautions })]
+		});
 
 	test('no chapters yet is refused with the chapters message', () => {
 		const reasons = gateChecksFor(ready({ stage: 'edit', chapterProblems: null }), 'locked');
-		expect(reasons).toEqual([{ rule: 'chapters-missing', subject: 'Chapters', message: CHAPTERS_MISSING_MESSAGE, fixedBy: 'editor' }]);
+		expect(reasons).toEqual([
+			{
+				rule: 'chapters-missing',
+				subject: 'Chapters',
+				message: CHAPTERS_MISSING_MESSAGE,
+				fixedBy: 'editor'
+			}
+		]);
 		expect(CHAPTERS_MISSING_MESSAGE).toBe('Mark at least three chapters on the edit timeline.');
 	});
 
 	test('each chapter problem becomes a reason', () => {
-		const reasons = gateChecksFor(ready({ stage: 'edit', chapterProblems: ['The first chapter must start at 0:00.', 'Chapter 3 is 6 s long.'] }), 'locked');
-		expect(reasons.map((r) => r.message)).toEqual(['The first chapter must start at 0:00.', 'Chapter 3 is 6 s long.']);
+		const reasons = gateChecksFor(
+			ready({
+				stage: 'edit',
+				chapterProblems: ['The first chapter must start at 0:00.', 'Chapter 3 is 6 s long.']
+			}),
+			'locked'
+		);
+		expect(reasons.map((r) => r.message)).toEqual([
+			'The first chapter must start at 0:00.',
+			'Chapter 3 is 6 s long.'
+		]);
 	});
 
 	test('each featured part problem becomes a reason for whoever fixes it', () => {
@@ -161,7 +261,11 @@ describe('edit → locked', () => {
 				stage: 'edit',
 				featuredPartProblems: [
 					{ message: 'IBS-BL-OLD is discontinued: link a current part.', fixedBy: 'merch' },
-					{ message: 'IBS-BS-6T is on a note with no program time: the editor places the note in the cut.', fixedBy: 'editor' }
+					{
+						message:
+							'IBS-BS-6T is on a note with no program time: the editor places the note in the cut.',
+						fixedBy: 'editor'
+					}
 				]
 			}),
 			'locked'
@@ -173,18 +277,33 @@ describe('edit → locked', () => {
 	});
 
 	test('a flagged segment with an unplaced caution is refused, naming the segment and the hazard', () => {
-		const reasons = gateChecksFor(flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: null }]), 'locked');
+		const reasons = gateChecksFor(
+			flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: null }]),
+			'locked'
+		);
 		expect(reasons).toHaveLength(1);
-		expect(reasons[0]).toMatchObject({ rule: 'caution-unplaced', subject: 'Segment 3 “Bleed the brakes”', fixedBy: 'editor' });
+		expect(reasons[0]).toMatchObject({
+			rule: 'caution-unplaced',
+			subject: 'Segment 3 “Bleed the brakes”',
+			fixedBy: 'editor'
+		});
 		expect(reasons[0].message).toMatch(/“Brakes” caution is not placed/);
 	});
 
 	test('a placed caution passes', () => {
-		expect(gateChecksFor(flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: 1800 }]), 'locked')).toEqual([]);
+		expect(
+			gateChecksFor(
+				flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: 1800 }]),
+				'locked'
+			)
+		).toEqual([]);
 	});
 
 	test('a caution placed after the end of the cut is refused with both timecodes (SMPTE ST 12-1 drop-frame labels)', () => {
-		const snapshot = { ...flagged([{ hazard: 'brakes' as const, text: 'Inspect it.', atFrame: 17982 + 1800 }]), cutDurationFrames: 17982 };
+		const snapshot = {
+			...flagged([{ hazard: 'brakes' as const, text: 'Inspect it.', atFrame: 17982 + 1800 }]),
+			cutDurationFrames: 17982
+		};
 		const reasons = gateChecksFor(snapshot, 'locked');
 		expect(reasons[0].rule).toBe('caution-past-end');
 		// 17982 frames = 00:10:00;00 and 19782 = 00:11:00;02 at 29.97 DF (REFERENCES.md; frame 1800 ↔ 00:01:00;02).
@@ -193,19 +312,36 @@ describe('edit → locked', () => {
 	});
 
 	test('a flag with no caution row, or an emptied caution text, is refused for the host', () => {
-		expect(gateChecksFor(flagged([]), 'locked')).toMatchObject([{ rule: 'caution-text-missing', fixedBy: 'host' }]);
-		expect(gateChecksFor(flagged([{ hazard: 'brakes', text: '   ', atFrame: 10 }]), 'locked')).toMatchObject([{ rule: 'caution-text-missing' }]);
+		expect(gateChecksFor(flagged([]), 'locked')).toMatchObject([
+			{ rule: 'caution-text-missing', fixedBy: 'host' }
+		]);
+		expect(
+			gateChecksFor(flagged([{ hazard: 'brakes', text: '   ', atFrame: 10 }]), 'locked')
+		).toMatchObject([{ rule: 'caution-text-missing' }]);
 	});
 
 	test('a caution of a hazard no longer flagged does not count', () => {
-		const snapshot = ready({ stage: 'edit', segments: [segment({ hazards: [], cautions: [{ hazard: 'steering', text: 'x', atFrame: null }] })] });
+		const snapshot = ready({
+			stage: 'edit',
+			segments: [
+				segment({ hazards: [], cautions: [{ hazard: 'steering', text: 'x', atFrame: null }] })
+			]
+		});
 		expect(gateChecksFor(snapshot, 'locked')).toEqual([]);
 	});
 
 	test('each of several flags on one segment needs its own placed caution', () => {
 		const snapshot = ready({
 			stage: 'edit',
-			segments: [segment({ hazards: ['raised-vehicle', 'brakes'], cautions: [{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: 30 }, { hazard: 'brakes', text: 'Inspect.', atFrame: null }] })]
+			segments: [
+				segment({
+					hazards: ['raised-vehicle', 'brakes'],
+					cautions: [
+						{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: 30 },
+						{ hazard: 'brakes', text: 'Inspect.', atFrame: null }
+					]
+				})
+			]
 		});
 		const reasons = gateChecksFor(snapshot, 'locked');
 		expect(reasons).toHaveLength(1);
@@ -215,19 +351,34 @@ describe('edit → locked', () => {
 
 describe('locked → published', () => {
 	test('an unplaced caution still refuses publishing, naming the segment', () => {
-		const snapshot = ready({ stage: 'locked', segments: [segment({ title: 'Jack it up', hazards: ['raised-vehicle'], cautions: [{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: null }] })] });
+		const snapshot = ready({
+			stage: 'locked',
+			segments: [
+				segment({
+					title: 'Jack it up',
+					hazards: ['raised-vehicle'],
+					cautions: [{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: null }]
+				})
+			]
+		});
 		const reasons = gateChecksFor(snapshot, 'published');
-		expect(reasons).toMatchObject([{ rule: 'caution-unplaced', subject: 'Segment 1 “Jack it up”' }]);
+		expect(reasons).toMatchObject([
+			{ rule: 'caution-unplaced', subject: 'Segment 1 “Jack it up”' }
+		]);
 	});
 
 	test('a missing publish date is refused', () => {
-		expect(rules(ready({ stage: 'locked', publishDate: null }), 'published')).toEqual(['publish-date-missing']);
+		expect(rules(ready({ stage: 'locked', publishDate: null }), 'published')).toEqual([
+			'publish-date-missing'
+		]);
 	});
 });
 
 describe('segment names in reasons', () => {
 	test('are one-based with the title in quotes, or say there is no title', () => {
-		expect(segmentName({ position: 4, title: ' Swap the blocks ' })).toBe('Segment 4 “Swap the blocks”');
+		expect(segmentName({ position: 4, title: ' Swap the blocks ' })).toBe(
+			'Segment 4 “Swap the blocks”'
+		);
 		expect(segmentName({ position: 2, title: '' })).toBe('Segment 2 (no title)');
 	});
 });
@@ -251,20 +402,43 @@ describe('who may move a stage (our own rule, src/lib/stages.ts)', () => {
 	});
 
 	test('the assigned host moves script forward; another host does not; nobody but a producer moves back', () => {
-		expect(mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'script', 'shoot')).toBe(true);
-		expect(mayMoveStage({ personId: 'other-host', roles: ['host'] }, assignments, 'script', 'shoot')).toBe(false);
-		expect(mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'shoot', 'script')).toBe(false);
-		expect(mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'shoot', 'edit')).toBe(false);
+		expect(
+			mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'script', 'shoot')
+		).toBe(true);
+		expect(
+			mayMoveStage({ personId: 'other-host', roles: ['host'] }, assignments, 'script', 'shoot')
+		).toBe(false);
+		expect(
+			mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'shoot', 'script')
+		).toBe(false);
+		expect(
+			mayMoveStage({ personId: 'host-id', roles: ['host'] }, assignments, 'shoot', 'edit')
+		).toBe(false);
 	});
 
 	test('the assigned camera operator moves shoot forward, the assigned editor moves edit forward, nobody but a producer publishes', () => {
-		expect(mayMoveStage({ personId: 'camera-id', roles: ['camera'] }, assignments, 'shoot', 'edit')).toBe(true);
-		expect(mayMoveStage({ personId: 'editor-id', roles: ['editor'] }, assignments, 'edit', 'locked')).toBe(true);
-		expect(mayMoveStage({ personId: 'editor-id', roles: ['editor'] }, assignments, 'locked', 'published')).toBe(false);
-		expect(mayMoveStage({ personId: 'm', roles: ['merch'] }, { ...assignments, merch: 'm' }, 'locked', 'published')).toBe(false);
+		expect(
+			mayMoveStage({ personId: 'camera-id', roles: ['camera'] }, assignments, 'shoot', 'edit')
+		).toBe(true);
+		expect(
+			mayMoveStage({ personId: 'editor-id', roles: ['editor'] }, assignments, 'edit', 'locked')
+		).toBe(true);
+		expect(
+			mayMoveStage({ personId: 'editor-id', roles: ['editor'] }, assignments, 'locked', 'published')
+		).toBe(false);
+		expect(
+			mayMoveStage(
+				{ personId: 'm', roles: ['merch'] },
+				{ ...assignments, merch: 'm' },
+				'locked',
+				'published'
+			)
+		).toBe(false);
 	});
 
 	test('an assignee who lost the role may not move it', () => {
-		expect(mayMoveStage({ personId: 'camera-id', roles: ['merch'] }, assignments, 'shoot', 'edit')).toBe(false);
+		expect(
+			mayMoveStage({ personId: 'camera-id', roles: ['merch'] }, assignments, 'shoot', 'edit')
+		).toBe(false);
 	});
 });

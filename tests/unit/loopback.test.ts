@@ -9,13 +9,30 @@ import { isLoopbackAddress } from '$lib/server/mail/mailbox';
 
 describe('isLoopbackAddress', () => {
 	test('every address of 127.0.0.0/8, ::1, and their IPv4-mapped forms are loopback', () => {
-		for (const address of ['127.0.0.1', '127.0.0.2', '127.255.255.254', '::1', '::ffff:127.0.0.1', '::FFFF:127.1.2.3']) {
+		for (const address of [
+			'127.0.0.1',
+			'127.0.0.2',
+			'127.255.255.254',
+			'::1',
+			'::ffff:127.0.0.1',
+			'::FFFF:127.1.2.3'
+		]) {
 			expect(isLoopbackAddress(address), address).toBe(true);
 		}
 	});
 
 	test('documentation, private and unspecified addresses are not', () => {
-		for (const address of ['192.0.2.10', '10.0.0.5', '192.168.1.20', '128.0.0.1', '0.0.0.0', '::', '2001:db8::1', '::ffff:192.0.2.10', 'fe80::1']) {
+		for (const address of [
+			'192.0.2.10',
+			'10.0.0.5',
+			'192.168.1.20',
+			'128.0.0.1',
+			'0.0.0.0',
+			'::',
+			'2001:db8::1',
+			'::ffff:192.0.2.10',
+			'fe80::1'
+		]) {
 			expect(isLoopbackAddress(address), address).toBe(false);
 		}
 	});

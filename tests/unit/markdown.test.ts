@@ -1,6 +1,10 @@
 import { describe, expect, test } from 'vitest';
 import { parseDocument } from 'htmlparser2';
-import { MAX_SCRIPT_CHARACTERS, SCRIPT_LINK_REL, renderScriptMarkdown } from '../../src/lib/server/markdown.ts';
+import {
+	MAX_SCRIPT_CHARACTERS,
+	SCRIPT_LINK_REL,
+	renderScriptMarkdown
+} from '../../src/lib/server/markdown.ts';
 
 // The hostile inputs are classic payloads from the OWASP XSS Filter Evasion
 // Cheat Sheet (from memory). The output is checked by parsing it again with
@@ -13,7 +17,12 @@ type ParsedElement = { name: string; attribs: Record<string, string> };
 function elementsOf(html: string): ParsedElement[] {
 	const found: ParsedElement[] = [];
 	const walk = (nodes: unknown[]): void => {
-		for (const node of nodes as { type: string; name?: string; attribs?: Record<string, string>; children?: unknown[] }[]) {
+		for (const node of nodes as {
+			type: string;
+			name?: string;
+			attribs?: Record<string, string>;
+			children?: unknown[];
+		}[]) {
 			if (node.type === 'tag' || node.type === 'script' || node.type === 'style') {
 				found.push({ name: node.name ?? '', attribs: node.attribs ?? {} });
 			}
@@ -31,8 +40,29 @@ function browserScheme(href: string): string | undefined {
 }
 
 const allowedTags = new Set([
-	'p', 'br', 'strong', 'em', 'del', 'ul', 'ol', 'li', 'blockquote', 'h2', 'h3', 'h4',
-	'code', 'pre', 'a', 'hr', 'table', 'thead', 'tbody', 'tr', 'th', 'td', 'span'
+	'p',
+	'br',
+	'strong',
+	'em',
+	'del',
+	'ul',
+	'ol',
+	'li',
+	'blockquote',
+	'h2',
+	'h3',
+	'h4',
+	'code',
+	'pre',
+	'a',
+	'hr',
+	'table',
+	'thead',
+	'tbody',
+	'tr',
+	'th',
+	'td',
+	'span'
 ]);
 
 function expectOnlySafeMarkup(html: string): void {
@@ -61,7 +91,9 @@ describe('renderScriptMarkdown: crew directions', () => {
 	});
 
 	test('a span class other than direction, or a direction carrying script, is cleaned', () => {
-		expect(renderScriptMarkdown('<span class="evil" onclick="x()">hi</span>')).toBe('<p><span>hi</span></p>\n');
+		expect(renderScriptMarkdown('<span class="evil" onclick="x()">hi</span>')).toBe(
+			'<p><span>hi</span></p>\n'
+		);
 		const html = renderScriptMarkdown('[[<img src=x onerror=alert(1)> cue]]');
 		expectOnlySafeMarkup(html);
 		expect(html).not.toContain('onerror');
@@ -77,11 +109,17 @@ describe('renderScriptMarkdown: hostile input does not survive', () => {
 		['Markdown link to JaVaScRiPt: in mixed case', '[x](JaVaScRiPt:alert(1))'],
 		['tab entity inside the scheme', '<a href="jav&#x09;ascript:alert(1)">x</a>'],
 		['newline entity inside the scheme', '<a href="java&#x0A;script:alert(1)">x</a>'],
-		['decimal entities for the whole scheme', '<a href="&#106;&#97;&#118;&#97;&#115;&#99;&#114;&#105;&#112;&#116;&#58;alert(1)">x</a>'],
+		[
+			'decimal entities for the whole scheme',
+			'<a href="&#106;&#97;&#118;&#97;&#115;&#99;&#114;&#105;&#112;&#116;&#58;alert(1)">x</a>'
+		],
 		['leading space and control character', '<a href=" &#x01;javascript:alert(1)">x</a>'],
 		['tab entity in a Markdown link', '[x](jav&#x09;ascript:alert(1))'],
 		['named entities &Tab; and &colon;', '<a href="java&Tab;script&colon;alert(1)">x</a>'],
-		['event handler on a kept link', '<a href="https://parts.example" onmouseover="alert(1)">x</a>'],
+		[
+			'event handler on a kept link',
+			'<a href="https://parts.example" onmouseover="alert(1)">x</a>'
+		],
 		['vbscript:', '<a href="vbscript:msgbox(1)">x</a>'],
 		['data: URL in a link', '[x](data:text/html;base64,PHNjcmlwdD5hbGVydCgxKTwvc2NyaXB0Pg==)'],
 		['data: URL in an image', '![x](data:image/svg+xml;base64,PHN2ZyBvbmxvYWQ9YWxlcnQoMSk+)'],
@@ -92,7 +130,10 @@ describe('renderScriptMarkdown: hostile input does not survive', () => {
 		['style element', '<style>body{display:none}</style>text'],
 		['event handler on an allowed tag', '<strong onclick="alert(1)">bold</strong>'],
 		['object and embed', '<object data="evil.swf"></object><embed src="evil.swf">'],
-		['form and button', '<form action="https://evil.example"><button formaction="javascript:alert(1)">go</button></form>'],
+		[
+			'form and button',
+			'<form action="https://evil.example"><button formaction="javascript:alert(1)">go</button></form>'
+		],
 		['meta refresh', '<meta http-equiv="refresh" content="0;url=javascript:alert(1)">'],
 		['math with an href', '<math href="javascript:alert(1)">x</math>'],
 		['protocol-relative link', '[x](//evil.example/path)']
@@ -101,7 +142,9 @@ describe('renderScriptMarkdown: hostile input does not survive', () => {
 	test.each(hostile)('%s', (_name, markdown) => {
 		const html = renderScriptMarkdown(markdown);
 		expectOnlySafeMarkup(html);
-		expect(html.toLowerCase()).not.toMatch(/<script|<iframe|<svg|<img|<style|<object|<embed|<form|<meta/);
+		expect(html.toLowerCase()).not.toMatch(
+			/<script|<iframe|<svg|<img|<style|<object|<embed|<form|<meta/
+		);
 		expect(html.toLowerCase()).not.toMatch(/javascript:|vbscript:|data:/);
 		expect(html).not.toMatch(/\son[a-z]+\s*=/i);
 	});
@@ -131,12 +174,21 @@ describe('renderScriptMarkdown: ordinary Markdown renders', () => {
 	});
 
 	test('bold, italic and strikethrough', () => {
-		expect(renderScriptMarkdown('**bold** *it* ~~old~~')).toBe('<p><strong>bold</strong> <em>it</em> <del>old</del></p>\n');
+		expect(renderScriptMarkdown('**bold** *it* ~~old~~')).toBe(
+			'<p><strong>bold</strong> <em>it</em> <del>old</del></p>\n'
+		);
 	});
 
 	test('bullet and numbered lists, including a start number', () => {
 		const html = renderScriptMarkdown('- lift\n- level\n\n3. three\n4. four');
-		expect(elementsOf(html).map((element) => element.name)).toEqual(['ul', 'li', 'li', 'ol', 'li', 'li']);
+		expect(elementsOf(html).map((element) => element.name)).toEqual([
+			'ul',
+			'li',
+			'li',
+			'ol',
+			'li',
+			'li'
+		]);
 		expect(html).toContain('<ol start="3">');
 	});
 
@@ -157,12 +209,16 @@ describe('renderScriptMarkdown: ordinary Markdown renders', () => {
 
 	test('a rel written in raw HTML is replaced by ours', () => {
 		const html = renderScriptMarkdown('<a href="https://parts.example" rel="opener">kit</a>');
-		expect(elementsOf(html).find((element) => element.name === 'a')?.attribs.rel).toBe(SCRIPT_LINK_REL);
+		expect(elementsOf(html).find((element) => element.name === 'a')?.attribs.rel).toBe(
+			SCRIPT_LINK_REL
+		);
 	});
 
 	test('bare URLs are linked (GFM autolink) and get rel too', () => {
 		const html = renderScriptMarkdown('see https://parts.example/kit');
-		expect(html).toBe(`<p>see <a href="https://parts.example/kit" rel="${SCRIPT_LINK_REL}">https://parts.example/kit</a></p>\n`);
+		expect(html).toBe(
+			`<p>see <a href="https://parts.example/kit" rel="${SCRIPT_LINK_REL}">https://parts.example/kit</a></p>\n`
+		);
 	});
 
 	test('relative links are refused: scripts link to full addresses', () => {
@@ -171,7 +227,15 @@ describe('renderScriptMarkdown: ordinary Markdown renders', () => {
 
 	test('blockquote, code, pre and hr', () => {
 		const html = renderScriptMarkdown('> say it slow\n\n`WX-2210`\n\n```\ntorque 95\n```\n\n---');
-		expect(elementsOf(html).map((element) => element.name)).toEqual(['blockquote', 'p', 'p', 'code', 'pre', 'code', 'hr']);
+		expect(elementsOf(html).map((element) => element.name)).toEqual([
+			'blockquote',
+			'p',
+			'p',
+			'code',
+			'pre',
+			'code',
+			'hr'
+		]);
 		// The language class marked adds to fenced code is not needed and is dropped.
 		expect(renderScriptMarkdown('```js\nx\n```')).toBe('<pre><code>x\n</code></pre>\n');
 	});
@@ -185,11 +249,15 @@ describe('renderScriptMarkdown: ordinary Markdown renders', () => {
 	});
 
 	test('an invalid align value in raw HTML is dropped', () => {
-		expect(renderScriptMarkdown('<table><tr><td align="javascript:x">a</td></tr></table>')).not.toContain('align');
+		expect(
+			renderScriptMarkdown('<table><tr><td align="javascript:x">a</td></tr></table>')
+		).not.toContain('align');
 	});
 
 	test('text that looks like HTML in prose is escaped, not lost', () => {
-		expect(renderScriptMarkdown('torque 5 < 10 & more')).toBe('<p>torque 5 &lt; 10 &amp; more</p>\n');
+		expect(renderScriptMarkdown('torque 5 < 10 & more')).toBe(
+			'<p>torque 5 &lt; 10 &amp; more</p>\n'
+		);
 	});
 
 	test('line break and paragraphs', () => {
@@ -207,6 +275,8 @@ describe('MAX_SCRIPT_CHARACTERS', () => {
 
 	test('a script at the limit renders; one character over is refused with a message', () => {
 		expect(renderScriptMarkdown('a'.repeat(MAX_SCRIPT_CHARACTERS))).toContain('<p>');
-		expect(() => renderScriptMarkdown('a'.repeat(MAX_SCRIPT_CHARACTERS + 1))).toThrow(/Split it into two segments/);
+		expect(() => renderScriptMarkdown('a'.repeat(MAX_SCRIPT_CHARACTERS + 1))).toThrow(
+			/Split it into two segments/
+		);
 	});
 });

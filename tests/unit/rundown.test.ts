@@ -5,7 +5,14 @@
  * min and h as units accepted for use with the SI).
  */
 import { describe, expect, test } from 'vitest';
-import { describeBalance, formatDuration, parseDurationText, SEGMENT_KINDS, SEGMENT_KIND_INFO, isSegmentKind } from '../../src/lib/rundown.ts';
+import {
+	describeBalance,
+	formatDuration,
+	parseDurationText,
+	SEGMENT_KINDS,
+	SEGMENT_KIND_INFO,
+	isSegmentKind
+} from '../../src/lib/rundown.ts';
 import { SCRIPT_CHARACTER_LIMIT, durationSchema } from '../../src/lib/schemas/episodes.ts';
 import { MAX_SCRIPT_CHARACTERS } from '../../src/lib/server/markdown.ts';
 import { runtimeBalance } from '../../src/lib/script/timing.ts';
@@ -25,9 +32,12 @@ describe('parseDurationText', () => {
 		expect(parseDurationText(text)).toBe(seconds);
 	});
 
-	test.each(['', '-30', '-1:30', '1:75', '1:60:00', 'about a minute', '1.5', '1:3'])('refuses %s', (text) => {
-		expect(parseDurationText(text)).toBeNull();
-	});
+	test.each(['', '-30', '-1:30', '1:75', '1:60:00', 'about a minute', '1.5', '1:3'])(
+		'refuses %s',
+		(text) => {
+			expect(parseDurationText(text)).toBeNull();
+		}
+	);
 });
 
 describe('durationSchema', () => {

@@ -98,7 +98,9 @@ describe('countSpokenWords', () => {
 		expect(countSpokenWords('Set the stands [[B-roll: jack stands]] under the rails')).toBe(6);
 		expect(countSpokenWords('[[Wide shot, host walks in]]\n\nWelcome back')).toBe(2);
 		expect(countSpokenWords('Tighten[[close-up]]it')).toBe(2);
-		expect(countSpokenWords('Now [[B-roll: **torque** wrench https://clips.example/7]] done')).toBe(2);
+		expect(countSpokenWords('Now [[B-roll: **torque** wrench https://clips.example/7]] done')).toBe(
+			2
+		);
 	});
 
 	test('escaped double brackets are spoken text, not a direction', () => {
@@ -142,7 +144,9 @@ describe('countSpokenWords', () => {
 	});
 
 	test('Windows line endings count the same as Unix ones', () => {
-		expect(countSpokenWords('# Title\r\n\r\nOne two\r\nthree')).toBe(countSpokenWords('# Title\n\nOne two\nthree'));
+		expect(countSpokenWords('# Title\r\n\r\nOne two\r\nthree')).toBe(
+			countSpokenWords('# Title\n\nOne two\nthree')
+		);
 	});
 });
 
@@ -199,9 +203,13 @@ describe('calibratePace', () => {
 
 	test('clamps implausible rates to 80–260 wpm', () => {
 		// Hand-worked: 600 words in 60 s = 600 wpm → clamped to 260.
-		expect(calibratePace([{ words: 600, recordedSeconds: 60 }]).wordsPerMinute).toBe(CALIBRATED_PACE_RANGE.maximum);
+		expect(calibratePace([{ words: 600, recordedSeconds: 60 }]).wordsPerMinute).toBe(
+			CALIBRATED_PACE_RANGE.maximum
+		);
 		// Hand-worked: 20 words in 60 s = 20 wpm → clamped to 80.
-		expect(calibratePace([{ words: 20, recordedSeconds: 60 }]).wordsPerMinute).toBe(CALIBRATED_PACE_RANGE.minimum);
+		expect(calibratePace([{ words: 20, recordedSeconds: 60 }]).wordsPerMinute).toBe(
+			CALIBRATED_PACE_RANGE.minimum
+		);
 		expect(CALIBRATED_PACE_RANGE).toEqual({ minimum: 80, maximum: 260 });
 	});
 
@@ -243,7 +251,11 @@ describe('runtimeBalance', () => {
 		expect(long.state).toBe('over');
 		expect(long.deltaSeconds).toBe(100);
 		expect(long.fraction).toBeCloseTo(7 / 6, 12);
-		expect(runtimeBalance(109, 120)).toEqual({ deltaSeconds: -11, state: 'under', fraction: 109 / 120 });
+		expect(runtimeBalance(109, 120)).toEqual({
+			deltaSeconds: -11,
+			state: 'under',
+			fraction: 109 / 120
+		});
 		expect(runtimeBalance(569, 600).state).toBe('under');
 	});
 

@@ -88,7 +88,11 @@ describe('parseTyreSize: the forms crews type', () => {
 	test('lower case, a space before the R and ZR all normalise to one code', () => {
 		expect(parseTyreSize('265/70 R17').code).toBe('265/70R17');
 		expect(parseTyreSize('  lt285/70r17  ').code).toBe('LT285/70R17');
-		expect(parseTyreSize('255/35zr19 96y')).toMatchObject({ code: '255/35ZR19 96Y', construction: 'ZR', loadIndex: 96 });
+		expect(parseTyreSize('255/35zr19 96y')).toMatchObject({
+			code: '255/35ZR19 96Y',
+			construction: 'ZR',
+			loadIndex: 96
+		});
 	});
 
 	test('construction letter is optional (then a space separates aspect ratio and rim)', () => {
@@ -118,8 +122,17 @@ describe('parseTyreSize: the forms crews type', () => {
 	});
 
 	test('flotation codes normalise: lower-case x, two-decimal width and an LT suffix', () => {
-		expect(parseTyreSize('33X12.5R15')).toMatchObject({ code: '33x12.50R15', diameterIn: 33, sectionWidthIn: 12.5, rimIn: 15 });
-		expect(parseTyreSize('37x13.50R20LT')).toMatchObject({ code: '37x13.50R20LT', diameterIn: 37, serviceType: 'LT' });
+		expect(parseTyreSize('33X12.5R15')).toMatchObject({
+			code: '33x12.50R15',
+			diameterIn: 33,
+			sectionWidthIn: 12.5,
+			rimIn: 15
+		});
+		expect(parseTyreSize('37x13.50R20LT')).toMatchObject({
+			code: '37x13.50R20LT',
+			diameterIn: 37,
+			serviceType: 'LT'
+		});
 	});
 });
 
@@ -146,7 +159,9 @@ describe('parseTyreSize: clear SpecError messages', () => {
 	});
 
 	test('a value that is not text is refused with a SpecError', () => {
-		expect(specErrorFrom(() => parseTyreSize(undefined as unknown as string)).message).toMatch(/as text/);
+		expect(specErrorFrom(() => parseTyreSize(undefined as unknown as string)).message).toMatch(
+			/as text/
+		);
 	});
 });
 
@@ -165,11 +180,30 @@ describe('parseTyreSize: properties (fast-check)', () => {
 
 	test('random text never throws anything but SpecError', () => {
 		fc.assert(fc.property(fc.string({ maxLength: 60 }), parsesOrRefusesCleanly), { numRuns: 1500 });
-		fc.assert(fc.property(fc.string({ unit: 'binary', maxLength: 60 }), parsesOrRefusesCleanly), { numRuns: 1000 });
+		fc.assert(fc.property(fc.string({ unit: 'binary', maxLength: 60 }), parsesOrRefusesCleanly), {
+			numRuns: 1000
+		});
 	});
 
 	test('near-miss codes built from digits, slashes, R and x never throw anything but SpecError', () => {
-		const piece = fc.constantFrom(...'0123456789', '/', 'R', 'r', 'x', 'X', '.', ' ', 'LT', 'P', 'ZR', 'D', 'S', '12', '70', '285');
+		const piece = fc.constantFrom(
+			...'0123456789',
+			'/',
+			'R',
+			'r',
+			'x',
+			'X',
+			'.',
+			' ',
+			'LT',
+			'P',
+			'ZR',
+			'D',
+			'S',
+			'12',
+			'70',
+			'285'
+		);
 		const nearMiss = fc.array(piece, { maxLength: 16 }).map((pieces) => pieces.join(''));
 		fc.assert(fc.property(nearMiss, parsesOrRefusesCleanly), { numRuns: 3000 });
 	});
@@ -181,7 +215,11 @@ describe('parseTyreSize: properties (fast-check)', () => {
 		construction: fc.constantFrom('R', 'r', 'ZR', 'D', 'B', ' R', 'R ', ' '),
 		rimHalves: fc.integer({ min: TYRE_LIMITS.rimIn.min * 2, max: TYRE_LIMITS.rimIn.max * 2 }),
 		service: fc.option(
-			fc.record({ load: fc.integer({ min: 60, max: 150 }), dualDrop: fc.option(fc.integer({ min: 1, max: 10 })), speed: fc.constantFrom('S', 'T', 'Q', 'h', 'V') })
+			fc.record({
+				load: fc.integer({ min: 60, max: 150 }),
+				dualDrop: fc.option(fc.integer({ min: 1, max: 10 })),
+				speed: fc.constantFrom('S', 'T', 'Q', 'h', 'V')
+			})
 		)
 	});
 
@@ -196,9 +234,17 @@ describe('parseTyreSize: properties (fast-check)', () => {
 				const first = parseTyreSize(typed);
 				const again = parseTyreSize(first.code);
 				expect(again).toEqual(first);
-				expect(first).toMatchObject({ kind: 'metric', sectionWidthMm: parts.width, aspectRatio: parts.aspect, rimIn: rim });
+				expect(first).toMatchObject({
+					kind: 'metric',
+					sectionWidthMm: parts.width,
+					aspectRatio: parts.aspect,
+					rimIn: rim
+				});
 				// Handbook formula, worked independently of the module: rim + 2 × W × AR ÷ 100 ÷ 25.4.
-				expect(first.diameterIn).toBeCloseTo(rim + (2 * parts.width * parts.aspect) / 100 / 25.4, 9);
+				expect(first.diameterIn).toBeCloseTo(
+					rim + (2 * parts.width * parts.aspect) / 100 / 25.4,
+					9
+				);
 			}),
 			{ numRuns: 1500 }
 		);

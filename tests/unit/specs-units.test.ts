@@ -71,7 +71,10 @@ describe('NIST SP 811 Appendix B.8 factors', () => {
 		expect(convertTorque(10, 'ft·lbf', 'in·lbf')).toBe(120);
 		expect(convertTorque(120, 'in·lbf', 'ft·lbf')).toBe(10);
 		// Through N·m the two rounded B.8 factors still agree to 1 part in 10⁶: 1.355818 ÷ 0.1129848 = 11.99999…
-		expect(convertTorque(10, 'ft·lbf', 'N·m') / NEWTON_METRES_PER_INCH_POUND_FORCE).toBeCloseTo(120, 3);
+		expect(convertTorque(10, 'ft·lbf', 'N·m') / NEWTON_METRES_PER_INCH_POUND_FORCE).toBeCloseTo(
+			120,
+			3
+		);
 	});
 });
 
@@ -85,11 +88,15 @@ describe('cross-check with convert-units (npm)', () => {
 
 	test('ft·lbf rebuilt from convert-units pound and foot × 9.80665 agrees to about 1 part in 10⁶', () => {
 		// convert-units has no torque; its pound is 453.592 g (not 453.59237), hence the 1e-6 tolerance.
-		const footPoundForceNm = convert(1).from('lb').to('kg') * STANDARD_GRAVITY * convert(1).from('ft').to('m');
-		const inchPoundForceNm = convert(1).from('lb').to('kg') * STANDARD_GRAVITY * convert(1).from('in').to('m');
+		const footPoundForceNm =
+			convert(1).from('lb').to('kg') * STANDARD_GRAVITY * convert(1).from('ft').to('m');
+		const inchPoundForceNm =
+			convert(1).from('lb').to('kg') * STANDARD_GRAVITY * convert(1).from('in').to('m');
 		expect(Math.abs(ftLbfToNm(1) - footPoundForceNm) / footPoundForceNm).toBeLessThan(1e-6);
 		expect(Math.abs(inLbfToNm(1) - inchPoundForceNm) / inchPoundForceNm).toBeLessThan(1e-6);
-		expect(Math.abs(lbfToN(1) - convert(1).from('lb').to('kg') * STANDARD_GRAVITY) / lbfToN(1)).toBeLessThan(1e-6);
+		expect(
+			Math.abs(lbfToN(1) - convert(1).from('lb').to('kg') * STANDARD_GRAVITY) / lbfToN(1)
+		).toBeLessThan(1e-6);
 	});
 });
 
@@ -111,8 +118,12 @@ describe('round trips and single rounding', () => {
 		// Reading the rounded on-screen N·m and converting it back is off by at most 0.5 N·m ÷ 1.355818 = 0.369 ft·lbf.
 		fc.assert(
 			fc.property(statedTorque, (footPounds) => {
-				const shownNm = Number(torqueCard({ value: footPounds, unit: 'ft·lbf' }).metric.split(' ')[0]);
-				expect(Math.abs(nmToFtLbf(shownNm) - footPounds)).toBeLessThanOrEqual(0.5 / 1.355818 + 1e-9);
+				const shownNm = Number(
+					torqueCard({ value: footPounds, unit: 'ft·lbf' }).metric.split(' ')[0]
+				);
+				expect(Math.abs(nmToFtLbf(shownNm) - footPounds)).toBeLessThanOrEqual(
+					0.5 / 1.355818 + 1e-9
+				);
 			}),
 			{ numRuns: 2000 }
 		);
@@ -141,18 +152,30 @@ describe('round trips and single rounding', () => {
 describe('torqueCard', () => {
 	test('95 ft·lbf reads 95 ft·lbf / 129 N·m', () => {
 		// 95 × 1.355818 = 128.80 → 129.
-		expect(torqueCard({ value: 95, unit: 'ft·lbf' })).toMatchObject({ imperial: '95 ft·lbf', metric: '129 N·m' });
+		expect(torqueCard({ value: 95, unit: 'ft·lbf' })).toMatchObject({
+			imperial: '95 ft·lbf',
+			metric: '129 N·m'
+		});
 	});
 
 	test('140 N·m reads 103 ft·lbf / 140 N·m', () => {
 		// 140 ÷ 1.355818 = 103.26 → 103.
-		expect(torqueCard({ value: 140, unit: 'N·m' })).toMatchObject({ imperial: '103 ft·lbf', metric: '140 N·m' });
+		expect(torqueCard({ value: 140, unit: 'N·m' })).toMatchObject({
+			imperial: '103 ft·lbf',
+			metric: '140 N·m'
+		});
 	});
 
 	test('small fasteners keep their meaning: in·lbf with N·m to 0.1, small N·m shown in in·lbf', () => {
 		// 80 × 0.1129848 = 9.04 N·m → "9.0 N·m"; 9 ÷ 0.1129848 = 79.66 in·lbf → "80 in·lbf".
-		expect(torqueCard({ value: 80, unit: 'in·lbf' })).toMatchObject({ imperial: '80 in·lbf', metric: '9.0 N·m' });
-		expect(torqueCard({ value: 9, unit: 'N·m' })).toMatchObject({ imperial: '80 in·lbf', metric: '9 N·m' });
+		expect(torqueCard({ value: 80, unit: 'in·lbf' })).toMatchObject({
+			imperial: '80 in·lbf',
+			metric: '9.0 N·m'
+		});
+		expect(torqueCard({ value: 9, unit: 'N·m' })).toMatchObject({
+			imperial: '80 in·lbf',
+			metric: '9 N·m'
+		});
 	});
 
 	test('zero, negative, non-numeric or absurd torque is refused with a SpecError', () => {

@@ -51,7 +51,7 @@ describe('cardsNeeded', () => {
 		expect(cardsNeeded(45, 32 * USABLE_CARD_FRACTION)).toBe(2);
 	});
 
-	test('footage equal to a card\'s nominal size needs a second card because of the allowance', () => {
+	test("footage equal to a card's nominal size needs a second card because of the allowance", () => {
 		// 45 GB on "45 GB" cards: usable 43.65 GB < 45 → 2.
 		expect(cardsNeeded(45, 45 * USABLE_CARD_FRACTION)).toBe(2);
 	});
@@ -86,11 +86,25 @@ describe('planStorage', () => {
 		const plan = planStorage(twoCameraDay);
 		const [aCam, bCam] = plan.cameras;
 		// A-cam: 100 Mbit/s × 3600 s = 45 GB per body; two bodies = 90 GB; 1 card each → 2.
-		expect(aCam).toMatchObject({ label: 'A-cam', count: 2, gigabytesPerCamera: 45, gigabytes: 90, cardsPerCamera: 1, cards: 2 });
+		expect(aCam).toMatchObject({
+			label: 'A-cam',
+			count: 2,
+			gigabytesPerCamera: 45,
+			gigabytes: 90,
+			cardsPerCamera: 1,
+			cards: 2
+		});
 		// 90 GB × 8000 ÷ 40 Mbit/s = 18,000 s.
 		expect(aCam?.uploadSeconds).toBe(18_000);
 		// B-cam: 50 Mbit/s × 3600 s = 22.5 GB; count defaults to 1; one card.
-		expect(bCam).toMatchObject({ label: 'B-cam', count: 1, gigabytesPerCamera: 22.5, gigabytes: 22.5, cardsPerCamera: 1, cards: 1 });
+		expect(bCam).toMatchObject({
+			label: 'B-cam',
+			count: 1,
+			gigabytesPerCamera: 22.5,
+			gigabytes: 22.5,
+			cardsPerCamera: 1,
+			cards: 1
+		});
 		// Totals: 90 + 22.5 = 112.5 GB; 3 cards; 112.5 × 8000 ÷ 40 = 22,500 s = 6 h 15 min.
 		expect(plan.totalGigabytes).toBe(112.5);
 		expect(plan.totalCards).toBe(3);
@@ -101,7 +115,11 @@ describe('planStorage', () => {
 
 	test('a roll-hours override replaces the ratio estimate', () => {
 		// 0.5 h = 1800 s; 100 Mbit/s × 1800 s = 22.5 GB.
-		const plan = planStorage({ ...twoCameraDay, cameras: [{ label: 'Bay cam', bitrateMbps: 100 }], rollHoursOverride: 0.5 });
+		const plan = planStorage({
+			...twoCameraDay,
+			cameras: [{ label: 'Bay cam', bitrateMbps: 100 }],
+			rollHoursOverride: 0.5
+		});
 		expect(plan.rollSeconds).toBe(1800);
 		expect(plan.rollTimeSource).toBe('override');
 		expect(plan.totalGigabytes).toBe(22.5);
@@ -124,7 +142,10 @@ describe('planStorage', () => {
 	});
 
 	test('camera labels are trimmed', () => {
-		expect(planStorage({ ...twoCameraDay, cameras: [{ label: '  Jib  ', bitrateMbps: 50 }] }).cameras[0]?.label).toBe('Jib');
+		expect(
+			planStorage({ ...twoCameraDay, cameras: [{ label: '  Jib  ', bitrateMbps: 50 }] }).cameras[0]
+				?.label
+		).toBe('Jib');
 	});
 
 	describe('rejects bad input with a PlannerError naming the field', () => {
@@ -140,8 +161,16 @@ describe('planStorage', () => {
 			['zero override', { rollHoursOverride: 0 }, 'rollHoursOverride'],
 			['blank camera label', { cameras: [{ label: '  ', bitrateMbps: 50 }] }, 'cameras.0.label'],
 			['zero bitrate', { cameras: [{ label: 'A-cam', bitrateMbps: 0 }] }, 'cameras.0.bitrateMbps'],
-			['fractional camera count', { cameras: [{ label: 'A-cam', bitrateMbps: 50, count: 1.5 }] }, 'cameras.0.count'],
-			['zero camera count', { cameras: [{ label: 'A-cam', bitrateMbps: 50, count: 0 }] }, 'cameras.0.count']
+			[
+				'fractional camera count',
+				{ cameras: [{ label: 'A-cam', bitrateMbps: 50, count: 1.5 }] },
+				'cameras.0.count'
+			],
+			[
+				'zero camera count',
+				{ cameras: [{ label: 'A-cam', bitrateMbps: 50, count: 0 }] },
+				'cameras.0.count'
+			]
 		];
 
 		test.each(cases)('%s', (_name, change, field) => {

@@ -205,7 +205,9 @@ describe('real time at the exact rates', () => {
 
 	test('negative or non-numeric seconds are refused', () => {
 		expect(timecodeErrorFor(() => secondsToFrames(-1, '25')).message).toContain('0 or more');
-		expect(timecodeErrorFor(() => secondsToFrames(Number.NaN, '25')).message).toContain('0 or more');
+		expect(timecodeErrorFor(() => secondsToFrames(Number.NaN, '25')).message).toContain(
+			'0 or more'
+		);
 	});
 });
 
@@ -240,7 +242,9 @@ describe('agreement with smpte-timecode (independent reference implementation)',
 	for (const { rate, dropFrame } of RATE_MODES) {
 		const { numerator, denominator } = exactFps(rate);
 		const mode = dropFrame ? 'DF' : 'NDF';
-		const framesPerDay = dropFrame ? 24 * parseTimecode('01:00:00;00', rate) : 24 * 3600 * nominalFps(rate);
+		const framesPerDay = dropFrame
+			? 24 * parseTimecode('01:00:00;00', rate)
+			: 24 * 3600 * nominalFps(rate);
 
 		test(`formatted labels and parsed counts match at ${rate} ${mode}`, () => {
 			fc.assert(
@@ -346,12 +350,16 @@ describe('error messages a person understands', () => {
 	});
 
 	test('letters are pointed out', () => {
-		expect(timecodeErrorFor(() => parseTimecode('1:3O', '25')).message).toContain('has letters in it');
+		expect(timecodeErrorFor(() => parseTimecode('1:3O', '25')).message).toContain(
+			'has letters in it'
+		);
 		expect(timecodeErrorFor(() => parseTimecode('ten past', '25')).message).toContain('“ten past”');
 	});
 
 	test('a negative time is refused as negative', () => {
-		expect(timecodeErrorFor(() => parseTimecode('-00:00:01:00', '25')).message).toContain('is negative');
+		expect(timecodeErrorFor(() => parseTimecode('-00:00:01:00', '25')).message).toContain(
+			'is negative'
+		);
 		expect(timecodeErrorFor(() => parseTimecode('-0:05', '25')).message).toContain('is negative');
 	});
 
@@ -359,16 +367,28 @@ describe('error messages a person understands', () => {
 		expect(timecodeErrorFor(() => parseTimecode('00:00:01:25', '25')).message).toBe(
 			'“00:00:01:25” has frame 25, but at 25 fps the frames go from 00 to 24.'
 		);
-		expect(timecodeErrorFor(() => parseTimecode('00:00:01;30', '29.97')).message).toContain('from 00 to 29');
-		expect(timecodeErrorFor(() => parseTimecode('00:00:01:24', '23.976')).message).toContain('from 00 to 23');
+		expect(timecodeErrorFor(() => parseTimecode('00:00:01;30', '29.97')).message).toContain(
+			'from 00 to 29'
+		);
+		expect(timecodeErrorFor(() => parseTimecode('00:00:01:24', '23.976')).message).toContain(
+			'from 00 to 23'
+		);
 	});
 
 	test('minutes or seconds of 60 or more are refused in timecodes and clock times', () => {
-		expect(timecodeErrorFor(() => parseTimecode('00:60:00:00', '25')).message).toContain('has 60 minutes');
-		expect(timecodeErrorFor(() => parseTimecode('00:00:75:00', '25')).message).toContain('has 75 seconds');
+		expect(timecodeErrorFor(() => parseTimecode('00:60:00:00', '25')).message).toContain(
+			'has 60 minutes'
+		);
+		expect(timecodeErrorFor(() => parseTimecode('00:00:75:00', '25')).message).toContain(
+			'has 75 seconds'
+		);
 		expect(timecodeErrorFor(() => parseTimecode('1:60', '25')).message).toContain('has 60 seconds');
-		expect(timecodeErrorFor(() => parseTimecode('75:00', '25')).message).toContain('has 75 minutes');
-		expect(timecodeErrorFor(() => parseTimecode('1:61:00.000', '25')).message).toContain('has 61 minutes');
+		expect(timecodeErrorFor(() => parseTimecode('75:00', '25')).message).toContain(
+			'has 75 minutes'
+		);
+		expect(timecodeErrorFor(() => parseTimecode('1:61:00.000', '25')).message).toContain(
+			'has 61 minutes'
+		);
 	});
 
 	test('a dropped drop-frame label is named as missing, with the label to use instead', () => {
@@ -377,8 +397,12 @@ describe('error messages a person understands', () => {
 		const message = timecodeErrorFor(() => parseTimecode('00:01:00;00', '29.97')).message;
 		expect(message).toContain("doesn't exist in drop-frame");
 		expect(message).toContain('Use 00:01:00;02');
-		expect(timecodeErrorFor(() => parseTimecode('00:01:00;01', '29.97')).message).toContain('Use 00:01:00;02');
-		expect(timecodeErrorFor(() => parseTimecode('00:07:00;03', '59.94')).message).toContain('Use 00:07:00;04');
+		expect(timecodeErrorFor(() => parseTimecode('00:01:00;01', '29.97')).message).toContain(
+			'Use 00:01:00;02'
+		);
+		expect(timecodeErrorFor(() => parseTimecode('00:07:00;03', '59.94')).message).toContain(
+			'Use 00:07:00;04'
+		);
 		// Tenth minutes keep their ;00 label.
 		expect(parseTimecode('00:20:00;00', '29.97')).toBe(frameCountByFormula(0, 20, 0, 0, 30));
 	});
@@ -390,17 +414,19 @@ describe('error messages a person understands', () => {
 	});
 
 	test('asking for drop-frame at a rate without it is refused', () => {
-		expect(timecodeErrorFor(() => formatTimecode(100, '24', { dropFrame: true })).message).toContain(
-			'only exists at 29.97 and 59.94 fps'
-		);
-		expect(timecodeErrorFor(() => parseTimecode('00:00:01:00', '60', { dropFrame: true })).message).toContain(
-			'only exists at 29.97 and 59.94 fps'
-		);
+		expect(
+			timecodeErrorFor(() => formatTimecode(100, '24', { dropFrame: true })).message
+		).toContain('only exists at 29.97 and 59.94 fps');
+		expect(
+			timecodeErrorFor(() => parseTimecode('00:00:01:00', '60', { dropFrame: true })).message
+		).toContain('only exists at 29.97 and 59.94 fps');
 	});
 
 	test('shapes that are neither a timecode nor a clock time are refused', () => {
 		for (const text of ['1:5:00', '00:00:00:00:00', '12', '1.5', '00:00:00,000', ':30', '1:2']) {
-			expect(timecodeErrorFor(() => parseTimecode(text, '25')).message, text).toContain("isn't a timecode");
+			expect(timecodeErrorFor(() => parseTimecode(text, '25')).message, text).toContain(
+				"isn't a timecode"
+			);
 		}
 	});
 

@@ -12,38 +12,82 @@
 import { createRequire } from 'node:module';
 import fc from 'fast-check';
 import { describe, expect, test } from 'vitest';
-import { campaignSlug, dayWindow, isLinkCode, newLinkCode, trackedUrl } from '$lib/server/tracked-links';
+import {
+	campaignSlug,
+	dayWindow,
+	isLinkCode,
+	newLinkCode,
+	trackedUrl
+} from '$lib/server/tracked-links';
 
 const require = createRequire(import.meta.url);
 // url-parse: new Url(address, true) parses the query into an object with querystringify.
-const Url = require('url-parse') as new (address: string, parseQuery: true) => { protocol: string; host: string; pathname: string; query: Record<string, string>; hash: string };
+const Url = require('url-parse') as new (
+	address: string,
+	parseQuery: true
+) => {
+	protocol: string;
+	host: string;
+	pathname: string;
+	query: Record<string, string>;
+	hash: string;
+};
 
-const tags = { source: 'torquehaven-garage', campaign: 'tallboy-coil-spacers', content: 'IBS-CS-150' };
+const tags = {
+	source: 'torquehaven-garage',
+	campaign: 'tallboy-coil-spacers',
+	content: 'IBS-CS-150'
+};
 
 describe('trackedUrl', () => {
 	test('a plain store URL gains the four campaign parameters', () => {
 		const built = trackedUrl('https://shop.torquehaven.test/p/ibs-cs-150', tags);
-		expect(built).toBe('https://shop.torquehaven.test/p/ibs-cs-150?utm_source=torquehaven-garage&utm_medium=video&utm_campaign=tallboy-coil-spacers&utm_content=IBS-CS-150');
+		expect(built).toBe(
+			'https://shop.torquehaven.test/p/ibs-cs-150?utm_source=torquehaven-garage&utm_medium=video&utm_campaign=tallboy-coil-spacers&utm_content=IBS-CS-150'
+		);
 		const parsed = new Url(built, true);
-		expect(parsed.query).toEqual({ utm_source: 'torquehaven-garage', utm_medium: 'video', utm_campaign: 'tallboy-coil-spacers', utm_content: 'IBS-CS-150' });
+		expect(parsed.query).toEqual({
+			utm_source: 'torquehaven-garage',
+			utm_medium: 'video',
+			utm_campaign: 'tallboy-coil-spacers',
+			utm_content: 'IBS-CS-150'
+		});
 	});
 
 	test('the store’s own query string is kept byte for byte, and its fragment stays last', () => {
-		const store = 'https://shop.torquehaven.test/p/kit?size=33x12.50R15&note=a%20b&flag&ref=catalogue#fitment';
+		const store =
+			'https://shop.torquehaven.test/p/kit?size=33x12.50R15&note=a%20b&flag&ref=catalogue#fitment';
 		const built = trackedUrl(store, tags);
-		expect(built.startsWith('https://shop.torquehaven.test/p/kit?size=33x12.50R15&note=a%20b&flag&ref=catalogue&utm_source=')).toBe(true);
+		expect(
+			built.startsWith(
+				'https://shop.torquehaven.test/p/kit?size=33x12.50R15&note=a%20b&flag&ref=catalogue&utm_source='
+			)
+		).toBe(true);
 		const parsed = new Url(built, true);
 		expect(parsed.hash).toBe('#fitment');
-		expect(parsed.query).toMatchObject({ size: '33x12.50R15', note: 'a b', ref: 'catalogue', utm_content: 'IBS-CS-150', utm_medium: 'video' });
+		expect(parsed.query).toMatchObject({
+			size: '33x12.50R15',
+			note: 'a b',
+			ref: 'catalogue',
+			utm_content: 'IBS-CS-150',
+			utm_medium: 'video'
+		});
 	});
 
 	test('an earlier campaign parameter of the same name is replaced, not repeated', () => {
-		const built = trackedUrl('https://shop.test/p/x?utm_source=newsletter&colour=black&utm_medium=email', tags);
+		const built = trackedUrl(
+			'https://shop.test/p/x?utm_source=newsletter&colour=black&utm_medium=email',
+			tags
+		);
 		const query = new URL(built).searchParams;
 		expect(query.getAll('utm_source')).toEqual(['torquehaven-garage']);
 		expect(query.getAll('utm_medium')).toEqual(['video']);
 		expect(query.get('colour')).toBe('black');
-		expect(new Url(built, true).query).toMatchObject({ colour: 'black', utm_source: 'torquehaven-garage', utm_medium: 'video' });
+		expect(new Url(built, true).query).toMatchObject({
+			colour: 'black',
+			utm_source: 'torquehaven-garage',
+			utm_medium: 'video'
+		});
 	});
 
 	test('a part number with spaces, “&”, “+” and “#” is encoded so it reads back whole', () => {
@@ -56,7 +100,11 @@ describe('trackedUrl', () => {
 
 	test('http addresses and ports are kept', () => {
 		const parsed = new Url(trackedUrl('http://127.0.0.1:8080/shop/p', tags), true);
-		expect([parsed.protocol, parsed.host, parsed.pathname]).toEqual(['http:', '127.0.0.1:8080', '/shop/p']);
+		expect([parsed.protocol, parsed.host, parsed.pathname]).toEqual([
+			'http:',
+			'127.0.0.1:8080',
+			'/shop/p'
+		]);
 	});
 
 	test('for any store URL: its path, query and fragment survive, and the four parameters read back (property)', () => {

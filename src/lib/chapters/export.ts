@@ -89,7 +89,9 @@ function isWebAddress(text: string): boolean {
 function timeChapters(chapters: readonly Chapter[], options: ChapterExportOptions): TimedChapter[] {
 	const { rate, cutEndFrame } = options;
 	if (!Number.isSafeInteger(cutEndFrame) || cutEndFrame <= 0) {
-		throw new ChapterExportError("The cut has no length yet; set where the cut ends before exporting chapters.");
+		throw new ChapterExportError(
+			'The cut has no length yet; set where the cut ends before exporting chapters.'
+		);
 	}
 	if (chapters.length === 0) {
 		throw new ChapterExportError('There are no chapters to export yet; add at least one.');
@@ -100,7 +102,9 @@ function timeChapters(chapters: readonly Chapter[], options: ChapterExportOption
 		const name = nameChapter(chapter.position, chapter.title);
 		const start = chapter.startFrame;
 		if (!Number.isSafeInteger(start) || start < 0) {
-			throw new ChapterExportError(`${name} has no usable start time; set it to a frame inside the cut.`);
+			throw new ChapterExportError(
+				`${name} has no usable start time; set it to a frame inside the cut.`
+			);
 		}
 		if (start >= cutEndFrame) {
 			throw new ChapterExportError(
@@ -115,9 +119,12 @@ function timeChapters(chapters: readonly Chapter[], options: ChapterExportOption
 		}
 		const title = normaliseTitle(chapter.title);
 		if (title === '') {
-			throw new ChapterExportError(`Chapter ${chapter.position + 1} has no title; give it one before exporting.`);
+			throw new ChapterExportError(
+				`Chapter ${chapter.position + 1} has no title; give it one before exporting.`
+			);
 		}
-		const url = typeof chapter.url === 'string' && chapter.url.trim() !== '' ? chapter.url.trim() : null;
+		const url =
+			typeof chapter.url === 'string' && chapter.url.trim() !== '' ? chapter.url.trim() : null;
 		if (url !== null && !isWebAddress(url)) {
 			throw new ChapterExportError(
 				`${name} links to “${url}”, which isn't a web address (http:// or https://); fix the link or clear it.`
@@ -139,7 +146,10 @@ function timeChapters(chapters: readonly Chapter[], options: ChapterExportOption
 function toDescriptionText(chapters: TimedChapter[], cutEndMilliseconds: number): string {
 	const hours = cutEndMilliseconds >= 3_600_000 ? 'always' : 'auto';
 	return chapters
-		.map((chapter) => `${formatMilliseconds(chapter.startMilliseconds, { hours })} ${singleLineTitle(chapter.title)}\n`)
+		.map(
+			(chapter) =>
+				`${formatMilliseconds(chapter.startMilliseconds, { hours })} ${singleLineTitle(chapter.title)}\n`
+		)
 		.join('');
 }
 
@@ -234,15 +244,29 @@ export function exportChapters(
 		case 'vtt':
 			return { body: toWebVtt(timed), contentType: 'text/vtt; charset=utf-8', extension: 'vtt' };
 		case 'ffmetadata':
-			return { body: toFfmetadata(timed), contentType: 'text/plain; charset=utf-8', extension: 'ffmeta' };
+			return {
+				body: toFfmetadata(timed),
+				contentType: 'text/plain; charset=utf-8',
+				extension: 'ffmeta'
+			};
 		case 'json':
 			// The content type the Podcasting 2.0 JSON chapters spec names (jsonChapters.md, v1.2).
-			return { body: toPodcastJson(timed), contentType: 'application/json+chapters', extension: 'json' };
+			return {
+				body: toPodcastJson(timed),
+				contentType: 'application/json+chapters',
+				extension: 'json'
+			};
 		case 'csv':
-			return { body: toCsv(timed, options), contentType: 'text/csv; charset=utf-8', extension: 'csv' };
+			return {
+				body: toCsv(timed, options),
+				contentType: 'text/csv; charset=utf-8',
+				extension: 'csv'
+			};
 		default: {
 			const unknown: never = format;
-			throw new ChapterExportError(`“${String(unknown)}” isn't an export format; pick one of ${CHAPTER_FORMATS.join(', ')}.`);
+			throw new ChapterExportError(
+				`“${String(unknown)}” isn't an export format; pick one of ${CHAPTER_FORMATS.join(', ')}.`
+			);
 		}
 	}
 }

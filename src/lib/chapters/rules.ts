@@ -99,7 +99,7 @@ export function validateChapters(
 		problems.push({
 			index: null,
 			field: 'list',
-			message: "The cut has no length yet; set where the cut ends before checking its chapters."
+			message: 'The cut has no length yet; set where the cut ends before checking its chapters.'
 		});
 	}
 	if (chapters.length < MIN_CHAPTER_COUNT) {

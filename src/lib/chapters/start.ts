@@ -18,9 +18,12 @@ export function chapterStartFromText(text: string, rate: FrameRate): number {
 	if (!clock) return nearest;
 	const [, hours = '0', minutes, seconds, fraction = ''] = clock;
 	const scale = 10n ** BigInt(fraction.length);
-	const typedScaled = (BigInt(hours) * 3600n + BigInt(minutes) * 60n + BigInt(seconds)) * scale + BigInt(fraction || '0');
+	const typedScaled =
+		(BigInt(hours) * 3600n + BigInt(minutes) * 60n + BigInt(seconds)) * scale +
+		BigInt(fraction || '0');
 	const { numerator, denominator } = exactFps(rate);
 	// Frame n starts at n·den/num seconds; compare in integers so no rounding can decide it.
-	const startsBeforeTyped = BigInt(nearest) * BigInt(denominator) * scale < typedScaled * BigInt(numerator);
+	const startsBeforeTyped =
+		BigInt(nearest) * BigInt(denominator) * scale < typedScaled * BigInt(numerator);
 	return startsBeforeTyped ? nearest + 1 : nearest;
 }

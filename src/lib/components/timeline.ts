@@ -61,7 +61,9 @@ export const TIMELINE_KEYS: readonly { keys: string[]; does: string }[] = [
 ];
 
 /** The timeline action for a key press, or null to let the browser have the key. */
-export function keyAction(event: Pick<KeyboardEvent, 'key' | 'shiftKey' | 'ctrlKey' | 'metaKey' | 'altKey'>): TimelineAction | null {
+export function keyAction(
+	event: Pick<KeyboardEvent, 'key' | 'shiftKey' | 'ctrlKey' | 'metaKey' | 'altKey'>
+): TimelineAction | null {
 	const modified = event.ctrlKey || event.metaKey || event.altKey;
 	if (modified) return null; // leave the browser's and the screen reader's shortcuts alone
 	switch (event.key) {
@@ -100,7 +102,11 @@ export function keyAction(event: Pick<KeyboardEvent, 'key' | 'shiftKey' | 'ctrlK
 }
 
 /** Seconds between labelled ruler ticks: the finest step that leaves at least `minimumPixels` between labels. */
-export function rulerStepSeconds(durationSeconds: number, trackPixels: number, minimumPixels = 72): number {
+export function rulerStepSeconds(
+	durationSeconds: number,
+	trackPixels: number,
+	minimumPixels = 72
+): number {
 	const steps = [1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200];
 	if (durationSeconds <= 0 || trackPixels <= 0) return steps[steps.length - 1];
 	const pixelsPerSecond = trackPixels / durationSeconds;

@@ -25,14 +25,20 @@ const startFrameSchema = z
 
 const titleSchema = z
 	.string({ error: 'Give the chapter a title.' })
-	.max(CHAPTER_TITLE_HARD_LIMIT, `Keep the title well under ${CHAPTER_TITLE_HARD_LIMIT} characters (chapters read best under 100).`);
+	.max(
+		CHAPTER_TITLE_HARD_LIMIT,
+		`Keep the title well under ${CHAPTER_TITLE_HARD_LIMIT} characters (chapters read best under 100).`
+	);
 
 /** A link for the chapter (a featured part's shop page): http or https only, or null to clear it. */
 const urlSchema = z
 	.string({ error: 'The link is a web address.' })
 	.trim()
 	.max(2000, 'That link is too long.')
-	.refine((text) => text === '' || (/^https?:\/\/\S+$/i.test(text) && URL.canParse(text)), 'The link has to be a web address starting with http:// or https://.')
+	.refine(
+		(text) => text === '' || (/^https?:\/\/\S+$/i.test(text) && URL.canParse(text)),
+		'The link has to be a web address starting with http:// or https://.'
+	)
 	.transform((text) => (text === '' ? null : text))
 	.nullable();
 
@@ -60,7 +66,8 @@ export const chapterCreateSchema = z
 	.strict()
 	.refine((input) => (input.start === undefined) !== (input.startFrame === undefined), {
 		path: ['start'],
-		message: 'Say where the chapter starts: a timecode or clock time in start, or a frame count in startFrame (one of them).'
+		message:
+			'Say where the chapter starts: a timecode or clock time in start, or a frame count in startFrame (one of them).'
 	});
 
 export const chapterUpdateSchema = z
@@ -75,12 +82,16 @@ export const chapterUpdateSchema = z
 	.strict()
 	.refine((input) => input.start === undefined || input.startFrame === undefined, {
 		path: ['start'],
-		message: 'Send the new start either as text in start or as a frame count in startFrame, not both.'
+		message:
+			'Send the new start either as text in start or as a frame count in startFrame, not both.'
 	});
 
-export const chapterFormatSchema = z.enum(CHAPTER_FORMATS as unknown as [ChapterFormat, ...ChapterFormat[]], {
-	error: `Pick an export format: ${CHAPTER_FORMATS.join(', ')}.`
-});
+export const chapterFormatSchema = z.enum(
+	CHAPTER_FORMATS as unknown as [ChapterFormat, ...ChapterFormat[]],
+	{
+		error: `Pick an export format: ${CHAPTER_FORMATS.join(', ')}.`
+	}
+);
 
 export type CutUpdate = z.infer<typeof cutUpdateSchema>;
 export type ChapterCreate = z.infer<typeof chapterCreateSchema>;

@@ -22,44 +22,71 @@ export const MAX_TARGET_RUNTIME_SECONDS = 4 * 3600;
 export const MAX_SEGMENT_SECONDS = 10 * 3600;
 export const MAX_SEGMENTS_PER_EPISODE = 200;
 
-const uuid = (what: string) => z.string({ error: `Pick ${what}.` }).regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, `That is not ${what} of this channel.`);
+const uuid = (what: string) =>
+	z
+		.string({ error: `Pick ${what}.` })
+		.regex(
+			/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i,
+			`That is not ${what} of this channel.`
+		);
 
 /** A duration typed as seconds, `m:ss` or `1m30s`, or sent as a number of seconds. */
 export function durationSchema(what: string, max: number) {
-	return z.union([z.number(), z.string()], { error: `Enter the ${what} as minutes:seconds, e.g. 1:30.` }).transform((value, context) => {
-		const text = String(value).trim();
-		if (/^[-−]/.test(text)) {
-			context.addIssue({ code: 'custom', message: `The ${what} can’t be negative. Enter 0 or more, e.g. 1:30.` });
-			return z.NEVER;
-		}
-		const seconds = typeof value === 'number' ? value : parseDurationText(text);
-		if (seconds === null || !Number.isFinite(seconds)) {
-			context.addIssue({ code: 'custom', message: `“${text}” is not a duration. Enter minutes:seconds (1:30) or seconds (90).` });
-			return z.NEVER;
-		}
-		if (!Number.isInteger(seconds)) {
-			context.addIssue({ code: 'custom', message: `Enter the ${what} in whole seconds.` });
-			return z.NEVER;
-		}
-		if (seconds > max) {
-			context.addIssue({ code: 'custom', message: `The ${what} is longer than ${Math.round(max / 3600)} hours: check the number.` });
-			return z.NEVER;
-		}
-		return seconds;
-	});
+	return z
+		.union([z.number(), z.string()], { error: `Enter the ${what} as minutes:seconds, e.g. 1:30.` })
+		.transform((value, context) => {
+			const text = String(value).trim();
+			if (/^[-−]/.test(text)) {
+				context.addIssue({
+					code: 'custom',
+					message: `The ${what} can’t be negative. Enter 0 or more, e.g. 1:30.`
+				});
+				return z.NEVER;
+			}
+			const seconds = typeof value === 'number' ? value : parseDurationText(text);
+			if (seconds === null || !Number.isFinite(seconds)) {
+				context.addIssue({
+					code: 'custom',
+					message: `“${text}” is not a duration. Enter minutes:seconds (1:30) or seconds (90).`
+				});
+				return z.NEVER;
+			}
+			if (!Number.isInteger(seconds)) {
+				context.addIssue({ code: 'custom', message: `Enter the ${what} in whole seconds.` });
+				return z.NEVER;
+			}
+			if (seconds > max) {
+				context.addIssue({
+					code: 'custom',
+					message: `The ${what} is longer than ${Math.round(max / 3600)} hours: check the number.`
+				});
+				return z.NEVER;
+			}
+			return seconds;
+		});
 }
 
-const title = z.string({ error: 'Give it a title.' }).trim().min(1, 'Give it a title.').max(120, 'Keep the title under 120 characters.');
+const title = z
+	.string({ error: 'Give it a title.' })
+	.trim()
+	.min(1, 'Give it a title.')
+	.max(120, 'Keep the title under 120 characters.');
 const slug = z
 	.string()
 	.trim()
 	.max(80, 'Keep the slug under 80 characters.')
-	.regex(/^$|^[a-z0-9]+(?:-[a-z0-9]+)*$/, 'Use lower-case letters, digits and single hyphens, e.g. mule-rear-block-lift.');
+	.regex(
+		/^$|^[a-z0-9]+(?:-[a-z0-9]+)*$/,
+		'Use lower-case letters, digits and single hyphens, e.g. mule-rear-block-lift.'
+	);
 const publishDate = z
 	.string()
 	.trim()
 	.regex(/^$|^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
-	.refine((value) => value === '' || !Number.isNaN(Date.parse(`${value}T00:00:00Z`)), 'That date does not exist.')
+	.refine(
+		(value) => value === '' || !Number.isNaN(Date.parse(`${value}T00:00:00Z`)),
+		'That date does not exist.'
+	)
 	.transform((value) => (value === '' ? null : value))
 	.nullable();
 
@@ -67,17 +94,27 @@ export const ASSIGNABLE_ROLES = ['host', 'camera', 'editor', 'merch'] as const;
 export type AssignableRole = (typeof ASSIGNABLE_ROLES)[number];
 
 const assignments = z
-	.object(Object.fromEntries(ASSIGNABLE_ROLES.map((role) => [role, uuid('a crew member').nullable().optional()])) as Record<AssignableRole, z.ZodOptional<z.ZodNullable<z.ZodString>>>)
+	.object(
+		Object.fromEntries(
+			ASSIGNABLE_ROLES.map((role) => [role, uuid('a crew member').nullable().optional()])
+		) as Record<AssignableRole, z.ZodOptional<z.ZodNullable<z.ZodString>>>
+	)
 	.strict();
 
 const episodeFields = {
 	title,
 	slug: slug.optional(),
 	logline: z.string().trim().max(500, 'Keep the logline under 500 characters.').optional(),
-	targetRuntimeSeconds: durationSchema('target runtime', MAX_TARGET_RUNTIME_SECONDS).refine((seconds) => seconds > 0, 'Give the episode a target runtime above 0, e.g. 12:00.'),
+	targetRuntimeSeconds: durationSchema('target runtime', MAX_TARGET_RUNTIME_SECONDS).refine(
+		(seconds) => seconds > 0,
+		'Give the episode a target runtime above 0, e.g. 12:00.'
+	),
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
 	publishDate: publishDate.optional(),
-	buildIds: z.array(uuid('a build'), { error: 'Pick builds from the list.' }).max(10, 'Feature at most 10 builds.').optional(),
+	buildIds: z
+		.array(uuid('a build'), { error: 'Pick builds from the list.' })
+		.max(10, 'Feature at most 10 builds.')
+		.optional(),
 	assignments: assignments.optional()
 };
 
@@ -85,7 +122,10 @@ export const episodeCreateSchema = z.object(episodeFields).strict();
 export type EpisodeCreate = z.infer<typeof episodeCreateSchema>;
 
 export const episodeUpdateSchema = z
-	.object({ ...episodeFields, version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1) })
+	.object({
+		...episodeFields,
+		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+	})
 	.partial({ title: true, targetRuntimeSeconds: true, frameRate: true })
 	.strict();
 export type EpisodeUpdate = z.infer<typeof episodeUpdateSchema>;
@@ -94,27 +134,46 @@ export const EPISODE_SORTS = ['publish', 'title', 'stage', 'created'] as const;
 export const episodeListQuerySchema = z.object({
 	stage: z.enum(STAGES).optional(),
 	assignee: uuid('a crew member').optional(),
-	from: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.').optional(),
-	to: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.').optional(),
+	from: z
+		.string()
+		.regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
+		.optional(),
+	to: z
+		.string()
+		.regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
+		.optional(),
 	sort: z.enum(EPISODE_SORTS).default('publish'),
 	direction: z.enum(['asc', 'desc']).default('asc')
 });
 export type EpisodeListQuery = z.infer<typeof episodeListQuerySchema>;
 
-const hazards = z.array(z.enum(HAZARD_IDS, { error: 'Pick hazards from the list.' })).max(HAZARD_IDS.length);
+const hazards = z
+	.array(z.enum(HAZARD_IDS, { error: 'Pick hazards from the list.' }))
+	.max(HAZARD_IDS.length);
 
 const segmentFields = {
 	kind: z.enum(SEGMENT_KINDS, { error: 'Pick a kind of segment from the list.' }),
-	title: z.string({ error: 'Give the segment a title.' }).trim().min(1, 'Give the segment a title.').max(120, 'Keep the title under 120 characters.'),
+	title: z
+		.string({ error: 'Give the segment a title.' })
+		.trim()
+		.min(1, 'Give the segment a title.')
+		.max(120, 'Keep the title under 120 characters.'),
 	plannedSeconds: durationSchema('planned duration', MAX_SEGMENT_SECONDS),
 	buildId: uuid('a build').nullable().optional(),
 	needsFootage: z.boolean().optional(),
 	hazards: hazards.optional(),
 	promiseEpisodeId: uuid('an episode').nullable().optional(),
-	promiseTitle: z.string().trim().max(120, 'Keep the follow-up title under 120 characters.').nullable().optional()
+	promiseTitle: z
+		.string()
+		.trim()
+		.max(120, 'Keep the follow-up title under 120 characters.')
+		.nullable()
+		.optional()
 };
 
-export const segmentCreateSchema = z.object({ ...segmentFields, plannedSeconds: segmentFields.plannedSeconds.default(0) }).strict();
+export const segmentCreateSchema = z
+	.object({ ...segmentFields, plannedSeconds: segmentFields.plannedSeconds.default(0) })
+	.strict();
 export type SegmentCreate = z.infer<typeof segmentCreateSchema>;
 
 export const segmentUpdateSchema = z
@@ -122,7 +181,12 @@ export const segmentUpdateSchema = z
 		...segmentFields,
 		/** Length in the cut: timecode or clock text at the episode's rate, or a frame count; null clears it. */
 		recorded: z.string().trim().max(20).nullable().optional(),
-		recordedFrames: z.number().int('A frame count is a whole number.').min(0, 'A length can’t be negative.').nullable().optional(),
+		recordedFrames: z
+			.number()
+			.int('A frame count is a whole number.')
+			.min(0, 'A length can’t be negative.')
+			.nullable()
+			.optional(),
 		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
 	})
 	.partial({ kind: true, title: true, plannedSeconds: true })
@@ -134,7 +198,15 @@ export const segmentDeleteSchema = z.object({ version: z.coerce.number().int().m
 export const reorderSchema = z
 	.object({
 		order: z
-			.array(z.string().regex(/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i, 'That is not a segment id.'), { error: 'Send the segment ids in their new order.' })
+			.array(
+				z
+					.string()
+					.regex(
+						/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i,
+						'That is not a segment id.'
+					),
+				{ error: 'Send the segment ids in their new order.' }
+			)
 			.min(1, 'Send the segment ids in their new order.')
 			.max(MAX_SEGMENTS_PER_EPISODE)
 	})
@@ -142,17 +214,38 @@ export const reorderSchema = z
 
 const scriptBody = z
 	.string({ error: 'Send the script as text.' })
-	.max(SCRIPT_CHARACTER_LIMIT, `A segment’s script is limited to ${SCRIPT_CHARACTER_LIMIT.toLocaleString('en')} characters: split it into two segments.`);
+	.max(
+		SCRIPT_CHARACTER_LIMIT,
+		`A segment’s script is limited to ${SCRIPT_CHARACTER_LIMIT.toLocaleString('en')} characters: split it into two segments.`
+	);
 
-export const scriptSaveSchema = z.object({ body: scriptBody, version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1) }).strict();
+export const scriptSaveSchema = z
+	.object({
+		body: scriptBody,
+		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+	})
+	.strict();
 export const scriptPreviewSchema = z.object({ markdown: scriptBody }).strict();
 
 export const cautionUpdateSchema = z
 	.object({
-		text: z.string().trim().min(1, 'A caution needs its text; the default wording is a good start.').max(CAUTION_MAX_CHARACTERS, `Keep a caution under ${CAUTION_MAX_CHARACTERS} characters so it can be read on screen.`).optional(),
+		text: z
+			.string()
+			.trim()
+			.min(1, 'A caution needs its text; the default wording is a good start.')
+			.max(
+				CAUTION_MAX_CHARACTERS,
+				`Keep a caution under ${CAUTION_MAX_CHARACTERS} characters so it can be read on screen.`
+			)
+			.optional(),
 		/** Where the card appears: timecode or clock text at the episode's rate; '' or null clears it. */
 		at: z.string().trim().max(20, 'That is too long for a time in the cut.').nullable().optional(),
-		atFrame: z.number().int('A frame is a whole number.').min(0, 'A time in the cut can’t be negative.').nullable().optional(),
+		atFrame: z
+			.number()
+			.int('A frame is a whole number.')
+			.min(0, 'A time in the cut can’t be negative.')
+			.nullable()
+			.optional(),
 		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
 	})
 	.strict();
@@ -160,7 +253,11 @@ export type CautionUpdate = z.infer<typeof cautionUpdateSchema>;
 
 export const shotCreateSchema = z
 	.object({
-		what: z.string({ error: 'Say what the shot shows.' }).trim().min(1, 'Say what the shot shows.').max(200, 'Keep it under 200 characters.'),
+		what: z
+			.string({ error: 'Say what the shot shows.' })
+			.trim()
+			.min(1, 'Say what the shot shows.')
+			.max(200, 'Keep it under 200 characters.'),
 		angle: z.string().trim().max(80, 'Keep the angle under 80 characters.').default(''),
 		roll: z.enum(['A', 'B'], { error: 'A-roll or B-roll?' }).default('A'),
 		camera: z.string().trim().max(60, 'Keep the camera name under 60 characters.').default(''),
@@ -189,23 +286,44 @@ export const scriptReviewSchema = z
 		segmentId: uuid('a segment').nullable().optional()
 	})
 	.strict()
-	.refine((value) => !(value.action === 'return' || value.action === 'comment') || value.body.length > 0, { path: ['body'], message: 'Write the comment: say what should change.' });
+	.refine(
+		(value) => !(value.action === 'return' || value.action === 'comment') || value.body.length > 0,
+		{ path: ['body'], message: 'Write the comment: say what should change.' }
+	);
 export type ScriptReviewInput = z.infer<typeof scriptReviewSchema>;
 
 const liftInches = (axle: string) =>
 	z.coerce
 		.number({ error: `Enter the ${axle} lift in inches, e.g. 2.5 (0 for none).` })
 		.min(0, `The ${axle} lift can’t be negative.`)
-		.max(MAX_LIFT_IN, `A ${axle} lift over ${MAX_LIFT_IN} in is almost certainly a typo: it is in inches.`);
+		.max(
+			MAX_LIFT_IN,
+			`A ${axle} lift over ${MAX_LIFT_IN} in is almost certainly a typo: it is in inches.`
+		);
 
 const optionalChoice = <T extends readonly [string, ...string[]]>(values: T, message: string) =>
-	z.preprocess((value) => (value === '' ? null : value), z.enum(values, { error: message }).nullable().optional());
+	z.preprocess(
+		(value) => (value === '' ? null : value),
+		z.enum(values, { error: message }).nullable().optional()
+	);
 
 export const buildSchema = z
 	.object({
-		name: z.string().trim().min(1, 'Give the build a name, e.g. Project Mule.').max(80, 'Keep the name under 80 characters.'),
-		year: z.coerce.number({ error: 'Enter the model year, e.g. 2004.' }).int('Enter the model year, e.g. 2004.').min(1900, 'Enter a model year after 1900.').max(2100, 'Enter a real model year.'),
-		vehicleType: z.string().trim().min(1, 'Describe the vehicle, e.g. Midsize pickup, extended cab.').max(120),
+		name: z
+			.string()
+			.trim()
+			.min(1, 'Give the build a name, e.g. Project Mule.')
+			.max(80, 'Keep the name under 80 characters.'),
+		year: z.coerce
+			.number({ error: 'Enter the model year, e.g. 2004.' })
+			.int('Enter the model year, e.g. 2004.')
+			.min(1900, 'Enter a model year after 1900.')
+			.max(2100, 'Enter a real model year.'),
+		vehicleType: z
+			.string()
+			.trim()
+			.min(1, 'Describe the vehicle, e.g. Midsize pickup, extended cab.')
+			.max(120),
 		drivetrain: z.string().trim().min(1, 'Enter the drivetrain, e.g. Part-time 4WD.').max(80),
 		frontSuspension: z.string().trim().min(1, 'Describe the front suspension.').max(120),
 		rearSuspension: z.string().trim().min(1, 'Describe the rear suspension.').max(120),
@@ -223,7 +341,10 @@ export const buildSchema = z
 				try {
 					parseTyreSize(value);
 				} catch (failure) {
-					context.addIssue({ code: 'custom', message: isSpecError(failure) ? failure.message : 'That is not a tyre size.' });
+					context.addIssue({
+						code: 'custom',
+						message: isSpecError(failure) ? failure.message : 'That is not a tyre size.'
+					});
 				}
 			}),
 		notes: z.string().trim().max(2000, 'Keep the notes under 2,000 characters.').default(''),

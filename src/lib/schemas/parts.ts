@@ -8,7 +8,11 @@ import { z } from 'zod';
 
 export const PART_STATUSES = ['active', 'discontinued', 'out_of_stock'] as const;
 export type PartStatusValue = (typeof PART_STATUSES)[number];
-export const PART_STATUS_LABELS: Record<PartStatusValue, string> = { active: 'Active', discontinued: 'Discontinued', out_of_stock: 'Out of stock' };
+export const PART_STATUS_LABELS: Record<PartStatusValue, string> = {
+	active: 'Active',
+	discontinued: 'Discontinued',
+	out_of_stock: 'Out of stock'
+};
 
 export const PART_SORTS = ['sku', 'name', 'brand', 'category', 'price', 'status'] as const;
 export type PartSort = (typeof PART_SORTS)[number];
@@ -17,7 +21,14 @@ export const PART_PAGE_SIZES = [10, 25, 50, 100] as const;
 export const MAX_PART_PAGE_SIZE = 100;
 
 /** Limits of our own, generous for real catalogues and small enough to keep a table readable. */
-export const PART_LIMITS = { sku: 64, name: 200, category: 80, brand: 80, storeUrl: 2000, fitmentNote: 1000 } as const;
+export const PART_LIMITS = {
+	sku: 64,
+	name: 200,
+	category: 80,
+	brand: 80,
+	storeUrl: 2000,
+	fitmentNote: 1000
+} as const;
 /** Highest price accepted: 10,000,000.00, far above any part and well inside a 32-bit cent count. */
 export const MAX_PRICE_CENTS = 1_000_000_000;
 
@@ -30,16 +41,24 @@ const quote = (text: string) => `“${text.length > 60 ? `${text.slice(0, 57)}�
  * Dot for the cents (at most two digits); commas only as thousands separators.
  */
 export function readPrice(input: string | number): FieldReading<number> {
-	const text = String(input).trim().replace(/^\$\s*/, '');
+	const text = String(input)
+		.trim()
+		.replace(/^\$\s*/, '');
 	const match = /^(\d{1,3}(?:,\d{3})+|\d+)(?:\.(\d{1,2}))?$/.exec(text);
 	if (!match) {
-		return { ok: false, message: `price ${quote(String(input))} isn't a price: write it like 119.00 (digits, a dot before the cents).` };
+		return {
+			ok: false,
+			message: `price ${quote(String(input))} isn't a price: write it like 119.00 (digits, a dot before the cents).`
+		};
 	}
 	const whole = Number(match[1].replace(/,/g, ''));
 	const cents = Number((match[2] ?? '').padEnd(2, '0'));
 	const total = whole * 100 + cents;
 	if (!Number.isSafeInteger(total) || total > MAX_PRICE_CENTS) {
-		return { ok: false, message: `price ${quote(String(input))} is far too high for a part; check the column.` };
+		return {
+			ok: false,
+			message: `price ${quote(String(input))} is far too high for a part; check the column.`
+		};
 	}
 	return { ok: true, value: total };
 }
@@ -47,43 +66,78 @@ export function readPrice(input: string | number): FieldReading<number> {
 /** A shop page: an absolute http(s) address, read with the WHATWG URL parser. */
 export function readStoreUrl(input: string): FieldReading<string> {
 	const text = String(input).trim();
-	if (text === '') return { ok: false, message: 'store URL is empty: give the address of the part’s shop page (https://…).' };
-	if (text.length > PART_LIMITS.storeUrl) return { ok: false, message: `store URL is longer than ${PART_LIMITS.storeUrl} characters.` };
+	if (text === '')
+		return {
+			ok: false,
+			message: 'store URL is empty: give the address of the part’s shop page (https://…).'
+		};
+	if (text.length > PART_LIMITS.storeUrl)
+		return { ok: false, message: `store URL is longer than ${PART_LIMITS.storeUrl} characters.` };
 	let url: URL;
 	try {
 		url = new URL(text);
 	} catch {
-		return { ok: false, message: `store URL ${quote(text)} isn't a web address: it has to start with https:// or http://.` };
+		return {
+			ok: false,
+			message: `store URL ${quote(text)} isn't a web address: it has to start with https:// or http://.`
+		};
 	}
 	if (url.protocol !== 'https:' && url.protocol !== 'http:') {
-		return { ok: false, message: `store URL ${quote(text)} isn't a web page address: only https:// and http:// links work in a description.` };
+		return {
+			ok: false,
+			message: `store URL ${quote(text)} isn't a web page address: only https:// and http:// links work in a description.`
+		};
 	}
-	if (/\s/.test(text)) return { ok: false, message: `store URL ${quote(text)} has spaces in it; a web address has none.` };
+	if (/\s/.test(text))
+		return {
+			ok: false,
+			message: `store URL ${quote(text)} has spaces in it; a web address has none.`
+		};
 	return { ok: true, value: text };
 }
 
 /** Status words as the crew would type them in a sheet: "active", "discontinued", "out of stock". */
 export function readStatus(input: string | undefined): FieldReading<PartStatusValue> {
-	const text = String(input ?? '').trim().toLowerCase().replace(/[\s-]+/g, '_');
+	const text = String(input ?? '')
+		.trim()
+		.toLowerCase()
+		.replace(/[\s-]+/g, '_');
 	if (text === '') return { ok: true, value: 'active' };
-	if ((PART_STATUSES as readonly string[]).includes(text)) return { ok: true, value: text as PartStatusValue };
-	return { ok: false, message: `status ${quote(String(input))} isn't one of active, discontinued or out of stock.` };
+	if ((PART_STATUSES as readonly string[]).includes(text))
+		return { ok: true, value: text as PartStatusValue };
+	return {
+		ok: false,
+		message: `status ${quote(String(input))} isn't one of active, discontinued or out of stock.`
+	};
 }
 
 /** A three-letter currency code (the ISO 4217 alphabetic form); empty means USD. */
 export function readCurrency(input: string | undefined): FieldReading<string> {
-	const text = String(input ?? '').trim().toUpperCase();
+	const text = String(input ?? '')
+		.trim()
+		.toUpperCase();
 	if (text === '') return { ok: true, value: 'USD' };
 	if (/^[A-Z]{3}$/.test(text)) return { ok: true, value: text };
-	return { ok: false, message: `currency ${quote(String(input))} isn't a three-letter currency code such as USD or EUR.` };
+	return {
+		ok: false,
+		message: `currency ${quote(String(input))} isn't a three-letter currency code such as USD or EUR.`
+	};
 }
 
 /** Required one-line text with a length limit; control characters are refused, not stripped. */
-export function readText(field: string, input: string | undefined, limit: number, required = true): FieldReading<string> {
+export function readText(
+	field: string,
+	input: string | undefined,
+	limit: number,
+	required = true
+): FieldReading<string> {
 	const text = String(input ?? '').trim();
-	if (text === '') return required ? { ok: false, message: `${field} is empty.` } : { ok: true, value: '' };
-	if ([...text].length > limit) return { ok: false, message: `${field} is longer than ${limit} characters.` };
-	if (/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(text)) return { ok: false, message: `${field} has control characters in it.` };
+	if (text === '')
+		return required ? { ok: false, message: `${field} is empty.` } : { ok: true, value: '' };
+	if ([...text].length > limit)
+		return { ok: false, message: `${field} is longer than ${limit} characters.` };
+	if (/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(text))
+		return { ok: false, message: `${field} has control characters in it.` };
 	return { ok: true, value: text };
 }
 
@@ -92,7 +146,10 @@ function fieldOf<T>(reader: (value: string) => FieldReading<T>) {
 		const reading = reader(value);
 		if (reading.ok) return reading.value;
 		// Messages start with the field's name for CSV rows; a form shows them beside the field.
-		context.addIssue({ code: 'custom', message: reading.message.charAt(0).toUpperCase() + reading.message.slice(1) });
+		context.addIssue({
+			code: 'custom',
+			message: reading.message.charAt(0).toUpperCase() + reading.message.slice(1)
+		});
 		return z.NEVER;
 	});
 }
@@ -102,12 +159,17 @@ const partFields = {
 	name: fieldOf((value) => readText('name', value, PART_LIMITS.name)),
 	category: fieldOf((value) => readText('category', value, PART_LIMITS.category)),
 	brand: fieldOf((value) => readText('brand', value, PART_LIMITS.brand)),
-	price: z.union([z.string(), z.number()], { error: 'Give a price like 119.00.' }).transform((value, context) => {
-		const reading = readPrice(value);
-		if (reading.ok) return reading.value;
-		context.addIssue({ code: 'custom', message: reading.message.charAt(0).toUpperCase() + reading.message.slice(1) });
-		return z.NEVER;
-	}),
+	price: z
+		.union([z.string(), z.number()], { error: 'Give a price like 119.00.' })
+		.transform((value, context) => {
+			const reading = readPrice(value);
+			if (reading.ok) return reading.value;
+			context.addIssue({
+				code: 'custom',
+				message: reading.message.charAt(0).toUpperCase() + reading.message.slice(1)
+			});
+			return z.NEVER;
+		}),
 	currency: fieldOf(readCurrency),
 	storeUrl: fieldOf(readStoreUrl),
 	fitmentNote: fieldOf((value) => readText('fitment note', value, PART_LIMITS.fitmentNote, false)),
@@ -131,7 +193,10 @@ export const partCreateSchema = z
 
 export const partUpdateSchema = z
 	.object({
-		version: z.number({ error: 'Send the version of the part you read.' }).int().min(1, 'Send the version of the part you read.'),
+		version: z
+			.number({ error: 'Send the version of the part you read.' })
+			.int()
+			.min(1, 'Send the version of the part you read.'),
 		sku: partFields.sku.optional(),
 		name: partFields.name.optional(),
 		category: partFields.category.optional(),
@@ -151,21 +216,56 @@ const emptyToUndefined = (value: unknown) => (value === '' || value === null ? u
 
 /** The catalogue list's query string: `?q=&category=&status=&sort=&dir=&page=&pageSize=`. */
 export const partSearchSchema = z.object({
-	q: z.preprocess(emptyToUndefined, z.string().trim().max(100, 'Search for 100 characters or fewer.').optional()),
+	q: z.preprocess(
+		emptyToUndefined,
+		z.string().trim().max(100, 'Search for 100 characters or fewer.').optional()
+	),
 	category: z.preprocess(emptyToUndefined, z.string().trim().max(PART_LIMITS.category).optional()),
-	status: z.preprocess(emptyToUndefined, z.enum(PART_STATUSES, { error: 'Status is active, discontinued or out_of_stock.' }).optional()),
-	sort: z.preprocess(emptyToUndefined, z.enum(PART_SORTS, { error: `Sort by one of ${PART_SORTS.join(', ')}.` }).default('sku')),
-	dir: z.preprocess(emptyToUndefined, z.enum(['asc', 'desc'], { error: 'dir is asc or desc.' }).default('asc')),
-	page: z.preprocess(emptyToUndefined, z.coerce.number({ error: 'page is a whole number.' }).int('page is a whole number.').min(1, 'page starts at 1.').max(100_000).default(1)),
+	status: z.preprocess(
+		emptyToUndefined,
+		z.enum(PART_STATUSES, { error: 'Status is active, discontinued or out_of_stock.' }).optional()
+	),
+	sort: z.preprocess(
+		emptyToUndefined,
+		z.enum(PART_SORTS, { error: `Sort by one of ${PART_SORTS.join(', ')}.` }).default('sku')
+	),
+	dir: z.preprocess(
+		emptyToUndefined,
+		z.enum(['asc', 'desc'], { error: 'dir is asc or desc.' }).default('asc')
+	),
+	page: z.preprocess(
+		emptyToUndefined,
+		z.coerce
+			.number({ error: 'page is a whole number.' })
+			.int('page is a whole number.')
+			.min(1, 'page starts at 1.')
+			.max(100_000)
+			.default(1)
+	),
 	pageSize: z.preprocess(
 		emptyToUndefined,
-		z.coerce.number({ error: 'pageSize is a whole number.' }).int('pageSize is a whole number.').min(1, 'pageSize is 1 or more.').max(MAX_PART_PAGE_SIZE, `pageSize is at most ${MAX_PART_PAGE_SIZE}.`).default(25)
+		z.coerce
+			.number({ error: 'pageSize is a whole number.' })
+			.int('pageSize is a whole number.')
+			.min(1, 'pageSize is 1 or more.')
+			.max(MAX_PART_PAGE_SIZE, `pageSize is at most ${MAX_PART_PAGE_SIZE}.`)
+			.default(25)
 	)
 });
 export type PartSearch = z.infer<typeof partSearchSchema>;
 
 /** Wrenchroll's catalogue columns a CSV file's columns are mapped onto, in the order the export writes them. */
-export const IMPORT_FIELDS = ['sku', 'name', 'category', 'brand', 'price', 'currency', 'storeUrl', 'fitmentNote', 'status'] as const;
+export const IMPORT_FIELDS = [
+	'sku',
+	'name',
+	'category',
+	'brand',
+	'price',
+	'currency',
+	'storeUrl',
+	'fitmentNote',
+	'status'
+] as const;
 export type ImportField = (typeof IMPORT_FIELDS)[number];
 export const IMPORT_FIELD_LABELS: Record<ImportField, string> = {
 	sku: 'SKU (part number)',
@@ -179,7 +279,14 @@ export const IMPORT_FIELD_LABELS: Record<ImportField, string> = {
 	status: 'Status'
 };
 /** Needed for every new part; in update mode only the SKU is needed for parts already in the catalogue. */
-export const REQUIRED_IMPORT_FIELDS: readonly ImportField[] = ['sku', 'name', 'category', 'brand', 'price', 'storeUrl'];
+export const REQUIRED_IMPORT_FIELDS: readonly ImportField[] = [
+	'sku',
+	'name',
+	'category',
+	'brand',
+	'price',
+	'storeUrl'
+];
 
 /** Largest CSV text accepted in one import (about 100,000 typical rows). */
 export const MAX_IMPORT_CHARACTERS = 30 * 1024 * 1024;
@@ -187,8 +294,12 @@ export const MAX_IMPORT_CHARACTERS = 30 * 1024 * 1024;
 export const importRequestSchema = z
 	.object({
 		action: z.enum(['preview', 'commit'], { error: 'action is preview or commit.' }),
-		mode: z.enum(['create', 'update'], { error: 'mode is create (new parts only) or update (by SKU).' }),
-		csv: z.string({ error: 'Send the file’s text in csv.' }).max(MAX_IMPORT_CHARACTERS, 'That file is too big for one import; split it.'),
+		mode: z.enum(['create', 'update'], {
+			error: 'mode is create (new parts only) or update (by SKU).'
+		}),
+		csv: z
+			.string({ error: 'Send the file’s text in csv.' })
+			.max(MAX_IMPORT_CHARACTERS, 'That file is too big for one import; split it.'),
 		/** Wrenchroll field → the file's column header (null: not in the file). Omitted: guessed from the headers. */
 		mapping: z.partialRecord(z.enum(IMPORT_FIELDS), z.string().max(200).nullable()).optional()
 	})
@@ -196,10 +307,25 @@ export const importRequestSchema = z
 export type ImportRequest = z.infer<typeof importRequestSchema>;
 export type ImportMapping = Partial<Record<ImportField, string | null>>;
 
-const uuidList = z.array(z.uuid({ error: 'Each part is named by its id.' }), { error: 'partIds is a list of part ids.' }).max(50, 'A note shows at most 50 parts.');
-const timeText = z.string({ error: 'Type a timecode or a clock time, e.g. 00:04:05;00 or 4:05.' }).trim().max(40, 'That time is far too long.');
-const frameNumber = z.number({ error: 'A frame is a whole number.' }).int('A frame is a whole number.').min(0, 'A frame is 0 or more.').max(2_000_000_000);
-const noteText = z.string({ error: 'Write what is on screen.' }).trim().min(1, 'Write what is on screen.').max(2000, 'Keep a note under 2,000 characters.');
+const uuidList = z
+	.array(z.uuid({ error: 'Each part is named by its id.' }), {
+		error: 'partIds is a list of part ids.'
+	})
+	.max(50, 'A note shows at most 50 parts.');
+const timeText = z
+	.string({ error: 'Type a timecode or a clock time, e.g. 00:04:05;00 or 4:05.' })
+	.trim()
+	.max(40, 'That time is far too long.');
+const frameNumber = z
+	.number({ error: 'A frame is a whole number.' })
+	.int('A frame is a whole number.')
+	.min(0, 'A frame is 0 or more.')
+	.max(2_000_000_000);
+const noteText = z
+	.string({ error: 'Write what is on screen.' })
+	.trim()
+	.min(1, 'Write what is on screen.')
+	.max(2000, 'Keep a note under 2,000 characters.');
 
 /** A new note. Who may set what: camera (text, segment, take, source time), editor (program time), merch (parts). */
 export const noteCreateSchema = z
@@ -217,7 +343,10 @@ export const noteCreateSchema = z
 
 export const noteUpdateSchema = noteCreateSchema
 	.extend({
-		version: z.number({ error: 'Send the version of the note you read.' }).int().min(1, 'Send the version of the note you read.'),
+		version: z
+			.number({ error: 'Send the version of the note you read.' })
+			.int()
+			.min(1, 'Send the version of the note you read.'),
 		text: noteText.optional()
 	})
 	.strict();
@@ -227,4 +356,6 @@ export type NoteUpdate = z.infer<typeof noteUpdateSchema>;
 
 export const KIT_FORMATS = ['md', 'txt', 'json'] as const;
 export type KitFormat = (typeof KIT_FORMATS)[number];
-export const kitFormatSchema = z.enum(KIT_FORMATS, { error: 'Ask for the publish kit as md, txt or json.' });
+export const kitFormatSchema = z.enum(KIT_FORMATS, {
+	error: 'Ask for the publish kit as md, txt or json.'
+});

@@ -3,7 +3,9 @@ import { z } from 'zod';
 
 import { ROLES } from '$lib/roles';
 
-export const roleSchema = z.enum(ROLES, { error: 'Pick one of: producer, host, camera, editor, merch.' });
+export const roleSchema = z.enum(ROLES, {
+	error: 'Pick one of: producer, host, camera, editor, merch.'
+});
 
 const email = z
 	.string({ error: 'Enter an e-mail address.' })
@@ -20,7 +22,10 @@ const personName = z
 
 export const signInSchema = z.object({
 	email,
-	password: z.string({ error: 'Enter your password.' }).min(1, 'Enter your password.').max(1024, 'That password is too long.')
+	password: z
+		.string({ error: 'Enter your password.' })
+		.min(1, 'Enter your password.')
+		.max(1024, 'That password is too long.')
 });
 
 export const inviteSchema = z.object({
@@ -30,12 +35,19 @@ export const inviteSchema = z.object({
 });
 
 export const rolesUpdateSchema = z.object({
-	roles: z.array(roleSchema).min(1, 'Keep at least one role; disable the account to remove access.').max(5)
+	roles: z
+		.array(roleSchema)
+		.min(1, 'Keep at least one role; disable the account to remove access.')
+		.max(5)
 });
 
 export const crewUpdateSchema = z
 	.object({
-		roles: z.array(roleSchema).min(1, 'Keep at least one role; disable the account to remove access.').max(5).optional(),
+		roles: z
+			.array(roleSchema)
+			.min(1, 'Keep at least one role; disable the account to remove access.')
+			.max(5)
+			.optional(),
 		disabled: z.boolean({ error: 'disabled is true or false.' }).optional()
 	})
 	.strict();
@@ -45,14 +57,30 @@ export const setPasswordSchema = z
 		password: z.string({ error: 'Choose a password.' }).max(1024, 'That password is too long.'),
 		confirm: z.string({ error: 'Type the password again.' })
 	})
-	.refine((value) => value.password === value.confirm, { path: ['confirm'], message: 'The two passwords differ.' });
+	.refine((value) => value.password === value.confirm, {
+		path: ['confirm'],
+		message: 'The two passwords differ.'
+	});
 
 export const forgotSchema = z.object({ email });
 
-export const FRAME_RATE_VALUES = ['23.976', '24', '25', '29.97', '30', '50', '59.94', '60'] as const;
+export const FRAME_RATE_VALUES = [
+	'23.976',
+	'24',
+	'25',
+	'29.97',
+	'30',
+	'50',
+	'59.94',
+	'60'
+] as const;
 
 export const channelSettingsSchema = z.object({
-	name: z.string().trim().min(1, 'Give the channel a name.').max(80, 'Keep the name under 80 characters.'),
+	name: z
+		.string()
+		.trim()
+		.min(1, 'Give the channel a name.')
+		.max(80, 'Keep the name under 80 characters.'),
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
 	callToAction: z.string().trim().max(1000, 'Keep the call to action under 1,000 characters.'),
 	contact: z.string().trim().max(500, 'Keep the contact details under 500 characters.'),
@@ -65,5 +93,9 @@ export const channelSettingsSchema = z.object({
 });
 
 export const tokenCreateSchema = z.object({
-	label: z.string({ error: 'Name the token.' }).trim().min(1, 'Name the token, e.g. "graphics laptop".').max(60, 'Keep the name under 60 characters.')
+	label: z
+		.string({ error: 'Name the token.' })
+		.trim()
+		.min(1, 'Name the token, e.g. "graphics laptop".')
+		.max(60, 'Keep the name under 60 characters.')
 });

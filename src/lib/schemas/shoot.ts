@@ -1,13 +1,22 @@
 /** Shapes of shoot-day input: shared by the forms, the API and the client. */
 import { z } from 'zod';
 
-const time = z.string({ error: 'Use a 24-hour time like 07:30.' }).regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time like 07:30.');
-const optionalTime = z.union([time, z.literal('')]).optional().transform((v) => v || null);
+const time = z
+	.string({ error: 'Use a 24-hour time like 07:30.' })
+	.regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time like 07:30.');
+const optionalTime = z
+	.union([time, z.literal('')])
+	.optional()
+	.transform((v) => v || null);
 const date = z.string({ error: 'Pick a date.' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.');
 const positive = (label: string, max: number) =>
-	z.coerce.number({ error: `Enter ${label}.` }).positive(`${label[0].toUpperCase() + label.slice(1)} must be more than zero.`).max(max, `That is more than ${max}.`);
+	z.coerce
+		.number({ error: `Enter ${label}.` })
+		.positive(`${label[0].toUpperCase() + label.slice(1)} must be more than zero.`)
+		.max(max, `That is more than ${max}.`);
 
-const readable = (value: unknown) => typeof value === 'string' && /^([01]\d|2[0-3]):[0-5]\d$/.test(value);
+const readable = (value: unknown) =>
+	typeof value === 'string' && /^([01]\d|2[0-3]):[0-5]\d$/.test(value);
 /** A cross-field check runs when the fields it compares are readable, whatever else is wrong. */
 const timesReadable = (payload: { value: unknown }) => {
 	const input = payload.value as { callTime?: unknown; wrapTime?: unknown } | null;
@@ -32,25 +41,42 @@ export const shootDaySchema = z
 		notes: z.string().trim().max(2000).default('')
 	})
 	// Checked even when another field is wrong too, so every problem shows in one pass.
-	.refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Make the wrap later than the call time.', when: timesReadable })
-	.refine((d) => !d.bayFrom || !d.bayUntil || d.bayUntil > d.bayFrom, { path: ['bayUntil'], message: 'Make the bay booking end after it starts.', when: bayTimesReadable });
+	.refine((d) => d.wrapTime > d.callTime, {
+		path: ['wrapTime'],
+		message: 'Make the wrap later than the call time.',
+		when: timesReadable
+	})
+	.refine((d) => !d.bayFrom || !d.bayUntil || d.bayUntil > d.bayFrom, {
+		path: ['bayUntil'],
+		message: 'Make the bay booking end after it starts.',
+		when: bayTimesReadable
+	});
 
-export const shootDayUpdateSchema = z.object({
-	shootDate: date,
-	locationName: z.string().trim().min(1, 'Name the shop or location.').max(120),
-	locationAddress: z.string().trim().max(300),
-	bay: z.string().trim().max(60),
-	bayFrom: optionalTime,
-	bayUntil: optionalTime,
-	callTime: time,
-	wrapTime: time,
-	notes: z.string().trim().max(2000),
-	version: z.coerce.number().int().min(1)
-}).refine((d) => d.wrapTime > d.callTime, { path: ['wrapTime'], message: 'Make the wrap later than the call time.', when: timesReadable });
+export const shootDayUpdateSchema = z
+	.object({
+		shootDate: date,
+		locationName: z.string().trim().min(1, 'Name the shop or location.').max(120),
+		locationAddress: z.string().trim().max(300),
+		bay: z.string().trim().max(60),
+		bayFrom: optionalTime,
+		bayUntil: optionalTime,
+		callTime: time,
+		wrapTime: time,
+		notes: z.string().trim().max(2000),
+		version: z.coerce.number().int().min(1)
+	})
+	.refine((d) => d.wrapTime > d.callTime, {
+		path: ['wrapTime'],
+		message: 'Make the wrap later than the call time.',
+		when: timesReadable
+	});
 
 export const plannerSchema = z.object({
 	programMinutes: positive('the programme minutes', 600),
-	shootingRatio: z.coerce.number({ error: 'Enter a shooting ratio.' }).min(1, 'A shooting ratio is at least 1 (1:1).').max(200, 'That ratio is more than 200:1.'),
+	shootingRatio: z.coerce
+		.number({ error: 'Enter a shooting ratio.' })
+		.min(1, 'A shooting ratio is at least 1 (1:1).')
+		.max(200, 'That ratio is more than 200:1.'),
 	cardSizeGb: positive('the card size', 100000),
 	uplinkMbps: positive('the uplink speed', 100000)
 });
@@ -58,7 +84,12 @@ export const plannerSchema = z.object({
 export const cameraSchema = z.object({
 	label: z.string().trim().min(1, 'Name the camera, e.g. "A cam".').max(40),
 	profileId: z.string().uuid('Pick a recording profile.'),
-	rollHours: z.union([z.literal(''), z.coerce.number().positive('Roll hours must be more than zero.').max(24)]).transform((v) => (v === '' ? null : v))
+	rollHours: z
+		.union([
+			z.literal(''),
+			z.coerce.number().positive('Roll hours must be more than zero.').max(24)
+		])
+		.transform((v) => (v === '' ? null : v))
 });
 
 export const gearSchema = z.object({
@@ -73,16 +104,24 @@ export const pullItemSchema = z
 		label: z.string().trim().max(160).default(''),
 		quantity: z.coerce.number().int('Use a whole number.').min(1, 'At least one.').max(999)
 	})
-	.refine((d) => d.partId || d.label, { path: ['label'], message: 'Pick a part from the catalogue or describe the extra.' });
+	.refine((d) => d.partId || d.label, {
+		path: ['label'],
+		message: 'Pick a part from the catalogue or describe the extra.'
+	});
 
-export const onHandSchema = z.object({ onHand: z.boolean({ error: 'onHand is true or false.' }), version: z.coerce.number().int().min(1) });
+export const onHandSchema = z.object({
+	onHand: z.boolean({ error: 'onHand is true or false.' }),
+	version: z.coerce.number().int().min(1)
+});
 
 export const profileSchema = z.object({
 	name: z.string().trim().min(1, 'Name the profile.').max(80),
 	camera: z.string().trim().min(1, 'Say which camera body.').max(80),
 	codec: z.string().trim().min(1, 'Say which codec.').max(60),
 	resolution: z.string().trim().min(1, 'Say which resolution.').max(40),
-	frameRate: z.enum(['23.976', '24', '25', '29.97', '30', '50', '59.94', '60'], { error: 'Pick a frame rate.' }),
+	frameRate: z.enum(['23.976', '24', '25', '29.97', '30', '50', '59.94', '60'], {
+		error: 'Pick a frame rate.'
+	}),
 	bitrateMbps: positive('the bitrate', 10000)
 });
 

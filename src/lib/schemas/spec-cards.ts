@@ -6,9 +6,23 @@
  * the one the server would answer with.
  */
 import { z } from 'zod';
-import { isSpecError, parseTyreSize, renderSpecCard, specCardInputSchema, type SpecCard, type SpecCardInput, type SpecCardKind } from '../specs';
+import {
+	isSpecError,
+	parseTyreSize,
+	renderSpecCard,
+	specCardInputSchema,
+	type SpecCard,
+	type SpecCardInput,
+	type SpecCardKind
+} from '../specs';
 
-export const SPEC_CARD_KINDS = ['tyre-change', 'torque', 'lift', 'tyre', 'text'] as const satisfies readonly SpecCardKind[];
+export const SPEC_CARD_KINDS = [
+	'tyre-change',
+	'torque',
+	'lift',
+	'tyre',
+	'text'
+] as const satisfies readonly SpecCardKind[];
 
 /** Words the crew reads for each kind of card. */
 export const SPEC_CARD_KIND_LABELS: Record<SpecCardKind, string> = {
@@ -22,7 +36,8 @@ export const SPEC_CARD_KIND_LABELS: Record<SpecCardKind, string> = {
 /** What each kind is for, shown under the kind picker. */
 export const SPEC_CARD_KIND_HINTS: Record<SpecCardKind, string> = {
 	tyre: 'One size: diameter, width, sidewall and revolutions, worked out from the code on the sidewall.',
-	'tyre-change': 'Old size to new: diameter change, how much the axle rises, and the true speed on the speedometer.',
+	'tyre-change':
+		'Old size to new: diameter change, how much the axle rises, and the true speed on the speedometer.',
 	torque: 'A torque figure in both units, with the caution to check the maker’s instructions.',
 	lift: 'Front and rear lift, the rake change, and the fitment notes of the trade.',
 	text: 'A heading and a short line of your own, for anything the others don’t cover.'
@@ -34,7 +49,9 @@ export const ON_SCREEN_SECONDS_LIMITS = { min: 1, max: 60 } as const;
 
 /** A timecode or a clock time as typed; parsed on the server at the episode's frame rate. */
 const programTimeSchema = z
-	.string({ error: 'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.' })
+	.string({
+		error: 'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.'
+	})
 	.trim()
 	.min(1, 'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.')
 	.max(40, 'That time is far too long; type it as HH:MM:SS:FF or M:SS.');
@@ -45,14 +62,25 @@ const atFrameSchema = z
 	.min(0, 'The program time in frames is 0 or more.')
 	.max(2_000_000_000, 'That frame is far past any cut.');
 
-const segmentIdSchema = z.uuid({ error: 'Pick a segment of this episode’s rundown, or none.' }).nullable();
+const segmentIdSchema = z
+	.uuid({ error: 'Pick a segment of this episode’s rundown, or none.' })
+	.nullable();
 
 const onScreenSecondsSchema = z
 	.number({ error: 'Say how many seconds the card stays on screen, e.g. 6.' })
-	.min(ON_SCREEN_SECONDS_LIMITS.min, `A card needs at least ${ON_SCREEN_SECONDS_LIMITS.min} s on screen to be read.`)
-	.max(ON_SCREEN_SECONDS_LIMITS.max, `Keep a card on screen for ${ON_SCREEN_SECONDS_LIMITS.max} s or less; split it if there is more to say.`);
+	.min(
+		ON_SCREEN_SECONDS_LIMITS.min,
+		`A card needs at least ${ON_SCREEN_SECONDS_LIMITS.min} s on screen to be read.`
+	)
+	.max(
+		ON_SCREEN_SECONDS_LIMITS.max,
+		`Keep a card on screen for ${ON_SCREEN_SECONDS_LIMITS.max} s or less; split it if there is more to say.`
+	);
 
-const versionSchema = z.number({ error: 'Send the version of the card you read.' }).int().min(1, 'Send the version of the card you read.');
+const versionSchema = z
+	.number({ error: 'Send the version of the card you read.' })
+	.int()
+	.min(1, 'Send the version of the card you read.');
 
 const placement = {
 	segmentId: segmentIdSchema.optional(),
@@ -63,8 +91,12 @@ const placement = {
 	durationSeconds: onScreenSecondsSchema.optional()
 };
 
-const oneWayToPlace = (input: { at?: string | null; atFrame?: number | null }) => input.at === undefined || input.atFrame === undefined;
-const oneWayMessage = { path: ['at'], message: 'Say where the card goes either as text in at or as a frame count in atFrame, not both.' };
+const oneWayToPlace = (input: { at?: string | null; atFrame?: number | null }) =>
+	input.at === undefined || input.atFrame === undefined;
+const oneWayMessage = {
+	path: ['at'],
+	message: 'Say where the card goes either as text in at or as a frame count in atFrame, not both.'
+};
 
 export const specCardCreateSchema = z
 	.object({ input: specCardInputSchema, ...placement })
@@ -78,7 +110,9 @@ export const specCardUpdateSchema = z
 
 export const SPEC_CARD_EXPORT_FORMATS = ['csv', 'json'] as const;
 export type SpecCardExportFormat = (typeof SPEC_CARD_EXPORT_FORMATS)[number];
-export const specCardExportFormatSchema = z.enum(SPEC_CARD_EXPORT_FORMATS, { error: 'Pick an export format: csv or json.' });
+export const specCardExportFormatSchema = z.enum(SPEC_CARD_EXPORT_FORMATS, {
+	error: 'Pick an export format: csv or json.'
+});
 
 export type SpecCardCreate = z.infer<typeof specCardCreateSchema>;
 export type SpecCardUpdate = z.infer<typeof specCardUpdateSchema>;
@@ -114,12 +148,17 @@ export function checkSpecCard(candidate: unknown): SpecCardCheck {
 	const shaped = specCardInputSchema.safeParse(candidate);
 	if (!shaped.success) {
 		const issue = shaped.error.issues[0];
-		return { ok: false, field: issue?.path.length ? issue.path.join('.') : 'kind', message: issue?.message ?? 'That card is incomplete. Check its fields.' };
+		return {
+			ok: false,
+			field: issue?.path.length ? issue.path.join('.') : 'kind',
+			message: issue?.message ?? 'That card is incomplete. Check its fields.'
+		};
 	}
 	try {
 		return { ok: true, input: shaped.data, card: renderSpecCard(shaped.data) };
 	} catch (failure) {
-		if (isSpecError(failure)) return { ok: false, field: fieldOfSpecError(shaped.data), message: failure.message };
+		if (isSpecError(failure))
+			return { ok: false, field: fieldOfSpecError(shaped.data), message: failure.message };
 		throw failure;
 	}
 }
@@ -132,10 +171,15 @@ export function specCardProblems(candidate: unknown): Record<string, string> {
 	const problems: Record<string, string> = {};
 	const shaped = specCardInputSchema.safeParse(candidate);
 	if (!shaped.success) {
-		for (const issue of shaped.error.issues) problems[issue.path.length ? issue.path.join('.') : 'kind'] ??= issue.message;
+		for (const issue of shaped.error.issues)
+			problems[issue.path.length ? issue.path.join('.') : 'kind'] ??= issue.message;
 	}
-	const fields = (typeof candidate === 'object' && candidate !== null ? candidate : {}) as Record<string, unknown>;
-	const sizeFields = fields.kind === 'tyre' ? ['size'] : fields.kind === 'tyre-change' ? ['from', 'to'] : [];
+	const fields = (typeof candidate === 'object' && candidate !== null ? candidate : {}) as Record<
+		string,
+		unknown
+	>;
+	const sizeFields =
+		fields.kind === 'tyre' ? ['size'] : fields.kind === 'tyre-change' ? ['from', 'to'] : [];
 	for (const field of sizeFields) {
 		const typed = fields[field];
 		if (typeof typed !== 'string' || typed.trim() === '' || problems[field]) continue;
@@ -177,7 +221,12 @@ export function specCardInputFromForm(values: SpecCardFormValues): unknown {
 		case 'tyre-change':
 			return { kind, from: values.from ?? '', to: values.to ?? '' };
 		case 'torque':
-			return { kind, value: typedNumber(values.value), unit: values.unit ?? '', fastener: typedText(values.fastener) };
+			return {
+				kind,
+				value: typedNumber(values.value),
+				unit: values.unit ?? '',
+				fastener: typedText(values.fastener)
+			};
 		case 'lift':
 			return {
 				kind,
@@ -185,7 +234,10 @@ export function specCardInputFromForm(values: SpecCardFormValues): unknown {
 				rearLiftIn: typedNumber(values.rearLiftIn) ?? 0,
 				frontSuspension: values.frontSuspension ?? '',
 				rearSuspension: values.rearSuspension ?? '',
-				method: { front: typedText(values['method.front']) ?? null, rear: typedText(values['method.rear']) ?? null }
+				method: {
+					front: typedText(values['method.front']) ?? null,
+					rear: typedText(values['method.rear']) ?? null
+				}
 			};
 		case 'text':
 			return { kind, heading: values.heading ?? '', body: values.body ?? '' };
@@ -202,9 +254,17 @@ export function specCardFormValues(input: SpecCardInput): SpecCardFormValues {
 		case 'tyre-change':
 			return { kind: input.kind, from: input.from, to: input.to };
 		case 'torque':
-			return { kind: input.kind, value: String(input.value), unit: input.unit, fastener: input.fastener ?? '' };
+			return {
+				kind: input.kind,
+				value: String(input.value),
+				unit: input.unit,
+				fastener: input.fastener ?? ''
+			};
 		case 'lift': {
-			const method = typeof input.method === 'string' ? { front: input.method, rear: input.method } : input.method;
+			const method =
+				typeof input.method === 'string'
+					? { front: input.method, rear: input.method }
+					: input.method;
 			return {
 				kind: input.kind,
 				frontLiftIn: String(input.frontLiftIn),

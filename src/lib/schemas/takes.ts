@@ -1,16 +1,29 @@
 /** Takes logged against shots: typed source timecode, good or no good, and the clip it is in. */
 import { z } from 'zod';
 
-const timecodeText = (label: string) => z.string({ error: `Type the source ${label} timecode.` }).trim().min(1, `Type the source ${label} timecode.`).max(20);
+const timecodeText = (label: string) =>
+	z
+		.string({ error: `Type the source ${label} timecode.` })
+		.trim()
+		.min(1, `Type the source ${label} timecode.`)
+		.max(20);
 
 export const takeCreateSchema = z
 	.object({
-		clipName: z.string({ error: 'Name the clip.' }).trim().min(1, 'Name the clip, e.g. A012_C004.').max(120),
+		clipName: z
+			.string({ error: 'Name the clip.' })
+			.trim()
+			.min(1, 'Name the clip, e.g. A012_C004.')
+			.max(120),
 		sourceIn: timecodeText('in'),
 		sourceOut: timecodeText('out'),
 		good: z.boolean().default(false),
 		note: z.string().trim().max(500, 'Keep the note under 500 characters.').default(''),
-		footageId: z.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')]).nullable().default(null).transform((v) => v || null)
+		footageId: z
+			.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')])
+			.nullable()
+			.default(null)
+			.transform((v) => v || null)
 	})
 	.strict();
 
@@ -18,7 +31,11 @@ export const takeUpdateSchema = z
 	.object({
 		good: z.boolean().optional(),
 		note: z.string().trim().max(500, 'Keep the note under 500 characters.').optional(),
-		footageId: z.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')]).nullable().optional().transform((v) => (v === undefined ? undefined : v || null)),
+		footageId: z
+			.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')])
+			.nullable()
+			.optional()
+			.transform((v) => (v === undefined ? undefined : v || null)),
 		version: z.coerce.number().int().min(1)
 	})
 	.strict();

@@ -102,7 +102,9 @@ function spokenTextOfBlock(token: Token): string {
 			// In an HTML block, tags mostly separate blocks (`<p>one</p><p>two</p>`), so they become spaces.
 			return spokenTextOfHtml((token as Tokens.HTML).text, ' ');
 		case 'list':
-			return (token as Tokens.List).items.map((item) => spokenTextOfBlocks(item.tokens)).join('\n\n');
+			return (token as Tokens.List).items
+				.map((item) => spokenTextOfBlocks(item.tokens))
+				.join('\n\n');
 		case 'table': {
 			const table = token as Tokens.Table;
 			const cells = [table.header, ...table.rows].flat();
@@ -241,7 +243,10 @@ export function calibratePace(
 	const totalWords = usable.reduce((sum, sample) => sum + sample.words, 0);
 	const totalMinutes = usable.reduce((sum, sample) => sum + sample.recordedSeconds, 0) / 60;
 	const pooled = totalWords / totalMinutes;
-	const clamped = Math.min(CALIBRATED_PACE_RANGE.maximum, Math.max(CALIBRATED_PACE_RANGE.minimum, pooled));
+	const clamped = Math.min(
+		CALIBRATED_PACE_RANGE.maximum,
+		Math.max(CALIBRATED_PACE_RANGE.minimum, pooled)
+	);
 	return { wordsPerMinute: clamped, basedOn: usable.length, calibrated: true };
 }
 

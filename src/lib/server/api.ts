@@ -16,7 +16,8 @@ export class DomainError extends Error {
 	}
 }
 
-export const notFound = (what = 'That record') => new DomainError(404, `${what} was not found in this channel.`);
+export const notFound = (what = 'That record') =>
+	new DomainError(404, `${what} was not found in this channel.`);
 
 /** zod issues as { field: [messages] }, field names dotted. */
 export function fieldIssues(zodError: z.ZodError): Record<string, string[]> {
@@ -32,9 +33,16 @@ export function fieldIssues(zodError: z.ZodError): Record<string, string[]> {
 /** JSON bodies above this are refused before they are read (uploads use tus, not JSON). */
 const MAX_JSON_BYTES = 4 * 1024 * 1024;
 
-export async function readJson<T extends z.ZodType>(event: RequestEvent, schema: T): Promise<z.infer<T>> {
+export async function readJson<T extends z.ZodType>(
+	event: RequestEvent,
+	schema: T
+): Promise<z.infer<T>> {
 	const declared = Number(event.request.headers.get('content-length') ?? 0);
-	if (declared > MAX_JSON_BYTES) throw new DomainError(413, `That request is too large: at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`);
+	if (declared > MAX_JSON_BYTES)
+		throw new DomainError(
+			413,
+			`That request is too large: at most ${MAX_JSON_BYTES / 1024 / 1024} MB of JSON.`
+		);
 	let body: unknown;
 	try {
 		body = await event.request.json();
@@ -42,30 +50,52 @@ export async function readJson<T extends z.ZodType>(event: RequestEvent, schema:
 		throw new DomainError(400, 'The request body is not valid JSON.');
 	}
 	const parsed = schema.safeParse(body);
-	if (!parsed.success) throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
+	if (!parsed.success)
+		throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
 	return parsed.data;
 }
 
 export function parseWith<T extends z.ZodType>(schema: T, value: unknown): z.infer<T> {
 	const parsed = schema.safeParse(value);
-	if (!parsed.success) throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
+	if (!parsed.success)
+		throw new DomainError(400, 'Some fields need fixing.', fieldIssues(parsed.error));
 	return parsed.data;
 }
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
-export function api<Event extends RequestEvent<any, any>>(handler: (event: Event) => Response | Promise<Response>): (event: Event) => Promise<Response> {
+export function api<Event extends RequestEvent<any, any>>(
+	handler: (event: Event) => Response | Promise<Response>
+): (event: Event) => Promise<Response> {
 	return async (event) => {
 		try {
 			return await handler(event);
 		} catch (failure) {
 			if (isRedirect(failure)) throw failure;
 			if (failure instanceof DomainError) {
-				return json({ error: failure.message, ...(failure.issues ? { issues: failure.issues } : {}), ...failure.extra }, { status: failure.status });
+				return json(
+					{
+						error: failure.message,
+						...(failure.issues ? { issues: failure.issues } : {}),
+						...failure.extra
+					},
+					{ status: failure.status }
+				);
 			}
-			if (isHttpError(failure)) return json({ error: failure.body.message }, { status: failure.status });
-			if (failure instanceof z.ZodError) return json({ error: 'Some fields need fixing.', issues: fieldIssues(failure) }, { status: 400 });
+			if (isHttpError(failure))
+				return json({ error: failure.body.message }, { status: failure.status });
+			if (failure instanceof z.ZodError)
+				return json(
+					{ error: 'Some fields need fixing.', issues: fieldIssues(failure) },
+					{ status: 400 }
+				);
 			console.error(failure);
-			return json({ error: 'Something went wrong on the server. Try again; if it keeps happening, tell your producer.' }, { status: 500 });
+			return json(
+				{
+					error:
+						'Something went wrong on the server. Try again; if it keeps happening, tell your producer.'
+				},
+				{ status: 500 }
+			);
 		}
 	};
 }

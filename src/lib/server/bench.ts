@@ -12,7 +12,11 @@ export interface BenchItem {
 }
 
 /** With a person id, episode items are those assigned to that person (or to nobody yet). */
-export async function benchFor(channelId: string, roles: Role[], personId?: string): Promise<Record<string, BenchItem[]>> {
+export async function benchFor(
+	channelId: string,
+	roles: Role[],
+	personId?: string
+): Promise<Record<string, BenchItem[]>> {
 	const sections: Record<string, BenchItem[]> = {};
 	const episodeWork = await episodeBenchFor(channelId, roles, personId);
 	if (roles.includes('producer')) {
@@ -40,9 +44,32 @@ export async function benchFor(channelId: string, roles: Role[], personId?: stri
 				.executeTakeFirstOrThrow()
 		]);
 		sections.producer = [
-			...waiting.map((p) => ({ title: `${p.name} hasn't accepted the invite`, detail: `${p.email}: the invite link is valid for 7 days.`, href: '/crew', tone: 'todo' as const })),
-			...(disabled.count > 0 ? [{ title: `${disabled.count} disabled account${disabled.count === 1 ? '' : 's'}`, detail: 'They cannot sign in to this channel.', href: '/crew', tone: 'info' as const }] : []),
-			...(stuckMail.count > 0 ? [{ title: `${stuckMail.count} e-mail${stuckMail.count === 1 ? '' : 's'} not delivered yet`, detail: 'The mail server is not answering; Wrenchroll keeps retrying.', href: '/channel', tone: 'warn' as const }] : [])
+			...waiting.map((p) => ({
+				title: `${p.name} hasn't accepted the invite`,
+				detail: `${p.email}: the invite link is valid for 7 days.`,
+				href: '/crew',
+				tone: 'todo' as const
+			})),
+			...(disabled.count > 0
+				? [
+						{
+							title: `${disabled.count} disabled account${disabled.count === 1 ? '' : 's'}`,
+							detail: 'They cannot sign in to this channel.',
+							href: '/crew',
+							tone: 'info' as const
+						}
+					]
+				: []),
+			...(stuckMail.count > 0
+				? [
+						{
+							title: `${stuckMail.count} e-mail${stuckMail.count === 1 ? '' : 's'} not delivered yet`,
+							detail: 'The mail server is not answering; Wrenchroll keeps retrying.',
+							href: '/channel',
+							tone: 'warn' as const
+						}
+					]
+				: [])
 		];
 	}
 	const [schedule, pull, parts, shoots] = await Promise.all([
@@ -60,8 +87,19 @@ export async function benchFor(channelId: string, roles: Role[], personId?: stri
 	return sections;
 }
 
-const dayName = (date: string) => new Intl.DateTimeFormat('en', { weekday: 'short', day: 'numeric', month: 'short', timeZone: 'UTC' }).format(new Date(date + 'T00:00:00Z'));
-const daysUntil = (date: string) => Math.round((Date.parse(date + 'T00:00:00Z') - Date.parse(new Date().toISOString().slice(0, 10) + 'T00:00:00Z')) / 86_400_000);
+const dayName = (date: string) =>
+	new Intl.DateTimeFormat('en', {
+		weekday: 'short',
+		day: 'numeric',
+		month: 'short',
+		timeZone: 'UTC'
+	}).format(new Date(date + 'T00:00:00Z'));
+const daysUntil = (date: string) =>
+	Math.round(
+		(Date.parse(date + 'T00:00:00Z') -
+			Date.parse(new Date().toISOString().slice(0, 10) + 'T00:00:00Z')) /
+			86_400_000
+	);
 
 /** Episodes due to publish within three weeks that are not at picture lock yet. */
 async function publishingSoon(channelId: string): Promise<BenchItem[]> {
@@ -91,14 +129,24 @@ async function pullListToCheck(channelId: string): Promise<BenchItem[]> {
 		.selectFrom('pullItem')
 		.innerJoin('shootDay', 'shootDay.id', 'pullItem.shootDayId')
 		.innerJoin('episode', 'episode.id', 'shootDay.episodeId')
-		.select(['shootDay.id', 'shootDay.shootDate', 'episode.title', (eb) => eb.fn.countAll<number>().as('missing')])
+		.select([
+			'shootDay.id',
+			'shootDay.shootDate',
+			'episode.title',
+			(eb) => eb.fn.countAll<number>().as('missing')
+		])
 		.where('shootDay.channelId', '=', channelId)
 		.where('shootDay.shootDate', '>=', sql<string>`current_date`)
 		.where('pullItem.onHand', '=', false)
 		.groupBy(['shootDay.id', 'shootDay.shootDate', 'episode.title'])
 		.orderBy('shootDay.shootDate')
 		.execute();
-	return rows.map((d) => ({ title: `${d.missing} pull-list item${d.missing === 1 ? '' : 's'} to check for ${dayName(d.shootDate)}`, detail: `${d.title}: tick each part as on hand before the shoot.`, href: `/shoots/${d.id}`, tone: 'todo' as const }));
+	return rows.map((d) => ({
+		title: `${d.missing} pull-list item${d.missing === 1 ? '' : 's'} to check for ${dayName(d.shootDate)}`,
+		detail: `${d.title}: tick each part as on hand before the shoot.`,
+		href: `/shoots/${d.id}`,
+		tone: 'todo' as const
+	}));
 }
 
 /** Parts linked in episodes not yet published that are discontinued or out of stock. */
@@ -114,7 +162,12 @@ async function partsToReplace(channelId: string): Promise<BenchItem[]> {
 		.where('episode.stage', '!=', 'published')
 		.where('part.status', '!=', 'active')
 		.execute();
-	return rows.map((r) => ({ title: `${r.sku} is ${r.status === 'out_of_stock' ? 'out of stock' : 'discontinued'}`, detail: `It is linked in ${r.title}: link a replacement before picture lock.`, href: `/episodes/${r.id}/parts`, tone: 'warn' as const }));
+	return rows.map((r) => ({
+		title: `${r.sku} is ${r.status === 'out_of_stock' ? 'out of stock' : 'discontinued'}`,
+		detail: `It is linked in ${r.title}: link a replacement before picture lock.`,
+		href: `/episodes/${r.id}/parts`,
+		tone: 'warn' as const
+	}));
 }
 
 /** The next shoot days, with their call time. */
@@ -122,11 +175,23 @@ async function nextShootDays(channelId: string): Promise<BenchItem[]> {
 	const rows = await db
 		.selectFrom('shootDay')
 		.innerJoin('episode', 'episode.id', 'shootDay.episodeId')
-		.select(['shootDay.id', 'shootDay.shootDate', 'shootDay.callTime', 'shootDay.bay', 'shootDay.locationName', 'episode.title'])
+		.select([
+			'shootDay.id',
+			'shootDay.shootDate',
+			'shootDay.callTime',
+			'shootDay.bay',
+			'shootDay.locationName',
+			'episode.title'
+		])
 		.where('shootDay.channelId', '=', channelId)
 		.where('shootDay.shootDate', '>=', sql<string>`current_date`)
 		.orderBy('shootDay.shootDate')
 		.limit(3)
 		.execute();
-	return rows.map((d) => ({ title: `Shoot ${dayName(d.shootDate)}, call ${d.callTime.slice(0, 5)}`, detail: `${d.title} · ${d.bay || d.locationName}. Check cards and the call sheet.`, href: `/shoots/${d.id}`, tone: 'info' as const }));
+	return rows.map((d) => ({
+		title: `Shoot ${dayName(d.shootDate)}, call ${d.callTime.slice(0, 5)}`,
+		detail: `${d.title} · ${d.bay || d.locationName}. Check cards and the call sheet.`,
+		href: `/shoots/${d.id}`,
+		tone: 'info' as const
+	}));
 }

@@ -12,18 +12,34 @@ export async function channelSettings(channelId: string) {
 		.executeTakeFirstOrThrow();
 }
 
-export async function updateChannelSettings(channelId: string, input: z.infer<typeof channelSettingsSchema>) {
+export async function updateChannelSettings(
+	channelId: string,
+	input: z.infer<typeof channelSettingsSchema>
+) {
 	const { version, ...values } = input;
 	const updated = await db
 		.updateTable('channel')
 		.set((eb) => ({ ...values, version: eb('version', '+', 1) }))
 		.where('id', '=', channelId)
 		.where('version', '=', version)
-		.returning(['id', 'name', 'frameRate', 'callToAction', 'contact', 'descriptionLimit', 'version'])
+		.returning([
+			'id',
+			'name',
+			'frameRate',
+			'callToAction',
+			'contact',
+			'descriptionLimit',
+			'version'
+		])
 		.executeTakeFirst();
 	if (!updated) {
 		const current = await channelSettings(channelId);
-		throw new DomainError(409, 'Someone saved these settings while you were editing. Review their version below, then save again.', undefined, { current });
+		throw new DomainError(
+			409,
+			'Someone saved these settings while you were editing. Review their version below, then save again.',
+			undefined,
+			{ current }
+		);
 	}
 	return updated;
 }

@@ -41,7 +41,11 @@ export async function invitePerson(
 	origin: string
 ) {
 	return db.transaction().execute(async (trx) => {
-		const channel = await trx.selectFrom('channel').select(['name']).where('id', '=', channelId).executeTakeFirstOrThrow();
+		const channel = await trx
+			.selectFrom('channel')
+			.select(['name'])
+			.where('id', '=', channelId)
+			.executeTakeFirstOrThrow();
 		let person = await trx
 			.selectFrom('person')
 			.select(['id', 'name', 'email', 'passwordHash'])
@@ -60,8 +64,16 @@ export async function invitePerson(
 			.where('channelId', '=', channelId)
 			.where('personId', '=', person.id)
 			.executeTakeFirst();
-		if (existing) throw new DomainError(409, `${input.email} is already on the ${channel.name} crew. Change their roles instead.`, { email: ['Already on the crew.'] });
-		await trx.insertInto('membership').values({ channelId, personId: person.id, roles: input.roles, invitedBy: inviter.id }).execute();
+		if (existing)
+			throw new DomainError(
+				409,
+				`${input.email} is already on the ${channel.name} crew. Change their roles instead.`,
+				{ email: ['Already on the crew.'] }
+			);
+		await trx
+			.insertInto('membership')
+			.values({ channelId, personId: person.id, roles: input.roles, invitedBy: inviter.id })
+			.execute();
 
 		const secret = newSecret();
 		await trx
@@ -75,13 +87,27 @@ export async function invitePerson(
 			})
 			.execute();
 		const link = `${origin}/welcome/${secret}`;
-		await queueMail(trx, { to: person.email, channelId, ...inviteMail({ channelName: channel.name, inviterName: inviter.name, link, roles: input.roles }) });
+		await queueMail(trx, {
+			to: person.email,
+			channelId,
+			...inviteMail({
+				channelName: channel.name,
+				inviterName: inviter.name,
+				link,
+				roles: input.roles
+			})
+		});
 		return { id: person.id, email: person.email, name: person.name, roles: input.roles };
 	});
 }
 
 /** Changes roles or disables a member; the channel never loses its last active producer. */
-export async function updateMember(channelId: string, actorId: string, personId: string, change: { roles?: Role[]; disabled?: boolean }) {
+export async function updateMember(
+	channelId: string,
+	actorId: string,
+	personId: string,
+	change: { roles?: Role[]; disabled?: boolean }
+) {
 	if (!isUuid(personId)) throw notFound('That crew member');
 	return db.transaction().execute(async (trx) => {
 		const member = await trx
@@ -93,8 +119,16 @@ export async function updateMember(channelId: string, actorId: string, personId:
 			.executeTakeFirst();
 		if (!member) throw notFound('That crew member');
 		const roles = change.roles ?? member.roles;
-		const disabledAt = change.disabled === undefined ? member.disabledAt : change.disabled ? (member.disabledAt ?? new Date()) : null;
-		const losesProducer = member.roles.includes('producer') && !member.disabledAt && (!roles.includes('producer') || disabledAt);
+		const disabledAt =
+			change.disabled === undefined
+				? member.disabledAt
+				: change.disabled
+					? (member.disabledAt ?? new Date())
+					: null;
+		const losesProducer =
+			member.roles.includes('producer') &&
+			!member.disabledAt &&
+			(!roles.includes('producer') || disabledAt);
 		if (losesProducer) {
 			const others = await trx
 				.selectFrom('membership')
@@ -105,25 +139,42 @@ export async function updateMember(channelId: string, actorId: string, personId:
 				.where(sql<boolean>`'producer' = ANY(roles)`)
 				.executeTakeFirstOrThrow();
 			if (others.count === 0) {
-				throw new DomainError(409, personId === actorId
-					? 'You are the only producer: make someone else a producer first.'
-					: 'This is the only producer: make someone else a producer first.');
+				throw new DomainError(
+					409,
+					personId === actorId
+						? 'You are the only producer: make someone else a producer first.'
+						: 'This is the only producer: make someone else a producer first.'
+				);
 			}
 		}
-		await trx.updateTable('membership').set({ roles, disabledAt }).where('channelId', '=', channelId).where('personId', '=', personId).execute();
+		await trx
+			.updateTable('membership')
+			.set({ roles, disabledAt })
+			.where('channelId', '=', channelId)
+			.where('personId', '=', personId)
+			.execute();
 		return { id: personId, roles, disabledAt };
 	});
 }
 
 /** Always answers the same way, so the form never tells a stranger which addresses have accounts. */
 export async function requestPasswordReset(email: string, origin: string): Promise<void> {
-	const person = await db.selectFrom('person').select(['id', 'email']).where(sql`lower(email)`, '=', email.toLowerCase()).executeTakeFirst();
+	const person = await db
+		.selectFrom('person')
+		.select(['id', 'email'])
+		.where(sql`lower(email)`, '=', email.toLowerCase())
+		.executeTakeFirst();
 	if (!person) return;
 	await db.transaction().execute(async (trx) => {
 		const secret = newSecret();
 		await trx
 			.insertInto('oneTimeLink')
-			.values({ personId: person.id, purpose: 'reset', tokenHash: hashSecret(secret), expiresAt: new Date(Date.now() + RESET_HOURS * 3600 * 1000) })
+			.values({
+				personId: person.id,
+				purpose: 'reset',
+				tokenHash: hashSecret(secret),
+				expiresAt: new Date(Date.now() + RESET_HOURS * 3600 * 1000)
+			})
 			.execute();
 		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
 	});
@@ -135,7 +186,14 @@ export async function findLink(secret: string, purpose: 'invite' | 'reset') {
 		.selectFrom('oneTimeLink')
 		.innerJoin('person', 'person.id', 'oneTimeLink.personId')
 		.leftJoin('channel', 'channel.id', 'oneTimeLink.channelId')
-		.select(['oneTimeLink.id', 'person.id as personId', 'person.email', 'person.name', 'channel.name as channelName', 'person.passwordHash'])
+		.select([
+			'oneTimeLink.id',
+			'person.id as personId',
+			'person.email',
+			'person.name',
+			'channel.name as channelName',
+			'person.passwordHash'
+		])
 		.where('oneTimeLink.tokenHash', '=', hashSecret(secret))
 		.where('oneTimeLink.purpose', '=', purpose)
 		.where('oneTimeLink.usedAt', 'is', null)
@@ -144,15 +202,26 @@ export async function findLink(secret: string, purpose: 'invite' | 'reset') {
 }
 
 /** Sets the password through a link and uses the link up; a reset also ends every open session. */
-export async function setPasswordWithLink(secret: string, purpose: 'invite' | 'reset', password: string) {
+export async function setPasswordWithLink(
+	secret: string,
+	purpose: 'invite' | 'reset',
+	password: string
+) {
 	const problem = passwordProblem(password);
 	if (problem) throw new DomainError(400, problem, { password: [problem] });
 	const link = await findLink(secret, purpose);
-	if (!link) throw new DomainError(404, 'This link has expired or was already used. Ask for a new one.');
+	if (!link)
+		throw new DomainError(404, 'This link has expired or was already used. Ask for a new one.');
 	const passwordHash = await hashPassword(password);
 	await db.transaction().execute(async (trx) => {
-		const used = await trx.updateTable('oneTimeLink').set({ usedAt: new Date() }).where('id', '=', link.id).where('usedAt', 'is', null).executeTakeFirst();
-		if (Number(used.numUpdatedRows) !== 1) throw new DomainError(404, 'This link was already used. Ask for a new one.');
+		const used = await trx
+			.updateTable('oneTimeLink')
+			.set({ usedAt: new Date() })
+			.where('id', '=', link.id)
+			.where('usedAt', 'is', null)
+			.executeTakeFirst();
+		if (Number(used.numUpdatedRows) !== 1)
+			throw new DomainError(404, 'This link was already used. Ask for a new one.');
 		await trx.updateTable('person').set({ passwordHash }).where('id', '=', link.personId).execute();
 	});
 	if (purpose === 'reset') await closeAllSessions(link.personId);

@@ -54,7 +54,14 @@ export interface EditProblem {
 }
 
 export interface EditState {
-	episode: { id: string; title: string; slug: string; stage: string; frameRate: FrameRate; dropFrame: boolean };
+	episode: {
+		id: string;
+		title: string;
+		slug: string;
+		stage: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+	};
 	cut: { durationFrames: number | null; timecode: string | null };
 	/** In start order, the order the crew sees them in. */
 	chapters: EditChapter[];
@@ -83,7 +90,14 @@ function episodeWithChapters(executor: Executor, channelId: string, episodeId: s
 			jsonArrayFrom(
 				eb
 					.selectFrom('chapter')
-					.select(['chapter.id', 'chapter.startFrame', 'chapter.title', 'chapter.url', 'chapter.partId', 'chapter.version'])
+					.select([
+						'chapter.id',
+						'chapter.startFrame',
+						'chapter.title',
+						'chapter.url',
+						'chapter.partId',
+						'chapter.version'
+					])
 					.whereRef('chapter.episodeId', '=', 'episode.id')
 					// Ties keep the order they were made in, so a duplicate start reads as "the later one".
 					.orderBy('chapter.startFrame')
@@ -106,7 +120,17 @@ function rateOf(episode: { frameRate: string }): FrameRate {
 	return episode.frameRate;
 }
 
-function toEditChapter(row: { id: string; startFrame: number; title: string; url: string | null; partId: string | null; version: number }, rate: FrameRate): EditChapter {
+function toEditChapter(
+	row: {
+		id: string;
+		startFrame: number;
+		title: string;
+		url: string | null;
+		partId: string | null;
+		version: number;
+	},
+	rate: FrameRate
+): EditChapter {
 	return {
 		id: row.id,
 		startFrame: row.startFrame,
@@ -119,7 +143,11 @@ function toEditChapter(row: { id: string; startFrame: number; title: string; url
 }
 
 /** validateChapters on the list in start order, with each problem tied to its chapter's id. */
-function problemsOf(chapters: readonly { id: string; startFrame: number; title: string; url: string | null }[], cutDurationFrames: number | null, rate: FrameRate): EditProblem[] {
+function problemsOf(
+	chapters: readonly { id: string; startFrame: number; title: string; url: string | null }[],
+	cutDurationFrames: number | null,
+	rate: FrameRate
+): EditProblem[] {
 	return validateChapters([...chapters], cutDurationFrames ?? 0, rate).map((problem) => ({
 		chapterId: problem.index === null ? null : (chapters[problem.index]?.id ?? null),
 		field: problem.field,
@@ -131,7 +159,14 @@ function stateOf(row: EpisodeWithChapters): EditState {
 	const rate = rateOf(row);
 	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
 	return {
-		episode: { id: row.id, title: row.title, slug: row.slug, stage: row.stage, frameRate: rate, dropFrame: defaultDropFrame(rate) },
+		episode: {
+			id: row.id,
+			title: row.title,
+			slug: row.slug,
+			stage: row.stage,
+			frameRate: rate,
+			dropFrame: defaultDropFrame(rate)
+		},
 		cut: {
 			durationFrames: row.cutDurationFrames,
 			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
@@ -143,14 +178,22 @@ function stateOf(row: EpisodeWithChapters): EditState {
 }
 
 /** The episode's edit state, or null when the id names no episode of this channel. */
-export async function findEditState(channelId: string, episodeId: string, executor: Executor = db): Promise<EditState | null> {
+export async function findEditState(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<EditState | null> {
 	if (!isUuid(episodeId)) return null;
 	const row = await episodeWithChapters(executor, channelId, episodeId);
 	return row ? stateOf(row) : null;
 }
 
 /** The episode's edit state; 404 when the id names no episode of this channel. */
-export async function editStateFor(channelId: string, episodeId: string, executor: Executor = db): Promise<EditState> {
+export async function editStateFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<EditState> {
 	const state = await findEditState(channelId, episodeId, executor);
 	if (!state) throw episodeNotFound();
 	return state;
@@ -160,7 +203,11 @@ export async function editStateFor(channelId: string, episodeId: string, executo
  * The chapter rule violations for a stage gate: null when the episode has no chapters yet,
  * otherwise validateChapters' messages ([] when the list is ready). 404 for another channel's episode.
  */
-export async function chapterProblemsFor(executor: Executor, channelId: string, episodeId: string): Promise<string[] | null> {
+export async function chapterProblemsFor(
+	executor: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<string[] | null> {
 	const state = await editStateFor(channelId, episodeId, executor);
 	if (state.chapters.length === 0) return null;
 	return state.problems.map((problem) => problem.message);
@@ -171,7 +218,8 @@ function readTyped(field: string, parse: () => number): number {
 	try {
 		return parse();
 	} catch (failure) {
-		if (failure instanceof TimecodeError) throw new DomainError(400, failure.message, { [field]: [failure.message] });
+		if (failure instanceof TimecodeError)
+			throw new DomainError(400, failure.message, { [field]: [failure.message] });
 		throw failure;
 	}
 }
@@ -193,58 +241,102 @@ function refuseLocked(reason: string | null): void {
 	if (reason) throw new DomainError(409, reason);
 }
 
-function startFrameOf(input: { start?: string; startFrame?: number }, rate: FrameRate): number | undefined {
+function startFrameOf(
+	input: { start?: string; startFrame?: number },
+	rate: FrameRate
+): number | undefined {
 	if (input.startFrame !== undefined) return input.startFrame;
-	if (input.start !== undefined) return readTyped('start', () => chapterStartFromText(input.start!, rate));
+	if (input.start !== undefined)
+		return readTyped('start', () => chapterStartFromText(input.start!, rate));
 	return undefined;
 }
 
 /** Sets how long the cut runs, from timecode or clock text at the episode's rate. */
-export async function setCutDuration(channelId: string, episodeId: string, input: CutUpdate): Promise<EditState> {
+export async function setCutDuration(
+	channelId: string,
+	episodeId: string,
+	input: CutUpdate
+): Promise<EditState> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	refuseLocked(episode.locks.cut);
 	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
-	const frames = readTyped('duration', () => parseTimecode(input.duration, episode.rate, { dropFrame: defaultDropFrame(episode.rate) }));
+	const frames = readTyped('duration', () =>
+		parseTimecode(input.duration, episode.rate, { dropFrame: defaultDropFrame(episode.rate) })
+	);
 	if (frames <= 0) {
-		const message = 'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
+		const message =
+			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
 		throw new DomainError(400, message, { duration: [message] });
 	}
 	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
 	// episode's details at the same time is not told about a conflict that doesn't touch their fields.
-	let update = db.updateTable('episode').set({ cutDurationFrames: frames }).where('id', '=', episode.id).where('channelId', '=', channelId);
+	let update = db
+		.updateTable('episode')
+		.set({ cutDurationFrames: frames })
+		.where('id', '=', episode.id)
+		.where('channelId', '=', channelId);
 	if (input.expectedFrames !== undefined) {
-		update = update.where(sql<boolean>`cut_duration_frames IS NOT DISTINCT FROM ${input.expectedFrames}`);
+		update = update.where(
+			sql<boolean>`cut_duration_frames IS NOT DISTINCT FROM ${input.expectedFrames}`
+		);
 	}
 	const result = await update.executeTakeFirst();
 	if (Number(result.numUpdatedRows) !== 1) {
 		const state = await editStateFor(channelId, episodeId);
-		throw new DomainError(409, `Someone set the cut's length to ${state.cut.timecode ?? 'nothing'} while you were working. Check it, then set yours again if it should change.`, undefined, { current: state.cut, state });
+		throw new DomainError(
+			409,
+			`Someone set the cut's length to ${state.cut.timecode ?? 'nothing'} while you were working. Check it, then set yours again if it should change.`,
+			undefined,
+			{ current: state.cut, state }
+		);
 	}
 	return editStateFor(channelId, episodeId);
 }
 
 /** A chapter may name a part only from its own channel's catalogue. */
-async function checkChapterPart(channelId: string, partId: string | null | undefined): Promise<void> {
+async function checkChapterPart(
+	channelId: string,
+	partId: string | null | undefined
+): Promise<void> {
 	if (!partId) return;
-	const part = await db.selectFrom('part').select('id').where('id', '=', partId).where('channelId', '=', channelId).executeTakeFirst();
+	const part = await db
+		.selectFrom('part')
+		.select('id')
+		.where('id', '=', partId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
 	if (!part) {
-		const message = "That part isn't in this channel's catalogue. Pick one from Parts, or leave the chapter without a part.";
+		const message =
+			"That part isn't in this channel's catalogue. Pick one from Parts, or leave the chapter without a part.";
 		throw new DomainError(400, message, { partId: [message] });
 	}
 }
 
 /** Adds a chapter at a typed time or a frame; the rules it breaks come back in the state. */
-export async function addChapter(channelId: string, episodeId: string, input: ChapterCreate): Promise<{ chapter: EditChapter; state: EditState }> {
+export async function addChapter(
+	channelId: string,
+	episodeId: string,
+	input: ChapterCreate
+): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate)!;
 	const row = await db
 		.insertInto('chapter')
-		.values({ episodeId: episode.id, startFrame, title: input.title, url: input.url ?? null, partId: input.partId ?? null })
+		.values({
+			episodeId: episode.id,
+			startFrame,
+			title: input.title,
+			url: input.url ?? null,
+			partId: input.partId ?? null
+		})
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirstOrThrow();
-	return { chapter: toEditChapter(row, episode.rate), state: await editStateFor(channelId, episodeId) };
+	return {
+		chapter: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
 }
 
 async function chapterOf(episodeId: string, chapterId: string) {
@@ -256,7 +348,12 @@ async function chapterOf(episodeId: string, chapterId: string) {
 		.executeTakeFirst();
 }
 
-async function staleVersion(channelId: string, episodeId: string, chapterId: string, rate: FrameRate): Promise<never> {
+async function staleVersion(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	rate: FrameRate
+): Promise<never> {
 	const current = await chapterOf(episodeId, chapterId);
 	if (!current) throw chapterNotFound();
 	throw new DomainError(
@@ -268,7 +365,12 @@ async function staleVersion(channelId: string, episodeId: string, chapterId: str
 }
 
 /** Moves, renames or relinks a chapter; `version` must be the one the editor read (else 409). */
-export async function updateChapter(channelId: string, episodeId: string, chapterId: string, input: ChapterUpdate): Promise<{ chapter: EditChapter; state: EditState }> {
+export async function updateChapter(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	input: ChapterUpdate
+): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	refuseLocked(episode.locks.chapters);
@@ -289,19 +391,35 @@ export async function updateChapter(channelId: string, episodeId: string, chapte
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
 	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
-	return { chapter: toEditChapter(row, episode.rate), state: await editStateFor(channelId, episodeId) };
+	return {
+		chapter: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
 }
 
 /** Removes a chapter; with a version, only if nobody changed it since (else 409). */
-export async function deleteChapter(channelId: string, episodeId: string, chapterId: string, version?: number): Promise<{ removed: EditChapter; state: EditState }> {
+export async function deleteChapter(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	version?: number
+): Promise<{ removed: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(db, channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	refuseLocked(episode.locks.chapters);
-	let removal = db.deleteFrom('chapter').where('id', '=', chapterId).where('episodeId', '=', episode.id);
+	let removal = db
+		.deleteFrom('chapter')
+		.where('id', '=', chapterId)
+		.where('episodeId', '=', episode.id);
 	if (version !== undefined) removal = removal.where('version', '=', version);
-	const row = await removal.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version']).executeTakeFirst();
+	const row = await removal
+		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
+		.executeTakeFirst();
 	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
-	return { removed: toEditChapter(row, episode.rate), state: await editStateFor(channelId, episodeId) };
+	return {
+		removed: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
 }
 
 export interface ChapterDownload {
@@ -322,7 +440,11 @@ function downloadName(slug: string, extension: string): string {
  * The chapters in one export format, read with a single query. 422 with the problems (per chapter)
  * when the list breaks a chapter rule, since a half-finished list must not reach a description.
  */
-export async function chapterDownloadFor(channelId: string, episodeId: string, format: ChapterFormat): Promise<ChapterDownload> {
+export async function chapterDownloadFor(
+	channelId: string,
+	episodeId: string,
+	format: ChapterFormat
+): Promise<ChapterDownload> {
 	if (!isUuid(episodeId)) throw episodeNotFound();
 	const started = performance.now();
 	const row = await episodeWithChapters(db, channelId, episodeId);
@@ -331,19 +453,33 @@ export async function chapterDownloadFor(channelId: string, episodeId: string, f
 	const rate = rateOf(row);
 	const problems = problemsOf(row.chapters, row.cutDurationFrames, rate);
 	if (problems.length > 0) {
-		throw new DomainError(422, `These chapters can't be exported yet: ${problems.length === 1 ? 'one rule is' : `${problems.length} rules are`} broken. Fix what is listed, then download again.`, undefined, { problems });
+		throw new DomainError(
+			422,
+			`These chapters can't be exported yet: ${problems.length === 1 ? 'one rule is' : `${problems.length} rules are`} broken. Fix what is listed, then download again.`,
+			undefined,
+			{ problems }
+		);
 	}
 	try {
-		const exported = exportChapters(format, row.chapters, { rate, cutEndFrame: row.cutDurationFrames ?? 0 });
+		const exported = exportChapters(format, row.chapters, {
+			rate,
+			cutEndFrame: row.cutDurationFrames ?? 0
+		});
 		return {
 			body: exported.body,
 			contentType: exported.contentType,
 			filename: downloadName(row.slug, exported.extension),
-			timing: { queryMilliseconds: queried - started, renderMilliseconds: performance.now() - queried }
+			timing: {
+				queryMilliseconds: queried - started,
+				renderMilliseconds: performance.now() - queried
+			}
 		};
 	} catch (failure) {
 		// The rules above cover what the exporter checks; this keeps any gap a 422 in plain words.
-		if (failure instanceof ChapterExportError) throw new DomainError(422, failure.message, undefined, { problems: [{ chapterId: null, field: 'list', message: failure.message }] });
+		if (failure instanceof ChapterExportError)
+			throw new DomainError(422, failure.message, undefined, {
+				problems: [{ chapterId: null, field: 'list', message: failure.message }]
+			});
 		throw failure;
 	}
 }

@@ -12,24 +12,41 @@ export interface ActionProblem<V> {
 	extra?: Record<string, unknown>;
 }
 
-export type Attempted<T, V> = { ok: true; value: T } | { ok: false; failure: ActionFailure<ActionProblem<V>> };
+export type Attempted<T, V> =
+	{ ok: true; value: T } | { ok: false; failure: ActionFailure<ActionProblem<V>> };
 
-export async function attemptAction<T, V>(action: string, values: V, work: () => Promise<T>): Promise<Attempted<T, V>> {
+export async function attemptAction<T, V>(
+	action: string,
+	values: V,
+	work: () => Promise<T>
+): Promise<Attempted<T, V>> {
 	try {
 		return { ok: true, value: await work() };
 	} catch (failure) {
 		if (failure instanceof DomainError) {
-			return { ok: false, failure: fail(failure.status, { action, errors: failure.issues ?? { form: [failure.message] }, values, extra: failure.extra }) };
+			return {
+				ok: false,
+				failure: fail(failure.status, {
+					action,
+					errors: failure.issues ?? { form: [failure.message] },
+					values,
+					extra: failure.extra
+				})
+			};
 		}
 		if (isHttpError(failure) && (failure.status === 403 || failure.status === 404)) {
-			return { ok: false, failure: fail(failure.status, { action, errors: { form: [failure.body.message] }, values }) };
+			return {
+				ok: false,
+				failure: fail(failure.status, { action, errors: { form: [failure.body.message] }, values })
+			};
 		}
 		throw failure;
 	}
 }
 
 /** A field-error failure from a zod parse. */
-export const invalid = <V>(action: string, errors: Record<string, string[]>, values: V) => fail(400, { action, errors, values });
+export const invalid = <V>(action: string, errors: Record<string, string[]>, values: V) =>
+	fail(400, { action, errors, values });
 
 export const text = (form: FormData, name: string) => String(form.get(name) ?? '');
 

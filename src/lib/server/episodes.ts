@@ -11,10 +11,21 @@ import { DomainError, notFound } from './api';
 import { isUuid } from './identity';
 import { queueMail } from './mail/outbox';
 import { assignmentMail } from './mail/episode-messages';
-import { calibratePace, countSpokenWords, DEFAULT_WORDS_PER_MINUTE, type CalibratedPace } from '$lib/script/timing';
+import {
+	calibratePace,
+	countSpokenWords,
+	DEFAULT_WORDS_PER_MINUTE,
+	type CalibratedPace
+} from '$lib/script/timing';
 import { framesToSeconds, isFrameRate, type FrameRate } from '$lib/timecode';
 import { STAGES, type Stage } from '$lib/stages';
-import { ASSIGNABLE_ROLES, type AssignableRole, type EpisodeCreate, type EpisodeListQuery, type EpisodeUpdate } from '$lib/schemas/episodes';
+import {
+	ASSIGNABLE_ROLES,
+	type AssignableRole,
+	type EpisodeCreate,
+	type EpisodeListQuery,
+	type EpisodeUpdate
+} from '$lib/schemas/episodes';
 import { ROLE_LABELS } from '$lib/roles';
 
 /** The shared instance or an open transaction (a Transaction is a Kysely). */
@@ -30,14 +41,24 @@ export const episodeNotFound = () => notFound('That episode');
 
 /** The episode's frame rate, checked: a bad stored value is a data fault, not the caller's. */
 export function rateOf(episode: { frameRate: string }): FrameRate {
-	if (!isFrameRate(episode.frameRate)) throw new Error(`episode has an unknown frame rate ${JSON.stringify(episode.frameRate)}`);
+	if (!isFrameRate(episode.frameRate))
+		throw new Error(`episode has an unknown frame rate ${JSON.stringify(episode.frameRate)}`);
 	return episode.frameRate;
 }
 
 /** The episode row of this channel, optionally locked for the rest of the transaction; 404 otherwise. */
-export async function episodeInChannel(executor: Executor, channelId: string, episodeId: string, options: { lock?: boolean } = {}) {
+export async function episodeInChannel(
+	executor: Executor,
+	channelId: string,
+	episodeId: string,
+	options: { lock?: boolean } = {}
+) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
-	let query = executor.selectFrom('episode').selectAll().where('id', '=', episodeId).where('channelId', '=', channelId);
+	let query = executor
+		.selectFrom('episode')
+		.selectAll()
+		.where('id', '=', episodeId)
+		.where('channelId', '=', channelId);
 	if (options.lock) query = query.forUpdate();
 	const row = await query.executeTakeFirst();
 	if (!row) throw episodeNotFound();
@@ -84,7 +105,11 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 				.as('segmentCount'),
 			eb
 				.selectFrom('segment')
-				.select((inner) => inner.fn.coalesce(inner.fn.sum<number>('segment.plannedSeconds'), sql<number>`0`).as('planned'))
+				.select((inner) =>
+					inner.fn
+						.coalesce(inner.fn.sum<number>('segment.plannedSeconds'), sql<number>`0`)
+						.as('planned')
+				)
 				.whereRef('segment.episodeId', '=', 'episode.id')
 				.as('plannedSeconds')
 		])
@@ -93,7 +118,13 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 	if (query.assignee) {
 		const assignee = query.assignee;
 		select = select.where((eb) =>
-			eb.exists(eb.selectFrom('episodeAssignment').select('episodeAssignment.role').whereRef('episodeAssignment.episodeId', '=', 'episode.id').where('episodeAssignment.personId', '=', assignee))
+			eb.exists(
+				eb
+					.selectFrom('episodeAssignment')
+					.select('episodeAssignment.role')
+					.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
+					.where('episodeAssignment.personId', '=', assignee)
+			)
 		);
 	}
 	if (query.from) select = select.where('episode.publishDate', '>=', query.from);
@@ -105,7 +136,9 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			select = select.orderBy(sql`lower(episode.title) ${sql.raw(direction)}`);
 			break;
 		case 'stage':
-			select = select.orderBy(sql`${stageOrder} ${sql.raw(direction)}`).orderBy('episode.publishDate', (order) => order.asc().nullsLast());
+			select = select
+				.orderBy(sql`${stageOrder} ${sql.raw(direction)}`)
+				.orderBy('episode.publishDate', (order) => order.asc().nullsLast());
 			break;
 		case 'created':
 			select = select.orderBy('episode.createdAt', direction);
@@ -114,7 +147,11 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			select = select.orderBy(sql`episode.publish_date ${sql.raw(direction)} ${nulls}`);
 	}
 	const rows = await select.orderBy('episode.title').orderBy('episode.id').execute();
-	return rows.map((row) => ({ ...row, segmentCount: Number(row.segmentCount ?? 0), plannedSeconds: Number(row.plannedSeconds ?? 0) }));
+	return rows.map((row) => ({
+		...row,
+		segmentCount: Number(row.segmentCount ?? 0),
+		plannedSeconds: Number(row.plannedSeconds ?? 0)
+	}));
 }
 
 export type EpisodeListRow = Awaited<ReturnType<typeof listEpisodes>>[number];
@@ -145,7 +182,12 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 				eb
 					.selectFrom('episodeAssignment')
 					.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-					.select(['episodeAssignment.role', 'person.id as personId', 'person.name', 'person.email'])
+					.select([
+						'episodeAssignment.role',
+						'person.id as personId',
+						'person.name',
+						'person.email'
+					])
 					.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
 					.orderBy('episodeAssignment.role')
 			).as('assignments'),
@@ -168,14 +210,23 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
 /** Role → person id of an episode's crew. */
-export function assignmentMap(assignments: readonly { role: string; personId: string }[]): Partial<Record<Role, string>> {
-	return Object.fromEntries(assignments.map((assignment) => [assignment.role, assignment.personId]));
+export function assignmentMap(
+	assignments: readonly { role: string; personId: string }[]
+): Partial<Record<Role, string>> {
+	return Object.fromEntries(
+		assignments.map((assignment) => [assignment.role, assignment.personId])
+	);
 }
 
 /** What the episode forms offer: the channel's builds and its active crew with their roles. */
 export async function episodeFormOptions(channelId: string) {
 	const [builds, crew, episodes] = await Promise.all([
-		db.selectFrom('build').select(['id', 'name', 'year', 'vehicleType']).where('channelId', '=', channelId).orderBy('name').execute(),
+		db
+			.selectFrom('build')
+			.select(['id', 'name', 'year', 'vehicleType'])
+			.where('channelId', '=', channelId)
+			.orderBy('name')
+			.execute(),
 		db
 			.selectFrom('membership')
 			.innerJoin('person', 'person.id', 'membership.personId')
@@ -184,7 +235,12 @@ export async function episodeFormOptions(channelId: string) {
 			.where('membership.disabledAt', 'is', null)
 			.orderBy('person.name')
 			.execute(),
-		db.selectFrom('episode').select(['id', 'title', 'stage']).where('channelId', '=', channelId).orderBy('title').execute()
+		db
+			.selectFrom('episode')
+			.select(['id', 'title', 'stage'])
+			.where('channelId', '=', channelId)
+			.orderBy('title')
+			.execute()
 	]);
 	return { builds, crew, episodes };
 }
@@ -202,7 +258,12 @@ export function slugFromTitle(title: string): string {
 	return slug || 'episode';
 }
 
-async function uniqueSlug(executor: Executor, channelId: string, wanted: string, exceptEpisodeId?: string): Promise<string> {
+async function uniqueSlug(
+	executor: Executor,
+	channelId: string,
+	wanted: string,
+	exceptEpisodeId?: string
+): Promise<string> {
 	const taken = new Set(
 		(
 			await executor
@@ -215,69 +276,141 @@ async function uniqueSlug(executor: Executor, channelId: string, wanted: string,
 		).map((row) => row.slug)
 	);
 	if (!taken.has(wanted)) return wanted;
-	for (let suffix = 2; ; suffix++) if (!taken.has(`${wanted}-${suffix}`)) return `${wanted}-${suffix}`;
+	for (let suffix = 2; ; suffix++)
+		if (!taken.has(`${wanted}-${suffix}`)) return `${wanted}-${suffix}`;
 }
 
-async function checkBuilds(executor: Executor, channelId: string, buildIds: readonly string[]): Promise<void> {
+async function checkBuilds(
+	executor: Executor,
+	channelId: string,
+	buildIds: readonly string[]
+): Promise<void> {
 	if (buildIds.length === 0) return;
-	const found = await executor.selectFrom('build').select('id').where('channelId', '=', channelId).where('id', 'in', [...buildIds]).execute();
+	const found = await executor
+		.selectFrom('build')
+		.select('id')
+		.where('channelId', '=', channelId)
+		.where('id', 'in', [...buildIds])
+		.execute();
 	if (found.length !== new Set(buildIds).size) {
-		throw new DomainError(400, 'One of the builds is not in this channel.', { buildIds: ['Pick builds from the list.'] });
+		throw new DomainError(400, 'One of the builds is not in this channel.', {
+			buildIds: ['Pick builds from the list.']
+		});
 	}
 }
 
 /** Every assignee must be an active crew member holding that role in this channel. */
-async function checkAssignments(executor: Executor, channelId: string, assignments: Partial<Record<AssignableRole, string | null>>): Promise<void> {
-	const wanted = Object.entries(assignments).filter((entry): entry is [AssignableRole, string] => typeof entry[1] === 'string');
+async function checkAssignments(
+	executor: Executor,
+	channelId: string,
+	assignments: Partial<Record<AssignableRole, string | null>>
+): Promise<void> {
+	const wanted = Object.entries(assignments).filter(
+		(entry): entry is [AssignableRole, string] => typeof entry[1] === 'string'
+	);
 	if (wanted.length === 0) return;
 	const members = await executor
 		.selectFrom('membership')
 		.select(['personId', 'roles'])
 		.where('channelId', '=', channelId)
 		.where('disabledAt', 'is', null)
-		.where('personId', 'in', wanted.map(([, personId]) => personId))
+		.where(
+			'personId',
+			'in',
+			wanted.map(([, personId]) => personId)
+		)
 		.execute();
 	const issues: Record<string, string[]> = {};
 	for (const [role, personId] of wanted) {
 		const member = members.find((candidate) => candidate.personId === personId);
 		if (!member) issues[`assignments.${role}`] = ['That person is not on this channel’s crew.'];
-		else if (!member.roles.includes(role)) issues[`assignments.${role}`] = [`That person does not have the ${ROLE_LABELS[role].toLowerCase()} role: give it to them under Crew first.`];
+		else if (!member.roles.includes(role))
+			issues[`assignments.${role}`] = [
+				`That person does not have the ${ROLE_LABELS[role].toLowerCase()} role: give it to them under Crew first.`
+			];
 	}
-	if (Object.keys(issues).length) throw new DomainError(400, 'Some crew assignments need fixing.', issues);
+	if (Object.keys(issues).length)
+		throw new DomainError(400, 'Some crew assignments need fixing.', issues);
 }
 
 /** Replaces the assignments named in `assignments` (null removes one); mails anyone newly assigned. */
 async function writeAssignments(
 	trx: Executor,
-	context: { channelId: string; episodeId: string; episodeTitle: string; actor: Actor; origin: string },
+	context: {
+		channelId: string;
+		episodeId: string;
+		episodeTitle: string;
+		actor: Actor;
+		origin: string;
+	},
 	assignments: Partial<Record<AssignableRole, string | null | undefined>>
 ): Promise<void> {
-	const before = assignmentMap(await trx.selectFrom('episodeAssignment').select(['role', 'personId']).where('episodeId', '=', context.episodeId).execute());
+	const before = assignmentMap(
+		await trx
+			.selectFrom('episodeAssignment')
+			.select(['role', 'personId'])
+			.where('episodeId', '=', context.episodeId)
+			.execute()
+	);
 	for (const role of ASSIGNABLE_ROLES) {
 		if (!(role in assignments) || assignments[role] === undefined) continue;
 		const personId = assignments[role] ?? null;
 		if (before[role] === personId) continue;
-		await trx.deleteFrom('episodeAssignment').where('episodeId', '=', context.episodeId).where('role', '=', role).execute();
+		await trx
+			.deleteFrom('episodeAssignment')
+			.where('episodeId', '=', context.episodeId)
+			.where('role', '=', role)
+			.execute();
 		if (personId === null) continue;
-		await trx.insertInto('episodeAssignment').values({ episodeId: context.episodeId, role, personId }).execute();
+		await trx
+			.insertInto('episodeAssignment')
+			.values({ episodeId: context.episodeId, role, personId })
+			.execute();
 		if (personId === context.actor.id) continue;
-		const person = await trx.selectFrom('person').select(['email', 'name']).where('id', '=', personId).executeTakeFirstOrThrow();
+		const person = await trx
+			.selectFrom('person')
+			.select(['email', 'name'])
+			.where('id', '=', personId)
+			.executeTakeFirstOrThrow();
 		await queueMail(trx, {
 			to: person.email,
 			channelId: context.channelId,
-			...assignmentMail({ personName: person.name, assignerName: context.actor.name, role: ROLE_LABELS[role], episodeTitle: context.episodeTitle, link: `${context.origin}/episodes/${context.episodeId}` })
+			...assignmentMail({
+				personName: person.name,
+				assignerName: context.actor.name,
+				role: ROLE_LABELS[role],
+				episodeTitle: context.episodeTitle,
+				link: `${context.origin}/episodes/${context.episodeId}`
+			})
 		});
 	}
 }
 
 /** Creates an episode at the script stage, with its first history row; mails whoever is assigned. */
-export async function createEpisode(channelId: string, actor: Actor, input: EpisodeCreate, origin: string) {
+export async function createEpisode(
+	channelId: string,
+	actor: Actor,
+	input: EpisodeCreate,
+	origin: string
+) {
 	return db.transaction().execute(async (trx) => {
 		await checkBuilds(trx, channelId, input.buildIds ?? []);
 		await checkAssignments(trx, channelId, input.assignments ?? {});
-		const slug = input.slug ? input.slug : await uniqueSlug(trx, channelId, slugFromTitle(input.title));
-		const clash = await trx.selectFrom('episode').select('id').where('channelId', '=', channelId).where('slug', '=', slug).executeTakeFirst();
-		if (clash) throw new DomainError(409, `Another episode already uses the slug “${slug}”. Pick another, or leave it empty to make one from the title.`, { slug: ['Already used by another episode.'] });
+		const slug = input.slug
+			? input.slug
+			: await uniqueSlug(trx, channelId, slugFromTitle(input.title));
+		const clash = await trx
+			.selectFrom('episode')
+			.select('id')
+			.where('channelId', '=', channelId)
+			.where('slug', '=', slug)
+			.executeTakeFirst();
+		if (clash)
+			throw new DomainError(
+				409,
+				`Another episode already uses the slug “${slug}”. Pick another, or leave it empty to make one from the title.`,
+				{ slug: ['Already used by another episode.'] }
+			);
 		const episode = await trx
 			.insertInto('episode')
 			.values({
@@ -292,32 +425,79 @@ export async function createEpisode(channelId: string, actor: Actor, input: Epis
 			})
 			.returning(['id', 'title'])
 			.executeTakeFirstOrThrow();
-		for (const buildId of new Set(input.buildIds ?? [])) await trx.insertInto('episodeBuild').values({ episodeId: episode.id, buildId }).execute();
-		await writeAssignments(trx, { channelId, episodeId: episode.id, episodeTitle: episode.title, actor, origin }, input.assignments ?? {});
-		await trx.insertInto('stageMove').values({ episodeId: episode.id, personId: actor.id, fromStage: null, toStage: 'script', note: 'Episode created' }).execute();
+		for (const buildId of new Set(input.buildIds ?? []))
+			await trx.insertInto('episodeBuild').values({ episodeId: episode.id, buildId }).execute();
+		await writeAssignments(
+			trx,
+			{ channelId, episodeId: episode.id, episodeTitle: episode.title, actor, origin },
+			input.assignments ?? {}
+		);
+		await trx
+			.insertInto('stageMove')
+			.values({
+				episodeId: episode.id,
+				personId: actor.id,
+				fromStage: null,
+				toStage: 'script',
+				note: 'Episode created'
+			})
+			.execute();
 		return episodeDetail(channelId, episode.id, trx);
 	});
 }
 
 /** Changes an episode's details; a stale version answers 409 with the saved episode in `current`. */
-export async function updateEpisode(channelId: string, actor: Actor, episodeId: string, input: EpisodeUpdate, origin: string) {
+export async function updateEpisode(
+	channelId: string,
+	actor: Actor,
+	episodeId: string,
+	input: EpisodeUpdate,
+	origin: string
+) {
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
 		if (episode.version !== input.version) {
-			throw new DomainError(409, 'Someone saved this episode while you were editing. Their version is shown below; your changes are still in the form.', undefined, {
-				current: await episodeDetail(channelId, episodeId, trx)
-			});
+			throw new DomainError(
+				409,
+				'Someone saved this episode while you were editing. Their version is shown below; your changes are still in the form.',
+				undefined,
+				{
+					current: await episodeDetail(channelId, episodeId, trx)
+				}
+			);
 		}
-		if (input.frameRate !== undefined && input.frameRate !== episode.frameRate && episode.stage !== 'script') {
-			throw new DomainError(409, 'The frame rate is fixed once the episode has left the script stage: takes, cautions and the cut are counted in its frames.', { frameRate: ['Fixed after the script stage.'] });
+		if (
+			input.frameRate !== undefined &&
+			input.frameRate !== episode.frameRate &&
+			episode.stage !== 'script'
+		) {
+			throw new DomainError(
+				409,
+				'The frame rate is fixed once the episode has left the script stage: takes, cautions and the cut are counted in its frames.',
+				{ frameRate: ['Fixed after the script stage.'] }
+			);
 		}
 		if (input.buildIds) await checkBuilds(trx, channelId, input.buildIds);
 		if (input.assignments) await checkAssignments(trx, channelId, input.assignments);
 		let slug = episode.slug;
 		if (input.slug !== undefined && input.slug !== episode.slug) {
-			slug = input.slug === '' ? await uniqueSlug(trx, channelId, slugFromTitle(input.title ?? episode.title), episodeId) : input.slug;
-			const clash = await trx.selectFrom('episode').select('id').where('channelId', '=', channelId).where('slug', '=', slug).where('id', '!=', episodeId).executeTakeFirst();
-			if (clash) throw new DomainError(409, `Another episode already uses the slug “${slug}”. Pick another.`, { slug: ['Already used by another episode.'] });
+			slug =
+				input.slug === ''
+					? await uniqueSlug(trx, channelId, slugFromTitle(input.title ?? episode.title), episodeId)
+					: input.slug;
+			const clash = await trx
+				.selectFrom('episode')
+				.select('id')
+				.where('channelId', '=', channelId)
+				.where('slug', '=', slug)
+				.where('id', '!=', episodeId)
+				.executeTakeFirst();
+			if (clash)
+				throw new DomainError(
+					409,
+					`Another episode already uses the slug “${slug}”. Pick another.`,
+					{ slug: ['Already used by another episode.'] }
+				);
 		}
 		const title = input.title ?? episode.title;
 		await trx
@@ -335,9 +515,15 @@ export async function updateEpisode(channelId: string, actor: Actor, episodeId: 
 			.execute();
 		if (input.buildIds) {
 			await trx.deleteFrom('episodeBuild').where('episodeId', '=', episodeId).execute();
-			for (const buildId of new Set(input.buildIds)) await trx.insertInto('episodeBuild').values({ episodeId, buildId }).execute();
+			for (const buildId of new Set(input.buildIds))
+				await trx.insertInto('episodeBuild').values({ episodeId, buildId }).execute();
 		}
-		if (input.assignments) await writeAssignments(trx, { channelId, episodeId, episodeTitle: title, actor, origin }, input.assignments);
+		if (input.assignments)
+			await writeAssignments(
+				trx,
+				{ channelId, episodeId, episodeTitle: title, actor, origin },
+				input.assignments
+			);
 		return episodeDetail(channelId, episodeId, trx);
 	});
 }
@@ -350,7 +536,11 @@ export interface HostPace extends CalibratedPace {
  * The assigned host's pace: words ÷ recorded minutes over their earlier segments whose length in
  * the cut is known (calibratePace in $lib/script/timing), else the 150 wpm default.
  */
-export async function hostPaceFor(channelId: string, episodeId: string, executor: Executor = db): Promise<HostPace> {
+export async function hostPaceFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<HostPace> {
 	const host = await executor
 		.selectFrom('episodeAssignment')
 		.innerJoin('person', 'person.id', 'episodeAssignment.personId')
@@ -358,11 +548,21 @@ export async function hostPaceFor(channelId: string, episodeId: string, executor
 		.where('episodeAssignment.episodeId', '=', episodeId)
 		.where('episodeAssignment.role', '=', 'host')
 		.executeTakeFirst();
-	if (!host) return { wordsPerMinute: DEFAULT_WORDS_PER_MINUTE, basedOn: 0, calibrated: false, hostName: null };
+	if (!host)
+		return {
+			wordsPerMinute: DEFAULT_WORDS_PER_MINUTE,
+			basedOn: 0,
+			calibrated: false,
+			hostName: null
+		};
 	const recorded = await executor
 		.selectFrom('segment')
 		.innerJoin('episode', 'episode.id', 'segment.episodeId')
-		.innerJoin('episodeAssignment', (join) => join.onRef('episodeAssignment.episodeId', '=', 'episode.id').on('episodeAssignment.role', '=', 'host'))
+		.innerJoin('episodeAssignment', (join) =>
+			join
+				.onRef('episodeAssignment.episodeId', '=', 'episode.id')
+				.on('episodeAssignment.role', '=', 'host')
+		)
 		.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
 		.select(['segment.recordedFrames', 'episode.frameRate', 'segmentScript.body'])
 		.where('episode.channelId', '=', channelId)
@@ -371,7 +571,10 @@ export async function hostPaceFor(channelId: string, episodeId: string, executor
 		.execute();
 	const samples = recorded
 		.filter((row) => isFrameRate(row.frameRate))
-		.map((row) => ({ words: countSpokenWords(row.body), recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate as FrameRate) }));
+		.map((row) => ({
+			words: countSpokenWords(row.body),
+			recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate as FrameRate)
+		}));
 	return { ...calibratePace(samples), hostName: host.name };
 }
 

@@ -39,7 +39,8 @@ export interface FeaturedPart {
 	linkCode: string | null;
 }
 
-export type FeaturedWarningKind = 'discontinued' | 'out-of-stock' | 'no-program-time' | 'named-not-linked';
+export type FeaturedWarningKind =
+	'discontinued' | 'out-of-stock' | 'no-program-time' | 'named-not-linked';
 
 export interface FeaturedWarning {
 	kind: FeaturedWarningKind;
@@ -79,7 +80,11 @@ function featuredRows(executor: Executor, episodeId: string) {
 		.selectFrom('segmentNotePart')
 		.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
 		.innerJoin('part', 'part.id', 'segmentNotePart.partId')
-		.leftJoin('trackedLink', (join) => join.onRef('trackedLink.partId', '=', 'part.id').onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId'))
+		.leftJoin('trackedLink', (join) =>
+			join
+				.onRef('trackedLink.partId', '=', 'part.id')
+				.onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId')
+		)
 		.select(FEATURED_COLUMNS)
 		.where('segmentNote.episodeId', '=', episodeId)
 		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
@@ -89,7 +94,8 @@ function featuredRows(executor: Executor, episodeId: string) {
 
 type FeaturedRow = Awaited<ReturnType<typeof featuredRows>>[number];
 
-export const clockAt = (frame: number, rate: FrameRate) => formatClock(framesToSeconds(frame, rate));
+export const clockAt = (frame: number, rate: FrameRate) =>
+	formatClock(framesToSeconds(frame, rate));
 
 /** Groups (note, part) rows into parts ordered by first appearance; parts never placed come last, by SKU. */
 export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): FeaturedPart[] {
@@ -116,13 +122,25 @@ export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): Fe
 		}
 		if (row.programFrame === null) part.unplaced.push({ noteId: row.noteId, text: row.text });
 		else {
-			part.appearances.push({ noteId: row.noteId, programFrame: row.programFrame, timecode: formatTimecode(row.programFrame, rate), clock: clockAt(row.programFrame, rate) });
-			part.firstFrame = part.firstFrame === null ? row.programFrame : Math.min(part.firstFrame, row.programFrame);
+			part.appearances.push({
+				noteId: row.noteId,
+				programFrame: row.programFrame,
+				timecode: formatTimecode(row.programFrame, rate),
+				clock: clockAt(row.programFrame, rate)
+			});
+			part.firstFrame =
+				part.firstFrame === null ? row.programFrame : Math.min(part.firstFrame, row.programFrame);
 		}
 	}
-	for (const part of parts.values()) part.appearances.sort((a, b) => a.programFrame - b.programFrame);
+	for (const part of parts.values())
+		part.appearances.sort((a, b) => a.programFrame - b.programFrame);
 	return [...parts.values()].sort((a, b) => {
-		if (a.firstFrame === null || b.firstFrame === null) return a.firstFrame === b.firstFrame ? a.sku.localeCompare(b.sku) : a.firstFrame === null ? 1 : -1;
+		if (a.firstFrame === null || b.firstFrame === null)
+			return a.firstFrame === b.firstFrame
+				? a.sku.localeCompare(b.sku)
+				: a.firstFrame === null
+					? 1
+					: -1;
 		return a.firstFrame - b.firstFrame || a.sku.localeCompare(b.sku);
 	});
 }
@@ -132,7 +150,10 @@ const shortText = (text: string) => {
 	return line.length > 50 ? `${line.slice(0, 49)}…` : line;
 };
 
-const atTimes = (part: FeaturedPart) => (part.appearances.length ? ` (on screen at ${part.appearances.map((a) => a.clock).join(', ')})` : '');
+const atTimes = (part: FeaturedPart) =>
+	part.appearances.length
+		? ` (on screen at ${part.appearances.map((a) => a.clock).join(', ')})`
+		: '';
 
 /** The warnings that hold up the lock, in the crew's words. */
 export function lockWarnings(parts: readonly FeaturedPart[]): FeaturedWarning[] {
@@ -140,12 +161,30 @@ export function lockWarnings(parts: readonly FeaturedPart[]): FeaturedWarning[] 
 	for (const part of parts) {
 		const label = `${part.sku} “${part.name}”`;
 		if (part.status === 'discontinued') {
-			warnings.push({ kind: 'discontinued', partId: part.partId, sku: part.sku, blocksLock: true, message: `${label} is discontinued${atTimes(part)}: link a current catalogue part on its notes instead.` });
+			warnings.push({
+				kind: 'discontinued',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is discontinued${atTimes(part)}: link a current catalogue part on its notes instead.`
+			});
 		} else if (part.status === 'out_of_stock') {
-			warnings.push({ kind: 'out-of-stock', partId: part.partId, sku: part.sku, blocksLock: true, message: `${label} is out of stock${atTimes(part)}: restock it or link an active part instead.` });
+			warnings.push({
+				kind: 'out-of-stock',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is out of stock${atTimes(part)}: restock it or link an active part instead.`
+			});
 		}
 		for (const note of part.unplaced) {
-			warnings.push({ kind: 'no-program-time', partId: part.partId, sku: part.sku, blocksLock: true, message: `${label} is on a note with no program time (“${shortText(note.text)}”): the editor places the note in the cut.` });
+			warnings.push({
+				kind: 'no-program-time',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is on a note with no program time (“${shortText(note.text)}”): the editor places the note in the cut.`
+			});
 		}
 	}
 	return warnings;
@@ -198,18 +237,35 @@ async function partsNamedInScript(executor: Executor, channelId: string, episode
 }
 
 /** The featured parts list and its warnings for one episode of the channel (404 otherwise). */
-export async function featuredPartsFor(channelId: string, episodeId: string, executor: Executor = db): Promise<FeaturedParts> {
+export async function featuredPartsFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<FeaturedParts> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const rate = rateOf(episode);
-	const [rows, named] = await Promise.all([featuredRows(executor, episode.id), partsNamedInScript(executor, channelId, episode.id)]);
+	const [rows, named] = await Promise.all([
+		featuredRows(executor, episode.id),
+		partsNamedInScript(executor, channelId, episode.id)
+	]);
 	const parts = groupFeatured(rows, rate);
 	const featured = new Set(parts.map((part) => part.partId));
 	const warnings = lockWarnings(parts);
 	for (const part of named) {
 		if (featured.has(part.id)) continue;
-		warnings.push({ kind: 'named-not-linked', partId: part.id, sku: part.sku, blocksLock: false, message: `${part.sku} “${part.name}” is named in the script but no note links it: link it where it is on screen, or check the script.` });
+		warnings.push({
+			kind: 'named-not-linked',
+			partId: part.id,
+			sku: part.sku,
+			blocksLock: false,
+			message: `${part.sku} “${part.name}” is named in the script but no note links it: link it where it is on screen, or check the script.`
+		});
 	}
-	return { episode: { id: episode.id, title: episode.title, slug: episode.slug, frameRate: rate }, parts, warnings };
+	return {
+		episode: { id: episode.id, title: episode.title, slug: episode.slug, frameRate: rate },
+		parts,
+		warnings
+	};
 }
 
 /**
@@ -217,9 +273,16 @@ export async function featuredPartsFor(channelId: string, episodeId: string, exe
  * are): every featured part is an active catalogue part and every note showing one has a program
  * time. 404 for an episode of another channel.
  */
-export async function featuredPartProblemsFor(executor: Executor, channelId: string, episodeId: string): Promise<{ message: string; fixedBy: Role }[]> {
+export async function featuredPartProblemsFor(
+	executor: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<{ message: string; fixedBy: Role }[]> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const parts = groupFeatured(await featuredRows(executor, episode.id), rateOf(episode));
 	// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
-	return lockWarnings(parts).map((warning) => ({ message: warning.message, fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch' }));
+	return lockWarnings(parts).map((warning) => ({
+		message: warning.message,
+		fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch'
+	}));
 }

@@ -28,7 +28,12 @@ export async function listFollowUps(channelId: string) {
 		])
 		.where('teasing.channelId', '=', channelId)
 		.where('segment.kind', '=', 'teaser')
-		.where((eb) => eb.or([eb('segment.promiseEpisodeId', 'is not', null), eb(sql`coalesce(trim(segment.promise_title), '')`, '!=', '')]))
+		.where((eb) =>
+			eb.or([
+				eb('segment.promiseEpisodeId', 'is not', null),
+				eb(sql`coalesce(trim(segment.promise_title), '')`, '!=', '')
+			])
+		)
 		.where((eb) => eb.or([eb('promised.id', 'is', null), eb('promised.stage', '!=', 'published')]))
 		.orderBy(sql`teasing.publish_date ASC NULLS LAST`)
 		.orderBy('segment.createdAt')

@@ -5,20 +5,30 @@ import { DomainError, fieldIssues } from './api';
 
 export type FormErrors = Record<string, string[]>;
 
-export function parseForm<T extends z.ZodType>(schema: T, values: unknown):
-	| { ok: true; data: z.infer<T> }
-	| { ok: false; errors: FormErrors } {
+export function parseForm<T extends z.ZodType>(
+	schema: T,
+	values: unknown
+): { ok: true; data: z.infer<T> } | { ok: false; errors: FormErrors } {
 	const parsed = schema.safeParse(values);
-	return parsed.success ? { ok: true, data: parsed.data } : { ok: false, errors: fieldIssues(parsed.error) };
+	return parsed.success
+		? { ok: true, data: parsed.data }
+		: { ok: false, errors: fieldIssues(parsed.error) };
 }
 
 /** Runs a domain call; a DomainError becomes a fail() that keeps what the person typed. */
-export async function attempt<T, V>(values: V, work: () => Promise<T>): Promise<T | ActionFailure<{ errors: FormErrors; values: V; extra?: Record<string, unknown> }>> {
+export async function attempt<T, V>(
+	values: V,
+	work: () => Promise<T>
+): Promise<T | ActionFailure<{ errors: FormErrors; values: V; extra?: Record<string, unknown> }>> {
 	try {
 		return await work();
 	} catch (failure) {
 		if (failure instanceof DomainError) {
-			return fail(failure.status, { errors: failure.issues ?? { form: [failure.message] }, values, extra: failure.extra });
+			return fail(failure.status, {
+				errors: failure.issues ?? { form: [failure.message] },
+				values,
+				extra: failure.extra
+			});
 		}
 		throw failure;
 	}
@@ -34,11 +44,16 @@ export async function forPage<T>(work: () => Promise<T>): Promise<T> {
 	}
 }
 
-const RELOAD = 'Reload the page and try again: the form did not say which version you were looking at.';
-const versionSchema = z.object({ version: z.coerce.number({ error: RELOAD }).int(RELOAD).min(1, RELOAD) });
+const RELOAD =
+	'Reload the page and try again: the form did not say which version you were looking at.';
+const versionSchema = z.object({
+	version: z.coerce.number({ error: RELOAD }).int(RELOAD).min(1, RELOAD)
+});
 
 /** The `version` a form carries for its optimistic lock (a whole number from 1), or the field error. */
-export function readVersion(form: FormData): { ok: true; version: number } | { ok: false; errors: FormErrors } {
+export function readVersion(
+	form: FormData
+): { ok: true; version: number } | { ok: false; errors: FormErrors } {
 	const parsed = parseForm(versionSchema, { version: form.get('version') ?? undefined });
 	return parsed.ok ? { ok: true, version: parsed.data.version } : parsed;
 }

@@ -17,9 +17,13 @@ export function requireRole(event: Pick<RequestEvent, 'locals'>, ...allowed: Rol
 	if (!person || !channel) error(401, 'Sign in to continue.');
 	if (allowed.length > 0 && !allowed.some((role) => roles.includes(role))) {
 		const names = allowed.join(' or ');
-		error(403, `This needs the ${names} role in ${channel.name}. Ask your producer if you need it.`);
+		error(
+			403,
+			`This needs the ${names} role in ${channel.name}. Ask your producer if you need it.`
+		);
 	}
 	return { person, channel, roles };
 }
 
-export const hasRole = (locals: App.Locals, ...roles: Role[]) => roles.some((role) => locals.roles.includes(role));
+export const hasRole = (locals: App.Locals, ...roles: Role[]) =>
+	roles.some((role) => locals.roles.includes(role));

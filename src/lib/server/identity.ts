@@ -6,7 +6,8 @@ import { hashSecret } from './secrets';
 
 export const CHANNEL_COOKIE = 'wr_channel';
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-export const isUuid = (value: string | null | undefined): value is string => Boolean(value && UUID.test(value));
+export const isUuid = (value: string | null | undefined): value is string =>
+	Boolean(value && UUID.test(value));
 
 export interface Identity {
 	person: App.Locals['person'];
@@ -30,11 +31,20 @@ async function activeChannels(personId: string) {
 
 type Membership = Awaited<ReturnType<typeof activeChannels>>[number];
 
-async function identityFor(person: NonNullable<App.Locals['person']>, wantedChannel: string | null | undefined, onlyChannel?: string): Promise<Identity> {
+async function identityFor(
+	person: NonNullable<App.Locals['person']>,
+	wantedChannel: string | null | undefined,
+	onlyChannel?: string
+): Promise<Identity> {
 	return identityOf(person, await activeChannels(person.id), wantedChannel, onlyChannel);
 }
 
-function identityOf(person: NonNullable<App.Locals['person']>, memberships: Membership[], wantedChannel: string | null | undefined, onlyChannel?: string): Identity {
+function identityOf(
+	person: NonNullable<App.Locals['person']>,
+	memberships: Membership[],
+	wantedChannel: string | null | undefined,
+	onlyChannel?: string
+): Identity {
 	const usable = onlyChannel ? memberships.filter((m) => m.id === onlyChannel) : memberships;
 	if (usable.length === 0) return nobody; // every membership disabled: no access at all
 	const current = usable.find((m) => m.id === wantedChannel) ?? usable[0];
@@ -50,14 +60,25 @@ function identityOf(person: NonNullable<App.Locals['person']>, memberships: Memb
  * The person behind a live session with their active channels, in one query (it runs on every
  * request): no row when the session is gone or expired, or every membership is disabled.
  */
-export async function identityFromSession(sessionId: string | undefined, wantedChannel: string | undefined): Promise<Identity> {
+export async function identityFromSession(
+	sessionId: string | undefined,
+	wantedChannel: string | undefined
+): Promise<Identity> {
 	if (!isUuid(sessionId)) return nobody;
 	const rows = await db
 		.selectFrom('personSession')
 		.innerJoin('person', 'person.id', 'personSession.personId')
 		.innerJoin('membership', 'membership.personId', 'person.id')
 		.innerJoin('channel', 'channel.id', 'membership.channelId')
-		.select(['person.id as personId', 'person.email', 'person.name as personName', 'channel.id', 'channel.name', 'channel.frameRate', 'membership.roles'])
+		.select([
+			'person.id as personId',
+			'person.email',
+			'person.name as personName',
+			'channel.id',
+			'channel.name',
+			'channel.frameRate',
+			'membership.roles'
+		])
 		.where('personSession.id', '=', sessionId)
 		.where('personSession.expiresAt', '>', sql<Date>`now()`)
 		.where('membership.disabledAt', 'is', null)
@@ -77,11 +98,25 @@ export async function identityFromToken(token: string): Promise<Identity> {
 	const row = await db
 		.selectFrom('apiToken')
 		.innerJoin('person', 'person.id', 'apiToken.personId')
-		.select(['apiToken.id as tokenId', 'apiToken.channelId', 'person.id', 'person.email', 'person.name'])
+		.select([
+			'apiToken.id as tokenId',
+			'apiToken.channelId',
+			'person.id',
+			'person.email',
+			'person.name'
+		])
 		.where('apiToken.tokenHash', '=', hashSecret(token))
 		.where('apiToken.revokedAt', 'is', null)
 		.executeTakeFirst();
 	if (!row) return nobody;
-	await db.updateTable('apiToken').set({ lastUsedAt: sql<Date>`now()` }).where('id', '=', row.tokenId).execute();
-	return identityFor({ id: row.id, email: row.email, name: row.name }, row.channelId, row.channelId);
+	await db
+		.updateTable('apiToken')
+		.set({ lastUsedAt: sql<Date>`now()` })
+		.where('id', '=', row.tokenId)
+		.execute();
+	return identityFor(
+		{ id: row.id, email: row.email, name: row.name },
+		row.channelId,
+		row.channelId
+	);
 }

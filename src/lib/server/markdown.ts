@@ -38,7 +38,12 @@ scriptMarked.use({
 			tokenizer(src: string) {
 				const match = /^\[\[((?:(?!\n[ \t]*\n)[\s\S])*?)\]\]/.exec(src);
 				if (!match) return undefined;
-				return { type: 'direction', raw: match[0], text: match[1], tokens: this.lexer.inlineTokens(match[1]) };
+				return {
+					type: 'direction',
+					raw: match[0],
+					text: match[1],
+					tokens: this.lexer.inlineTokens(match[1])
+				};
 			},
 			renderer(token) {
 				return `<span class="direction">${this.parser.parseInline(token.tokens ?? [])}</span>`;
@@ -67,14 +72,37 @@ const tableAlignments = ['left', 'center', 'right'];
 /** Keeps a table cell's alignment (marked writes it as `align`) only when it is one of the three real values. */
 function keepTableAlignment(tagName: string, attribs: sanitizeHtml.Attributes): sanitizeHtml.Tag {
 	const align = attribs.align?.trim().toLowerCase();
-	return { tagName, attribs: align !== undefined && tableAlignments.includes(align) ? { align } : {} };
+	return {
+		tagName,
+		attribs: align !== undefined && tableAlignments.includes(align) ? { align } : {}
+	};
 }
 
 const sanitizeOptions: sanitizeHtml.IOptions = {
 	allowedTags: [
-		'p', 'br', 'strong', 'em', 'del', 'ul', 'ol', 'li', 'blockquote',
-		'h2', 'h3', 'h4', 'code', 'pre', 'a', 'hr',
-		'table', 'thead', 'tbody', 'tr', 'th', 'td', 'span'
+		'p',
+		'br',
+		'strong',
+		'em',
+		'del',
+		'ul',
+		'ol',
+		'li',
+		'blockquote',
+		'h2',
+		'h3',
+		'h4',
+		'code',
+		'pre',
+		'a',
+		'hr',
+		'table',
+		'thead',
+		'tbody',
+		'tr',
+		'th',
+		'td',
+		'span'
 	],
 	allowedAttributes: {
 		a: ['href', 'title', 'rel'],
@@ -90,7 +118,19 @@ const sanitizeOptions: sanitizeHtml.IOptions = {
 	allowProtocolRelative: false,
 	disallowedTagsMode: 'discard',
 	// Tags whose content is code or markup, not readable text: drop them with their content.
-	nonTextTags: ['script', 'style', 'textarea', 'option', 'noscript', 'xmp', 'iframe', 'template', 'svg', 'math', 'object'],
+	nonTextTags: [
+		'script',
+		'style',
+		'textarea',
+		'option',
+		'noscript',
+		'xmp',
+		'iframe',
+		'template',
+		'svg',
+		'math',
+		'object'
+	],
 	transformTags: {
 		// The page owns h1 (the episode title); script headings start one level down.
 		h1: sanitizeHtml.simpleTransform('h2', {}, false),

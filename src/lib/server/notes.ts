@@ -19,7 +19,15 @@ import { isUuid } from './identity';
 import { episodeInChannel, rateOf, type Actor, type Executor } from './episodes';
 import { ensureTrackedLinks } from './tracked-links';
 import { chapterStartFromText } from '$lib/chapters';
-import { TimecodeError, defaultDropFrame, formatClock, formatTimecode, framesToSeconds, parseTimecode, type FrameRate } from '$lib/timecode';
+import {
+	TimecodeError,
+	defaultDropFrame,
+	formatClock,
+	formatTimecode,
+	framesToSeconds,
+	parseTimecode,
+	type FrameRate
+} from '$lib/timecode';
 import type { NoteCreate, NoteUpdate } from '$lib/schemas/parts';
 
 export const noteNotFound = () => notFound('That note');
@@ -36,21 +44,37 @@ export interface NoteRights {
 
 export function noteRightsFor(roles: readonly Role[]): NoteRights {
 	const producer = roles.includes('producer');
-	return { write: producer || roles.includes('camera'), place: producer || roles.includes('editor'), link: producer || roles.includes('merch') };
+	return {
+		write: producer || roles.includes('camera'),
+		place: producer || roles.includes('editor'),
+		link: producer || roles.includes('merch')
+	};
 }
 
 /**
  * Refuses (403) a change that touches fields the caller's roles don't cover, naming who does it.
  * Checked before anything is read, like requireRole.
  */
-export function assertNoteRights(roles: readonly Role[], input: Partial<NoteUpdate>, creating = false): void {
+export function assertNoteRights(
+	roles: readonly Role[],
+	input: Partial<NoteUpdate>,
+	creating = false
+): void {
 	const rights = noteRightsFor(roles);
 	const refusals: string[] = [];
-	const touchesWriting = creating || ['text', 'segmentId', 'takeId', 'sourceTime', 'sourceFrame'].some((field) => input[field as keyof NoteUpdate] !== undefined);
-	if (touchesWriting && !rights.write) refusals.push('the camera operator writes notes (text, segment, take and source time)');
-	if ((input.programTime !== undefined || input.programFrame !== undefined) && !rights.place) refusals.push('the editor places their program time');
-	if (input.partIds !== undefined && !rights.link) refusals.push('the merch team links their parts');
-	if (refusals.length > 0) error(403, `Not with your roles: ${refusals.join('; ')}. The producer may do all of it.`);
+	const touchesWriting =
+		creating ||
+		['text', 'segmentId', 'takeId', 'sourceTime', 'sourceFrame'].some(
+			(field) => input[field as keyof NoteUpdate] !== undefined
+		);
+	if (touchesWriting && !rights.write)
+		refusals.push('the camera operator writes notes (text, segment, take and source time)');
+	if ((input.programTime !== undefined || input.programFrame !== undefined) && !rights.place)
+		refusals.push('the editor places their program time');
+	if (input.partIds !== undefined && !rights.link)
+		refusals.push('the merch team links their parts');
+	if (refusals.length > 0)
+		error(403, `Not with your roles: ${refusals.join('; ')}. The producer may do all of it.`);
 }
 
 export interface NotePart {
@@ -82,9 +106,26 @@ export interface NoteView {
 }
 
 export interface NotesPage {
-	episode: { id: string; title: string; slug: string; stage: string; frameRate: FrameRate; dropFrame: boolean; cutDurationFrames: number | null; cutTimecode: string | null };
+	episode: {
+		id: string;
+		title: string;
+		slug: string;
+		stage: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+		cutDurationFrames: number | null;
+		cutTimecode: string | null;
+	};
 	segments: { id: string; position: number; title: string }[];
-	takes: { id: string; clipName: string; segmentId: string; shot: string; good: boolean; sourceIn: string; sourceOut: string }[];
+	takes: {
+		id: string;
+		clipName: string;
+		segmentId: string;
+		shot: string;
+		good: boolean;
+		sourceIn: string;
+		sourceOut: string;
+	}[];
 	notes: NoteView[];
 }
 
@@ -130,23 +171,42 @@ function toView(row: NoteRow, rate: FrameRate): NoteView {
 	return {
 		...row,
 		programTimecode: row.programFrame === null ? null : formatTimecode(row.programFrame, rate),
-		programClock: row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
-		sourceTimecode: row.sourceFrame === null ? null : formatTimecode(row.sourceFrame, rate, { dropFrame: false }),
+		programClock:
+			row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
+		sourceTimecode:
+			row.sourceFrame === null ? null : formatTimecode(row.sourceFrame, rate, { dropFrame: false }),
 		parts: row.parts as NotePart[]
 	};
 }
 
 /** Everything the notes page shows: the episode, its segments and takes to pick from, and its notes. */
-export async function notesPageFor(channelId: string, episodeId: string, executor: Executor = db): Promise<NotesPage> {
+export async function notesPageFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<NotesPage> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const rate = rateOf(episode);
 	const [segments, takes, notes] = await Promise.all([
-		executor.selectFrom('segment').select(['id', 'position', 'title']).where('episodeId', '=', episode.id).orderBy('position').execute(),
+		executor
+			.selectFrom('segment')
+			.select(['id', 'position', 'title'])
+			.where('episodeId', '=', episode.id)
+			.orderBy('position')
+			.execute(),
 		executor
 			.selectFrom('take')
 			.innerJoin('shot', 'shot.id', 'take.shotId')
 			.innerJoin('segment', 'segment.id', 'shot.segmentId')
-			.select(['take.id', 'take.clipName', 'take.good', 'take.sourceInFrames', 'take.sourceOutFrames', 'shot.what', 'shot.segmentId'])
+			.select([
+				'take.id',
+				'take.clipName',
+				'take.good',
+				'take.sourceInFrames',
+				'take.sourceOutFrames',
+				'shot.what',
+				'shot.segmentId'
+			])
 			.where('segment.episodeId', '=', episode.id)
 			.orderBy('segment.position')
 			.orderBy('shot.position')
@@ -163,7 +223,8 @@ export async function notesPageFor(channelId: string, episodeId: string, executo
 			frameRate: rate,
 			dropFrame: defaultDropFrame(rate),
 			cutDurationFrames: episode.cutDurationFrames,
-			cutTimecode: episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+			cutTimecode:
+				episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
 		},
 		segments,
 		takes: takes.map((take) => ({
@@ -184,18 +245,31 @@ function readTyped(field: string, parse: () => number): number {
 	try {
 		return parse();
 	} catch (failure) {
-		if (failure instanceof TimecodeError) throw new DomainError(400, failure.message, { [field]: [failure.message] });
+		if (failure instanceof TimecodeError)
+			throw new DomainError(400, failure.message, { [field]: [failure.message] });
 		throw failure;
 	}
 }
 
 /** The program frame the input names: undefined = unchanged, null = cleared. */
-function programFrameOf(input: Partial<NoteUpdate>, rate: FrameRate, cutDurationFrames: number | null): number | null | undefined {
+function programFrameOf(
+	input: Partial<NoteUpdate>,
+	rate: FrameRate,
+	cutDurationFrames: number | null
+): number | null | undefined {
 	let frame: number | null | undefined = input.programFrame;
 	if (input.programTime !== undefined) {
-		frame = input.programTime === null || input.programTime === '' ? null : readTyped('programTime', () => chapterStartFromText(input.programTime!, rate));
+		frame =
+			input.programTime === null || input.programTime === ''
+				? null
+				: readTyped('programTime', () => chapterStartFromText(input.programTime!, rate));
 	}
-	if (frame !== null && frame !== undefined && cutDurationFrames !== null && frame >= cutDurationFrames) {
+	if (
+		frame !== null &&
+		frame !== undefined &&
+		cutDurationFrames !== null &&
+		frame >= cutDurationFrames
+	) {
 		const message = `${formatTimecode(frame, rate)} is past the end of the cut (${formatTimecode(cutDurationFrames, rate)}); place the note inside the cut.`;
 		throw new DomainError(400, message, { programTime: [message] });
 	}
@@ -204,7 +278,9 @@ function programFrameOf(input: Partial<NoteUpdate>, rate: FrameRate, cutDuration
 
 function sourceFrameOf(input: Partial<NoteUpdate>, rate: FrameRate): number | null | undefined {
 	if (input.sourceTime !== undefined) {
-		return input.sourceTime === null || input.sourceTime === '' ? null : readTyped('sourceTime', () => parseTimecode(input.sourceTime!, rate));
+		return input.sourceTime === null || input.sourceTime === ''
+			? null
+			: readTyped('sourceTime', () => parseTimecode(input.sourceTime!, rate));
 	}
 	return input.sourceFrame;
 }
@@ -219,32 +295,66 @@ interface NoteSettings {
  * Checks the segment and take belong to this episode and the source time falls inside the take;
  * a take without a segment puts the note in the take's segment.
  */
-async function checkPlacement(executor: Executor, episodeId: string, rate: FrameRate, settings: NoteSettings): Promise<NoteSettings> {
+async function checkPlacement(
+	executor: Executor,
+	episodeId: string,
+	rate: FrameRate,
+	settings: NoteSettings
+): Promise<NoteSettings> {
 	let { segmentId } = settings;
 	const { takeId, sourceFrame } = settings;
 	if (segmentId !== null) {
-		const segment = isUuid(segmentId) ? await executor.selectFrom('segment').select('id').where('id', '=', segmentId).where('episodeId', '=', episodeId).executeTakeFirst() : undefined;
-		if (!segment) throw new DomainError(400, 'That segment is not in this episode’s rundown; pick one from the list.', { segmentId: ['That segment is not in this episode’s rundown.'] });
+		const segment = isUuid(segmentId)
+			? await executor
+					.selectFrom('segment')
+					.select('id')
+					.where('id', '=', segmentId)
+					.where('episodeId', '=', episodeId)
+					.executeTakeFirst()
+			: undefined;
+		if (!segment)
+			throw new DomainError(
+				400,
+				'That segment is not in this episode’s rundown; pick one from the list.',
+				{ segmentId: ['That segment is not in this episode’s rundown.'] }
+			);
 	}
 	if (takeId === null) {
-		if (sourceFrame !== null) throw new DomainError(400, 'A source time belongs to a take: pick the take it is in.', { takeId: ['Pick the take the source time is in.'] });
+		if (sourceFrame !== null)
+			throw new DomainError(400, 'A source time belongs to a take: pick the take it is in.', {
+				takeId: ['Pick the take the source time is in.']
+			});
 		return { segmentId, takeId, sourceFrame };
 	}
 	const take = await executor
 		.selectFrom('take')
 		.innerJoin('shot', 'shot.id', 'take.shotId')
 		.innerJoin('segment', 'segment.id', 'shot.segmentId')
-		.select(['take.clipName', 'take.sourceInFrames', 'take.sourceOutFrames', 'shot.segmentId', 'segment.position'])
+		.select([
+			'take.clipName',
+			'take.sourceInFrames',
+			'take.sourceOutFrames',
+			'shot.segmentId',
+			'segment.position'
+		])
 		.where('take.id', '=', takeId)
 		.where('segment.episodeId', '=', episodeId)
 		.executeTakeFirst();
-	if (!take) throw new DomainError(400, 'That take is not in this episode’s shot list; pick one from the list.', { takeId: ['That take is not in this episode’s shot list.'] });
+	if (!take)
+		throw new DomainError(
+			400,
+			'That take is not in this episode’s shot list; pick one from the list.',
+			{ takeId: ['That take is not in this episode’s shot list.'] }
+		);
 	if (segmentId === null) segmentId = take.segmentId;
 	else if (segmentId !== take.segmentId) {
 		const message = `Take ${take.clipName} was shot for segment ${take.position}; pick that segment or another take.`;
 		throw new DomainError(400, message, { takeId: [message] });
 	}
-	if (sourceFrame !== null && (sourceFrame < take.sourceInFrames || sourceFrame > take.sourceOutFrames)) {
+	if (
+		sourceFrame !== null &&
+		(sourceFrame < take.sourceInFrames || sourceFrame > take.sourceOutFrames)
+	) {
 		const span = `${formatTimecode(take.sourceInFrames, rate, { dropFrame: false })}–${formatTimecode(take.sourceOutFrames, rate, { dropFrame: false })}`;
 		const message = `${formatTimecode(sourceFrame, rate, { dropFrame: false })} is outside take ${take.clipName} (${span}); type a source time inside the take.`;
 		throw new DomainError(400, message, { sourceTime: [message] });
@@ -253,17 +363,35 @@ async function checkPlacement(executor: Executor, episodeId: string, rate: Frame
 }
 
 /** The part ids, checked to be in this channel's catalogue. */
-async function checkParts(executor: Executor, channelId: string, partIds: readonly string[]): Promise<string[]> {
+async function checkParts(
+	executor: Executor,
+	channelId: string,
+	partIds: readonly string[]
+): Promise<string[]> {
 	const unique = [...new Set(partIds)];
 	if (unique.length === 0) return [];
-	const found = await executor.selectFrom('part').select('id').where('channelId', '=', channelId).where('id', 'in', unique).execute();
+	const found = await executor
+		.selectFrom('part')
+		.select('id')
+		.where('channelId', '=', channelId)
+		.where('id', 'in', unique)
+		.execute();
 	if (found.length !== unique.length) {
-		throw new DomainError(400, 'One of those parts is not in this channel’s catalogue; pick parts from the search.', { partIds: ['One of those parts is not in the catalogue.'] });
+		throw new DomainError(
+			400,
+			'One of those parts is not in this channel’s catalogue; pick parts from the search.',
+			{ partIds: ['One of those parts is not in the catalogue.'] }
+		);
 	}
 	return unique;
 }
 
-async function replaceParts(trx: Executor, episodeId: string, noteId: string, partIds: string[]): Promise<void> {
+async function replaceParts(
+	trx: Executor,
+	episodeId: string,
+	noteId: string,
+	partIds: string[]
+): Promise<void> {
 	let unlink = trx.deleteFrom('segmentNotePart').where('noteId', '=', noteId);
 	if (partIds.length > 0) unlink = unlink.where('partId', 'not in', partIds);
 	await unlink.execute();
@@ -277,13 +405,25 @@ async function replaceParts(trx: Executor, episodeId: string, noteId: string, pa
 	await ensureTrackedLinks(trx, episodeId, partIds);
 }
 
-async function viewOf(executor: Executor, episodeId: string, noteId: string, rate: FrameRate): Promise<NoteView> {
-	const row = await notesQuery(executor, episodeId).where('segmentNote.id', '=', noteId).executeTakeFirstOrThrow();
+async function viewOf(
+	executor: Executor,
+	episodeId: string,
+	noteId: string,
+	rate: FrameRate
+): Promise<NoteView> {
+	const row = await notesQuery(executor, episodeId)
+		.where('segmentNote.id', '=', noteId)
+		.executeTakeFirstOrThrow();
 	return toView(row, rate);
 }
 
 /** Writes a new note; the fields each role may set are checked with assertNoteRights first. */
-export async function createNote(channelId: string, actor: Actor, episodeId: string, input: NoteCreate): Promise<NoteView> {
+export async function createNote(
+	channelId: string,
+	actor: Actor,
+	episodeId: string,
+	input: NoteCreate
+): Promise<NoteView> {
 	assertNoteRights(actor.roles, input, true);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
@@ -297,7 +437,13 @@ export async function createNote(channelId: string, actor: Actor, episodeId: str
 		const partIds = await checkParts(trx, channelId, input.partIds ?? []);
 		const note = await trx
 			.insertInto('segmentNote')
-			.values({ episodeId: episode.id, ...placement, programFrame, text: input.text, authorId: actor.id })
+			.values({
+				episodeId: episode.id,
+				...placement,
+				programFrame,
+				text: input.text,
+				authorId: actor.id
+			})
 			.returning('id')
 			.executeTakeFirstOrThrow();
 		await replaceParts(trx, episode.id, note.id, partIds);
@@ -311,7 +457,16 @@ async function scopedNote(trx: Executor, channelId: string, noteId: string) {
 	const note = await trx
 		.selectFrom('segmentNote')
 		.innerJoin('episode', 'episode.id', 'segmentNote.episodeId')
-		.select(['segmentNote.id', 'segmentNote.episodeId', 'segmentNote.segmentId', 'segmentNote.takeId', 'segmentNote.sourceFrame', 'segmentNote.version', 'episode.frameRate', 'episode.cutDurationFrames'])
+		.select([
+			'segmentNote.id',
+			'segmentNote.episodeId',
+			'segmentNote.segmentId',
+			'segmentNote.takeId',
+			'segmentNote.sourceFrame',
+			'segmentNote.version',
+			'episode.frameRate',
+			'episode.cutDurationFrames'
+		])
 		.where('segmentNote.id', '=', noteId)
 		.where('episode.channelId', '=', channelId)
 		.forUpdate('segmentNote')
@@ -320,20 +475,37 @@ async function scopedNote(trx: Executor, channelId: string, noteId: string) {
 	return { ...note, rate: rateOf(note) };
 }
 
-async function refuseStale(trx: Executor, note: { episodeId: string; id: string; rate: FrameRate }): Promise<never> {
+async function refuseStale(
+	trx: Executor,
+	note: { episodeId: string; id: string; rate: FrameRate }
+): Promise<never> {
 	const current = await viewOf(trx, note.episodeId, note.id, note.rate);
-	throw new DomainError(409, 'Someone changed this note since you opened it. Their version is shown; make your change again on top of it.', undefined, { current });
+	throw new DomainError(
+		409,
+		'Someone changed this note since you opened it. Their version is shown; make your change again on top of it.',
+		undefined,
+		{ current }
+	);
 }
 
 /** Changes a note: text, segment, take, source time, program time, parts; each only by the role that owns it. */
-export async function updateNote(channelId: string, actor: Actor, noteId: string, input: NoteUpdate): Promise<NoteView> {
+export async function updateNote(
+	channelId: string,
+	actor: Actor,
+	noteId: string,
+	input: NoteUpdate
+): Promise<NoteView> {
 	assertNoteRights(actor.roles, input);
 	return db.transaction().execute(async (trx) => {
 		const note = await scopedNote(trx, channelId, noteId);
 		if (note.version !== input.version) return refuseStale(trx, note);
 		const changes: Record<string, unknown> = {};
 		if (input.text !== undefined) changes.text = input.text;
-		const touchesPlacement = input.segmentId !== undefined || input.takeId !== undefined || input.sourceTime !== undefined || input.sourceFrame !== undefined;
+		const touchesPlacement =
+			input.segmentId !== undefined ||
+			input.takeId !== undefined ||
+			input.sourceTime !== undefined ||
+			input.sourceFrame !== undefined;
 		if (touchesPlacement) {
 			// A new take without a new source time drops the old one: it was a time in the old take.
 			const takeChanged = input.takeId !== undefined && input.takeId !== note.takeId;
@@ -342,15 +514,23 @@ export async function updateNote(channelId: string, actor: Actor, noteId: string
 				changes,
 				await checkPlacement(trx, note.episodeId, note.rate, {
 					// A newly picked take decides the segment unless one is named with it.
-					segmentId: input.segmentId !== undefined ? input.segmentId : input.takeId ? null : note.segmentId,
+					segmentId:
+						input.segmentId !== undefined ? input.segmentId : input.takeId ? null : note.segmentId,
 					takeId: input.takeId !== undefined ? input.takeId : note.takeId,
-					sourceFrame: sourceFrame !== undefined ? sourceFrame : takeChanged ? null : note.sourceFrame
+					sourceFrame:
+						sourceFrame !== undefined ? sourceFrame : takeChanged ? null : note.sourceFrame
 				})
 			);
 		}
 		const programFrame = programFrameOf(input, note.rate, note.cutDurationFrames);
 		if (programFrame !== undefined) changes.programFrame = programFrame;
-		if (input.partIds !== undefined) await replaceParts(trx, note.episodeId, note.id, await checkParts(trx, channelId, input.partIds));
+		if (input.partIds !== undefined)
+			await replaceParts(
+				trx,
+				note.episodeId,
+				note.id,
+				await checkParts(trx, channelId, input.partIds)
+			);
 		await trx
 			.updateTable('segmentNote')
 			.set({ ...changes, version: sql<number>`version + 1`, updatedAt: sql<Date>`now()` })
@@ -361,8 +541,14 @@ export async function updateNote(channelId: string, actor: Actor, noteId: string
 }
 
 /** Removes a note (camera or producer); `version` makes it conditional on nobody having changed it since. */
-export async function deleteNote(channelId: string, actor: Actor, noteId: string, version: number | undefined): Promise<NoteView> {
-	if (!noteRightsFor(actor.roles).write) error(403, 'Not with your roles: the camera operator (or the producer) removes notes.');
+export async function deleteNote(
+	channelId: string,
+	actor: Actor,
+	noteId: string,
+	version: number | undefined
+): Promise<NoteView> {
+	if (!noteRightsFor(actor.roles).write)
+		error(403, 'Not with your roles: the camera operator (or the producer) removes notes.');
 	return db.transaction().execute(async (trx) => {
 		const note = await scopedNote(trx, channelId, noteId);
 		if (version !== undefined && note.version !== version) return refuseStale(trx, note);

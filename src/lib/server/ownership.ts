@@ -22,10 +22,16 @@ const labels: Record<EpisodeRecord | ShootDayRecord, string> = {
 	pull: 'That pull-list item'
 };
 
-const notHere = (kind: EpisodeRecord | ShootDayRecord, where: string) => new DomainError(404, `${labels[kind]} is not in this ${where}. Reload the page.`);
+const notHere = (kind: EpisodeRecord | ShootDayRecord, where: string) =>
+	new DomainError(404, `${labels[kind]} is not in this ${where}. Reload the page.`);
 
 /** 404 unless the record is part of this episode of this channel. */
-export async function assertInEpisode(channelId: string, episodeId: string, kind: EpisodeRecord, id: string): Promise<void> {
+export async function assertInEpisode(
+	channelId: string,
+	episodeId: string,
+	kind: EpisodeRecord,
+	id: string
+): Promise<void> {
 	if (!isUuid(id) || !isUuid(episodeId)) throw notHere(kind, 'episode');
 	const found = await sql<{ found: number }>`
 		SELECT 1 AS found FROM episode e
@@ -46,7 +52,12 @@ export async function assertInEpisode(channelId: string, episodeId: string, kind
 const dayTables = { camera: 'shoot_day_camera', gear: 'gear_item', pull: 'pull_item' } as const;
 
 /** 404 unless the camera, gear item or pull-list item is on this shoot day of this channel. */
-export async function assertOnShootDay(channelId: string, shootDayId: string, kind: ShootDayRecord, id: string): Promise<void> {
+export async function assertOnShootDay(
+	channelId: string,
+	shootDayId: string,
+	kind: ShootDayRecord,
+	id: string
+): Promise<void> {
 	if (!isUuid(id) || !isUuid(shootDayId)) throw notHere(kind, 'shoot day');
 	const found = await sql<{ found: number }>`
 		SELECT 1 AS found FROM ${sql.table(dayTables[kind])} item JOIN shoot_day d ON d.id = item.shoot_day_id

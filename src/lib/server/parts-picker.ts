@@ -2,5 +2,12 @@
 import { db } from './db';
 
 export async function searchPartsForPicker(channelId: string, limit = 500) {
-	return db.selectFrom('part').select(['id', 'sku', 'name', 'status']).where('channelId', '=', channelId).orderBy('category').orderBy('sku').limit(limit).execute();
+	return db
+		.selectFrom('part')
+		.select(['id', 'sku', 'name', 'status'])
+		.where('channelId', '=', channelId)
+		.orderBy('category')
+		.orderBy('sku')
+		.limit(limit)
+		.execute();
 }

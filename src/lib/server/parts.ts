@@ -45,9 +45,34 @@ import {
 
 export const partNotFound = () => notFound('That part');
 
-const partColumns = ['part.id', 'part.sku', 'part.name', 'part.category', 'part.brand', 'part.priceCents', 'part.currency', 'part.storeUrl', 'part.fitmentNote', 'part.status', 'part.version'] as const;
+const partColumns = [
+	'part.id',
+	'part.sku',
+	'part.name',
+	'part.category',
+	'part.brand',
+	'part.priceCents',
+	'part.currency',
+	'part.storeUrl',
+	'part.fitmentNote',
+	'part.status',
+	'part.version'
+] as const;
 
-export type CatalogPart = Pick<Selectable<PartTable>, 'id' | 'sku' | 'name' | 'category' | 'brand' | 'priceCents' | 'currency' | 'storeUrl' | 'fitmentNote' | 'status' | 'version'>;
+export type CatalogPart = Pick<
+	Selectable<PartTable>,
+	| 'id'
+	| 'sku'
+	| 'name'
+	| 'category'
+	| 'brand'
+	| 'priceCents'
+	| 'currency'
+	| 'storeUrl'
+	| 'fitmentNote'
+	| 'status'
+	| 'version'
+>;
 
 export interface PartPage {
 	parts: CatalogPart[];
@@ -59,7 +84,8 @@ export interface PartPage {
 }
 
 /** Price in cents as the crew writes it: "119.00". */
-export const priceText = (cents: number) => `${Math.floor(cents / 100)}.${String(cents % 100).padStart(2, '0')}`;
+export const priceText = (cents: number) =>
+	`${Math.floor(cents / 100)}.${String(cents % 100).padStart(2, '0')}`;
 
 /** `%`, `_` and `\` typed into a search are searched for, not used as LIKE wildcards. */
 const escapeLike = (text: string) => text.replace(/[\\%_]/g, '\\$&');
@@ -67,7 +93,10 @@ const escapeLike = (text: string) => text.replace(/[\\%_]/g, '\\$&');
 /** lower(sku || ' ' || name || ' ' || brand), stored by the database and trigram-indexed. */
 const searchText = sql<string>`part.search_text`;
 
-const sortColumns: Record<PartSort, 'part.sku' | 'part.name' | 'part.brand' | 'part.category' | 'part.priceCents' | 'part.status'> = {
+const sortColumns: Record<
+	PartSort,
+	'part.sku' | 'part.name' | 'part.brand' | 'part.category' | 'part.priceCents' | 'part.status'
+> = {
 	sku: 'part.sku',
 	name: 'part.name',
 	brand: 'part.brand',
@@ -82,10 +111,15 @@ export function searchWords(q: string | undefined): string[] {
 }
 
 /** One page of the catalogue and how many parts match in all; the page and the count run side by side. */
-export async function searchParts(channelId: string, query: PartSearch, executor: Executor = db): Promise<PartPage> {
+export async function searchParts(
+	channelId: string,
+	query: PartSearch,
+	executor: Executor = db
+): Promise<PartPage> {
 	let matching = executor.selectFrom('part').where('part.channelId', '=', channelId);
 	// lower() in SQL, so the word is folded exactly as the stored text was.
-	for (const word of searchWords(query.q)) matching = matching.where(searchText, 'like', sql<string>`lower(${`%${escapeLike(word)}%`})`);
+	for (const word of searchWords(query.q))
+		matching = matching.where(searchText, 'like', sql<string>`lower(${`%${escapeLike(word)}%`})`);
 	if (query.category) matching = matching.where('part.category', '=', query.category);
 	if (query.status) matching = matching.where('part.status', '=', query.status);
 
@@ -101,12 +135,28 @@ export async function searchParts(channelId: string, query: PartSearch, executor
 		matching.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow()
 	]);
 	const total = Number(counted.total);
-	return { parts, total, page: query.page, pageSize: query.pageSize, pages: Math.max(1, Math.ceil(total / query.pageSize)), query };
+	return {
+		parts,
+		total,
+		page: query.page,
+		pageSize: query.pageSize,
+		pages: Math.max(1, Math.ceil(total / query.pageSize)),
+		query
+	};
 }
 
 /** The categories in use, for the filter. */
-export async function partCategories(channelId: string, executor: Executor = db): Promise<string[]> {
-	const rows = await executor.selectFrom('part').select('category').distinct().where('channelId', '=', channelId).orderBy('category').execute();
+export async function partCategories(
+	channelId: string,
+	executor: Executor = db
+): Promise<string[]> {
+	const rows = await executor
+		.selectFrom('part')
+		.select('category')
+		.distinct()
+		.where('channelId', '=', channelId)
+		.orderBy('category')
+		.execute();
 	return rows.map((row) => row.category);
 }
 
@@ -117,8 +167,16 @@ export async function partDetail(channelId: string, partId: string, executor: Ex
 		.selectFrom('part')
 		.select(partColumns)
 		.select((eb) => [
-			eb.selectFrom('segmentNotePart').select((inner) => inner.fn.countAll<number>().as('n')).whereRef('segmentNotePart.partId', '=', 'part.id').as('noteCount'),
-			eb.selectFrom('trackedLink').select((inner) => inner.fn.countAll<number>().as('n')).whereRef('trackedLink.partId', '=', 'part.id').as('linkCount')
+			eb
+				.selectFrom('segmentNotePart')
+				.select((inner) => inner.fn.countAll<number>().as('n'))
+				.whereRef('segmentNotePart.partId', '=', 'part.id')
+				.as('noteCount'),
+			eb
+				.selectFrom('trackedLink')
+				.select((inner) => inner.fn.countAll<number>().as('n'))
+				.whereRef('trackedLink.partId', '=', 'part.id')
+				.as('linkCount')
 		])
 		.where('part.id', '=', partId)
 		.where('part.channelId', '=', channelId)
@@ -135,11 +193,19 @@ export async function partDetail(channelId: string, partId: string, executor: Ex
 		.groupBy(['episode.id', 'episode.title', 'episode.stage'])
 		.orderBy('episode.title')
 		.execute();
-	return { ...part, noteCount: Number(part.noteCount ?? 0), linkCount: Number(part.linkCount ?? 0), episodes: episodes.map((episode) => ({ ...episode, notes: Number(episode.notes) })) };
+	return {
+		...part,
+		noteCount: Number(part.noteCount ?? 0),
+		linkCount: Number(part.linkCount ?? 0),
+		episodes: episodes.map((episode) => ({ ...episode, notes: Number(episode.notes) }))
+	};
 }
 export type PartDetail = Awaited<ReturnType<typeof partDetail>>;
 
-const isUniqueViolation = (failure: unknown) => typeof failure === 'object' && failure !== null && (failure as { code?: string }).code === '23505';
+const isUniqueViolation = (failure: unknown) =>
+	typeof failure === 'object' &&
+	failure !== null &&
+	(failure as { code?: string }).code === '23505';
 
 function skuTaken(sku: string): DomainError {
 	const message = `A part with SKU ${sku} is already in the catalogue; change that part instead, or pick another SKU.`;
@@ -147,7 +213,11 @@ function skuTaken(sku: string): DomainError {
 }
 
 /** Adds a part; a SKU already in the channel's catalogue is a 409 on the sku field. */
-export async function createPart(channelId: string, input: PartCreate, executor: Executor = db): Promise<CatalogPart> {
+export async function createPart(
+	channelId: string,
+	input: PartCreate,
+	executor: Executor = db
+): Promise<CatalogPart> {
 	try {
 		return await executor
 			.insertInto('part')
@@ -173,18 +243,61 @@ export async function createPart(channelId: string, input: PartCreate, executor:
 }
 
 function pickPart(row: Selectable<PartTable>): CatalogPart {
-	const { id, sku, name, category, brand, priceCents, currency, storeUrl, fitmentNote, status, version } = row;
-	return { id, sku, name, category, brand, priceCents, currency, storeUrl, fitmentNote, status, version };
+	const {
+		id,
+		sku,
+		name,
+		category,
+		brand,
+		priceCents,
+		currency,
+		storeUrl,
+		fitmentNote,
+		status,
+		version
+	} = row;
+	return {
+		id,
+		sku,
+		name,
+		category,
+		brand,
+		priceCents,
+		currency,
+		storeUrl,
+		fitmentNote,
+		status,
+		version
+	};
 }
 
-async function staleOrMissing(executor: Executor, channelId: string, partId: string): Promise<never> {
-	const current = await executor.selectFrom('part').select(partColumns).where('id', '=', partId).where('channelId', '=', channelId).executeTakeFirst();
+async function staleOrMissing(
+	executor: Executor,
+	channelId: string,
+	partId: string
+): Promise<never> {
+	const current = await executor
+		.selectFrom('part')
+		.select(partColumns)
+		.where('id', '=', partId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
 	if (!current) throw partNotFound();
-	throw new DomainError(409, `Someone changed ${current.sku} since you opened it. Their version is shown; make your change again on top of it.`, undefined, { current });
+	throw new DomainError(
+		409,
+		`Someone changed ${current.sku} since you opened it. Their version is shown; make your change again on top of it.`,
+		undefined,
+		{ current }
+	);
 }
 
 /** Changes the fields given; the version must be the one the person read (409 with the current part otherwise). */
-export async function updatePart(channelId: string, partId: string, input: PartUpdate, executor: Executor = db): Promise<CatalogPart> {
+export async function updatePart(
+	channelId: string,
+	partId: string,
+	input: PartUpdate,
+	executor: Executor = db
+): Promise<CatalogPart> {
 	if (!isUuid(partId)) throw partNotFound();
 	const { version, price, ...fields } = input;
 	const changes = { ...fields, ...(price !== undefined ? { priceCents: price } : {}) };
@@ -209,18 +322,38 @@ export async function updatePart(channelId: string, partId: string, input: PartU
  * Removes a part nobody featured. A part on a note or with a tracked link stays (the episodes
  * keep their history): the answer is 409, and the fix is to retire it as discontinued.
  */
-export async function removePart(channelId: string, partId: string, version: number | undefined, executor: Executor = db): Promise<CatalogPart> {
+export async function removePart(
+	channelId: string,
+	partId: string,
+	version: number | undefined,
+	executor: Executor = db
+): Promise<CatalogPart> {
 	return executor.transaction().execute(async (trx) => {
 		const part = await partDetail(channelId, partId, trx);
-		if (version !== undefined && part.version !== version) return staleOrMissing(trx, channelId, partId);
+		if (version !== undefined && part.version !== version)
+			return staleOrMissing(trx, channelId, partId);
 		if (part.noteCount > 0 || part.linkCount > 0) {
-			const uses = [part.noteCount > 0 ? `on ${part.noteCount} note${part.noteCount === 1 ? '' : 's'}` : '', part.linkCount > 0 ? `in ${part.linkCount} episode${part.linkCount === 1 ? '’s' : 's’'} tracked links` : '']
+			const uses = [
+				part.noteCount > 0 ? `on ${part.noteCount} note${part.noteCount === 1 ? '' : 's'}` : '',
+				part.linkCount > 0
+					? `in ${part.linkCount} episode${part.linkCount === 1 ? '’s' : 's’'} tracked links`
+					: ''
+			]
 				.filter(Boolean)
 				.join(' and ');
-			throw new DomainError(409, `${part.sku} is ${uses}, so it stays in the catalogue. Set its status to discontinued instead: it is then flagged wherever it is featured.`, undefined, { current: part });
+			throw new DomainError(
+				409,
+				`${part.sku} is ${uses}, so it stays in the catalogue. Set its status to discontinued instead: it is then flagged wherever it is featured.`,
+				undefined,
+				{ current: part }
+			);
 		}
 		const { noteCount: _notes, linkCount: _links, episodes: _episodes, ...row } = part;
-		await trx.deleteFrom('part').where('id', '=', partId).where('channelId', '=', channelId).execute();
+		await trx
+			.deleteFrom('part')
+			.where('id', '=', partId)
+			.where('channelId', '=', channelId)
+			.execute();
 		return row;
 	});
 }
@@ -279,7 +412,16 @@ const HEADER_GUESSES: Record<ImportField, string[]> = {
 	brand: ['brand', 'make', 'maker', 'manufacturer'],
 	price: ['price', 'priceusd', 'unitprice', 'retailprice', 'listprice'],
 	currency: ['currency', 'currencycode', 'cur'],
-	storeUrl: ['storeurl', 'url', 'link', 'shopurl', 'producturl', 'storelink', 'shoplink', 'weblink'],
+	storeUrl: [
+		'storeurl',
+		'url',
+		'link',
+		'shopurl',
+		'producturl',
+		'storelink',
+		'shoplink',
+		'weblink'
+	],
 	fitmentNote: ['fitmentnote', 'fitment', 'fits', 'fitmentnotes', 'notes', 'note'],
 	status: ['status', 'availability', 'stockstatus']
 };
@@ -292,7 +434,9 @@ export function guessMapping(headers: readonly string[]): Record<ImportField, st
 	const mapping = {} as Record<ImportField, string | null>;
 	const used = new Set<number>();
 	for (const field of IMPORT_FIELDS) {
-		const index = HEADER_GUESSES[field].map((guess) => keys.findIndex((key, at) => key === guess && !used.has(at))).find((at) => at >= 0);
+		const index = HEADER_GUESSES[field]
+			.map((guess) => keys.findIndex((key, at) => key === guess && !used.has(at)))
+			.find((at) => at >= 0);
 		mapping[field] = index === undefined ? null : headers[index];
 		if (index !== undefined) used.add(index);
 	}
@@ -312,10 +456,25 @@ function parseFile(csv: string): ParsedFile {
 	const fileErrors: ImportRowError[] = parsed.errors
 		// papaparse warns when it can only guess the delimiter of a one-column file; that isn't the person's mistake.
 		.filter((problem) => problem.code !== 'UndetectableDelimiter')
-		.map((problem) => ({ row: (problem.row ?? 0) + 1, field: null, message: `The file can’t be read here: ${problem.message.toLowerCase()}.` }));
+		.map((problem) => ({
+			row: (problem.row ?? 0) + 1,
+			field: null,
+			message: `The file can’t be read here: ${problem.message.toLowerCase()}.`
+		}));
 	const rows = parsed.data;
 	const headerIndex = rows.findIndex((cells) => cells.some((cell) => cell.trim() !== ''));
-	if (headerIndex < 0) return { headers: [], records: [], fileErrors: [{ row: 1, field: null, message: 'The file is empty: the first row should name the columns (sku, name, …).' }] };
+	if (headerIndex < 0)
+		return {
+			headers: [],
+			records: [],
+			fileErrors: [
+				{
+					row: 1,
+					field: null,
+					message: 'The file is empty: the first row should name the columns (sku, name, …).'
+				}
+			]
+		};
 	const headers = rows[headerIndex].map((cell) => cell.trim());
 	const records: ParsedFile['records'] = [];
 	for (let index = headerIndex + 1; index < rows.length; index++) {
@@ -331,7 +490,16 @@ interface ReadRow {
 	row: number;
 	sku: string;
 	values: Partial<Record<ImportField, string>>;
-	part: Partial<{ name: string; category: string; brand: string; priceCents: number; currency: string; storeUrl: string; fitmentNote: string; status: PartStatusValue }>;
+	part: Partial<{
+		name: string;
+		category: string;
+		brand: string;
+		priceCents: number;
+		currency: string;
+		storeUrl: string;
+		fitmentNote: string;
+		status: PartStatusValue;
+	}>;
 }
 
 interface Analysis {
@@ -340,7 +508,10 @@ interface Analysis {
 	updates: ReadRow[];
 }
 
-const readers: Record<Exclude<ImportField, 'sku'>, (text: string) => FieldReading<string | number>> = {
+const readers: Record<
+	Exclude<ImportField, 'sku'>,
+	(text: string) => FieldReading<string | number>
+> = {
 	name: (text) => readText('name', text, PART_LIMITS.name),
 	category: (text) => readText('category', text, PART_LIMITS.category),
 	brand: (text) => readText('brand', text, PART_LIMITS.brand),
@@ -362,7 +533,10 @@ const partKey: Record<Exclude<ImportField, 'sku'>, keyof ReadRow['part']> = {
 	status: 'status'
 };
 
-function resolveMapping(headers: string[], given: ImportMapping | undefined): Record<ImportField, string | null> {
+function resolveMapping(
+	headers: string[],
+	given: ImportMapping | undefined
+): Record<ImportField, string | null> {
 	if (!given) return guessMapping(headers);
 	const mapping = {} as Record<ImportField, string | null>;
 	for (const field of IMPORT_FIELDS) {
@@ -377,24 +551,69 @@ function resolveMapping(headers: string[], given: ImportMapping | undefined): Re
 }
 
 /** Reads and checks every row against the catalogue as it is now (in the caller's transaction for a commit). */
-async function analyseImport(executor: Executor, channelId: string, request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>): Promise<Analysis> {
+async function analyseImport(
+	executor: Executor,
+	channelId: string,
+	request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>
+): Promise<Analysis> {
 	const { headers, records, fileErrors } = parseFile(request.csv);
 	const mapping = resolveMapping(headers, request.mapping);
 	const mode = request.mode;
-	const columnOf = Object.fromEntries(IMPORT_FIELDS.map((field) => [field, mapping[field] === null ? -1 : headers.indexOf(mapping[field]!)])) as Record<ImportField, number>;
+	const columnOf = Object.fromEntries(
+		IMPORT_FIELDS.map((field) => [
+			field,
+			mapping[field] === null ? -1 : headers.indexOf(mapping[field]!)
+		])
+	) as Record<ImportField, number>;
 	const missingFields = REQUIRED_IMPORT_FIELDS.filter((field) => columnOf[field] < 0);
 	const errors: ImportRowError[] = [...fileErrors];
-	if (columnOf.sku < 0) errors.push({ row: 1, field: 'sku', message: 'No column is mapped to the SKU: every row needs its part number.' });
+	if (columnOf.sku < 0)
+		errors.push({
+			row: 1,
+			field: 'sku',
+			message: 'No column is mapped to the SKU: every row needs its part number.'
+		});
 	else if (mode === 'create' && missingFields.length > 0) {
-		errors.push({ row: 1, field: missingFields[0], message: `New parts need ${missingFields.map((field) => IMPORT_FIELD_LABELS[field]).join(', ')}: map a column to ${missingFields.length === 1 ? 'it' : 'each'}.` });
+		errors.push({
+			row: 1,
+			field: missingFields[0],
+			message: `New parts need ${missingFields.map((field) => IMPORT_FIELD_LABELS[field]).join(', ')}: map a column to ${missingFields.length === 1 ? 'it' : 'each'}.`
+		});
 	}
 
-	const skus = columnOf.sku < 0 ? [] : records.map((record) => (record.cells[columnOf.sku] ?? '').trim()).filter(Boolean);
-	const existing = new Map<string, { id: string; name: string; category: string; brand: string; priceCents: number; currency: string; storeUrl: string; fitmentNote: string; status: PartStatusValue }>();
+	const skus =
+		columnOf.sku < 0
+			? []
+			: records.map((record) => (record.cells[columnOf.sku] ?? '').trim()).filter(Boolean);
+	const existing = new Map<
+		string,
+		{
+			id: string;
+			name: string;
+			category: string;
+			brand: string;
+			priceCents: number;
+			currency: string;
+			storeUrl: string;
+			fitmentNote: string;
+			status: PartStatusValue;
+		}
+	>();
 	for (let start = 0; start < skus.length; start += 10_000) {
 		const rows = await executor
 			.selectFrom('part')
-			.select(['id', 'sku', 'name', 'category', 'brand', 'priceCents', 'currency', 'storeUrl', 'fitmentNote', 'status'])
+			.select([
+				'id',
+				'sku',
+				'name',
+				'category',
+				'brand',
+				'priceCents',
+				'currency',
+				'storeUrl',
+				'fitmentNote',
+				'status'
+			])
 			.where('channelId', '=', channelId)
 			.where('sku', '=', sql<string>`ANY(${skus.slice(start, start + 10_000)}::text[])`)
 			.execute();
@@ -405,29 +624,44 @@ async function analyseImport(executor: Executor, channelId: string, request: Pic
 	const creates: Analysis['creates'] = [];
 	const updates: ReadRow[] = [];
 	const sample: ImportSampleRow[] = [];
-	let unchanged = 0;
 	const canRead = columnOf.sku >= 0 && !(mode === 'create' && missingFields.length > 0);
 
 	for (const record of records) {
 		const values: Partial<Record<ImportField, string>> = {};
-		for (const field of IMPORT_FIELDS) if (columnOf[field] >= 0) values[field] = record.cells[columnOf[field]] ?? '';
+		for (const field of IMPORT_FIELDS)
+			if (columnOf[field] >= 0) values[field] = record.cells[columnOf[field]] ?? '';
 		const rowErrors: ImportRowError[] = [];
-		const fail = (field: ImportField | null, message: string) => rowErrors.push({ row: record.row, field, message: `Row ${record.row}: ${message}` });
-		if (record.cells.length > headers.length && record.cells.slice(headers.length).some((cell) => cell.trim() !== '')) {
-			fail(null, `it has ${record.cells.length} cells but the header names ${headers.length} columns; check for an unquoted comma.`);
+		const fail = (field: ImportField | null, message: string) =>
+			rowErrors.push({ row: record.row, field, message: `Row ${record.row}: ${message}` });
+		if (
+			record.cells.length > headers.length &&
+			record.cells.slice(headers.length).some((cell) => cell.trim() !== '')
+		) {
+			fail(
+				null,
+				`it has ${record.cells.length} cells but the header names ${headers.length} columns; check for an unquoted comma.`
+			);
 		}
 		let action: ImportSampleRow['action'] = 'error';
 		if (canRead) {
 			const skuReading = readText('SKU', values.sku, PART_LIMITS.sku);
 			const sku = skuReading.ok ? skuReading.value : '';
 			if (!skuReading.ok) fail('sku', skuReading.message);
-			else if (firstRowOf.has(sku)) fail('sku', `SKU ${sku} is in the file twice (first on row ${firstRowOf.get(sku)}); keep one row per part.`);
+			else if (firstRowOf.has(sku))
+				fail(
+					'sku',
+					`SKU ${sku} is in the file twice (first on row ${firstRowOf.get(sku)}); keep one row per part.`
+				);
 			else firstRowOf.set(sku, record.row);
 			const current = sku ? existing.get(sku) : undefined;
-			if (skuReading.ok && mode === 'create' && current) fail('sku', `SKU ${sku} is already in the catalogue; use update mode to change it.`);
+			if (skuReading.ok && mode === 'create' && current)
+				fail('sku', `SKU ${sku} is already in the catalogue; use update mode to change it.`);
 			const isUpdate = mode === 'update' && current !== undefined;
 			if (mode === 'update' && !current && missingFields.length > 0 && skuReading.ok) {
-				fail(missingFields[0], `SKU ${sku} isn’t in the catalogue, and a new part needs ${missingFields.map((field) => IMPORT_FIELD_LABELS[field]).join(', ')}, which this file has no column for.`);
+				fail(
+					missingFields[0],
+					`SKU ${sku} isn’t in the catalogue, and a new part needs ${missingFields.map((field) => IMPORT_FIELD_LABELS[field]).join(', ')}, which this file has no column for.`
+				);
 			}
 			const part: ReadRow['part'] = {};
 			for (const field of IMPORT_FIELDS) {
@@ -441,20 +675,33 @@ async function analyseImport(executor: Executor, channelId: string, request: Pic
 			}
 			if (rowErrors.length === 0) {
 				if (isUpdate) {
-					const changed = (Object.keys(part) as (keyof ReadRow['part'])[]).some((key) => part[key] !== current[key]);
+					const changed = (Object.keys(part) as (keyof ReadRow['part'])[]).some(
+						(key) => part[key] !== current[key]
+					);
 					action = changed ? 'update' : 'unchanged';
 					if (changed) updates.push({ row: record.row, sku, values, part });
-					else unchanged++;
 				} else {
 					action = 'create';
-					creates.push({ row: record.row, sku, values, part: { currency: 'USD', fitmentNote: '', status: 'active', ...part } as Required<ReadRow['part']> });
+					creates.push({
+						row: record.row,
+						sku,
+						values,
+						part: { currency: 'USD', fitmentNote: '', status: 'active', ...part } as Required<
+							ReadRow['part']
+						>
+					});
 				}
 			}
 		}
 		errors.push(...rowErrors);
 		if (sample.length < SAMPLE_ROWS) sample.push({ row: record.row, action, values });
 	}
-	if (records.length === 0 && errors.length === 0) errors.push({ row: 2, field: null, message: 'The file has a header row but no parts under it.' });
+	if (records.length === 0 && errors.length === 0)
+		errors.push({
+			row: 2,
+			field: null,
+			message: 'The file has a header row but no parts under it.'
+		});
 	errors.sort((a, b) => a.row - b.row);
 	return {
 		preview: {
@@ -475,7 +722,11 @@ async function analyseImport(executor: Executor, channelId: string, request: Pic
 }
 
 /** What an import would do, without writing anything. */
-export async function previewPartImport(channelId: string, request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>, executor: Executor = db): Promise<ImportPreview> {
+export async function previewPartImport(
+	channelId: string,
+	request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>,
+	executor: Executor = db
+): Promise<ImportPreview> {
 	return (await analyseImport(executor, channelId, request)).preview;
 }
 
@@ -483,23 +734,40 @@ export async function previewPartImport(channelId: string, request: Pick<ImportR
  * Imports the file in one transaction, or nothing at all: any row error answers 422 with the
  * preview (errors by row), and a clash with a part added meanwhile rolls everything back (409).
  */
-export async function commitPartImport(channelId: string, request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>, executor: Executor = db): Promise<ImportResult> {
+export async function commitPartImport(
+	channelId: string,
+	request: Pick<ImportRequest, 'csv' | 'mode' | 'mapping'>,
+	executor: Executor = db
+): Promise<ImportResult> {
 	const started = performance.now();
 	try {
 		return await executor.transaction().execute(async (trx) => {
 			const { preview, creates, updates } = await analyseImport(trx, channelId, request);
 			if (preview.errorCount > 0) {
-				throw new DomainError(422, `Nothing was imported: ${preview.errorCount} problem${preview.errorCount === 1 ? '' : 's'} in the file. Fix ${preview.errorCount === 1 ? 'it' : 'them'} and import again.`, undefined, { preview });
+				throw new DomainError(
+					422,
+					`Nothing was imported: ${preview.errorCount} problem${preview.errorCount === 1 ? '' : 's'} in the file. Fix ${preview.errorCount === 1 ? 'it' : 'them'} and import again.`,
+					undefined,
+					{ preview }
+				);
 			}
 			for (let start = 0; start < creates.length; start += IMPORT_BATCH_ROWS) {
 				await trx
 					.insertInto('part')
-					.values(creates.slice(start, start + IMPORT_BATCH_ROWS).map(({ sku, part }) => ({ channelId, sku, ...part })))
+					.values(
+						creates
+							.slice(start, start + IMPORT_BATCH_ROWS)
+							.map(({ sku, part }) => ({ channelId, sku, ...part }))
+					)
 					.execute();
 			}
 			let updated = 0;
 			for (let start = 0; start < updates.length; start += IMPORT_BATCH_ROWS) {
-				updated += await updateBatch(trx, channelId, updates.slice(start, start + IMPORT_BATCH_ROWS));
+				updated += await updateBatch(
+					trx,
+					channelId,
+					updates.slice(start, start + IMPORT_BATCH_ROWS)
+				);
 			}
 			return {
 				mode: request.mode,
@@ -512,7 +780,10 @@ export async function commitPartImport(channelId: string, request: Pick<ImportRe
 		});
 	} catch (failure) {
 		if (isUniqueViolation(failure)) {
-			throw new DomainError(409, 'Someone added a part with one of these SKUs while the file was importing. Nothing was imported; preview the file again.');
+			throw new DomainError(
+				409,
+				'Someone added a part with one of these SKUs while the file was importing. Nothing was imported; preview the file again.'
+			);
 		}
 		throw failure;
 	}
@@ -569,23 +840,47 @@ export const EXPORT_HEADERS: Record<ImportField, string> = {
  * import takes the guard off again.
  */
 export async function exportPartsCsv(channelId: string, executor: Executor = db): Promise<string> {
-	const parts = await executor.selectFrom('part').select(partColumns).where('channelId', '=', channelId).orderBy('sku').execute();
+	const parts = await executor
+		.selectFrom('part')
+		.select(partColumns)
+		.where('channelId', '=', channelId)
+		.orderBy('sku')
+		.execute();
 	return csvText(
 		[
 			IMPORT_FIELDS.map((field) => EXPORT_HEADERS[field]),
-			...parts.map((part) => [part.sku, part.name, part.category, part.brand, priceText(part.priceCents), part.currency, part.storeUrl, part.fitmentNote, part.status])
+			...parts.map((part) => [
+				part.sku,
+				part.name,
+				part.category,
+				part.brand,
+				priceText(part.priceCents),
+				part.currency,
+				part.storeUrl,
+				part.fitmentNote,
+				part.status
+			])
 		],
 		{ escapeFormulae: true }
 	);
 }
 
 /** The id of the part with exactly this SKU in the channel's catalogue; 400 in plain words when none. */
-export async function partIdBySku(channelId: string, sku: string, executor: Executor = db): Promise<string> {
+export async function partIdBySku(
+	channelId: string,
+	sku: string,
+	executor: Executor = db
+): Promise<string> {
 	if (sku.trim() === '') {
 		const message = 'Type the part’s SKU (or, with JavaScript, a name or brand and pick the part).';
 		throw new DomainError(400, message, { sku: [message] });
 	}
-	const part = await executor.selectFrom('part').select('id').where('channelId', '=', channelId).where('sku', '=', sku.trim()).executeTakeFirst();
+	const part = await executor
+		.selectFrom('part')
+		.select('id')
+		.where('channelId', '=', channelId)
+		.where('sku', '=', sku.trim())
+		.executeTakeFirst();
 	if (!part) {
 		const message = `No part with SKU “${sku.trim()}” is in the catalogue; check the part number, or add the part first.`;
 		throw new DomainError(400, message, { sku: [message] });

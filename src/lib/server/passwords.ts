@@ -12,9 +12,11 @@ export const PASSWORD_MAX = 128;
 
 /** Returns a sentence for the person, or null when the password is acceptable. */
 export function passwordProblem(password: string): string | null {
-	if (password.length < PASSWORD_MIN) return `Use at least ${PASSWORD_MIN} characters: a short phrase is easier to remember than symbols.`;
+	if (password.length < PASSWORD_MIN)
+		return `Use at least ${PASSWORD_MIN} characters: a short phrase is easier to remember than symbols.`;
 	if (password.length > PASSWORD_MAX) return `Use at most ${PASSWORD_MAX} characters.`;
-	if (commonPasswords.test(password.toLowerCase())) return 'That password appears in lists of leaked passwords. Pick another.';
+	if (commonPasswords.test(password.toLowerCase()))
+		return 'That password appears in lists of leaked passwords. Pick another.';
 	return null;
 }
 
@@ -22,7 +24,10 @@ export function hashPassword(password: string): Promise<string> {
 	return hash(password);
 }
 
-export async function checkPassword(passwordHash: string | null, password: string): Promise<boolean> {
+export async function checkPassword(
+	passwordHash: string | null,
+	password: string
+): Promise<boolean> {
 	if (!passwordHash) return false;
 	try {
 		return await verify(passwordHash, password);

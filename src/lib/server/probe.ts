@@ -18,22 +18,51 @@ export interface ProbeResult {
 
 export async function probeMedia(file: string): Promise<ProbeResult> {
 	if (!existsSync(FFPROBE)) {
-		return { durationSeconds: null, frameRate: null, videoCodec: null, note: 'ffprobe is not installed on the server (apt-get install ffmpeg), so duration, frame rate and codec are not read.' };
+		return {
+			durationSeconds: null,
+			frameRate: null,
+			videoCodec: null,
+			note: 'ffprobe is not installed on the server (apt-get install ffmpeg), so duration, frame rate and codec are not read.'
+		};
 	}
 	try {
-		const { stdout } = await run(FFPROBE, ['-v', 'error', '-print_format', 'json', '-show_format', '-show_streams', file], { timeout: 30_000, maxBuffer: 4 * 1024 * 1024 });
-		const info = JSON.parse(stdout) as { format?: { duration?: string }; streams?: { codec_type?: string; codec_name?: string; r_frame_rate?: string; avg_frame_rate?: string; duration?: string }[] };
+		const { stdout } = await run(
+			FFPROBE,
+			['-v', 'error', '-print_format', 'json', '-show_format', '-show_streams', file],
+			{ timeout: 30_000, maxBuffer: 4 * 1024 * 1024 }
+		);
+		const info = JSON.parse(stdout) as {
+			format?: { duration?: string };
+			streams?: {
+				codec_type?: string;
+				codec_name?: string;
+				r_frame_rate?: string;
+				avg_frame_rate?: string;
+				duration?: string;
+			}[];
+		};
 		const video = info.streams?.find((s) => s.codec_type === 'video');
 		const audio = info.streams?.find((s) => s.codec_type === 'audio');
 		const duration = Number(info.format?.duration ?? video?.duration ?? audio?.duration);
 		return {
 			durationSeconds: Number.isFinite(duration) ? duration : null,
-			frameRate: video ? frameRateLabel(video.avg_frame_rate && video.avg_frame_rate !== '0/0' ? video.avg_frame_rate : video.r_frame_rate) : null,
+			frameRate: video
+				? frameRateLabel(
+						video.avg_frame_rate && video.avg_frame_rate !== '0/0'
+							? video.avg_frame_rate
+							: video.r_frame_rate
+					)
+				: null,
 			videoCodec: video?.codec_name ?? audio?.codec_name ?? null,
 			note: null
 		};
 	} catch (failure) {
-		return { durationSeconds: null, frameRate: null, videoCodec: null, note: `ffprobe could not read this file: ${failure instanceof Error ? failure.message.split('\n')[0] : String(failure)}` };
+		return {
+			durationSeconds: null,
+			frameRate: null,
+			videoCodec: null,
+			note: `ffprobe could not read this file: ${failure instanceof Error ? failure.message.split('\n')[0] : String(failure)}`
+		};
 	}
 }
 

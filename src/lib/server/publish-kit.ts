@@ -92,13 +92,19 @@ function kitQuery(executor: Executor, channelId: string, episodeId: string) {
 					.selectFrom('segmentNotePart')
 					.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
 					.innerJoin('part', 'part.id', 'segmentNotePart.partId')
-					.leftJoin('trackedLink', (join) => join.onRef('trackedLink.partId', '=', 'part.id').onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId'))
+					.leftJoin('trackedLink', (join) =>
+						join
+							.onRef('trackedLink.partId', '=', 'part.id')
+							.onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId')
+					)
 					.select(FEATURED_COLUMNS)
 					.whereRef('segmentNote.episodeId', '=', 'episode.id')
 			).as('featured'),
 			// Lift and tyre episodes carry the road-legality note too.
 			sql<boolean>`(EXISTS (SELECT 1 FROM episode_build JOIN build ON build.id = episode_build.build_id WHERE episode_build.episode_id = episode.id AND (build.front_lift_in > 0 OR build.rear_lift_in > 0))
-				OR EXISTS (SELECT 1 FROM segment WHERE segment.episode_id = episode.id AND segment.kind = 'wheels-tyres'))`.as('liftEpisode')
+				OR EXISTS (SELECT 1 FROM segment WHERE segment.episode_id = episode.id AND segment.kind = 'wheels-tyres'))`.as(
+				'liftEpisode'
+			)
 		])
 		.where('episode.id', '=', episodeId)
 		.where('episode.channelId', '=', channelId)
@@ -112,20 +118,36 @@ const escapeMarkdown = (text: string) => text.replace(/[\\`*_[\]<>#|]/g, '\\$&')
 
 function loglineBlock(row: KitRow): KitBlock {
 	const text = row.logline.trim();
-	return { id: 'logline', title: 'Logline', text, markdown: escapeMarkdown(text), problems: text ? [] : ['The episode has no logline yet: write one on the episode page.'] };
+	return {
+		id: 'logline',
+		title: 'Logline',
+		text,
+		markdown: escapeMarkdown(text),
+		problems: text ? [] : ['The episode has no logline yet: write one on the episode page.']
+	};
 }
 
 function chaptersBlock(row: KitRow): KitBlock {
 	const title = 'Chapters';
 	const rate = rateOf(row);
-	const chapters = row.chapters.map((chapter) => ({ startFrame: chapter.startFrame, title: chapter.title, url: chapter.url }));
+	const chapters = row.chapters.map((chapter) => ({
+		startFrame: chapter.startFrame,
+		title: chapter.title,
+		url: chapter.url
+	}));
 	let problems: string[];
-	if (chapters.length === 0) problems = ['There are no chapters yet: the editor marks them on the edit timeline.'];
-	else problems = validateChapters(chapters, row.cutDurationFrames ?? 0, rate).map((problem) => problem.message);
+	if (chapters.length === 0)
+		problems = ['There are no chapters yet: the editor marks them on the edit timeline.'];
+	else
+		problems = validateChapters(chapters, row.cutDurationFrames ?? 0, rate).map(
+			(problem) => problem.message
+		);
 	let lines: string[] = [];
 	if (problems.length === 0) {
 		try {
-			lines = exportChapters('txt', chapters, { rate, cutEndFrame: row.cutDurationFrames ?? 0 }).body.trimEnd().split('\n');
+			lines = exportChapters('txt', chapters, { rate, cutEndFrame: row.cutDurationFrames ?? 0 })
+				.body.trimEnd()
+				.split('\n');
 		} catch (failure) {
 			if (!(failure instanceof ChapterExportError)) throw failure;
 			problems = [failure.message];
@@ -133,7 +155,13 @@ function chaptersBlock(row: KitRow): KitBlock {
 	}
 	if (problems.length > 0) {
 		const notice = `[Chapters not ready: ${problems.join(' ')} Fix them on the edit timeline.]`;
-		return { id: 'chapters', title, text: `${title}\n${notice}`, markdown: `## ${title}\n\n${escapeMarkdown(notice)}`, problems };
+		return {
+			id: 'chapters',
+			title,
+			text: `${title}\n${notice}`,
+			markdown: `## ${title}\n\n${escapeMarkdown(notice)}`,
+			problems
+		};
 	}
 	return {
 		id: 'chapters',
@@ -145,11 +173,25 @@ function chaptersBlock(row: KitRow): KitBlock {
 	};
 }
 
-const statusNote = (part: FeaturedPart) => (part.status === 'discontinued' ? ' [discontinued]' : part.status === 'out_of_stock' ? ' [out of stock]' : '');
+const statusNote = (part: FeaturedPart) =>
+	part.status === 'discontinued'
+		? ' [discontinued]'
+		: part.status === 'out_of_stock'
+			? ' [out of stock]'
+			: '';
 
 function partsBlock(parts: readonly FeaturedPart[], origin: string): KitBlock {
 	const title = 'Parts in this episode';
-	if (parts.length === 0) return { id: 'parts', title, text: '', markdown: '', problems: ['No parts are linked on the segment notes yet: the merch team links them on the notes page.'] };
+	if (parts.length === 0)
+		return {
+			id: 'parts',
+			title,
+			text: '',
+			markdown: '',
+			problems: [
+				'No parts are linked on the segment notes yet: the merch team links them on the notes page.'
+			]
+		};
 	const problems: string[] = [];
 	const text: string[] = [title];
 	const markdown: string[] = [`## ${title}`, ''];
@@ -159,9 +201,15 @@ function partsBlock(parts: readonly FeaturedPart[], origin: string): KitBlock {
 		const times = clocks.length ? `, at ${clocks.join(', ')}` : '';
 		const address = linkAddress(origin, part.linkCode!);
 		text.push(`- ${part.name} (${part.brand}, ${part.sku})${times}${statusNote(part)}: ${address}`);
-		markdown.push(`- [${escapeMarkdown(part.name)}](${address}) (${escapeMarkdown(part.brand)}, ${escapeMarkdown(part.sku)})${times}${escapeMarkdown(statusNote(part))}`);
-		if (part.status !== 'active') problems.push(`${part.sku} is ${part.status === 'discontinued' ? 'discontinued' : 'out of stock'}: link an active part instead.`);
-		if (part.unplaced.length > 0) problems.push(`${part.sku} is on a note with no program time: the editor places it.`);
+		markdown.push(
+			`- [${escapeMarkdown(part.name)}](${address}) (${escapeMarkdown(part.brand)}, ${escapeMarkdown(part.sku)})${times}${escapeMarkdown(statusNote(part))}`
+		);
+		if (part.status !== 'active')
+			problems.push(
+				`${part.sku} is ${part.status === 'discontinued' ? 'discontinued' : 'out of stock'}: link an active part instead.`
+			);
+		if (part.unplaced.length > 0)
+			problems.push(`${part.sku} is on a note with no program time: the editor places it.`);
 	}
 	return { id: 'parts', title, text: text.join('\n'), markdown: markdown.join('\n'), problems };
 }
@@ -175,9 +223,16 @@ function safetyBlock(row: KitRow): KitBlock {
 		id: 'safety',
 		title,
 		text: [title, ...cautions.map((caution) => `- ${caution}`), ...notes].join('\n'),
-		markdown: [`## ${title}`, '', ...cautions.map((caution) => `- ${escapeMarkdown(caution)}`), ...(cautions.length ? [''] : []), notes.map(escapeMarkdown).join('\n\n')].join('\n'),
+		markdown: [
+			`## ${title}`,
+			'',
+			...cautions.map((caution) => `- ${escapeMarkdown(caution)}`),
+			...(cautions.length ? [''] : []),
+			notes.map(escapeMarkdown).join('\n\n')
+		].join('\n'),
 		problems: [],
-		required: 'Always in the description: viewers copy this work, so the cautions and the note that defers to manufacturer instructions, local codes and licensed professionals go with it.'
+		required:
+			'Always in the description: viewers copy this work, so the cautions and the note that defers to manufacturer instructions, local codes and licensed professionals go with it.'
 	};
 }
 
@@ -188,13 +243,21 @@ function callToActionBlock(row: KitRow): KitBlock {
 		title: 'Call to action and contact',
 		text: lines.join('\n'),
 		markdown: lines.map(escapeMarkdown).join('\n\n'),
-		problems: lines.length ? [] : ['The channel has no call to action or contact yet: the producer sets them under Channel.']
+		problems: lines.length
+			? []
+			: ['The channel has no call to action or contact yet: the producer sets them under Channel.']
 	};
 }
 
 function assemble(row: KitRow, origin: string): PublishKit {
 	const parts = groupFeatured(row.featured as Parameters<typeof groupFeatured>[0], rateOf(row));
-	const blocks = [loglineBlock(row), chaptersBlock(row), partsBlock(parts, origin), safetyBlock(row), callToActionBlock(row)];
+	const blocks = [
+		loglineBlock(row),
+		chaptersBlock(row),
+		partsBlock(parts, origin),
+		safetyBlock(row),
+		callToActionBlock(row)
+	];
 	const text = blocks
 		.map((block) => block.text)
 		.filter(Boolean)
@@ -216,11 +279,18 @@ function assemble(row: KitRow, origin: string): PublishKit {
 }
 
 /** The publish kit of one episode of the channel; 404 otherwise. `origin` makes the /go/ links absolute. */
-export async function publishKitFor(channelId: string, episodeId: string, options: { origin: string }, executor: Executor = db): Promise<PublishKit> {
+export async function publishKitFor(
+	channelId: string,
+	episodeId: string,
+	options: { origin: string },
+	executor: Executor = db
+): Promise<PublishKit> {
 	if (!isUuid(episodeId)) throw episodeNotFound();
 	let row = await kitQuery(executor, channelId, episodeId);
 	if (!row) throw episodeNotFound();
-	const unlinked = row.featured.filter((feature) => feature.linkCode === null).map((feature) => feature.partId);
+	const unlinked = row.featured
+		.filter((feature) => feature.linkCode === null)
+		.map((feature) => feature.partId);
 	if (unlinked.length > 0) {
 		await ensureTrackedLinks(executor, row.id, unlinked);
 		row = (await kitQuery(executor, channelId, episodeId))!;
@@ -229,8 +299,17 @@ export async function publishKitFor(channelId: string, episodeId: string, option
 }
 
 /** The kit as a file: Markdown, plain text, or JSON (the whole kit object). */
-export function renderKit(kit: PublishKit, format: KitFormat): { body: string; contentType: string; extension: string } {
-	if (format === 'md') return { body: kit.markdown, contentType: 'text/markdown; charset=utf-8', extension: 'md' };
-	if (format === 'txt') return { body: `${kit.text}\n`, contentType: 'text/plain; charset=utf-8', extension: 'txt' };
-	return { body: `${JSON.stringify(kit, null, 2)}\n`, contentType: 'application/json; charset=utf-8', extension: 'json' };
+export function renderKit(
+	kit: PublishKit,
+	format: KitFormat
+): { body: string; contentType: string; extension: string } {
+	if (format === 'md')
+		return { body: kit.markdown, contentType: 'text/markdown; charset=utf-8', extension: 'md' };
+	if (format === 'txt')
+		return { body: `${kit.text}\n`, contentType: 'text/plain; charset=utf-8', extension: 'txt' };
+	return {
+		body: `${JSON.stringify(kit, null, 2)}\n`,
+		contentType: 'application/json; charset=utf-8',
+		extension: 'json'
+	};
 }

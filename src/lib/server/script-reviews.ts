@@ -34,7 +34,16 @@ export async function reviewsFor(channelId: string, episodeId: string, executor:
 		.selectFrom('scriptReview')
 		.leftJoin('person', 'person.id', 'scriptReview.personId')
 		.leftJoin('segment', 'segment.id', 'scriptReview.segmentId')
-		.select(['scriptReview.id', 'scriptReview.kind', 'scriptReview.body', 'scriptReview.segmentId', 'segment.title as segmentTitle', 'segment.position as segmentPosition', 'scriptReview.createdAt', 'person.name as personName'])
+		.select([
+			'scriptReview.id',
+			'scriptReview.kind',
+			'scriptReview.body',
+			'scriptReview.segmentId',
+			'segment.title as segmentTitle',
+			'segment.position as segmentPosition',
+			'scriptReview.createdAt',
+			'person.name as personName'
+		])
 		.where('scriptReview.episodeId', '=', episodeId)
 		.orderBy('scriptReview.createdAt')
 		.orderBy('scriptReview.id')
@@ -66,47 +75,117 @@ async function assignedHost(executor: Executor, episodeId: string) {
 }
 
 /** Submits, approves, returns or comments on an episode's script, in one transaction with its mail. */
-export async function reviewScript(channelId: string, actor: Actor, episodeId: string, input: ScriptReviewInput, origin: string) {
-	if (!MAY[input.action].some((role) => actor.roles.includes(role))) error(403, WORDS[input.action]);
+export async function reviewScript(
+	channelId: string,
+	actor: Actor,
+	episodeId: string,
+	input: ScriptReviewInput,
+	origin: string
+) {
+	if (!MAY[input.action].some((role) => actor.roles.includes(role)))
+		error(403, WORDS[input.action]);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
 		const fingerprint = await currentScriptFingerprint(trx, episodeId);
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
-			const segment = await trx.selectFrom('segment').select('id').where('id', '=', input.segmentId).where('episodeId', '=', episodeId).executeTakeFirst();
-			if (!segment) throw new DomainError(400, 'That segment is not in this episode.', { segmentId: ['Pick a segment of this episode.'] });
+			const segment = await trx
+				.selectFrom('segment')
+				.select('id')
+				.where('id', '=', input.segmentId)
+				.where('episodeId', '=', episodeId)
+				.executeTakeFirst();
+			if (!segment)
+				throw new DomainError(400, 'That segment is not in this episode.', {
+					segmentId: ['Pick a segment of this episode.']
+				});
 		}
 		if (input.action === 'approve') {
-			if (!input.fingerprint) throw new DomainError(400, 'Approve from the script page, so Wrenchroll knows which text you read.', { fingerprint: ['Missing.'] });
+			if (!input.fingerprint)
+				throw new DomainError(
+					400,
+					'Approve from the script page, so Wrenchroll knows which text you read.',
+					{ fingerprint: ['Missing.'] }
+				);
 			if (input.fingerprint !== fingerprint) {
-				throw new DomainError(409, 'The script changed while you were reading it. Read the new text, then approve again.', undefined, { current: { fingerprint } });
+				throw new DomainError(
+					409,
+					'The script changed while you were reading it. Read the new text, then approve again.',
+					undefined,
+					{ current: { fingerprint } }
+				);
 			}
 		}
-		const status = { submit: 'submitted', approve: 'approved', return: 'returned', comment: episode.scriptStatus } as const;
+		const status = {
+			submit: 'submitted',
+			approve: 'approved',
+			return: 'returned',
+			comment: episode.scriptStatus
+		} as const;
 		await trx
 			.updateTable('episode')
 			.set({
 				scriptStatus: status[input.action],
-				...(input.action === 'approve' ? { scriptApprovedFingerprint: fingerprint, scriptApprovedAt: new Date(), scriptApprovedBy: actor.id } : {}),
-				...(input.action === 'return' || input.action === 'submit' ? { scriptApprovedFingerprint: null, scriptApprovedAt: null, scriptApprovedBy: null } : {})
+				...(input.action === 'approve'
+					? {
+							scriptApprovedFingerprint: fingerprint,
+							scriptApprovedAt: new Date(),
+							scriptApprovedBy: actor.id
+						}
+					: {}),
+				...(input.action === 'return' || input.action === 'submit'
+					? { scriptApprovedFingerprint: null, scriptApprovedAt: null, scriptApprovedBy: null }
+					: {})
 			})
 			.where('id', '=', episodeId)
 			.execute();
-		const kind = { submit: 'submitted', approve: 'approved', return: 'returned', comment: 'comment' } as const;
+		const kind = {
+			submit: 'submitted',
+			approve: 'approved',
+			return: 'returned',
+			comment: 'comment'
+		} as const;
 		await trx
 			.insertInto('scriptReview')
-			.values({ episodeId, segmentId: input.segmentId ?? null, personId: actor.id, kind: kind[input.action], body: input.body, fingerprint })
+			.values({
+				episodeId,
+				segmentId: input.segmentId ?? null,
+				personId: actor.id,
+				kind: kind[input.action],
+				body: input.body,
+				fingerprint
+			})
 			.execute();
 		if (input.action === 'submit') {
 			for (const producer of await activeProducers(trx, channelId)) {
 				if (producer.id === actor.id) continue;
-				await queueMail(trx, { to: producer.email, channelId, ...scriptSubmittedMail({ producerName: producer.name, hostName: actor.name, episodeTitle: episode.title, link }) });
+				await queueMail(trx, {
+					to: producer.email,
+					channelId,
+					...scriptSubmittedMail({
+						producerName: producer.name,
+						hostName: actor.name,
+						episodeTitle: episode.title,
+						link
+					})
+				});
 			}
 		}
 		if (input.action === 'approve' || input.action === 'return') {
 			const host = await assignedHost(trx, episodeId);
 			if (host && host.id !== actor.id) {
-				await queueMail(trx, { to: host.email, channelId, ...scriptReviewedMail({ hostName: host.name, producerName: actor.name, episodeTitle: episode.title, approved: input.action === 'approve', comment: input.body, link }) });
+				await queueMail(trx, {
+					to: host.email,
+					channelId,
+					...scriptReviewedMail({
+						hostName: host.name,
+						producerName: actor.name,
+						episodeTitle: episode.title,
+						approved: input.action === 'approve',
+						comment: input.body,
+						link
+					})
+				});
 			}
 		}
 		return { status: status[input.action], fingerprint };
@@ -114,16 +193,25 @@ export async function reviewScript(channelId: string, actor: Actor, episodeId: s
 }
 
 /** The script's approval state as the pages show it. */
-export async function scriptStateFor(channelId: string, episodeId: string, executor: Executor = db) {
+export async function scriptStateFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+) {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const fingerprint = await currentScriptFingerprint(executor, episodeId);
 	const approver = episode.scriptApprovedBy
-		? await executor.selectFrom('person').select('name').where('id', '=', episode.scriptApprovedBy).executeTakeFirst()
+		? await executor
+				.selectFrom('person')
+				.select('name')
+				.where('id', '=', episode.scriptApprovedBy)
+				.executeTakeFirst()
 		: undefined;
 	return {
 		status: episode.scriptStatus,
 		fingerprint,
-		changedSinceApproval: episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint,
+		changedSinceApproval:
+			episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint,
 		approvedAt: episode.scriptApprovedAt ? new Date(episode.scriptApprovedAt).toISOString() : null,
 		approvedByName: approver?.name ?? null
 	};

@@ -9,7 +9,8 @@ export const SESSION_DAYS = 30;
 const FAILURE_LIMIT = 10;
 const FAILURE_WINDOW = '15 minutes';
 
-const emailKey = (email: string) => createHash('sha256').update(email.trim().toLowerCase()).digest('hex');
+const emailKey = (email: string) =>
+	createHash('sha256').update(email.trim().toLowerCase()).digest('hex');
 
 export async function verifyCredentials(email: string, password: string) {
 	const key = emailKey(email);
@@ -60,4 +61,3 @@ export async function closeSession(sessionId: string): Promise<void> {
 export async function closeAllSessions(personId: string): Promise<void> {
 	await db.deleteFrom('personSession').where('personId', '=', personId).execute();
 }
-

@@ -23,7 +23,13 @@ import {
 	type SpecCardInput,
 	type SpecCardKind
 } from '$lib/specs';
-import { defaultDropFrame, formatTimecode, framesToMilliseconds, secondsToFrames, type FrameRate } from '$lib/timecode';
+import {
+	defaultDropFrame,
+	formatTimecode,
+	framesToMilliseconds,
+	secondsToFrames,
+	type FrameRate
+} from '$lib/timecode';
 import {
 	DEFAULT_ON_SCREEN_SECONDS,
 	SPEC_CARD_KIND_LABELS,
@@ -126,12 +132,18 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 		kind: row.kind,
 		kindLabel: SPEC_CARD_KIND_LABELS[row.kind],
 		input: row.input,
-		segment: row.segmentId === null ? null : { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
+		segment:
+			row.segmentId === null
+				? null
+				: { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
 		atFrame: row.atFrame,
 		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
 		durationFrames,
 		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
-		pastCutEnd: row.atFrame !== null && episode.cutDurationFrames !== null && row.atFrame >= episode.cutDurationFrames,
+		pastCutEnd:
+			row.atFrame !== null &&
+			episode.cutDurationFrames !== null &&
+			row.atFrame >= episode.cutDurationFrames,
 		position: row.position,
 		version: row.version,
 		createdByName: row.createdByName,
@@ -142,7 +154,11 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 	};
 }
 
-async function segmentsOf(executor: Executor, episodeId: string, rate: FrameRate): Promise<SpecCardSegment[]> {
+async function segmentsOf(
+	executor: Executor,
+	episodeId: string,
+	rate: FrameRate
+): Promise<SpecCardSegment[]> {
 	const rows = await executor
 		.selectFrom('segment')
 		.select(['id', 'position', 'title', 'recordedFrames'])
@@ -158,7 +174,8 @@ async function segmentsOf(executor: Executor, episodeId: string, rate: FrameRate
 			startsAtFrame: startsAt,
 			startsAtTimecode: startsAt === null ? null : formatTimecode(startsAt, rate)
 		};
-		startsAt = startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
+		startsAt =
+			startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
 		return segment;
 	});
 }
@@ -171,56 +188,101 @@ function boardEpisode(episode: Episode, rate: FrameRate): SpecCardBoard['episode
 		frameRate: rate,
 		dropFrame: defaultDropFrame(rate),
 		cutDurationFrames: episode.cutDurationFrames,
-		cutTimecode: episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+		cutTimecode:
+			episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
 	};
 }
 
 /** The episode's spec cards with their lines as they read on screen, and its segments; 404 for another channel's episode. */
-export async function specCardsFor(channelId: string, episodeId: string, executor: Executor = db): Promise<SpecCardBoard> {
+export async function specCardsFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<SpecCardBoard> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const rate = rateOf(episode);
-	const [segments, rows] = await Promise.all([segmentsOf(executor, episode.id, rate), cardsQuery(executor, episode.id).execute()]);
-	return { episode: boardEpisode(episode, rate), segments, cards: rows.map((row) => toView(row, episode, rate)) };
+	const [segments, rows] = await Promise.all([
+		segmentsOf(executor, episode.id, rate),
+		cardsQuery(executor, episode.id).execute()
+	]);
+	return {
+		episode: boardEpisode(episode, rate),
+		segments,
+		cards: rows.map((row) => toView(row, episode, rate))
+	};
 }
 
-async function cardView(executor: Executor, episode: Episode, cardId: string): Promise<SpecCardView | null> {
-	const row = await cardsQuery(executor, episode.id).where('specCard.id', '=', cardId).executeTakeFirst();
+async function cardView(
+	executor: Executor,
+	episode: Episode,
+	cardId: string
+): Promise<SpecCardView | null> {
+	const row = await cardsQuery(executor, episode.id)
+		.where('specCard.id', '=', cardId)
+		.executeTakeFirst();
 	return row ? toView(row, episode, rateOf(episode)) : null;
 }
 
 /** Checks the card's shape and numbers; a parser's refusal is a 400 with its own words on the field. */
 function checkedInput(input: SpecCardInput): SpecCardInput {
 	const checked = checkSpecCard(input);
-	if (!checked.ok) throw new DomainError(400, checked.message, { [`input.${checked.field}`]: [checked.message] });
+	if (!checked.ok)
+		throw new DomainError(400, checked.message, { [`input.${checked.field}`]: [checked.message] });
 	return checked.input;
 }
 
-async function checkSegment(executor: Executor, episodeId: string, segmentId: string | null): Promise<string | null> {
+async function checkSegment(
+	executor: Executor,
+	episodeId: string,
+	segmentId: string | null
+): Promise<string | null> {
 	if (segmentId === null) return null;
-	const segment = await executor.selectFrom('segment').select('id').where('id', '=', segmentId).where('episodeId', '=', episodeId).executeTakeFirst();
+	const segment = await executor
+		.selectFrom('segment')
+		.select('id')
+		.where('id', '=', segmentId)
+		.where('episodeId', '=', episodeId)
+		.executeTakeFirst();
 	if (!segment) {
-		const message = 'That segment is not in this episode’s rundown. Pick one from the list, or none.';
+		const message =
+			'That segment is not in this episode’s rundown. Pick one from the list, or none.';
 		throw new DomainError(400, message, { segmentId: [message] });
 	}
 	return segment.id;
 }
 
 /** The frame a placement names: typed text read at the episode's rate, or a frame count; undefined leaves it as it is. */
-function placedFrame(input: { at?: string | null; atFrame?: number | null }, episode: Episode, rate: FrameRate): number | null | undefined {
+function placedFrame(
+	input: { at?: string | null; atFrame?: number | null },
+	episode: Episode,
+	rate: FrameRate
+): number | null | undefined {
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
-	else if (input.at !== undefined) frame = input.at === null ? null : framesFromText(input.at, rate, 'at');
-	if (frame !== null && frame !== undefined && episode.cutDurationFrames !== null && frame >= episode.cutDurationFrames) {
+	else if (input.at !== undefined)
+		frame = input.at === null ? null : framesFromText(input.at, rate, 'at');
+	if (
+		frame !== null &&
+		frame !== undefined &&
+		episode.cutDurationFrames !== null &&
+		frame >= episode.cutDurationFrames
+	) {
 		const message = `That is at or after the end of the cut (${formatTimecode(episode.cutDurationFrames, rate)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
 		throw new DomainError(400, message, { at: [message] });
 	}
 	return frame;
 }
 
-const durationFramesOf = (seconds: number | undefined, rate: FrameRate) => (seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate)));
+const durationFramesOf = (seconds: number | undefined, rate: FrameRate) =>
+	seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate));
 
 /** Adds a card to the episode, checked by the spec parsers, at the end of the episode's card order. */
-export async function createSpecCard(channelId: string, actor: { id: string }, episodeId: string, input: SpecCardCreate): Promise<SpecCardView> {
+export async function createSpecCard(
+	channelId: string,
+	actor: { id: string },
+	episodeId: string,
+	input: SpecCardCreate
+): Promise<SpecCardView> {
 	const cardInput = checkedInput(input.input);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
@@ -228,7 +290,11 @@ export async function createSpecCard(channelId: string, actor: { id: string }, e
 		const rate = rateOf(episode);
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
 		const atFrame = placedFrame(input, episode, rate) ?? null;
-		const last = await trx.selectFrom('specCard').select((eb) => eb.fn.max('position').as('position')).where('episodeId', '=', episode.id).executeTakeFirst();
+		const last = await trx
+			.selectFrom('specCard')
+			.select((eb) => eb.fn.max('position').as('position'))
+			.where('episodeId', '=', episode.id)
+			.executeTakeFirst();
 		const row = await trx
 			.insertInto('specCard')
 			.values({
@@ -237,7 +303,8 @@ export async function createSpecCard(channelId: string, actor: { id: string }, e
 				kind: cardInput.kind,
 				input: JSON.stringify(cardInput),
 				atFrame,
-				durationFrames: durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
+				durationFrames:
+					durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
 				position: (last?.position ?? 0) + 1,
 				createdBy: actor.id
 			})
@@ -260,18 +327,26 @@ async function staleCard(executor: Executor, episode: Episode, cardId: string): 
 }
 
 /** Changes a card's figures, segment, program time or time on screen; `version` must be the one read (else 409). */
-export async function updateSpecCard(channelId: string, episodeId: string, cardId: string, input: SpecCardUpdate): Promise<SpecCardView> {
+export async function updateSpecCard(
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	input: SpecCardUpdate
+): Promise<SpecCardView> {
 	const episode = await episodeInChannel(db, channelId, episodeId);
 	if (!isUuid(cardId)) throw cardNotFound();
 	const rate = rateOf(episode);
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
-	const segmentId = input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
+	const segmentId =
+		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
 	const atFrame = placedFrame(input, episode, rate);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
 	const row = await db
 		.updateTable('specCard')
 		.set((eb) => ({
-			...(cardInput !== undefined ? { kind: cardInput.kind, input: JSON.stringify(cardInput) } : {}),
+			...(cardInput !== undefined
+				? { kind: cardInput.kind, input: JSON.stringify(cardInput) }
+				: {}),
 			...(segmentId !== undefined ? { segmentId } : {}),
 			...(atFrame !== undefined ? { atFrame } : {}),
 			...(durationFrames !== undefined ? { durationFrames } : {}),
@@ -298,12 +373,20 @@ export async function placeSpecCard(
 }
 
 /** Removes a card; with a version, only if nobody changed it since (else 409). */
-export async function deleteSpecCard(channelId: string, episodeId: string, cardId: string, version?: number): Promise<{ removed: SpecCardView }> {
+export async function deleteSpecCard(
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	version?: number
+): Promise<{ removed: SpecCardView }> {
 	const episode = await episodeInChannel(db, channelId, episodeId);
 	if (!isUuid(cardId)) throw cardNotFound();
 	const removed = await cardView(db, episode, cardId);
 	if (!removed) throw cardNotFound();
-	let removal = db.deleteFrom('specCard').where('id', '=', cardId).where('episodeId', '=', episode.id);
+	let removal = db
+		.deleteFrom('specCard')
+		.where('id', '=', cardId)
+		.where('episodeId', '=', episode.id);
 	if (version !== undefined) removal = removal.where('version', '=', version);
 	const row = await removal.returning('id').executeTakeFirst();
 	if (!row) return staleCard(db, episode, cardId);
@@ -311,7 +394,10 @@ export async function deleteSpecCard(channelId: string, episodeId: string, cardI
 }
 
 /** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
-export async function specCardMarksFor(channelId: string, episodeId: string): Promise<TimelineMark[]> {
+export async function specCardMarksFor(
+	channelId: string,
+	episodeId: string
+): Promise<TimelineMark[]> {
 	const board = await specCardsFor(channelId, episodeId);
 	return board.cards
 		.filter((view) => view.atFrame !== null)
@@ -443,8 +529,20 @@ export function specCardExportRows(board: SpecCardBoard): SpecCardExportRow[] {
  */
 export function specCardsCsv(rows: SpecCardExportRow[]): string {
 	const lineCount = Math.max(1, ...rows.map((row) => row.lines.length));
-	const header = ['card_id', 'kind', 'segment_position', 'segment_title', 'start_timecode', 'start_seconds', 'end_timecode', 'duration_seconds', 'heading', 'body'];
-	for (let index = 1; index <= lineCount; index++) header.push(`line_${index}_label`, `line_${index}_imperial`, `line_${index}_metric`);
+	const header = [
+		'card_id',
+		'kind',
+		'segment_position',
+		'segment_title',
+		'start_timecode',
+		'start_seconds',
+		'end_timecode',
+		'duration_seconds',
+		'heading',
+		'body'
+	];
+	for (let index = 1; index <= lineCount; index++)
+		header.push(`line_${index}_label`, `line_${index}_imperial`, `line_${index}_metric`);
 	header.push('cautions');
 	const records = [header];
 	for (const row of rows) {
@@ -483,17 +581,35 @@ function downloadName(slug: string, extension: string): string {
 }
 
 /** The episode's spec cards as a CSV or JSON file for the editor's graphics. */
-export async function specCardDownloadFor(channelId: string, episodeId: string, format: SpecCardExportFormat): Promise<SpecCardDownload> {
+export async function specCardDownloadFor(
+	channelId: string,
+	episodeId: string,
+	format: SpecCardExportFormat
+): Promise<SpecCardDownload> {
 	const board = await specCardsFor(channelId, episodeId);
 	const rows = specCardExportRows(board);
 	if (format === 'csv') {
 		// RFC 4180 §3 registers the optional header parameter; ours always has a header row.
-		return { body: specCardsCsv(rows), contentType: 'text/csv; charset=utf-8; header=present', filename: downloadName(board.episode.slug, 'csv') };
+		return {
+			body: specCardsCsv(rows),
+			contentType: 'text/csv; charset=utf-8; header=present',
+			filename: downloadName(board.episode.slug, 'csv')
+		};
 	}
 	const { episode } = board;
 	const document = {
-		episode: { id: episode.id, slug: episode.slug, title: episode.title, frameRate: episode.frameRate, dropFrame: episode.dropFrame },
+		episode: {
+			id: episode.id,
+			slug: episode.slug,
+			title: episode.title,
+			frameRate: episode.frameRate,
+			dropFrame: episode.dropFrame
+		},
 		cards: rows
 	};
-	return { body: `${JSON.stringify(document, null, 2)}\n`, contentType: 'application/json; charset=utf-8', filename: downloadName(episode.slug, 'json') };
+	return {
+		body: `${JSON.stringify(document, null, 2)}\n`,
+		contentType: 'application/json; charset=utf-8',
+		filename: downloadName(episode.slug, 'json')
+	};
 }

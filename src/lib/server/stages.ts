@@ -17,13 +17,26 @@ import { stageArrivalMail } from './mail/episode-messages';
 import { gateChecksFor, type GateReason, type GateSnapshot, type ScriptStatus } from '$lib/gates';
 import { isHazardId, type HazardId } from '$lib/cautions';
 import { countSpokenWords } from '$lib/script/timing';
-import { mayMoveStage, moveDirection, nextStage, previousStages, STAGE_LABELS, STAGE_OWNER, STAGE_WORK, forwardMoversText, type Stage } from '$lib/stages';
+import {
+	mayMoveStage,
+	moveDirection,
+	nextStage,
+	previousStages,
+	STAGE_LABELS,
+	STAGE_OWNER,
+	STAGE_WORK,
+	forwardMoversText,
+	type Stage
+} from '$lib/stages';
 import type { StageMoveInput } from '$lib/schemas/episodes';
 
 export { scriptFingerprint };
 
 /** The fingerprint of an episode's script as it is saved now. */
-export async function currentScriptFingerprint(executor: Executor, episodeId: string): Promise<string> {
+export async function currentScriptFingerprint(
+	executor: Executor,
+	episodeId: string
+): Promise<string> {
 	const rows = await executor
 		.selectFrom('segment')
 		.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
@@ -41,46 +54,58 @@ export const chapterProblemsFor = editChapterProblems;
 export const featuredPartProblemsFor = featuredPartProblems;
 
 /** Everything the gate checks read, gathered in the caller's transaction. */
-export async function gateSnapshotFor(trx: Executor, channelId: string, episodeId: string): Promise<GateSnapshot> {
+export async function gateSnapshotFor(
+	trx: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<GateSnapshot> {
 	const episode = await episodeInChannel(trx, channelId, episodeId);
-	const [assignments, segments, cautions, shots, takes, chapterProblems, featuredPartProblems] = await Promise.all([
-		trx
-			.selectFrom('episodeAssignment')
-			.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-			.select(['episodeAssignment.role', 'person.name'])
-			.where('episodeAssignment.episodeId', '=', episodeId)
-			.execute(),
-		trx
-			.selectFrom('segment')
-			.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
-			.select(['segment.id', 'segment.position', 'segment.title', 'segment.needsFootage', 'segment.hazards', 'segmentScript.body'])
-			.where('segment.episodeId', '=', episodeId)
-			.orderBy('segment.position')
-			.execute(),
-		trx
-			.selectFrom('caution')
-			.innerJoin('segment', 'segment.id', 'caution.segmentId')
-			.select(['caution.segmentId', 'caution.hazard', 'caution.text', 'caution.atFrame'])
-			.where('segment.episodeId', '=', episodeId)
-			.execute(),
-		trx
-			.selectFrom('shot')
-			.innerJoin('segment', 'segment.id', 'shot.segmentId')
-			.select(['shot.id', 'shot.segmentId', 'shot.what'])
-			.where('segment.episodeId', '=', episodeId)
-			.orderBy('shot.position')
-			.execute(),
-		trx
-			.selectFrom('take')
-			.innerJoin('shot', 'shot.id', 'take.shotId')
-			.innerJoin('segment', 'segment.id', 'shot.segmentId')
-			.select(['take.shotId', 'take.clipName', 'take.good', 'take.footageId'])
-			.where('segment.episodeId', '=', episodeId)
-			.orderBy('take.createdAt')
-			.execute(),
-		chapterProblemsFor(trx, channelId, episodeId),
-		featuredPartProblemsFor(trx, channelId, episodeId)
-	]);
+	const [assignments, segments, cautions, shots, takes, chapterProblems, featuredPartProblems] =
+		await Promise.all([
+			trx
+				.selectFrom('episodeAssignment')
+				.innerJoin('person', 'person.id', 'episodeAssignment.personId')
+				.select(['episodeAssignment.role', 'person.name'])
+				.where('episodeAssignment.episodeId', '=', episodeId)
+				.execute(),
+			trx
+				.selectFrom('segment')
+				.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
+				.select([
+					'segment.id',
+					'segment.position',
+					'segment.title',
+					'segment.needsFootage',
+					'segment.hazards',
+					'segmentScript.body'
+				])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('segment.position')
+				.execute(),
+			trx
+				.selectFrom('caution')
+				.innerJoin('segment', 'segment.id', 'caution.segmentId')
+				.select(['caution.segmentId', 'caution.hazard', 'caution.text', 'caution.atFrame'])
+				.where('segment.episodeId', '=', episodeId)
+				.execute(),
+			trx
+				.selectFrom('shot')
+				.innerJoin('segment', 'segment.id', 'shot.segmentId')
+				.select(['shot.id', 'shot.segmentId', 'shot.what'])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('shot.position')
+				.execute(),
+			trx
+				.selectFrom('take')
+				.innerJoin('shot', 'shot.id', 'take.shotId')
+				.innerJoin('segment', 'segment.id', 'shot.segmentId')
+				.select(['take.shotId', 'take.clipName', 'take.good', 'take.footageId'])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('take.createdAt')
+				.execute(),
+			chapterProblemsFor(trx, channelId, episodeId),
+			featuredPartProblemsFor(trx, channelId, episodeId)
+		]);
 	return {
 		stage: episode.stage,
 		frameRate: rateOf(episode),
@@ -104,9 +129,21 @@ export async function gateSnapshotFor(trx: Executor, channelId: string, episodeI
 				.map((shot) => ({
 					id: shot.id,
 					what: shot.what,
-					takes: takes.filter((take) => take.shotId === shot.id).map((take) => ({ clipName: take.clipName, good: take.good, hasFootage: take.footageId !== null }))
+					takes: takes
+						.filter((take) => take.shotId === shot.id)
+						.map((take) => ({
+							clipName: take.clipName,
+							good: take.good,
+							hasFootage: take.footageId !== null
+						}))
 				})),
-			cautions: cautions.filter((caution) => caution.segmentId === segment.id).map((caution) => ({ hazard: caution.hazard, text: caution.text, atFrame: caution.atFrame }))
+			cautions: cautions
+				.filter((caution) => caution.segmentId === segment.id)
+				.map((caution) => ({
+					hazard: caution.hazard,
+					text: caution.text,
+					atFrame: caution.atFrame
+				}))
 		})),
 		chapterProblems,
 		featuredPartProblems
@@ -125,24 +162,42 @@ export interface StageReport {
 	forwardMovers: string;
 }
 
-async function assignmentsOf(executor: Executor, episodeId: string): Promise<Partial<Record<Role, string>>> {
-	return assignmentMap(await executor.selectFrom('episodeAssignment').select(['role', 'personId']).where('episodeId', '=', episodeId).execute());
+async function assignmentsOf(
+	executor: Executor,
+	episodeId: string
+): Promise<Partial<Record<Role, string>>> {
+	return assignmentMap(
+		await executor
+			.selectFrom('episodeAssignment')
+			.select(['role', 'personId'])
+			.where('episodeId', '=', episodeId)
+			.execute()
+	);
 }
 
 /** Where the episode stands, what its next gate says, and what this person may do about it. */
-export async function stageReportFor(channelId: string, episodeId: string, viewer: { id: string; roles: readonly Role[] }, executor: Executor = db): Promise<StageReport> {
+export async function stageReportFor(
+	channelId: string,
+	episodeId: string,
+	viewer: { id: string; roles: readonly Role[] },
+	executor: Executor = db
+): Promise<StageReport> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const stage = episode.stage;
 	const next = nextStage(stage);
 	const assignments = await assignmentsOf(executor, episodeId);
 	const mover = { personId: viewer.id, roles: viewer.roles };
-	const reasons = next ? gateChecksFor(await gateSnapshotFor(executor, channelId, episodeId), next) : [];
+	const reasons = next
+		? gateChecksFor(await gateSnapshotFor(executor, channelId, episodeId), next)
+		: [];
 	return {
 		stage,
 		next,
 		reasons,
 		mayMoveForward: next !== null && mayMoveStage(mover, assignments, stage, next),
-		mayMoveBackTo: previousStages(stage).filter((to) => mayMoveStage(mover, assignments, stage, to)),
+		mayMoveBackTo: previousStages(stage).filter((to) =>
+			mayMoveStage(mover, assignments, stage, to)
+		),
 		forwardMovers: forwardMoversText(stage)
 	};
 }
@@ -153,7 +208,14 @@ export async function stageHistory(channelId: string, episodeId: string, executo
 	const rows = await executor
 		.selectFrom('stageMove')
 		.leftJoin('person', 'person.id', 'stageMove.personId')
-		.select(['stageMove.id', 'stageMove.fromStage', 'stageMove.toStage', 'stageMove.note', 'stageMove.createdAt', 'person.name as personName'])
+		.select([
+			'stageMove.id',
+			'stageMove.fromStage',
+			'stageMove.toStage',
+			'stageMove.note',
+			'stageMove.createdAt',
+			'person.name as personName'
+		])
 		.where('stageMove.episodeId', '=', episodeId)
 		.orderBy('stageMove.createdAt', 'desc')
 		.orderBy('stageMove.id', 'desc')
@@ -168,36 +230,78 @@ export type StageHistoryRow = Awaited<ReturnType<typeof stageHistory>>[number];
  * `gate`; a move from a stage the episode already left answers 409; a person without the right
  * answers 403. Everything, history row and mail included, is one transaction.
  */
-export async function moveStage(channelId: string, actor: Actor, episodeId: string, input: StageMoveInput, origin: string) {
+export async function moveStage(
+	channelId: string,
+	actor: Actor,
+	episodeId: string,
+	input: StageMoveInput,
+	origin: string
+) {
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
 		const from = episode.stage;
 		if (from !== input.from) {
-			throw new DomainError(409, `Someone already moved this episode to ${STAGE_LABELS[from]}. Look at where it is now before moving it again.`, undefined, { current: { stage: from } });
+			throw new DomainError(
+				409,
+				`Someone already moved this episode to ${STAGE_LABELS[from]}. Look at where it is now before moving it again.`,
+				undefined,
+				{ current: { stage: from } }
+			);
 		}
 		const direction = moveDirection(from, input.to);
 		if (direction === null) {
-			throw new DomainError(400, input.to === from ? `The episode is already at ${STAGE_LABELS[from]}.` : `An episode moves forward one stage at a time: from ${STAGE_LABELS[from]} the next stage is ${STAGE_LABELS[nextStage(from) ?? from]}.`, { to: ['Not a move from here.'] });
+			throw new DomainError(
+				400,
+				input.to === from
+					? `The episode is already at ${STAGE_LABELS[from]}.`
+					: `An episode moves forward one stage at a time: from ${STAGE_LABELS[from]} the next stage is ${STAGE_LABELS[nextStage(from) ?? from]}.`,
+				{ to: ['Not a move from here.'] }
+			);
 		}
 		const assignments = await assignmentsOf(trx, episodeId);
 		if (!mayMoveStage({ personId: actor.id, roles: actor.roles }, assignments, from, input.to)) {
-			error(403, direction === 'back' ? 'Only a producer moves an episode back.' : `${forwardMoversText(from)} moves an episode on from ${STAGE_LABELS[from]}.`);
+			error(
+				403,
+				direction === 'back'
+					? 'Only a producer moves an episode back.'
+					: `${forwardMoversText(from)} moves an episode on from ${STAGE_LABELS[from]}.`
+			);
 		}
 		if (direction === 'forward') {
 			const reasons = gateChecksFor(await gateSnapshotFor(trx, channelId, episodeId), input.to);
 			if (reasons.length > 0) {
-				throw new DomainError(422, `Not ready for ${STAGE_LABELS[input.to]} yet: ${reasons.length} thing${reasons.length === 1 ? '' : 's'} to do first.`, undefined, {
-					gate: { passed: false, to: input.to, reasons }
-				});
+				throw new DomainError(
+					422,
+					`Not ready for ${STAGE_LABELS[input.to]} yet: ${reasons.length} thing${reasons.length === 1 ? '' : 's'} to do first.`,
+					undefined,
+					{
+						gate: { passed: false, to: input.to, reasons }
+					}
+				);
 			}
 		}
 		await trx.updateTable('episode').set({ stage: input.to }).where('id', '=', episodeId).execute();
 		const move = await trx
 			.insertInto('stageMove')
-			.values({ episodeId, personId: actor.id, fromStage: from, toStage: input.to, note: input.note })
+			.values({
+				episodeId,
+				personId: actor.id,
+				fromStage: from,
+				toStage: input.to,
+				note: input.note
+			})
 			.returning(['id', 'fromStage', 'toStage', 'note', 'createdAt'])
 			.executeTakeFirstOrThrow();
-		await queueArrivalMail(trx, { channelId, episodeId, episodeTitle: episode.title, stage: input.to, direction, actor, note: input.note, origin });
+		await queueArrivalMail(trx, {
+			channelId,
+			episodeId,
+			episodeTitle: episode.title,
+			stage: input.to,
+			direction,
+			actor,
+			note: input.note,
+			origin
+		});
 		return {
 			episode: { id: episodeId, stage: input.to },
 			move: { ...move, createdAt: new Date(move.createdAt).toISOString(), personName: actor.name },
@@ -209,14 +313,27 @@ export async function moveStage(channelId: string, actor: Actor, episodeId: stri
 /** Mails the person assigned to the role that works the arrival stage (not the mover themself). */
 async function queueArrivalMail(
 	trx: Executor,
-	input: { channelId: string; episodeId: string; episodeTitle: string; stage: Stage; direction: 'forward' | 'back'; actor: Actor; note: string; origin: string }
+	input: {
+		channelId: string;
+		episodeId: string;
+		episodeTitle: string;
+		stage: Stage;
+		direction: 'forward' | 'back';
+		actor: Actor;
+		note: string;
+		origin: string;
+	}
 ): Promise<void> {
 	const role = STAGE_OWNER[input.stage];
 	if (!role) return;
 	const assignee = await trx
 		.selectFrom('episodeAssignment')
 		.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-		.innerJoin('membership', (join) => join.onRef('membership.personId', '=', 'person.id').on('membership.channelId', '=', input.channelId))
+		.innerJoin('membership', (join) =>
+			join
+				.onRef('membership.personId', '=', 'person.id')
+				.on('membership.channelId', '=', input.channelId)
+		)
 		.select(['person.id', 'person.name', 'person.email'])
 		.where('episodeAssignment.episodeId', '=', input.episodeId)
 		.where('episodeAssignment.role', '=', role)

@@ -16,8 +16,19 @@ export async function shotListFor(channelId: string, episodeId: string) {
 	const episode = await episodeInChannel(db, channelId, episodeId);
 	const rate = rateOf(episode);
 	const [segments, shots, takes, footage, cautions] = await Promise.all([
-		db.selectFrom('segment').select(['id', 'position', 'title', 'needsFootage']).where('episodeId', '=', episode.id).orderBy('position').execute(),
-		db.selectFrom('shot').innerJoin('segment', 'segment.id', 'shot.segmentId').selectAll('shot').where('segment.episodeId', '=', episode.id).orderBy('shot.position').execute(),
+		db
+			.selectFrom('segment')
+			.select(['id', 'position', 'title', 'needsFootage'])
+			.where('episodeId', '=', episode.id)
+			.orderBy('position')
+			.execute(),
+		db
+			.selectFrom('shot')
+			.innerJoin('segment', 'segment.id', 'shot.segmentId')
+			.selectAll('shot')
+			.where('segment.episodeId', '=', episode.id)
+			.orderBy('shot.position')
+			.execute(),
 		db
 			.selectFrom('take')
 			.innerJoin('shot', 'shot.id', 'take.shotId')
@@ -28,9 +39,21 @@ export async function shotListFor(channelId: string, episodeId: string) {
 			.where('segment.episodeId', '=', episode.id)
 			.orderBy('take.createdAt')
 			.execute(),
-		db.selectFrom('footage').select(['id', 'clipName', 'cameraLabel']).where('episodeId', '=', episode.id).where('purpose', '=', 'footage').orderBy('clipName').execute(),
+		db
+			.selectFrom('footage')
+			.select(['id', 'clipName', 'cameraLabel'])
+			.where('episodeId', '=', episode.id)
+			.where('purpose', '=', 'footage')
+			.orderBy('clipName')
+			.execute(),
 		// The cautions of each hazardous segment: the crew reads them before filming the work.
-		db.selectFrom('caution').innerJoin('segment', 'segment.id', 'caution.segmentId').select(['caution.segmentId', 'caution.hazard', 'caution.text']).where('segment.episodeId', '=', episode.id).orderBy('caution.hazard').execute()
+		db
+			.selectFrom('caution')
+			.innerJoin('segment', 'segment.id', 'caution.segmentId')
+			.select(['caution.segmentId', 'caution.hazard', 'caution.text'])
+			.where('segment.episodeId', '=', episode.id)
+			.orderBy('caution.hazard')
+			.execute()
 	]);
 	const tc = (frames: number, dropFrame: boolean) => formatTimecode(frames, rate, { dropFrame });
 	return {
@@ -40,14 +63,23 @@ export async function shotListFor(channelId: string, episodeId: string) {
 			...segment,
 			cautions: cautions
 				.filter((caution) => caution.segmentId === segment.id)
-				.map((caution) => ({ hazard: caution.hazard, label: hazardById(caution.hazard)?.label ?? caution.hazard, text: caution.text })),
+				.map((caution) => ({
+					hazard: caution.hazard,
+					label: hazardById(caution.hazard)?.label ?? caution.hazard,
+					text: caution.text
+				})),
 			shots: shots
 				.filter((shot) => shot.segmentId === segment.id)
 				.map((shot) => ({
 					...shot,
 					takes: takes
 						.filter((take) => take.shotId === shot.id)
-						.map((take) => ({ ...take, sourceIn: tc(take.sourceInFrames, take.sourceDropFrame), sourceOut: tc(take.sourceOutFrames, take.sourceDropFrame), lengthFrames: take.sourceOutFrames - take.sourceInFrames }))
+						.map((take) => ({
+							...take,
+							sourceIn: tc(take.sourceInFrames, take.sourceDropFrame),
+							sourceOut: tc(take.sourceOutFrames, take.sourceDropFrame),
+							lengthFrames: take.sourceOutFrames - take.sourceInFrames
+						}))
 				}))
 		}))
 	};
@@ -69,8 +101,16 @@ async function shotInChannel(channelId: string, shotId: string) {
 
 async function checkFootage(episodeId: string, footageId: string | null | undefined) {
 	if (!footageId) return;
-	const clip = await db.selectFrom('footage').select('id').where('id', '=', footageId).where('episodeId', '=', episodeId).executeTakeFirst();
-	if (!clip) throw new DomainError(400, 'That clip is not in this episode’s footage.', { footageId: ['Pick a clip from this episode’s footage.'] });
+	const clip = await db
+		.selectFrom('footage')
+		.select('id')
+		.where('id', '=', footageId)
+		.where('episodeId', '=', episodeId)
+		.executeTakeFirst();
+	if (!clip)
+		throw new DomainError(400, 'That clip is not in this episode’s footage.', {
+			footageId: ['Pick a clip from this episode’s footage.']
+		});
 }
 
 export async function logTake(channelId: string, shotId: string, input: TakeCreate) {
@@ -79,15 +119,31 @@ export async function logTake(channelId: string, shotId: string, input: TakeCrea
 	// Source timecode is read as the camera wrote it: ';' before the frames is drop-frame, ':' is not.
 	const sourceDropFrame = input.sourceIn.includes(';');
 	if (input.sourceOut.includes(';') !== sourceDropFrame) {
-		throw new DomainError(400, 'Type the in and out points the same way: both drop-frame (;) or both non-drop (:).', { sourceOut: ['Use the same separator as the in point.'] });
+		throw new DomainError(
+			400,
+			'Type the in and out points the same way: both drop-frame (;) or both non-drop (:).',
+			{ sourceOut: ['Use the same separator as the in point.'] }
+		);
 	}
 	const sourceInFrames = sourceFrames(input.sourceIn, rate, 'sourceIn');
 	const sourceOutFrames = sourceFrames(input.sourceOut, rate, 'sourceOut');
-	if (sourceOutFrames <= sourceInFrames) throw new DomainError(400, 'Make the out point later than the in point.', { sourceOut: ['Make the out point later than the in point.'] });
+	if (sourceOutFrames <= sourceInFrames)
+		throw new DomainError(400, 'Make the out point later than the in point.', {
+			sourceOut: ['Make the out point later than the in point.']
+		});
 	await checkFootage(shot.episodeId, input.footageId);
 	return db
 		.insertInto('take')
-		.values({ shotId, clipName: input.clipName, sourceInFrames, sourceOutFrames, sourceDropFrame, good: input.good, note: input.note, footageId: input.footageId })
+		.values({
+			shotId,
+			clipName: input.clipName,
+			sourceInFrames,
+			sourceOutFrames,
+			sourceDropFrame,
+			good: input.good,
+			note: input.note,
+			footageId: input.footageId
+		})
 		.returningAll()
 		.executeTakeFirstOrThrow();
 }
@@ -96,7 +152,8 @@ function sourceFrames(text: string, rate: FrameRate, field: string): number {
 	try {
 		return parseTimecode(text, rate);
 	} catch (failure) {
-		if (failure instanceof TimecodeError) throw new DomainError(400, failure.message, { [field]: [failure.message] });
+		if (failure instanceof TimecodeError)
+			throw new DomainError(400, failure.message, { [field]: [failure.message] });
 		throw failure;
 	}
 }
@@ -122,14 +179,26 @@ export async function updateTake(channelId: string, takeId: string, input: TakeU
 	const { version, ...change } = input;
 	const updated = await db
 		.updateTable('take')
-		.set((eb) => ({ ...Object.fromEntries(Object.entries(change).filter(([, v]) => v !== undefined)), version: eb('version', '+', 1) }))
+		.set((eb) => ({
+			...Object.fromEntries(Object.entries(change).filter(([, v]) => v !== undefined)),
+			version: eb('version', '+', 1)
+		}))
 		.where('id', '=', takeId)
 		.where('version', '=', version)
 		.returningAll()
 		.executeTakeFirst();
 	if (!updated) {
-		const current = await db.selectFrom('take').selectAll().where('id', '=', takeId).executeTakeFirstOrThrow();
-		throw new DomainError(409, 'Someone changed this take meanwhile; the list shows their version.', undefined, { current });
+		const current = await db
+			.selectFrom('take')
+			.selectAll()
+			.where('id', '=', takeId)
+			.executeTakeFirstOrThrow();
+		throw new DomainError(
+			409,
+			'Someone changed this take meanwhile; the list shows their version.',
+			undefined,
+			{ current }
+		);
 	}
 	return updated;
 }

@@ -7,8 +7,15 @@ import type { TimelineMark } from '$lib/components/timeline';
 import { specCardMarksFor } from './spec-cards';
 import { cautionMarksFor } from './segments';
 
-export async function timelineMarksFor(channelId: string, episodeId: string): Promise<TimelineMark[]> {
-	const [cautions, notes, specCards] = await Promise.all([cautionMarksFor(channelId, episodeId), placedNotes(channelId, episodeId), specCardMarksFor(channelId, episodeId)]);
+export async function timelineMarksFor(
+	channelId: string,
+	episodeId: string
+): Promise<TimelineMark[]> {
+	const [cautions, notes, specCards] = await Promise.all([
+		cautionMarksFor(channelId, episodeId),
+		placedNotes(channelId, episodeId),
+		specCardMarksFor(channelId, episodeId)
+	]);
 	return [...cautions, ...notes, ...specCards];
 }
 
@@ -19,7 +26,13 @@ async function placedNotes(channelId: string, episodeId: string): Promise<Timeli
 		.innerJoin('episode', 'episode.id', 'segmentNote.episodeId')
 		.leftJoin('segmentNotePart', 'segmentNotePart.noteId', 'segmentNote.id')
 		.leftJoin('part', 'part.id', 'segmentNotePart.partId')
-		.select(['segmentNote.id', 'segmentNote.programFrame', 'segmentNote.text', 'part.sku', 'part.name as partName'])
+		.select([
+			'segmentNote.id',
+			'segmentNote.programFrame',
+			'segmentNote.text',
+			'part.sku',
+			'part.name as partName'
+		])
 		.where('episode.id', '=', episodeId)
 		.where('episode.channelId', '=', channelId)
 		.where('segmentNote.programFrame', 'is not', null)
@@ -31,9 +44,20 @@ async function placedNotes(channelId: string, episodeId: string): Promise<Timeli
 		const href = `/episodes/${episodeId}/notes#note-${row.id}`;
 		if (!seen.has(row.id)) {
 			seen.add(row.id);
-			marks.push({ kind: 'note', atFrame: row.programFrame!, label: row.text.length > 80 ? row.text.slice(0, 79) + '…' : row.text, href });
+			marks.push({
+				kind: 'note',
+				atFrame: row.programFrame!,
+				label: row.text.length > 80 ? row.text.slice(0, 79) + '…' : row.text,
+				href
+			});
 		}
-		if (row.sku) marks.push({ kind: 'part', atFrame: row.programFrame!, label: `${row.sku} ${row.partName}`, href: `/episodes/${episodeId}/parts` });
+		if (row.sku)
+			marks.push({
+				kind: 'part',
+				atFrame: row.programFrame!,
+				label: `${row.sku} ${row.partName}`,
+				href: `/episodes/${episodeId}/parts`
+			});
 	}
 	return marks;
 }

@@ -18,7 +18,13 @@ export async function createToken(personId: string, channelId: string, label: st
 	const secret = newSecret('wr_');
 	const row = await db
 		.insertInto('apiToken')
-		.values({ personId, channelId, label, tokenHash: hashSecret(secret), tokenHint: secret.slice(0, 7) + '…' })
+		.values({
+			personId,
+			channelId,
+			label,
+			tokenHash: hashSecret(secret),
+			tokenHint: secret.slice(0, 7) + '…'
+		})
 		.returning(['id', 'label', 'tokenHint', 'createdAt'])
 		.executeTakeFirstOrThrow();
 	return { ...row, token: secret };

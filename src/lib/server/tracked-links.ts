@@ -90,13 +90,18 @@ export function newLinkCode(): string {
 export const isLinkCode = (code: string) => CODE_PATTERN.test(code);
 
 /** The public address of a link: `${origin}/go/${code}`. */
-export const linkAddress = (origin: string, code: string) => `${origin.replace(/\/+$/, '')}/go/${code}`;
+export const linkAddress = (origin: string, code: string) =>
+	`${origin.replace(/\/+$/, '')}/go/${code}`;
 
 /**
  * Makes sure each (episode, part) pair has its tracked link; existing links keep their code (and
  * their clicks). Runs inside the caller's transaction when given one.
  */
-export async function ensureTrackedLinks(executor: Executor, episodeId: string, partIds: readonly string[]): Promise<void> {
+export async function ensureTrackedLinks(
+	executor: Executor,
+	episodeId: string,
+	partIds: readonly string[]
+): Promise<void> {
 	let missing = [...new Set(partIds)];
 	for (let attempt = 0; attempt < 5 && missing.length > 0; attempt++) {
 		// DO NOTHING covers both "this pair has a link" and the rare clash of a random code.
@@ -105,11 +110,17 @@ export async function ensureTrackedLinks(executor: Executor, episodeId: string, 
 			.values(missing.map((partId) => ({ code: newLinkCode(), episodeId, partId })))
 			.onConflict((conflict) => conflict.doNothing())
 			.execute();
-		const present = await executor.selectFrom('trackedLink').select('partId').where('episodeId', '=', episodeId).where('partId', 'in', missing).execute();
+		const present = await executor
+			.selectFrom('trackedLink')
+			.select('partId')
+			.where('episodeId', '=', episodeId)
+			.where('partId', 'in', missing)
+			.execute();
 		const found = new Set(present.map((row) => row.partId));
 		missing = missing.filter((partId) => !found.has(partId));
 	}
-	if (missing.length > 0) throw new Error('could not make unique tracked link codes after 5 attempts');
+	if (missing.length > 0)
+		throw new Error('could not make unique tracked link codes after 5 attempts');
 }
 
 export interface Redirect {
@@ -120,9 +131,19 @@ export interface Redirect {
  * Follows a link: the target address, and (for a GET) one more click today, in one statement.
  * Null when the code names no link. Days are UTC days.
  */
-export async function followTrackedLink(code: string, options: { count: boolean }, executor: Executor = db): Promise<Redirect | null> {
+export async function followTrackedLink(
+	code: string,
+	options: { count: boolean },
+	executor: Executor = db
+): Promise<Redirect | null> {
 	if (!isLinkCode(code)) return null;
-	const result = await sql<{ linkId: string; storeUrl: string; sku: string; slug: string; channelName: string }>`
+	const result = await sql<{
+		linkId: string;
+		storeUrl: string;
+		sku: string;
+		slug: string;
+		channelName: string;
+	}>`
 		WITH link AS (
 			SELECT tracked_link.id AS link_id, part.store_url, part.sku, episode.slug, channel.name AS channel_name
 			FROM tracked_link
@@ -138,7 +159,13 @@ export async function followTrackedLink(code: string, options: { count: boolean 
 		SELECT * FROM link`.execute(executor);
 	const row = result.rows[0];
 	if (!row) return null;
-	return { location: trackedUrl(row.storeUrl, { source: campaignSlug(row.channelName), campaign: row.slug, content: row.sku }) };
+	return {
+		location: trackedUrl(row.storeUrl, {
+			source: campaignSlug(row.channelName),
+			campaign: row.slug,
+			content: row.sku
+		})
+	};
 }
 
 export interface ClickDay {
@@ -173,11 +200,18 @@ export interface EpisodeClicks {
 /** The UTC dates from `days - 1` days ago to today, oldest first. */
 export function dayWindow(days: number, today = new Date()): string[] {
 	const end = Date.UTC(today.getUTCFullYear(), today.getUTCMonth(), today.getUTCDate());
-	return Array.from({ length: days }, (_, index) => new Date(end - (days - 1 - index) * 86_400_000).toISOString().slice(0, 10));
+	return Array.from({ length: days }, (_, index) =>
+		new Date(end - (days - 1 - index) * 86_400_000).toISOString().slice(0, 10)
+	);
 }
 
 /** Clicks per link per day for one episode of the channel, over the last `days` days; null when not found. */
-export async function clicksFor(channelId: string, episodeId: string, options: { origin: string; days?: number }, executor: Executor = db): Promise<EpisodeClicks | null> {
+export async function clicksFor(
+	channelId: string,
+	episodeId: string,
+	options: { origin: string; days?: number },
+	executor: Executor = db
+): Promise<EpisodeClicks | null> {
 	const window = dayWindow(options.days ?? CLICK_DAYS);
 	const episode = await executor
 		.selectFrom('episode')
@@ -191,7 +225,16 @@ export async function clicksFor(channelId: string, episodeId: string, options: {
 		.selectFrom('trackedLink')
 		.innerJoin('part', 'part.id', 'trackedLink.partId')
 		.leftJoin('linkClickDay', 'linkClickDay.linkId', 'trackedLink.id')
-		.select(['trackedLink.id', 'trackedLink.code', 'trackedLink.partId', 'part.sku', 'part.name', 'part.storeUrl', 'linkClickDay.day', 'linkClickDay.clicks'])
+		.select([
+			'trackedLink.id',
+			'trackedLink.code',
+			'trackedLink.partId',
+			'part.sku',
+			'part.name',
+			'part.storeUrl',
+			'linkClickDay.day',
+			'linkClickDay.clicks'
+		])
 		.where('trackedLink.episodeId', '=', episode.id)
 		.orderBy('part.sku')
 		.execute();
@@ -204,7 +247,11 @@ export async function clicksFor(channelId: string, episodeId: string, options: {
 				linkId: row.id,
 				code: row.code,
 				address: linkAddress(options.origin, row.code),
-				target: trackedUrl(row.storeUrl, { source: campaignSlug(episode.channelName), campaign: episode.slug, content: row.sku }),
+				target: trackedUrl(row.storeUrl, {
+					source: campaignSlug(episode.channelName),
+					campaign: episode.slug,
+					content: row.sku
+				}),
 				partId: row.partId,
 				sku: row.sku,
 				name: row.name,
@@ -226,6 +273,16 @@ export async function clicksFor(channelId: string, episodeId: string, options: {
 		total: [...byDay].reduce((sum, [day, clicks]) => sum + (inWindow.has(day) ? clicks : 0), 0)
 	}));
 	result.sort((a, b) => b.total - a.total || a.sku.localeCompare(b.sku));
-	const days = window.map((day, index) => ({ day, clicks: result.reduce((sum, link) => sum + link.days[index].clicks, 0) }));
-	return { from: window[0], to: window[window.length - 1], links: result, days, total: days.reduce((sum, day) => sum + day.clicks, 0), allTime };
+	const days = window.map((day, index) => ({
+		day,
+		clicks: result.reduce((sum, link) => sum + link.days[index].clicks, 0)
+	}));
+	return {
+		from: window[0],
+		to: window[window.length - 1],
+		links: result,
+		days,
+		total: days.reduce((sum, day) => sum + day.clicks, 0),
+		allTime
+	};
 }

@@ -16,7 +16,12 @@ import { FileStore } from '@tus/file-store';
 import { Metadata } from '@tus/utils';
 import { z } from 'zod';
 import { env } from '$env/dynamic/private';
-import { ALLOWED_UPLOAD_TYPE, DEFAULT_MAX_UPLOAD_BYTES, UPLOAD_PATH, cleanFileName } from '$lib/uploads';
+import {
+	ALLOWED_UPLOAD_TYPE,
+	DEFAULT_MAX_UPLOAD_BYTES,
+	UPLOAD_PATH,
+	cleanFileName
+} from '$lib/uploads';
 import { db } from './db';
 import type { Role } from './db/types';
 import { isUuid } from './identity';
@@ -27,16 +32,27 @@ export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_U
 const TUS_ID = /^[0-9a-f]{32}$/;
 
 /** Who may start an upload of each kind (producers may do both). */
-export const UPLOAD_ROLES: Record<'footage' | 'cut', Role[]> = { footage: ['camera', 'producer'], cut: ['editor', 'producer'] };
+export const UPLOAD_ROLES: Record<'footage' | 'cut', Role[]> = {
+	footage: ['camera', 'producer'],
+	cut: ['editor', 'producer']
+};
 
 const metadataSchema = z.object({
 	episodeId: z.string().refine(isUuid, 'episodeId must be an episode of this channel.'),
 	purpose: z.enum(['footage', 'cut']).default('footage'),
 	filename: z.string().min(1, 'filename is required.').max(1000),
-	filetype: z.string().regex(ALLOWED_UPLOAD_TYPE, 'Only video, audio and still-image files can be uploaded; SVG and other markup files are refused.'),
+	filetype: z
+		.string()
+		.regex(
+			ALLOWED_UPLOAD_TYPE,
+			'Only video, audio and still-image files can be uploaded; SVG and other markup files are refused.'
+		),
 	clipName: z.string().trim().max(120).optional(),
 	cameraLabel: z.string().trim().max(40).optional(),
-	shootDayId: z.string().refine(isUuid, 'shootDayId must be a shoot day of this episode.').optional()
+	shootDayId: z
+		.string()
+		.refine(isUuid, 'shootDayId must be a shoot day of this episode.')
+		.optional()
 });
 
 interface UploadClaim {
@@ -77,8 +93,13 @@ class HashingFileStore extends FileStore {
 				done(null, chunk);
 			}
 		});
-		const newOffset = await super.write(pipe(readable, tap, () => undefined), id, offset);
-		if (tracking && newOffset === offset + seen) runningHashes.set(id, { hash: tracking.hash, offset: newOffset });
+		const newOffset = await super.write(
+			pipe(readable, tap, () => undefined),
+			id,
+			offset
+		);
+		if (tracking && newOffset === offset + seen)
+			runningHashes.set(id, { hash: tracking.hash, offset: newOffset });
 		else runningHashes.delete(id);
 		return newOffset;
 	}
@@ -119,7 +140,10 @@ function tusServer(): Server {
 }
 
 const tusError = (status: number, message: string) =>
-	new Response(message + '\n', { status, headers: { 'Tus-Resumable': '1.0.0', 'Content-Type': 'text/plain; charset=utf-8' } });
+	new Response(message + '\n', {
+		status,
+		headers: { 'Tus-Resumable': '1.0.0', 'Content-Type': 'text/plain; charset=utf-8' }
+	});
 
 /** Authorises a tus request, then hands it to @tus/server. Called from hooks.server.ts. */
 export async function handleUpload(event: RequestEvent): Promise<Response> {
@@ -131,16 +155,34 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 
 	if (method === 'POST') {
 		if (rest !== '') return tusError(404, 'Not found.');
-		const parsed = metadataSchema.safeParse(Metadata.parse(event.request.headers.get('upload-metadata') ?? undefined));
-		if (!parsed.success) return tusError(400, parsed.error.issues.map((issue) => issue.message).join(' '));
+		const parsed = metadataSchema.safeParse(
+			Metadata.parse(event.request.headers.get('upload-metadata') ?? undefined)
+		);
+		if (!parsed.success)
+			return tusError(400, parsed.error.issues.map((issue) => issue.message).join(' '));
 		const meta = parsed.data;
 		if (!UPLOAD_ROLES[meta.purpose].some((role) => roles.includes(role))) {
-			return tusError(403, meta.purpose === 'cut' ? 'Uploading a cut needs the editor or producer role.' : 'Uploading footage needs the camera or producer role.');
+			return tusError(
+				403,
+				meta.purpose === 'cut'
+					? 'Uploading a cut needs the editor or producer role.'
+					: 'Uploading footage needs the camera or producer role.'
+			);
 		}
-		const episode = await db.selectFrom('episode').select('id').where('id', '=', meta.episodeId).where('channelId', '=', channel.id).executeTakeFirst();
+		const episode = await db
+			.selectFrom('episode')
+			.select('id')
+			.where('id', '=', meta.episodeId)
+			.where('channelId', '=', channel.id)
+			.executeTakeFirst();
 		if (!episode) return tusError(404, 'That episode was not found in this channel.');
 		if (meta.shootDayId) {
-			const day = await db.selectFrom('shootDay').select('id').where('id', '=', meta.shootDayId).where('episodeId', '=', meta.episodeId).executeTakeFirst();
+			const day = await db
+				.selectFrom('shootDay')
+				.select('id')
+				.where('id', '=', meta.shootDayId)
+				.where('episodeId', '=', meta.episodeId)
+				.executeTakeFirst();
 			if (!day) return tusError(404, 'That shoot day was not found for this episode.');
 		}
 		const fileName = cleanFileName(meta.filename);
@@ -160,11 +202,22 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 
 	// HEAD, PATCH, DELETE on one upload: it must be the caller's, in this channel (a producer may act on any).
 	if (!TUS_ID.test(rest)) return tusError(404, 'Not found.');
-	if (method !== 'HEAD' && method !== 'PATCH' && method !== 'DELETE') return tusError(405, 'Use HEAD, PATCH or DELETE on an upload.');
-	const upload = await db.selectFrom('upload').select(['personId', 'channelId']).where('id', '=', rest).executeTakeFirst();
-	if (!upload || upload.channelId !== channel.id || (upload.personId !== person.id && !roles.includes('producer'))) return tusError(404, 'Not found.');
+	if (method !== 'HEAD' && method !== 'PATCH' && method !== 'DELETE')
+		return tusError(405, 'Use HEAD, PATCH or DELETE on an upload.');
+	const upload = await db
+		.selectFrom('upload')
+		.select(['personId', 'channelId'])
+		.where('id', '=', rest)
+		.executeTakeFirst();
+	if (
+		!upload ||
+		upload.channelId !== channel.id ||
+		(upload.personId !== person.id && !roles.includes('producer'))
+	)
+		return tusError(404, 'Not found.');
 	const response = await tusServer().handleWeb(event.request);
-	if (method === 'DELETE' && response.status === 204) await db.deleteFrom('upload').where('id', '=', rest).where('completedAt', 'is', null).execute();
+	if (method === 'DELETE' && response.status === 204)
+		await db.deleteFrom('upload').where('id', '=', rest).where('completedAt', 'is', null).execute();
 	return response;
 }
 
@@ -176,7 +229,11 @@ export async function sha256OfFile(file: string): Promise<string> {
 }
 
 async function recordFootage(uploadId: string): Promise<void> {
-	const upload = await db.selectFrom('upload').selectAll().where('id', '=', uploadId).executeTakeFirstOrThrow();
+	const upload = await db
+		.selectFrom('upload')
+		.selectAll()
+		.where('id', '=', uploadId)
+		.executeTakeFirstOrThrow();
 	const file = path.join(uploadDir(), uploadId);
 	const running = takeRunningHash(uploadId, upload.sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
@@ -203,7 +260,10 @@ async function recordFootage(uploadId: string): Promise<void> {
 			})
 			.onConflict((oc) => oc.column('uploadId').doNothing())
 			.execute();
-		await trx.updateTable('upload').set({ completedAt: new Date() }).where('id', '=', uploadId).execute();
+		await trx
+			.updateTable('upload')
+			.set({ completedAt: new Date() })
+			.where('id', '=', uploadId)
+			.execute();
 	});
 }
-

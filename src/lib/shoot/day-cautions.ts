@@ -20,10 +20,13 @@ export function dayCautions(segments: SegmentWithCautions[]): DayCaution[] {
 	const byText = new Map<string, DayCaution>();
 	for (const segment of segments) {
 		// A flagged segment without its own caution lines still carries the default wording.
-		const lines = segment.cautions.length ? segment.cautions : segment.hazards.map((h) => ({ hazard: h, text: hazardById(h)?.defaultCaution ?? h }));
+		const lines = segment.cautions.length
+			? segment.cautions
+			: segment.hazards.map((h) => ({ hazard: h, text: hazardById(h)?.defaultCaution ?? h }));
 		for (const line of lines) {
 			const entry = byText.get(line.text) ?? { text: line.text, segments: [] };
-			if (!entry.segments.some((s) => s.position === segment.position)) entry.segments.push({ position: segment.position, title: segment.title });
+			if (!entry.segments.some((s) => s.position === segment.position))
+				entry.segments.push({ position: segment.position, title: segment.title });
 			byText.set(line.text, entry);
 		}
 	}

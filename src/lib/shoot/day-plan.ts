@@ -27,14 +27,21 @@ export interface DayPlan {
 }
 
 export function planShootDay(input: DayPlanInput): DayPlan {
-	const base = { programMinutes: input.programMinutes, shootingRatio: input.shootingRatio, cardSizeGB: input.cardSizeGB, uplinkMbps: input.uplinkMbps };
+	const base = {
+		programMinutes: input.programMinutes,
+		shootingRatio: input.shootingRatio,
+		cardSizeGB: input.cardSizeGB,
+		uplinkMbps: input.uplinkMbps
+	};
 	const plans: StoragePlan[] = [];
 	const byRatio = input.cameras.filter((c) => c.rollHours == null);
 	if (byRatio.length) plans.push(planStorage({ ...base, cameras: byRatio }));
 	for (const camera of input.cameras.filter((c) => c.rollHours != null)) {
 		plans.push(planStorage({ ...base, cameras: [camera], rollHoursOverride: camera.rollHours! }));
 	}
-	const cameras = plans.flatMap((plan) => plan.cameras.map((c) => ({ ...c, rollSeconds: plan.rollSeconds })));
+	const cameras = plans.flatMap((plan) =>
+		plan.cameras.map((c) => ({ ...c, rollSeconds: plan.rollSeconds }))
+	);
 	const order = new Map(input.cameras.map((c, i) => [c.label, i]));
 	cameras.sort((a, b) => (order.get(a.label) ?? 0) - (order.get(b.label) ?? 0));
 	return {

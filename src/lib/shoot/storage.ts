@@ -122,20 +122,38 @@ export function planStorage(input: StoragePlanInput): StoragePlan {
 			'Shooting ratio must be at least 1 (1:1): a camera cannot record less than the finished runtime it covers.'
 		);
 	}
-	const cardSizeGB = requirePositive(input.cardSizeGB, 'cardSizeGB', 'Card size must be more than 0 GB.');
-	const uplinkMbps = requirePositive(input.uplinkMbps, 'uplinkMbps', 'Upload speed must be more than 0 Mbit/s.');
+	const cardSizeGB = requirePositive(
+		input.cardSizeGB,
+		'cardSizeGB',
+		'Card size must be more than 0 GB.'
+	);
+	const uplinkMbps = requirePositive(
+		input.uplinkMbps,
+		'uplinkMbps',
+		'Upload speed must be more than 0 Mbit/s.'
+	);
 	const rollHoursOverride =
 		input.rollHoursOverride === undefined
 			? undefined
-			: requirePositive(input.rollHoursOverride, 'rollHoursOverride', 'Roll time must be more than 0 hours, or left empty.');
+			: requirePositive(
+					input.rollHoursOverride,
+					'rollHoursOverride',
+					'Roll time must be more than 0 hours, or left empty.'
+				);
 
-	const rollSeconds = rollHoursOverride !== undefined ? rollHoursOverride * 3600 : programMinutes * shootingRatio * 60;
+	const rollSeconds =
+		rollHoursOverride !== undefined
+			? rollHoursOverride * 3600
+			: programMinutes * shootingRatio * 60;
 	const usableCardGB = cardSizeGB * USABLE_CARD_FRACTION;
 
 	const cameras = input.cameras.map((camera, index): CameraStorage => {
 		const label = typeof camera.label === 'string' ? camera.label.trim() : '';
 		if (label === '') {
-			throw new PlannerError(`cameras.${index}.label`, `Camera ${index + 1} needs a name (for example "A-cam").`);
+			throw new PlannerError(
+				`cameras.${index}.label`,
+				`Camera ${index + 1} needs a name (for example "A-cam").`
+			);
 		}
 		const bitrateMbps = requirePositive(
 			camera.bitrateMbps,
@@ -144,7 +162,10 @@ export function planStorage(input: StoragePlanInput): StoragePlan {
 		);
 		const count = camera.count ?? 1;
 		if (!Number.isInteger(count) || count < 1) {
-			throw new PlannerError(`cameras.${index}.count`, `${label}: number of cameras must be a whole number, 1 or more.`);
+			throw new PlannerError(
+				`cameras.${index}.count`,
+				`${label}: number of cameras must be a whole number, 1 or more.`
+			);
 		}
 		const gigabytesPerCamera = gigabytesRecorded(bitrateMbps, rollSeconds);
 		const gigabytes = gigabytesPerCamera * count;

@@ -1,11 +1,24 @@
 import { z } from 'zod';
 import { SpecError } from './errors';
-import { LIFT_CAUTION, LIFT_METHOD_LABELS, LIFT_METHODS, SUSPENSION_TYPES, liftSummary } from './lift';
+import {
+	LIFT_CAUTION,
+	LIFT_METHOD_LABELS,
+	LIFT_METHODS,
+	SUSPENSION_TYPES,
+	liftSummary
+} from './lift';
 import type { LiftMethod } from './lift';
 import { compareTyres } from './tyre-change';
 import { parseTyreSize, TYRE_GEOMETRY_NOTE } from './tyres';
 import type { TyreSize } from './tyres';
-import { formatQuantity, formatStated, inToMm, statedDecimals, torqueCard, TORQUE_UNITS } from './units';
+import {
+	formatQuantity,
+	formatStated,
+	inToMm,
+	statedDecimals,
+	torqueCard,
+	TORQUE_UNITS
+} from './units';
 import type { TorqueUnit } from './units';
 
 /** Printed on every torque card. */
@@ -58,7 +71,10 @@ export const specCardInputSchema = z.discriminatedUnion(
 				.string()
 				.trim()
 				.min(1, 'Name the fastener, or leave it out.')
-				.max(TEXT_CARD_LIMITS.fastener, `Keep the fastener name to ${TEXT_CARD_LIMITS.fastener} characters.`)
+				.max(
+					TEXT_CARD_LIMITS.fastener,
+					`Keep the fastener name to ${TEXT_CARD_LIMITS.fastener} characters.`
+				)
 				.optional()
 		}),
 		z.object({
@@ -67,10 +83,16 @@ export const specCardInputSchema = z.discriminatedUnion(
 			rearLiftIn: inchesSchema,
 			frontSuspension: suspensionSchema,
 			rearSuspension: suspensionSchema,
-			method: z.union([
-				liftMethodSchema,
-				z.object({ front: liftMethodSchema.nullable().optional(), rear: liftMethodSchema.nullable().optional() })
-			], { error: `Choose a lift method: ${LIFT_METHODS.join(', ')}, or one for each axle.` })
+			method: z.union(
+				[
+					liftMethodSchema,
+					z.object({
+						front: liftMethodSchema.nullable().optional(),
+						rear: liftMethodSchema.nullable().optional()
+					})
+				],
+				{ error: `Choose a lift method: ${LIFT_METHODS.join(', ')}, or one for each axle.` }
+			)
 		}),
 		z.object({
 			kind: z.literal('text'),
@@ -78,7 +100,10 @@ export const specCardInputSchema = z.discriminatedUnion(
 				.string({ error: 'Enter a heading.' })
 				.trim()
 				.min(1, 'Enter a heading.')
-				.max(TEXT_CARD_LIMITS.heading, `Keep the heading to ${TEXT_CARD_LIMITS.heading} characters.`),
+				.max(
+					TEXT_CARD_LIMITS.heading,
+					`Keep the heading to ${TEXT_CARD_LIMITS.heading} characters.`
+				),
 			body: z
 				.string({ error: 'Enter the text for the card.' })
 				.trim()
@@ -108,7 +133,9 @@ export type SpecCard = {
 export function renderSpecCard(input: SpecCardInput): SpecCard {
 	const checked = specCardInputSchema.safeParse(input);
 	if (!checked.success) {
-		throw new SpecError(checked.error.issues[0]?.message ?? 'That card is incomplete. Check its fields.');
+		throw new SpecError(
+			checked.error.issues[0]?.message ?? 'That card is incomplete. Check its fields.'
+		);
 	}
 	const card = checked.data;
 	switch (card.kind) {
@@ -125,7 +152,13 @@ export function renderSpecCard(input: SpecCardInput): SpecCard {
 	}
 }
 
-function lengthLine(label: string, inches: number, millimetres: number, signed = false, inchDecimals: number = SPEC_CARD_PRECISION.lengthIn): SpecCardLine {
+function lengthLine(
+	label: string,
+	inches: number,
+	millimetres: number,
+	signed = false,
+	inchDecimals: number = SPEC_CARD_PRECISION.lengthIn
+): SpecCardLine {
 	return {
 		label,
 		imperial: formatQuantity(inches, 'in', inchDecimals, { signed }),
@@ -170,7 +203,13 @@ function tyreChangeCard(from: TyreSize, to: TyreSize): SpecCard {
 				metric: `${formatQuantity(from.diameterMm, 'mm', lengthMm)} → ${formatQuantity(to.diameterMm, 'mm', lengthMm)}`
 			},
 			lengthLine('Diameter change', change.diameterChangeIn, change.diameterChangeMm, true),
-			lengthLine('Axle height change (half the diameter change)', change.groundClearanceChangeIn, change.groundClearanceChangeMm, true, SPEC_CARD_PRECISION.halfLengthIn),
+			lengthLine(
+				'Axle height change (half the diameter change)',
+				change.groundClearanceChangeIn,
+				change.groundClearanceChangeMm,
+				true,
+				SPEC_CARD_PRECISION.halfLengthIn
+			),
 			lengthLine('Width change', change.widthChangeIn, change.widthChangeMm, true),
 			{
 				label: `True speed at an indicated ${SPEEDOMETER_CHECK_SPEEDS.mph} mph / ${SPEEDOMETER_CHECK_SPEEDS.kmh} km/h`,
@@ -179,7 +218,9 @@ function tyreChangeCard(from: TyreSize, to: TyreSize): SpecCard {
 			},
 			{
 				label: 'Revolutions change',
-				imperial: formatQuantity(change.revsPerMileChange, 'per mile', revolutions, { signed: true }),
+				imperial: formatQuantity(change.revsPerMileChange, 'per mile', revolutions, {
+					signed: true
+				}),
 				metric: formatQuantity(change.revsPerKmChange, 'per km', revolutions, { signed: true })
 			}
 		],
@@ -199,7 +240,10 @@ function torqueSpecCard(value: number, unit: TorqueUnit, fastener: string | unde
 
 function liftCard(card: Extract<SpecCardInput, { kind: 'lift' }>): SpecCard {
 	const summary = liftSummary(card);
-	const rakeDecimals = Math.max(statedDecimals(summary.frontLiftIn), statedDecimals(summary.rearLiftIn));
+	const rakeDecimals = Math.max(
+		statedDecimals(summary.frontLiftIn),
+		statedDecimals(summary.rearLiftIn)
+	);
 	return {
 		kind: 'lift',
 		heading: liftHeading(summary.methods),
@@ -217,7 +261,9 @@ function liftCard(card: Extract<SpecCardInput, { kind: 'lift' }>): SpecCard {
 			{
 				label: 'Rake change (rear minus front)',
 				imperial: formatQuantity(summary.rakeChangeIn, 'in', rakeDecimals, { signed: true }),
-				metric: formatQuantity(summary.rakeChangeMm, 'mm', SPEC_CARD_PRECISION.lengthMm, { signed: true })
+				metric: formatQuantity(summary.rakeChangeMm, 'mm', SPEC_CARD_PRECISION.lengthMm, {
+					signed: true
+				})
 			}
 		],
 		cautions: [...summary.notes.map((note) => note.text), LIFT_CAUTION]
@@ -226,7 +272,8 @@ function liftCard(card: Extract<SpecCardInput, { kind: 'lift' }>): SpecCard {
 
 function liftHeading(methods: { front: LiftMethod | null; rear: LiftMethod | null }): string {
 	const { front, rear } = methods;
-	if (front && rear && front === rear) return `Lift: ${LIFT_METHOD_LABELS[front].toLowerCase()}, front and rear`;
+	if (front && rear && front === rear)
+		return `Lift: ${LIFT_METHOD_LABELS[front].toLowerCase()}, front and rear`;
 	const parts = [
 		front ? `${LIFT_METHOD_LABELS[front].toLowerCase()} front` : null,
 		rear ? `${LIFT_METHOD_LABELS[rear].toLowerCase()} rear` : null

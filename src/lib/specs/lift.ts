@@ -53,9 +53,12 @@ export const METHOD_FITS: Record<LiftMethod, readonly SuspensionType[]> = {
 
 /** Methods that only move the axle's range of travel higher, and what the note says about each. */
 const RIDE_HEIGHT_ONLY_TEXT: Partial<Record<LiftMethod, string>> = {
-	'lift-block': 'A lift block raises ride height but adds no suspension travel: the same range of movement, just higher.',
-	'coil-spacer': 'A coil spacer lift raises ride height but adds no suspension travel: the same range of movement, just higher.',
-	'strut-spacer': 'A strut spacer lift raises ride height but adds no suspension travel: the same range of movement, just higher.',
+	'lift-block':
+		'A lift block raises ride height but adds no suspension travel: the same range of movement, just higher.',
+	'coil-spacer':
+		'A coil spacer lift raises ride height but adds no suspension travel: the same range of movement, just higher.',
+	'strut-spacer':
+		'A strut spacer lift raises ride height but adds no suspension travel: the same range of movement, just higher.',
 	'torsion-key':
 		'Re-indexed torsion keys raise ride height but add no suspension travel; turning them up also takes away droop and firms the ride.'
 };
@@ -135,9 +138,12 @@ export function liftSummary(input: LiftInput): LiftSummary {
 	if (Math.max(frontLiftIn, rearLiftIn) > LIFT_CHECKS_THRESHOLD_IN) {
 		notes.push({
 			id: 'over-two-inches-checks',
-			axle: frontLiftIn > LIFT_CHECKS_THRESHOLD_IN && rearLiftIn > LIFT_CHECKS_THRESHOLD_IN
-				? 'both'
-				: frontLiftIn > LIFT_CHECKS_THRESHOLD_IN ? 'front' : 'rear',
+			axle:
+				frontLiftIn > LIFT_CHECKS_THRESHOLD_IN && rearLiftIn > LIFT_CHECKS_THRESHOLD_IN
+					? 'both'
+					: frontLiftIn > LIFT_CHECKS_THRESHOLD_IN
+						? 'front'
+						: 'rear',
 			severity: 'check',
 			text: 'Past about 2 in of lift, check brake line length at full droop, driveshaft angles and steering geometry, and consider taller tyres.',
 			source: 'common practice'
@@ -171,33 +177,46 @@ export function liftSummary(input: LiftInput): LiftSummary {
 
 function checkLift(value: number, axle: Axle): number {
 	if (typeof value !== 'number' || !Number.isFinite(value)) {
-		throw new SpecError(`Enter the ${axle} lift in inches as a number, for example 2.5 (0 for none).`);
+		throw new SpecError(
+			`Enter the ${axle} lift in inches as a number, for example 2.5 (0 for none).`
+		);
 	}
 	if (value < 0) {
-		throw new SpecError(`The ${axle} lift cannot be negative: lift cards cover raising a vehicle, not lowering it.`);
+		throw new SpecError(
+			`The ${axle} lift cannot be negative: lift cards cover raising a vehicle, not lowering it.`
+		);
 	}
 	if (value > MAX_LIFT_IN) {
-		throw new SpecError(`A ${value} in ${axle} lift is more than ${MAX_LIFT_IN} in. Check the number; it is in inches.`);
+		throw new SpecError(
+			`A ${value} in ${axle} lift is more than ${MAX_LIFT_IN} in. Check the number; it is in inches.`
+		);
 	}
 	return value;
 }
 
 function checkSuspension(value: SuspensionType, axle: Axle): SuspensionType {
 	if (!(SUSPENSION_TYPES as readonly string[]).includes(value)) {
-		throw new SpecError(`Choose the ${axle} suspension: leaf springs, coil springs, torsion bars or struts.`);
+		throw new SpecError(
+			`Choose the ${axle} suspension: leaf springs, coil springs, torsion bars or struts.`
+		);
 	}
 	return value;
 }
 
 function checkMethod(value: unknown, axle: Axle): LiftMethod {
 	if (typeof value !== 'string' || !(LIFT_METHODS as readonly string[]).includes(value)) {
-		throw new SpecError(`Choose how the ${axle} is lifted: ${Object.values(LIFT_METHOD_LABELS).join(', ').toLowerCase()}.`);
+		throw new SpecError(
+			`Choose how the ${axle} is lifted: ${Object.values(LIFT_METHOD_LABELS).join(', ').toLowerCase()}.`
+		);
 	}
 	return value as LiftMethod;
 }
 
 /** One method applies to each lifted axle; an axle with no lift gets none. */
-function methodsPerAxle(method: LiftMethod | AxleMethods, lift: Record<Axle, number>): Record<Axle, LiftMethod | null> {
+function methodsPerAxle(
+	method: LiftMethod | AxleMethods,
+	lift: Record<Axle, number>
+): Record<Axle, LiftMethod | null> {
 	const result: Record<Axle, LiftMethod | null> = { front: null, rear: null };
 	for (const axle of ['front', 'rear'] as const) {
 		if (lift[axle] === 0) continue;
@@ -210,7 +229,11 @@ function methodsPerAxle(method: LiftMethod | AxleMethods, lift: Record<Axle, num
 	return result;
 }
 
-function fitmentNotesFor(axle: Axle, method: LiftMethod, suspension: SuspensionType): FitmentNote[] {
+function fitmentNotesFor(
+	axle: Axle,
+	method: LiftMethod,
+	suspension: SuspensionType
+): FitmentNote[] {
 	const label = LIFT_METHOD_LABELS[method];
 	if (method === 'lift-block' && axle === 'front') {
 		// A block on a steer axle lets the axle twist under braking and steering loads.
@@ -232,7 +255,9 @@ function fitmentNotesFor(axle: Axle, method: LiftMethod, suspension: SuspensionT
 			: method === 'coilovers'
 				? `Coilovers on ${SUSPENSION_LABELS[suspension]} are a suspension conversion, not a bolt-on: the ${axle} needs new mounts and links.`
 				: `${label}: made for ${fitsText}, and the ${axle} has ${SUSPENSION_LABELS[suspension]}.`;
-	return [{ id: 'method-does-not-fit', axle, severity: 'warning', text, source: 'common practice' }];
+	return [
+		{ id: 'method-does-not-fit', axle, severity: 'warning', text, source: 'common practice' }
+	];
 }
 
 function rideHeightOnlyNotes(methods: Record<Axle, LiftMethod | null>): FitmentNote[] {
@@ -241,7 +266,8 @@ function rideHeightOnlyNotes(methods: Record<Axle, LiftMethod | null>): FitmentN
 	for (const method of new Set([front, rear])) {
 		const text = method === null ? undefined : RIDE_HEIGHT_ONLY_TEXT[method];
 		if (text === undefined) continue;
-		const axle: FitmentNote['axle'] = front === method && rear === method ? 'both' : front === method ? 'front' : 'rear';
+		const axle: FitmentNote['axle'] =
+			front === method && rear === method ? 'both' : front === method ? 'front' : 'rear';
 		notes.push({ id: 'no-added-travel', axle, severity: 'info', text, source: 'common practice' });
 	}
 	return notes;

@@ -34,9 +34,13 @@ export const TYRE_CHANGE_CLEARANCE_CAUTION =
 export function tyreChangeCautions(diameterChangeMm: number): string[] {
 	const cautions: string[] = [];
 	if (diameterChangeMm > 0) {
-		cautions.push('A taller tyre makes the speedometer and odometer read low until they are recalibrated.');
+		cautions.push(
+			'A taller tyre makes the speedometer and odometer read low until they are recalibrated.'
+		);
 	} else if (diameterChangeMm < 0) {
-		cautions.push('A shorter tyre makes the speedometer and odometer read high until they are recalibrated.');
+		cautions.push(
+			'A shorter tyre makes the speedometer and odometer read high until they are recalibrated.'
+		);
 	}
 	cautions.push(TYRE_CHANGE_CLEARANCE_CAUTION);
 	return cautions;

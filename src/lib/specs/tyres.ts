@@ -109,16 +109,22 @@ export function parseTyreSize(text: string): TyreSize {
 			`"${cleaned}" is only part of a tyre size. Write width/aspect ratio and rim, like 285/70R17, or diameter x width and rim, like 35x12.50R17.`
 		);
 	}
-	throw new SpecError(`That is not a tyre size Wrenchroll can read. Use the size on the sidewall, ${EXAMPLES}.`);
+	throw new SpecError(
+		`That is not a tyre size Wrenchroll can read. Use the size on the sidewall, ${EXAMPLES}.`
+	);
 }
 
 function parseMetric(cleaned: string): TyreSize {
 	const head = /^(P|LT)? ?(\d+) ?\/ ?(\d+)(.*)$/.exec(cleaned);
 	if (!head) {
 		if (new RegExp(`^(P|LT)? ?\\d+ ?/ ?(${CONSTRUCTION} ?\\d|$)`).test(cleaned)) {
-			throw new SpecError('The aspect ratio is missing. It goes after the slash, like the 70 in 285/70R17.');
+			throw new SpecError(
+				'The aspect ratio is missing. It goes after the slash, like the 70 in 285/70R17.'
+			);
 		}
-		throw new SpecError('The aspect ratio after the slash must be a whole number, like the 70 in 285/70R17.');
+		throw new SpecError(
+			'The aspect ratio after the slash must be a whole number, like the 70 in 285/70R17.'
+		);
 	}
 	const [, prefix, widthText, aspectText, rest] = head;
 	const tail = parseTail(rest ?? '', `${prefix ?? ''}${widthText}/${aspectText}`, 'metric');
@@ -165,7 +171,9 @@ function parseMetric(cleaned: string): TyreSize {
 function parseFlotation(cleaned: string): TyreSize {
 	const head = /^(\d+(?:\.\d+)?) ?X ?(\d+(?:\.\d+)?)(.*)$/.exec(cleaned);
 	if (!head) {
-		throw new SpecError('The width is missing. A flotation size is diameter x width and rim in inches, like 35x12.50R17.');
+		throw new SpecError(
+			'The width is missing. A flotation size is diameter x width and rim in inches, like 35x12.50R17.'
+		);
 	}
 	const [, diameterText, widthText, rest] = head;
 	const diameterIn = Number(diameterText);
@@ -211,7 +219,9 @@ function parseFlotation(cleaned: string): TyreSize {
 function parseTail(rest: string, sizeSoFar: string, kind: TyreSizeKind): ParsedTail {
 	const example = kind === 'metric' ? '285/70R17' : '35x12.50R17';
 	if (NO_RIM_TAIL.test(rest)) {
-		throw new SpecError(`${sizeSoFar} has no rim size. Add the rim diameter in inches after the R, like ${example}.`);
+		throw new SpecError(
+			`${sizeSoFar} has no rim size. Add the rim diameter in inches after the R, like ${example}.`
+		);
 	}
 	const tail = SIZE_TAIL.exec(rest);
 	if (!tail && rest.startsWith('/')) {
@@ -271,17 +281,23 @@ function checkWidthMm(widthMm: number, asTyped: string): void {
 function checkRim(tail: ParsedTail): void {
 	const { min, max } = TYRE_LIMITS.rimIn;
 	if (tail.rimIn < min || tail.rimIn > max) {
-		throw new SpecError(`A ${tail.rimIn} in rim is outside ${min}–${max} in. Check the number after the R.`);
+		throw new SpecError(
+			`A ${tail.rimIn} in rim is outside ${min}–${max} in. Check the number after the R.`
+		);
 	}
 	// Road rims come in whole and half inches (16, 16.5, 17 …), common practice.
 	if (!Number.isInteger(tail.rimIn * 2)) {
-		throw new SpecError(`Rim sizes are whole or half inches (16, 16.5, 17 …); ${tail.rimIn} is neither.`);
+		throw new SpecError(
+			`Rim sizes are whole or half inches (16, 16.5, 17 …); ${tail.rimIn} is neither.`
+		);
 	}
 }
 
 function serviceTypeFrom(prefix: string | undefined, ltSuffix: boolean): TyreServiceType | null {
 	if (prefix === 'P' && ltSuffix) {
-		throw new SpecError('A size cannot be both P (passenger) and LT (light truck). Keep the one on the sidewall.');
+		throw new SpecError(
+			'A size cannot be both P (passenger) and LT (light truck). Keep the one on the sidewall.'
+		);
 	}
 	if (prefix === 'LT' || ltSuffix) return 'LT';
 	if (prefix === 'P') return 'P';
@@ -302,7 +318,16 @@ function formatFlotationWidth(widthIn: number, asTyped: string): string {
 }
 
 /** A parsed size before its circumference and revolutions are worked out; the tail carries load index and speed rating. */
-type SizeWithoutGeometry = Omit<TyreSize, 'circumferenceIn' | 'circumferenceMm' | 'revsPerMile' | 'revsPerKm' | 'loadIndex' | 'dualLoadIndex' | 'speedRating'> & {
+type SizeWithoutGeometry = Omit<
+	TyreSize,
+	| 'circumferenceIn'
+	| 'circumferenceMm'
+	| 'revsPerMile'
+	| 'revsPerKm'
+	| 'loadIndex'
+	| 'dualLoadIndex'
+	| 'speedRating'
+> & {
 	tail: ParsedTail;
 };
 

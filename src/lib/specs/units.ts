@@ -84,7 +84,11 @@ export function convertTorque(value: number, from: TorqueUnit, to: TorqueUnit): 
 	if (from === 'ft·lbf' && to === 'in·lbf') return value * INCHES_PER_FOOT;
 	if (from === 'in·lbf' && to === 'ft·lbf') return value / INCHES_PER_FOOT;
 	const newtonMetres = torqueToNm(value, from);
-	return to === 'ft·lbf' ? nmToFtLbf(newtonMetres) : to === 'in·lbf' ? nmToInLbf(newtonMetres) : newtonMetres;
+	return to === 'ft·lbf'
+		? nmToFtLbf(newtonMetres)
+		: to === 'in·lbf'
+			? nmToInLbf(newtonMetres)
+			: newtonMetres;
 }
 
 export type FormatOptions = {
@@ -106,7 +110,11 @@ export function formatQuantity(
 }
 
 /** The number part of {@link formatQuantity}: one rounding, no "-0". */
-export function formatNumber(value: number, precision: number, options: FormatOptions = {}): string {
+export function formatNumber(
+	value: number,
+	precision: number,
+	options: FormatOptions = {}
+): string {
 	if (!Number.isFinite(value)) {
 		throw new SpecError('That number could not be worked out. Check the values you entered.');
 	}
@@ -176,7 +184,9 @@ export function torqueCard(input: TorqueCardInput): TorqueCard {
 	}
 	const newtonMetres = torqueToNm(value, unit);
 	if (newtonMetres > MAX_TORQUE_NM) {
-		throw new SpecError('That torque is far beyond any wheel or suspension fastener. Check the number and the unit.');
+		throw new SpecError(
+			'That torque is far beyond any wheel or suspension fastener. Check the number and the unit.'
+		);
 	}
 	const footPoundsForce = convertTorque(value, unit, 'ft·lbf');
 	const inchPoundsForce = convertTorque(value, unit, 'in·lbf');
@@ -201,5 +211,12 @@ export function torqueCard(input: TorqueCardInput): TorqueCard {
 			metric = formatStated(value, 'N·m');
 			break;
 	}
-	return { stated: { value, unit }, newtonMetres, footPoundsForce, inchPoundsForce, imperial, metric };
+	return {
+		stated: { value, unit },
+		newtonMetres,
+		footPoundsForce,
+		inchPoundsForce,
+		imperial,
+		metric
+	};
 }

@@ -46,9 +46,13 @@ export const load = (async ({ locals, url }) => {
 export const actions = {
 	default: async (event) => {
 		const form = await event.request.formData();
-		const values = { email: String(form.get('email') ?? ''), password: String(form.get('password') ?? '') };
+		const values = {
+			email: String(form.get('email') ?? ''),
+			password: String(form.get('password') ?? '')
+		};
 		const parsed = signInSchema.safeParse(values);
-		if (!parsed.success) return fail(400, { errors: fieldIssues(parsed.error), values: { email: values.email } });
+		if (!parsed.success)
+			return fail(400, { errors: fieldIssues(parsed.error), values: { email: values.email } });
 
 		// Hand the checked fields to Auth.js as the form post it expects.
 		const body = new FormData();
@@ -73,8 +77,12 @@ export const actions = {
 		} catch (outcome) {
 			if (isRedirect(outcome)) {
 				const target = new URL(outcome.location, event.url);
-				if (target.searchParams.has('error')) return refuse(target.searchParams.get('code') === 'throttled');
-				redirect(303, target.origin === event.url.origin ? safeNext(target.pathname + target.search) : '/');
+				if (target.searchParams.has('error'))
+					return refuse(target.searchParams.get('code') === 'throttled');
+				redirect(
+					303,
+					target.origin === event.url.origin ? safeNext(target.pathname + target.search) : '/'
+				);
 			}
 			// Auth.js throws its CredentialsSignin error (or our throttling subclass) for a refused sign-in.
 			if (outcome instanceof CredentialsSignin) return refuse(outcome.code === 'throttled');

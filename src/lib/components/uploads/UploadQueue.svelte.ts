@@ -28,8 +28,12 @@ export interface UploadFields {
 
 export class UploadQueue {
 	files = $state<QueuedFile[]>([]);
+	// Bookkeeping the page never renders, so plain (non-reactive) collections on purpose.
+	// eslint-disable-next-line svelte/prefer-svelte-reactivity
 	private uploads = new Map<string, tus.Upload>();
+	// eslint-disable-next-line svelte/prefer-svelte-reactivity
 	private samples = new Map<string, { at: number; sent: number }[]>();
+	// eslint-disable-next-line svelte/prefer-svelte-reactivity
 	private patched = new Set<string>();
 
 	constructor(private onFinished: () => void) {}

@@ -13,7 +13,9 @@ pg.types.setTypeParser(pg.types.builtins.DATE, (value) => value);
 function createDatabase(): Kysely<Database> {
 	const connectionString = env.DATABASE_URL;
 	if (!connectionString) {
-		throw new Error('DATABASE_URL is not set: start Wrenchroll with `npm start`, which sets it for you.');
+		throw new Error(
+			'DATABASE_URL is not set: start Wrenchroll with `npm start`, which sets it for you.'
+		);
 	}
 	const pool = new pg.Pool({ connectionString, max: Number(env.DATABASE_POOL_SIZE ?? 10) });
 	// An idle connection dropped by the server (restart, failover) must not take the app down; the pool reconnects.

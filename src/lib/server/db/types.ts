@@ -166,7 +166,8 @@ export interface EpisodeAssignmentTable {
 	personId: string;
 }
 
-export interface Database extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables {
+export interface Database
+	extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

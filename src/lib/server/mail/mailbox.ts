@@ -48,7 +48,11 @@ export function mailboxOpenTo(event: { getClientAddress(): string }): boolean {
 export async function readMailbox(limit = 200): Promise<StoredMail[]> {
 	const dir = env.DEV_MAILBOX_DIR;
 	if (!dir) return [];
-	const names = (await readdir(dir).catch(() => [] as string[])).filter((n) => n.endsWith('.json')).sort().reverse().slice(0, limit);
+	const names = (await readdir(dir).catch(() => [] as string[]))
+		.filter((n) => n.endsWith('.json'))
+		.sort()
+		.reverse()
+		.slice(0, limit);
 	const messages = await Promise.all(
 		names.map(async (name) => {
 			try {

@@ -1,5 +1,10 @@
 /** The words of every message Wrenchroll sends, in one place. */
-export function inviteMail(input: { channelName: string; inviterName: string; link: string; roles: string[] }) {
+export function inviteMail(input: {
+	channelName: string;
+	inviterName: string;
+	link: string;
+	roles: string[];
+}) {
 	return {
 		subject: `You're invited to the ${input.channelName} crew on Wrenchroll`,
 		text: [

@@ -20,10 +20,18 @@ const FROM = () => env.MAIL_FROM ?? 'Wrenchroll <crew@wrenchroll.invalid>';
 const MAX_ATTEMPTS = 12;
 
 /** Queues a message; call inside the transaction of the change that causes it. */
-export async function queueMail(executor: Kysely<Database> | Transaction<Database>, draft: MailDraft): Promise<void> {
+export async function queueMail(
+	executor: Kysely<Database> | Transaction<Database>,
+	draft: MailDraft
+): Promise<void> {
 	await executor
 		.insertInto('outbox')
-		.values({ toAddress: draft.to, subject: draft.subject, bodyText: draft.text, channelId: draft.channelId ?? null })
+		.values({
+			toAddress: draft.to,
+			subject: draft.subject,
+			bodyText: draft.text,
+			channelId: draft.channelId ?? null
+		})
 		.execute();
 	kickMailSender();
 }
@@ -61,8 +69,17 @@ export async function deliverDueMail(limit = 20): Promise<number> {
 			.execute();
 		for (const message of due) {
 			try {
-				await smtp.sendMail({ from: FROM(), to: message.toAddress, subject: message.subject, text: message.bodyText });
-				await trx.updateTable('outbox').set({ sentAt: new Date(), attempts: message.attempts + 1, lastError: null }).where('id', '=', message.id).execute();
+				await smtp.sendMail({
+					from: FROM(),
+					to: message.toAddress,
+					subject: message.subject,
+					text: message.bodyText
+				});
+				await trx
+					.updateTable('outbox')
+					.set({ sentAt: new Date(), attempts: message.attempts + 1, lastError: null })
+					.where('id', '=', message.id)
+					.execute();
 				sent++;
 			} catch (failure) {
 				const attempts = message.attempts + 1;

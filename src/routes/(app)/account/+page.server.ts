@@ -25,7 +25,8 @@ export const actions = {
 		const form = await event.request.formData();
 		const id = String(form.get('id') ?? '');
 		const result = await attempt({ id }, () => revokeToken(person.id, channel.id, id));
-		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
+		if (result && typeof result === 'object' && 'status' in result)
+			return fail(result.status, result.data);
 		return { revoked: true };
 	}
 } satisfies Actions;

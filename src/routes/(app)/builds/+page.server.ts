@@ -4,5 +4,8 @@ import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	return { builds: await listBuilds(channel.id), canEdit: hasRole(event.locals, 'producer', 'host') };
+	return {
+		builds: await listBuilds(channel.id),
+		canEdit: hasRole(event.locals, 'producer', 'host')
+	};
 }) satisfies PageServerLoad;

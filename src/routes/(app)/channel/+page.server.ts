@@ -15,7 +15,12 @@ export const actions = {
 	save: async (event) => {
 		const { channel } = requireRole(event, 'producer');
 		const form = await event.request.formData();
-		const values = Object.fromEntries(['name', 'frameRate', 'callToAction', 'contact', 'descriptionLimit', 'version'].map((key) => [key, String(form.get(key) ?? '')]));
+		const values = Object.fromEntries(
+			['name', 'frameRate', 'callToAction', 'contact', 'descriptionLimit', 'version'].map((key) => [
+				key,
+				String(form.get(key) ?? '')
+			])
+		);
 		const parsed = parseForm(channelSettingsSchema, values);
 		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
 		const result = await attempt(values, () => updateChannelSettings(channel.id, parsed.data));
@@ -27,8 +32,14 @@ export const actions = {
 		requireRole(event);
 		const form = await event.request.formData();
 		const wanted = String(form.get('channelId') ?? '');
-		if (!event.locals.channels.some((c) => c.id === wanted)) return fail(404, { errors: { channelId: ['You are not on that channel’s crew.'] } });
-		event.cookies.set(CHANNEL_COOKIE, wanted, { path: '/', httpOnly: true, sameSite: 'lax', maxAge: 365 * 24 * 3600 });
+		if (!event.locals.channels.some((c) => c.id === wanted))
+			return fail(404, { errors: { channelId: ['You are not on that channel’s crew.'] } });
+		event.cookies.set(CHANNEL_COOKIE, wanted, {
+			path: '/',
+			httpOnly: true,
+			sameSite: 'lax',
+			maxAge: 365 * 24 * 3600
+		});
 		redirect(303, '/');
 	}
 } satisfies Actions;

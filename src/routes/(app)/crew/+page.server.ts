@@ -14,10 +14,16 @@ export const actions = {
 	invite: async (event) => {
 		const { channel, person } = requireRole(event, 'producer');
 		const form = await event.request.formData();
-		const values = { email: String(form.get('email') ?? ''), name: String(form.get('name') ?? ''), roles: form.getAll('roles').map(String) };
+		const values = {
+			email: String(form.get('email') ?? ''),
+			name: String(form.get('name') ?? ''),
+			roles: form.getAll('roles').map(String)
+		};
 		const parsed = parseForm(inviteSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'invite', errors: parsed.errors, values });
-		const result = await attempt(values, () => invitePerson(channel.id, person, parsed.data, event.url.origin));
+		const result = await attempt(values, () =>
+			invitePerson(channel.id, person, parsed.data, event.url.origin)
+		);
 		if ('status' in result) return fail(result.status, { action: 'invite', ...result.data });
 		return { action: 'invite', invited: result.email };
 	},
@@ -32,8 +38,11 @@ export const actions = {
 		};
 		const parsed = parseForm(crewUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'update', personId, errors: parsed.errors, values });
-		const result = await attempt(values, () => updateMember(channel.id, person.id, personId, parsed.data));
-		if ('status' in result) return fail(result.status, { action: 'update', personId, ...result.data });
+		const result = await attempt(values, () =>
+			updateMember(channel.id, person.id, personId, parsed.data)
+		);
+		if ('status' in result)
+			return fail(result.status, { action: 'update', personId, ...result.data });
 		return { action: 'update', personId, saved: true };
 	}
 } satisfies Actions;

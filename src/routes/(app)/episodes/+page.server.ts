@@ -10,7 +10,10 @@ export const load = (async (event) => {
 	const raw = Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''));
 	const parsed = episodeListQuerySchema.safeParse(raw);
 	const query = parsed.success ? parsed.data : episodeListQuerySchema.parse({});
-	const [episodes, options] = await Promise.all([listEpisodes(channel.id, query), episodeFormOptions(channel.id)]);
+	const [episodes, options] = await Promise.all([
+		listEpisodes(channel.id, query),
+		episodeFormOptions(channel.id)
+	]);
 	return {
 		episodes,
 		query,

@@ -11,7 +11,9 @@ export function episodeFormValues(form: FormData) {
 		frameRate: text('frameRate'),
 		publishDate: text('publishDate'),
 		buildIds: form.getAll('buildIds').map(String),
-		assignments: Object.fromEntries(ASSIGNABLE_ROLES.map((role) => [role, text(`assign-${role}`) || null]))
+		assignments: Object.fromEntries(
+			ASSIGNABLE_ROLES.map((role) => [role, text(`assign-${role}`) || null])
+		)
 	};
 }
 

@@ -11,6 +11,14 @@ export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const parsed = partSearchSchema.safeParse(Object.fromEntries(event.url.searchParams));
 	const query = parsed.success ? parsed.data : partSearchSchema.parse({});
-	const [page, categories] = await Promise.all([searchParts(channel.id, query), partCategories(channel.id)]);
-	return { page, categories, canEdit: hasRole(event.locals, 'merch', 'producer'), searchProblem: parsed.success ? null : parsed.error.issues[0]?.message ?? null };
+	const [page, categories] = await Promise.all([
+		searchParts(channel.id, query),
+		partCategories(channel.id)
+	]);
+	return {
+		page,
+		categories,
+		canEdit: hasRole(event.locals, 'merch', 'producer'),
+		searchProblem: parsed.success ? null : (parsed.error.issues[0]?.message ?? null)
+	};
 }) satisfies PageServerLoad;

@@ -10,7 +10,13 @@ export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const [days, episodes] = await Promise.all([
 		listShootDays(channel.id),
-		db.selectFrom('episode').select(['id', 'title', 'stage']).where('channelId', '=', channel.id).where('stage', 'in', ['script', 'shoot']).orderBy('title').execute()
+		db
+			.selectFrom('episode')
+			.select(['id', 'title', 'stage'])
+			.where('channelId', '=', channel.id)
+			.where('stage', 'in', ['script', 'shoot'])
+			.orderBy('title')
+			.execute()
 	]);
 	return { days, episodes, canPlan: hasRole(event.locals, 'producer', 'camera') };
 }) satisfies PageServerLoad;

@@ -14,5 +14,8 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel, person } = requireRole(event, 'producer');
 	const input = await readJson(event, inviteSchema);
-	return json({ invited: await invitePerson(channel.id, person, input, event.url.origin) }, { status: 201 });
+	return json(
+		{ invited: await invitePerson(channel.id, person, input, event.url.origin) },
+		{ status: 201 }
+	);
 });

@@ -16,5 +16,8 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'producer');
 	const input = await readJson(event, episodeCreateSchema);
-	return json({ episode: await createEpisode(channel.id, { ...person, roles }, input, event.url.origin) }, { status: 201 });
+	return json(
+		{ episode: await createEpisode(channel.id, { ...person, roles }, input, event.url.origin) },
+		{ status: 201 }
+	);
 });

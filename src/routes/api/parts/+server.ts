@@ -14,7 +14,12 @@ export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const query = parseWith(partSearchSchema, Object.fromEntries(event.url.searchParams));
 	const page = await searchParts(channel.id, query);
-	return json(page, { headers: { 'cache-control': 'private, no-store', 'server-timing': `total;dur=${(performance.now() - started).toFixed(3)}` } });
+	return json(page, {
+		headers: {
+			'cache-control': 'private, no-store',
+			'server-timing': `total;dur=${(performance.now() - started).toFixed(3)}`
+		}
+	});
 });
 
 /** The merch team (or the producer) adds a part. */

@@ -16,7 +16,8 @@ export const GET: RequestHandler = api(async (event) => {
  */
 export const POST: RequestHandler = api(async (event) => {
 	const { person, channel } = requireRole(event);
-	if (event.locals.via === 'token') error(403, 'Make new tokens while signed in, under Account; an API token cannot make another.');
+	if (event.locals.via === 'token')
+		error(403, 'Make new tokens while signed in, under Account; an API token cannot make another.');
 	const { label } = await readJson(event, tokenCreateSchema);
 	return json({ token: await createToken(person.id, channel.id, label) }, { status: 201 });
 });

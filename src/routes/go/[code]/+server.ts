@@ -9,10 +9,17 @@ import type { RequestHandler } from './$types';
  * User-Agent is looked at, and nothing about the visitor is stored. `no-store` so every click
  * reaches us instead of a cached redirect.
  */
-const headers = (location: string) => ({ location, 'cache-control': 'no-store', 'x-robots-tag': 'noindex' });
+const headers = (location: string) => ({
+	location,
+	'cache-control': 'no-store',
+	'x-robots-tag': 'noindex'
+});
 
 const unknown = () =>
-	new Response('That link is unknown or was removed.\n', { status: 404, headers: { 'content-type': 'text/plain; charset=utf-8', 'cache-control': 'no-store' } });
+	new Response('That link is unknown or was removed.\n', {
+		status: 404,
+		headers: { 'content-type': 'text/plain; charset=utf-8', 'cache-control': 'no-store' }
+	});
 
 const byPerson = (request: Request) => {
 	const agent = request.headers.get('user-agent')?.trim();
@@ -21,11 +28,15 @@ const byPerson = (request: Request) => {
 
 export const GET: RequestHandler = async ({ params, request }) => {
 	const target = await followTrackedLink(params.code, { count: byPerson(request) });
-	return target ? new Response(null, { status: 302, headers: headers(target.location) }) : unknown();
+	return target
+		? new Response(null, { status: 302, headers: headers(target.location) })
+		: unknown();
 };
 
 // Without its own HEAD, SvelteKit would run GET for a HEAD request, and count it.
 export const HEAD: RequestHandler = async ({ params }) => {
 	const target = await followTrackedLink(params.code, { count: false });
-	return target ? new Response(null, { status: 302, headers: headers(target.location) }) : new Response(null, { status: 404, headers: { 'cache-control': 'no-store' } });
+	return target
+		? new Response(null, { status: 302, headers: headers(target.location) })
+		: new Response(null, { status: 404, headers: { 'cache-control': 'no-store' } });
 };

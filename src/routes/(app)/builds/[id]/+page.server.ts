@@ -9,7 +9,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	return { sheet: await found(buildSheet(channel.id, event.params.id)), canEdit: hasRole(event.locals, 'producer', 'host') };
+	return {
+		sheet: await found(buildSheet(channel.id, event.params.id)),
+		canEdit: hasRole(event.locals, 'producer', 'host')
+	};
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -18,7 +21,9 @@ export const actions = {
 		const values = buildFormValues(await event.request.formData());
 		const parsed = parseForm(buildSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attemptAction('save', values, () => updateBuild(channel.id, event.params.id, parsed.data));
+		const result = await attemptAction('save', values, () =>
+			updateBuild(channel.id, event.params.id, parsed.data)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'save', saved: true };
 	}

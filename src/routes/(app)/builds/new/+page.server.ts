@@ -18,7 +18,9 @@ export const actions = {
 		const values = buildFormValues(await event.request.formData());
 		const parsed = parseForm(buildSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
-		const result = await attemptAction('create', values, () => createBuild(channel.id, parsed.data));
+		const result = await attemptAction('create', values, () =>
+			createBuild(channel.id, parsed.data)
+		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/builds/${result.value.build.id}`);
 	}

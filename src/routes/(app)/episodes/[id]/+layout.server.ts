@@ -10,9 +10,20 @@ export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	try {
 		const episode = await episodeInChannel(db, channel.id, event.params.id);
-		return { episodeHeader: { id: episode.id, title: episode.title, stage: episode.stage, slug: episode.slug } };
+		return {
+			episodeHeader: {
+				id: episode.id,
+				title: episode.title,
+				stage: episode.stage,
+				slug: episode.slug
+			}
+		};
 	} catch (failure) {
-		if (failure instanceof DomainError && failure.status === 404) error(404, 'That episode was not found in this channel. If it belongs to another channel, switch channel first.');
+		if (failure instanceof DomainError && failure.status === 404)
+			error(
+				404,
+				'That episode was not found in this channel. If it belongs to another channel, switch channel first.'
+			);
 		throw failure;
 	}
 }) satisfies LayoutServerLoad;

@@ -21,7 +21,14 @@ export const load = (async (event) => {
 			hasRole(event.locals, 'producer') ? episodeFormOptions(channel.id) : Promise.resolve(null)
 		])
 	);
-	return { episode, stage, history, script, options, canEditDetails: hasRole(event.locals, 'producer') };
+	return {
+		episode,
+		stage,
+		history,
+		script,
+		options,
+		canEditDetails: hasRole(event.locals, 'producer')
+	};
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -32,7 +39,15 @@ export const actions = {
 		const values = { ...episodeFormValues(form), version: text(form, 'version') };
 		const parsed = parseForm(episodeUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attemptAction('save', values, () => updateEpisode(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin));
+		const result = await attemptAction('save', values, () =>
+			updateEpisode(
+				channel.id,
+				{ ...person, roles },
+				event.params.id,
+				parsed.data,
+				event.url.origin
+			)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'save', saved: true };
 	},
@@ -43,7 +58,9 @@ export const actions = {
 		const values = { to: text(form, 'to'), from: text(form, 'from'), note: text(form, 'note') };
 		const parsed = parseForm(stageMoveSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'move', errors: parsed.errors, values });
-		const result = await attemptAction('move', values, () => moveStage(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin));
+		const result = await attemptAction('move', values, () =>
+			moveStage(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin)
+		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/episodes/${event.params.id}?moved=${result.value.episode.stage}`);
 	}

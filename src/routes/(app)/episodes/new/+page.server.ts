@@ -18,7 +18,9 @@ export const actions = {
 		const values = episodeFormValues(await event.request.formData());
 		const parsed = parseForm(episodeCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
-		const result = await attemptAction('create', values, () => createEpisode(channel.id, { ...person, roles }, parsed.data, event.url.origin));
+		const result = await attemptAction('create', values, () =>
+			createEpisode(channel.id, { ...person, roles }, parsed.data, event.url.origin)
+		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/episodes/${result.value.id}/rundown?created=1`);
 	}

@@ -10,7 +10,11 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const part = await forPage(() => partDetail(channel.id, event.params.id));
-	return { part, price: priceText(part.priceCents), canEdit: hasRole(event.locals, 'merch', 'producer') };
+	return {
+		part,
+		price: priceText(part.priceCents),
+		canEdit: hasRole(event.locals, 'merch', 'producer')
+	};
 }) satisfies PageServerLoad;
 
 const versionOf = (form: FormData) => Number(form.get('version') ?? Number.NaN);
@@ -22,7 +26,9 @@ export const actions = {
 		const values = { ...partFormValues(form), version: versionOf(form) };
 		const parsed = parseForm(partUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attempt(values, async () => ({ part: await updatePart(channel.id, event.params.id, parsed.data) }));
+		const result = await attempt(values, async () => ({
+			part: await updatePart(channel.id, event.params.id, parsed.data)
+		}));
 		if (!('part' in result)) return fail(result.status, { action: 'save', ...result.data });
 		return { action: 'save', saved: true };
 	},
@@ -31,7 +37,9 @@ export const actions = {
 		const read = readVersion(await event.request.formData());
 		if (!read.ok) return fail(400, { action: 'retire', errors: read.errors, values: {} });
 		const values = { version: read.version, status: 'discontinued' as const };
-		const result = await attempt(values, async () => ({ part: await updatePart(channel.id, event.params.id, values) }));
+		const result = await attempt(values, async () => ({
+			part: await updatePart(channel.id, event.params.id, values)
+		}));
 		if (!('part' in result)) return fail(result.status, { action: 'retire', ...result.data });
 		return { action: 'retire', saved: true };
 	},
@@ -40,7 +48,9 @@ export const actions = {
 		const read = readVersion(await event.request.formData());
 		if (!read.ok) return fail(400, { action: 'remove', errors: read.errors, values: {} });
 		const values = { version: read.version };
-		const result = await attempt(values, async () => ({ part: await removePart(channel.id, event.params.id, values.version) }));
+		const result = await attempt(values, async () => ({
+			part: await removePart(channel.id, event.params.id, values.version)
+		}));
 		if (!('part' in result)) return fail(result.status, { action: 'remove', ...result.data });
 		redirect(303, '/parts');
 	}

@@ -25,12 +25,26 @@ const NO_FILE = 'Pick a CSV file first: the catalogue’s own export is a good t
 /** The file's text and the chosen mode, checked with the same schema the API uses. */
 async function readRequest(form: FormData, action: 'preview' | 'commit') {
 	const file = form.get('file');
-	const csv = file instanceof File && file.size > 0 ? await file.text() : String(form.get('csv') ?? '');
-	const fileName = file instanceof File && file.size > 0 ? file.name : String(form.get('fileName') ?? '');
+	const csv =
+		file instanceof File && file.size > 0 ? await file.text() : String(form.get('csv') ?? '');
+	const fileName =
+		file instanceof File && file.size > 0 ? file.name : String(form.get('fileName') ?? '');
 	const mode = String(form.get('mode') ?? 'create');
-	if (csv.trim() === '') return { ok: false as const, failure: fail(400, { errors: errors({ file: [NO_FILE] }), mode, fileName }) };
+	if (csv.trim() === '')
+		return {
+			ok: false as const,
+			failure: fail(400, { errors: errors({ file: [NO_FILE] }), mode, fileName })
+		};
 	const parsed = parseForm(importRequestSchema, { action, mode, csv });
-	if (!parsed.ok) return { ok: false as const, failure: fail(400, { errors: errors({ file: Object.values(parsed.errors).flat() }), mode, fileName }) };
+	if (!parsed.ok)
+		return {
+			ok: false as const,
+			failure: fail(400, {
+				errors: errors({ file: Object.values(parsed.errors).flat() }),
+				mode,
+				fileName
+			})
+		};
 	return { ok: true as const, request: parsed.data, fileName };
 }
 
@@ -53,7 +67,13 @@ export const actions = {
 			if (!(failure instanceof DomainError)) throw failure;
 			// A refused import writes nothing and shows why, with the rows at fault when there are some.
 			const preview = (failure.extra?.preview as ImportPreview | undefined) ?? null;
-			return fail(failure.status, { errors: errors({ form: [failure.message] }), preview, csv: read.request.csv, mode: read.request.mode, fileName: read.fileName });
+			return fail(failure.status, {
+				errors: errors({ form: [failure.message] }),
+				preview,
+				csv: read.request.csv,
+				mode: read.request.mode,
+				fileName: read.fileName
+			});
 		}
 	}
 } satisfies Actions;

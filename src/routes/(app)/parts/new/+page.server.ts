@@ -18,7 +18,9 @@ export const actions = {
 		const values = partFormValues(await event.request.formData());
 		const parsed = parseForm(partCreateSchema, values);
 		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
-		const result = await attempt(values, async () => ({ part: await createPart(channel.id, parsed.data) }));
+		const result = await attempt(values, async () => ({
+			part: await createPart(channel.id, parsed.data)
+		}));
 		if (!('part' in result)) return result;
 		redirect(303, `/parts/${result.part.id}`);
 	}

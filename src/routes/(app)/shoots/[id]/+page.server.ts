@@ -2,7 +2,15 @@ import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/guard';
 import * as days from '$lib/server/shoot-days';
-import { cameraSchema, gearSchema, idListSchema, onHandSchema, plannerSchema, pullItemSchema, shootDayUpdateSchema } from '$lib/schemas/shoot';
+import {
+	cameraSchema,
+	gearSchema,
+	idListSchema,
+	onHandSchema,
+	plannerSchema,
+	pullItemSchema,
+	shootDayUpdateSchema
+} from '$lib/schemas/shoot';
 import { attempt, parseForm, forPage } from '$lib/server/forms';
 import { assertOnShootDay } from '$lib/server/ownership';
 import { searchPartsForPicker } from '$lib/server/parts-picker';
@@ -24,60 +32,107 @@ export const load = (async (event) => {
 type Values = Record<string, string | string[]>;
 
 /** Reads the form, validates it and runs the domain call; every failure keeps what was typed. */
-async function run<T extends z.ZodType>(event: RequestEvent, action: string, schema: T, work: (data: z.infer<T>, values: Values) => Promise<unknown>, read?: (form: FormData) => unknown) {
+async function run<T extends z.ZodType>(
+	event: RequestEvent,
+	action: string,
+	schema: T,
+	work: (data: z.infer<T>, values: Values) => Promise<unknown>,
+	read?: (form: FormData) => unknown
+) {
 	const form = await event.request.formData();
-	const values = Object.fromEntries([...form.keys()].map((key) => [key, form.getAll(key).length > 1 ? form.getAll(key).map(String) : String(form.get(key))])) as Values;
+	const values = Object.fromEntries(
+		[...form.keys()].map((key) => [
+			key,
+			form.getAll(key).length > 1 ? form.getAll(key).map(String) : String(form.get(key))
+		])
+	) as Values;
 	const parsed = parseForm(schema, read ? read(form) : values);
 	if (!parsed.ok) return fail(400, { action, errors: parsed.errors, values });
 	const result = await attempt(values, () => work(parsed.data, values));
-	if (result && typeof result === 'object' && 'status' in result && 'data' in result) return fail(result.status as number, { action, ...(result.data as object) });
+	if (result && typeof result === 'object' && 'status' in result && 'data' in result)
+		return fail(result.status as number, { action, ...(result.data as object) });
 	return { action, saved: true };
 }
 
 export const actions = {
 	save: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'save', shootDayUpdateSchema, (data) => days.updateShootDay(channel.id, event.params.id, data));
+		return run(event, 'save', shootDayUpdateSchema, (data) =>
+			days.updateShootDay(channel.id, event.params.id, data)
+		);
 	},
 	planner: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'planner', plannerSchema, (data) => days.updatePlanner(channel.id, event.params.id, data));
+		return run(event, 'planner', plannerSchema, (data) =>
+			days.updatePlanner(channel.id, event.params.id, data)
+		);
 	},
 	members: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'members', z.object({ list: z.enum(['crew', 'builds', 'segments']), ids: idListSchema }), (data) => days.setDayMembers(channel.id, event.params.id, data.list, data.ids), (form) => ({ list: form.get('list'), ids: form.getAll('ids').map(String) }));
+		return run(
+			event,
+			'members',
+			z.object({ list: z.enum(['crew', 'builds', 'segments']), ids: idListSchema }),
+			(data) => days.setDayMembers(channel.id, event.params.id, data.list, data.ids),
+			(form) => ({ list: form.get('list'), ids: form.getAll('ids').map(String) })
+		);
 	},
 	addCamera: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'addCamera', cameraSchema, (data) => days.addCamera(channel.id, event.params.id, data));
+		return run(event, 'addCamera', cameraSchema, (data) =>
+			days.addCamera(channel.id, event.params.id, data)
+		);
 	},
 	addGear: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'addGear', gearSchema, (data) => days.addGear(channel.id, event.params.id, data));
+		return run(event, 'addGear', gearSchema, (data) =>
+			days.addGear(channel.id, event.params.id, data)
+		);
 	},
 	addPull: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
-		return run(event, 'addPull', pullItemSchema, (data) => days.addPullItem(channel.id, event.params.id, data));
+		return run(event, 'addPull', pullItemSchema, (data) =>
+			days.addPullItem(channel.id, event.params.id, data)
+		);
 	},
 	onHand: async (event) => {
 		const { channel, person } = requireRole(event, 'merch', 'producer');
-		return run(event, 'onHand', onHandSchema.extend({ id: z.string() }), async (data) => {
-			await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
-			return days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version);
-		}, (form) => ({ id: form.get('id'), onHand: form.get('onHand') === 'true', version: form.get('version') }));
+		return run(
+			event,
+			'onHand',
+			onHandSchema.extend({ id: z.string() }),
+			async (data) => {
+				await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
+				return days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version);
+			},
+			(form) => ({
+				id: form.get('id'),
+				onHand: form.get('onHand') === 'true',
+				version: form.get('version')
+			})
+		);
 	},
 	pullFromSegments: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
 		const result = await attempt({}, () => days.pullPartsFromSegments(channel.id, event.params.id));
-		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'pullFromSegments', ...(result.data as object) });
+		if ('status' in result && 'data' in result)
+			return fail(result.status as number, {
+				action: 'pullFromSegments',
+				...(result.data as object)
+			});
 		return { action: 'pullFromSegments', added: (result as { added: number }).added };
 	},
 	removeItem: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		return run(event, 'removeItem', z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }), async (data) => {
-			await assertOnShootDay(channel.id, event.params.id, data.kind, data.id);
-			return days.removeDayItem(channel.id, data.kind, data.id);
-		});
+		return run(
+			event,
+			'removeItem',
+			z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }),
+			async (data) => {
+				await assertOnShootDay(channel.id, event.params.id, data.kind, data.id);
+				return days.removeDayItem(channel.id, data.kind, data.id);
+			}
+		);
 	},
 	removePull: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
@@ -89,7 +144,8 @@ export const actions = {
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer');
 		const result = await attempt({}, () => days.deleteShootDay(channel.id, event.params.id));
-		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, { action: 'delete', ...result.data });
+		if (result && typeof result === 'object' && 'status' in result)
+			return fail(result.status, { action: 'delete', ...result.data });
 		redirect(303, '/shoots');
 	}
 } satisfies Actions;

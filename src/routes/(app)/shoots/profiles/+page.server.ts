@@ -7,7 +7,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	return { profiles: await listProfiles(channel.id), canEdit: hasRole(event.locals, 'producer', 'camera') };
+	return {
+		profiles: await listProfiles(channel.id),
+		canEdit: hasRole(event.locals, 'producer', 'camera')
+	};
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -23,7 +26,8 @@ export const actions = {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		const id = String((await event.request.formData()).get('id') ?? '');
 		const result = await attempt({ id }, () => deleteProfile(channel.id, id));
-		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
+		if (result && typeof result === 'object' && 'status' in result)
+			return fail(result.status, result.data);
 		return { deleted: true };
 	}
 } satisfies Actions;

@@ -11,7 +11,10 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event);
 	const episode = await episodeDetail(channel.id, event.params.id);
-	const [stage, script] = await Promise.all([stageReportFor(channel.id, episode.id, { id: person.id, roles }), scriptStateFor(channel.id, episode.id)]);
+	const [stage, script] = await Promise.all([
+		stageReportFor(channel.id, episode.id, { id: person.id, roles }),
+		scriptStateFor(channel.id, episode.id)
+	]);
 	return json({ episode, stage, script });
 });
 
@@ -19,5 +22,13 @@ export const GET: RequestHandler = api(async (event) => {
 export const PATCH: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'producer');
 	const input = await readJson(event, episodeUpdateSchema);
-	return json({ episode: await updateEpisode(channel.id, { ...person, roles }, event.params.id, input, event.url.origin) });
+	return json({
+		episode: await updateEpisode(
+			channel.id,
+			{ ...person, roles },
+			event.params.id,
+			input,
+			event.url.origin
+		)
+	});
 });

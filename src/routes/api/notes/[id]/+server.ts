@@ -14,14 +14,32 @@ import type { RequestHandler } from './$types';
 export const PATCH: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'camera', 'editor', 'merch', 'producer');
 	const input = await readJson(event, noteUpdateSchema);
-	return json({ note: await updateNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, input) });
+	return json({
+		note: await updateNote(
+			channel.id,
+			{ id: person.id, name: person.name, roles },
+			event.params.id,
+			input
+		)
+	});
 });
 
-const versionParam = z.coerce.number({ error: 'version is a whole number.' }).int('version is a whole number.').min(1, 'version is 1 or more.').optional();
+const versionParam = z.coerce
+	.number({ error: 'version is a whole number.' })
+	.int('version is a whole number.')
+	.min(1, 'version is 1 or more.')
+	.optional();
 
 /** The camera operator (or the producer) removes a note; `?version=` makes it conditional. */
 export const DELETE: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
 	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
-	return json({ removed: await deleteNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, version) });
+	return json({
+		removed: await deleteNote(
+			channel.id,
+			{ id: person.id, name: person.name, roles },
+			event.params.id,
+			version
+		)
+	});
 });

@@ -19,7 +19,11 @@ export const PATCH: RequestHandler = api(async (event) => {
 	return json({ part: await updatePart(channel.id, event.params.id, input) });
 });
 
-const versionParam = z.coerce.number({ error: 'version is a whole number.' }).int('version is a whole number.').min(1, 'version is 1 or more.').optional();
+const versionParam = z.coerce
+	.number({ error: 'version is a whole number.' })
+	.int('version is a whole number.')
+	.min(1, 'version is 1 or more.')
+	.optional();
 
 /** Removes a part no note or tracked link uses; a featured one answers 409 (retire it instead). */
 export const DELETE: RequestHandler = api(async (event) => {

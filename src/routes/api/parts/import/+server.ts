@@ -16,10 +16,15 @@ export const POST: RequestHandler = api(async (event) => {
 	let request: ImportRequest;
 	if ((event.request.headers.get('content-type') ?? '').startsWith('text/csv')) {
 		const params = Object.fromEntries(event.url.searchParams);
-		request = parseWith(importRequestSchema, { action: params.action ?? 'preview', mode: params.mode ?? 'create', csv: await event.request.text() });
+		request = parseWith(importRequestSchema, {
+			action: params.action ?? 'preview',
+			mode: params.mode ?? 'create',
+			csv: await event.request.text()
+		});
 	} else {
 		request = await readJson(event, importRequestSchema);
 	}
-	if (request.action === 'preview') return json({ preview: await previewPartImport(channel.id, request) });
+	if (request.action === 'preview')
+		return json({ preview: await previewPartImport(channel.id, request) });
 	return json({ result: await commitPartImport(channel.id, request) });
 });

@@ -9,5 +9,7 @@ import type { RequestHandler } from './$types';
 export const PATCH: RequestHandler = api(async (event) => {
 	const { channel, person } = requireRole(event, 'merch', 'producer');
 	const { onHand, version } = await readJson(event, onHandSchema);
-	return json({ item: await setPullOnHand(channel.id, event.params.id, person.id, onHand, version) });
+	return json({
+		item: await setPullOnHand(channel.id, event.params.id, person.id, onHand, version)
+	});
 });

@@ -1,7 +1,12 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/api';
 import { requireRole } from '$lib/server/guard';
-import { checkSegmentChangeRoles, deleteSegment, segmentView, updateSegment } from '$lib/server/segments';
+import {
+	checkSegmentChangeRoles,
+	deleteSegment,
+	segmentView,
+	updateSegment
+} from '$lib/server/segments';
 import { segmentDeleteSchema, segmentUpdateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,12 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/guard';
-import { addChapter, deleteChapter, findEditState, setCutDuration, updateChapter } from '$lib/server/edit';
+import {
+	addChapter,
+	deleteChapter,
+	findEditState,
+	setCutDuration,
+	updateChapter
+} from '$lib/server/edit';
 import { attempt, parseForm } from '$lib/server/forms';
 import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
 import type { TimelineMark } from '$lib/components/timeline';
@@ -15,8 +21,15 @@ import type { Actions, PageServerLoad } from './$types';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await findEditState(channel.id, event.params.id);
-	if (!state) error(404, 'That episode was not found in this channel. If it belongs to another channel, switch channel first.');
-	const [cutVideoUrl, marks] = await Promise.all([cutVideoUrlFor(channel.id, event.params.id), timelineMarksFor(channel.id, event.params.id)]);
+	if (!state)
+		error(
+			404,
+			'That episode was not found in this channel. If it belongs to another channel, switch channel first.'
+		);
+	const [cutVideoUrl, marks] = await Promise.all([
+		cutVideoUrlFor(channel.id, event.params.id),
+		timelineMarksFor(channel.id, event.params.id)
+	]);
 	return {
 		state,
 		canEdit: hasRole(event.locals, 'editor', 'producer'),
@@ -37,7 +50,9 @@ export const actions = {
 		const values = { duration: text(form, 'duration') };
 		const parsed = parseForm(cutUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'setCut', errors: parsed.errors, values });
-		const result = await attempt(values, () => setCutDuration(channel.id, event.params.id, parsed.data));
+		const result = await attempt(values, () =>
+			setCutDuration(channel.id, event.params.id, parsed.data)
+		);
 		if ('status' in result) return fail(result.status, { action: 'setCut', ...result.data });
 		redirect(303, event.url.pathname);
 	},
@@ -47,7 +62,9 @@ export const actions = {
 		const values = { start: text(form, 'start'), title: text(form, 'title') };
 		const parsed = parseForm(chapterCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'addChapter', errors: parsed.errors, values });
-		const result = await attempt(values, () => addChapter(channel.id, event.params.id, parsed.data));
+		const result = await attempt(values, () =>
+			addChapter(channel.id, event.params.id, parsed.data)
+		);
 		if ('status' in result) return fail(result.status, { action: 'addChapter', ...result.data });
 		redirect(303, event.url.pathname);
 	},
@@ -55,11 +72,19 @@ export const actions = {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const form = await event.request.formData();
 		const chapterId = text(form, 'chapterId');
-		const values = { version: number(form, 'version'), start: text(form, 'start'), title: text(form, 'title') };
+		const values = {
+			version: number(form, 'version'),
+			start: text(form, 'start'),
+			title: text(form, 'title')
+		};
 		const parsed = parseForm(chapterUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'saveChapter', chapterId, errors: parsed.errors, values });
-		const result = await attempt(values, () => updateChapter(channel.id, event.params.id, chapterId, parsed.data));
-		if ('status' in result) return fail(result.status, { action: 'saveChapter', chapterId, ...result.data });
+		if (!parsed.ok)
+			return fail(400, { action: 'saveChapter', chapterId, errors: parsed.errors, values });
+		const result = await attempt(values, () =>
+			updateChapter(channel.id, event.params.id, chapterId, parsed.data)
+		);
+		if ('status' in result)
+			return fail(result.status, { action: 'saveChapter', chapterId, ...result.data });
 		redirect(303, event.url.pathname);
 	},
 	removeChapter: async (event) => {
@@ -67,9 +92,18 @@ export const actions = {
 		const form = await event.request.formData();
 		const chapterId = text(form, 'chapterId');
 		const values = { version: number(form, 'version') };
-		if (!Number.isSafeInteger(values.version)) return fail(400, { action: 'removeChapter', chapterId, errors: { version: ['Reload the page and try again.'] }, values });
-		const result = await attempt(values, () => deleteChapter(channel.id, event.params.id, chapterId, values.version));
-		if ('status' in result) return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });
+		if (!Number.isSafeInteger(values.version))
+			return fail(400, {
+				action: 'removeChapter',
+				chapterId,
+				errors: { version: ['Reload the page and try again.'] },
+				values
+			});
+		const result = await attempt(values, () =>
+			deleteChapter(channel.id, event.params.id, chapterId, values.version)
+		);
+		if ('status' in result)
+			return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });
 		redirect(303, event.url.pathname);
 	}
 } satisfies Actions;

@@ -5,7 +5,13 @@ export type { EditChapter, EditState };
 
 export type Answer<T> =
 	| { ok: true; data: T }
-	| { ok: false; status: number; error: string; issues?: Record<string, string[]>; state?: EditState };
+	| {
+			ok: false;
+			status: number;
+			error: string;
+			issues?: Record<string, string[]>;
+			state?: EditState;
+	  };
 
 async function call<T>(path: string, method: string, body?: unknown): Promise<Answer<T>> {
 	let response: Response;
@@ -16,7 +22,11 @@ async function call<T>(path: string, method: string, body?: unknown): Promise<An
 			body: body === undefined ? undefined : JSON.stringify(body)
 		});
 	} catch {
-		return { ok: false, status: 0, error: 'The server did not answer. Check the connection; nothing was changed.' };
+		return {
+			ok: false,
+			status: 0,
+			error: 'The server did not answer. Check the connection; nothing was changed.'
+		};
 	}
 	const answer = await response.json().catch(() => null);
 	if (response.ok) return { ok: true, data: answer as T };
@@ -34,11 +44,26 @@ export function editClient(episodeId: string) {
 	return {
 		setCut: (duration: string, expectedFrames: number | null) =>
 			call<EditState>(`${base}/cut`, 'PATCH', { duration, expectedFrames }),
-		addChapter: (input: { start?: string; startFrame?: number; title: string; url?: string | null; partId?: string | null }) =>
-			call<{ chapter: EditChapter; state: EditState }>(`${base}/chapters`, 'POST', input),
-		updateChapter: (chapterId: string, input: { version: number; start?: string; startFrame?: number; title?: string }) =>
-			call<{ chapter: EditChapter; state: EditState }>(`${base}/chapters/${encodeURIComponent(chapterId)}`, 'PATCH', input),
+		addChapter: (input: {
+			start?: string;
+			startFrame?: number;
+			title: string;
+			url?: string | null;
+			partId?: string | null;
+		}) => call<{ chapter: EditChapter; state: EditState }>(`${base}/chapters`, 'POST', input),
+		updateChapter: (
+			chapterId: string,
+			input: { version: number; start?: string; startFrame?: number; title?: string }
+		) =>
+			call<{ chapter: EditChapter; state: EditState }>(
+				`${base}/chapters/${encodeURIComponent(chapterId)}`,
+				'PATCH',
+				input
+			),
 		removeChapter: (chapterId: string, version: number) =>
-			call<{ removed: EditChapter; state: EditState }>(`${base}/chapters/${encodeURIComponent(chapterId)}?version=${version}`, 'DELETE')
+			call<{ removed: EditChapter; state: EditState }>(
+				`${base}/chapters/${encodeURIComponent(chapterId)}?version=${version}`,
+				'DELETE'
+			)
 	};
 }

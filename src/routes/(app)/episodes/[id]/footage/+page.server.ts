@@ -9,12 +9,17 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [{ episode, footage }, shootDays] = await Promise.all([forPage(() => listFootage(channel.id, event.params.id)), shootDayOptions(channel.id, event.params.id)]);
+	const [{ episode, footage }, shootDays] = await Promise.all([
+		forPage(() => listFootage(channel.id, event.params.id)),
+		shootDayOptions(channel.id, event.params.id)
+	]);
 	return {
 		episode,
 		footage,
 		shootDays,
-		purposes: (['footage', 'cut'] as const).filter((purpose) => hasRole(event.locals, ...UPLOAD_ROLES[purpose])),
+		purposes: (['footage', 'cut'] as const).filter((purpose) =>
+			hasRole(event.locals, ...UPLOAD_ROLES[purpose])
+		),
 		canDelete: hasRole(event.locals, 'producer')
 	};
 }) satisfies PageServerLoad;
@@ -28,7 +33,8 @@ export const actions = {
 			await assertInEpisode(channel.id, event.params.id, 'footage', id);
 			return deleteFootage(channel.id, id);
 		});
-		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, result.data);
+		if (result && typeof result === 'object' && 'status' in result)
+			return fail(result.status, result.data);
 		return { deleted: id };
 	}
 } satisfies Actions;

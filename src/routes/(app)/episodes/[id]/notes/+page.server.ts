@@ -15,16 +15,28 @@ import type { Actions, PageServerLoad } from './$types';
  */
 export const load = (async (event) => {
 	const { channel, roles } = requireRole(event);
-	return { ...(await forPage(() => notesPageFor(channel.id, event.params.id))), rights: noteRightsFor(roles) };
+	return {
+		...(await forPage(() => notesPageFor(channel.id, event.params.id))),
+		rights: noteRightsFor(roles)
+	};
 }) satisfies PageServerLoad;
 
 const text = (form: FormData, name: string) => String(form.get(name) ?? '').trim();
 /** '' from an empty field means "none" (null) for the optional fields of a note. */
 const orNull = (value: string) => (value === '' ? null : value);
 const version = (form: FormData) => Number(form.get('version') ?? Number.NaN);
-const actorOf = (caller: ReturnType<typeof requireRole>) => ({ id: caller.person.id, name: caller.person.name, roles: caller.roles });
+const actorOf = (caller: ReturnType<typeof requireRole>) => ({
+	id: caller.person.id,
+	name: caller.person.name,
+	roles: caller.roles
+});
 
-async function change(event: Parameters<Actions[string]>[0], action: string, roles: Parameters<typeof requireRole>[1][], build: (form: FormData, channelId: string) => Promise<Record<string, unknown>>) {
+async function change(
+	event: Parameters<Actions[string]>[0],
+	action: string,
+	roles: Parameters<typeof requireRole>[1][],
+	build: (form: FormData, channelId: string) => Promise<Record<string, unknown>>
+) {
 	const caller = requireRole(event, ...roles);
 	const form = await event.request.formData();
 	const noteId = text(form, 'noteId');
@@ -32,7 +44,13 @@ async function change(event: Parameters<Actions[string]>[0], action: string, rol
 	try {
 		values = { version: version(form), ...(await build(form, caller.channel.id)) };
 	} catch (failure) {
-		if (failure instanceof DomainError) return fail(failure.status, { action, noteId, errors: failure.issues ?? { form: [failure.message] }, values: {} });
+		if (failure instanceof DomainError)
+			return fail(failure.status, {
+				action,
+				noteId,
+				errors: failure.issues ?? { form: [failure.message] },
+				values: {}
+			});
 		throw failure;
 	}
 	const parsed = parseForm(noteUpdateSchema, values);
@@ -55,15 +73,22 @@ export const actions = {
 			takeId: orNull(text(form, 'takeId')),
 			sourceTime: orNull(text(form, 'sourceTime')),
 			// Only the editor's and the producer's forms carry a program time.
-			...(form.has('programTime') && text(form, 'programTime') !== '' ? { programTime: text(form, 'programTime') } : {})
+			...(form.has('programTime') && text(form, 'programTime') !== ''
+				? { programTime: text(form, 'programTime') }
+				: {})
 		};
 		const parsed = parseForm(noteCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
-		const result = await attempt(values, () => createNote(caller.channel.id, actorOf(caller), event.params.id, parsed.data));
+		const result = await attempt(values, () =>
+			createNote(caller.channel.id, actorOf(caller), event.params.id, parsed.data)
+		);
 		if ('status' in result) return fail(result.status, { action: 'create', ...result.data });
 		redirect(303, `${event.url.pathname}#note-${result.id}`);
 	},
-	place: (event) => change(event, 'place', ['editor', 'producer'], async (form) => ({ programTime: orNull(text(form, 'programTime')) })),
+	place: (event) =>
+		change(event, 'place', ['editor', 'producer'], async (form) => ({
+			programTime: orNull(text(form, 'programTime'))
+		})),
 	write: (event) =>
 		change(event, 'write', ['camera', 'producer'], async (form) => ({
 			text: text(form, 'text'),
@@ -80,7 +105,12 @@ export const actions = {
 	unlink: (event) =>
 		change(event, 'unlink', ['merch', 'producer'], async (form) => {
 			const removed = text(form, 'partId');
-			return { partIds: form.getAll('partIds').map(String).filter((id) => id !== removed) };
+			return {
+				partIds: form
+					.getAll('partIds')
+					.map(String)
+					.filter((id) => id !== removed)
+			};
 		}),
 	remove: async (event) => {
 		const caller = requireRole(event, 'camera', 'producer');
@@ -92,7 +122,8 @@ export const actions = {
 			await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
 			return deleteNote(caller.channel.id, actorOf(caller), noteId, read.version);
 		});
-		if ('status' in result) return fail(result.status, { action: 'remove', noteId, ...result.data });
+		if ('status' in result)
+			return fail(result.status, { action: 'remove', noteId, ...result.data });
 		return { action: 'remove', noteId, saved: true };
 	}
 } satisfies Actions;

@@ -10,7 +10,9 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [rundown, options] = await found(Promise.all([rundownFor(channel.id, event.params.id), episodeFormOptions(channel.id)]));
+	const [rundown, options] = await found(
+		Promise.all([rundownFor(channel.id, event.params.id), episodeFormOptions(channel.id)])
+	);
 	return {
 		rundown,
 		builds: options.builds,
@@ -27,7 +29,9 @@ export const actions = {
 		const values = segmentFormValues(await event.request.formData());
 		const parsed = parseForm(segmentCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'add', errors: parsed.errors, values });
-		const result = await attemptAction('add', values, () => createSegment(channel.id, event.params.id, parsed.data));
+		const result = await attemptAction('add', values, () =>
+			createSegment(channel.id, event.params.id, parsed.data)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'add', added: result.value.id, title: result.value.title };
 	},
@@ -37,7 +41,9 @@ export const actions = {
 		const form = await event.request.formData();
 		const direction = text(form, 'direction') === 'up' ? 'up' : 'down';
 		const values = { segmentId: text(form, 'segmentId'), direction };
-		const result = await attemptAction('move', values, () => moveSegment(channel.id, event.params.id, values.segmentId, direction));
+		const result = await attemptAction('move', values, () =>
+			moveSegment(channel.id, event.params.id, values.segmentId, direction)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'move', moved: values.segmentId };
 	}

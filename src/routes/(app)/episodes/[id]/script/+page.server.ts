@@ -11,12 +11,28 @@ import type { Actions, PageServerLoad } from './$types';
 /** The whole script to read, with its approval state and review trail; the producer approves here. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [rundown, state, reviews] = await found(Promise.all([rundownFor(channel.id, event.params.id), scriptStateFor(channel.id, event.params.id), reviewsFor(channel.id, event.params.id)]));
+	const [rundown, state, reviews] = await found(
+		Promise.all([
+			rundownFor(channel.id, event.params.id),
+			scriptStateFor(channel.id, event.params.id),
+			reviewsFor(channel.id, event.params.id)
+		])
+	);
 	return {
-		rundown: { ...rundown, segments: rundown.segments.map((segment) => ({ ...segment, html: renderScriptMarkdown(segment.script.body) })) },
+		rundown: {
+			...rundown,
+			segments: rundown.segments.map((segment) => ({
+				...segment,
+				html: renderScriptMarkdown(segment.script.body)
+			}))
+		},
 		state,
 		reviews,
-		can: { write: hasRole(event.locals, 'producer', 'host'), approve: hasRole(event.locals, 'producer'), submit: hasRole(event.locals, 'producer', 'host') }
+		can: {
+			write: hasRole(event.locals, 'producer', 'host'),
+			approve: hasRole(event.locals, 'producer'),
+			submit: hasRole(event.locals, 'producer', 'host')
+		}
 	};
 }) satisfies PageServerLoad;
 
@@ -25,10 +41,17 @@ export const actions = {
 	review: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const values = { action: text(form, 'action'), body: text(form, 'body'), fingerprint: text(form, 'fingerprint') || undefined, segmentId: text(form, 'segmentId') || null };
+		const values = {
+			action: text(form, 'action'),
+			body: text(form, 'body'),
+			fingerprint: text(form, 'fingerprint') || undefined,
+			segmentId: text(form, 'segmentId') || null
+		};
 		const parsed = parseForm(scriptReviewSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'review', errors: parsed.errors, values });
-		const result = await attemptAction('review', values, () => reviewScript(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin));
+		const result = await attemptAction('review', values, () =>
+			reviewScript(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'review', done: parsed.data.action };
 	}

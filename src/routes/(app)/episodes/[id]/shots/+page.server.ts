@@ -11,7 +11,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	return { list: await forPage(() => shotListFor(channel.id, event.params.id)), canLog: hasRole(event.locals, 'camera', 'producer') };
+	return {
+		list: await forPage(() => shotListFor(channel.id, event.params.id)),
+		canLog: hasRole(event.locals, 'camera', 'producer')
+	};
 }) satisfies PageServerLoad;
 
 const text = (form: FormData, key: string) => String(form.get(key) ?? '');
@@ -21,28 +24,48 @@ export const actions = {
 		const { channel } = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
 		const segmentId = text(form, 'segmentId');
-		const values = { what: text(form, 'what'), angle: text(form, 'angle'), roll: text(form, 'roll') || 'A', camera: text(form, 'camera'), notes: text(form, 'notes') };
+		const values = {
+			what: text(form, 'what'),
+			angle: text(form, 'angle'),
+			roll: text(form, 'roll') || 'A',
+			camera: text(form, 'camera'),
+			notes: text(form, 'notes')
+		};
 		const parsed = parseForm(shotCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'addShot', segmentId, errors: parsed.errors, values });
+		if (!parsed.ok)
+			return fail(400, { action: 'addShot', segmentId, errors: parsed.errors, values });
 		const result = await attempt(values, async () => {
 			await assertInEpisode(channel.id, event.params.id, 'segment', segmentId);
 			return addShot(channel.id, segmentId, parsed.data);
 		});
-		if ('status' in result && 'data' in result) return fail(result.status, { action: 'addShot', segmentId, ...result.data });
+		if ('status' in result && 'data' in result)
+			return fail(result.status, { action: 'addShot', segmentId, ...result.data });
 		return { action: 'addShot', segmentId, saved: true };
 	},
 	logTake: async (event) => {
 		const { channel } = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
 		const shotId = text(form, 'shotId');
-		const values = { clipName: text(form, 'clipName'), sourceIn: text(form, 'sourceIn'), sourceOut: text(form, 'sourceOut'), good: form.get('good') === 'on', note: text(form, 'note'), footageId: text(form, 'footageId') };
+		const values = {
+			clipName: text(form, 'clipName'),
+			sourceIn: text(form, 'sourceIn'),
+			sourceOut: text(form, 'sourceOut'),
+			good: form.get('good') === 'on',
+			note: text(form, 'note'),
+			footageId: text(form, 'footageId')
+		};
 		const parsed = parseForm(takeCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'logTake', shotId, errors: parsed.errors, values });
 		const result = await attempt(values, async () => {
 			await assertInEpisode(channel.id, event.params.id, 'shot', shotId);
 			return logTake(channel.id, shotId, parsed.data);
 		});
-		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'logTake', shotId, ...(result.data as object) });
+		if ('status' in result && 'data' in result)
+			return fail(result.status as number, {
+				action: 'logTake',
+				shotId,
+				...(result.data as object)
+			});
 		return { action: 'logTake', shotId, saved: true };
 	},
 	updateTake: async (event) => {
@@ -60,7 +83,12 @@ export const actions = {
 			await assertInEpisode(channel.id, event.params.id, 'take', takeId);
 			return updateTake(channel.id, takeId, parsed.data);
 		});
-		if ('status' in result && 'data' in result) return fail(result.status as number, { action: 'updateTake', takeId, ...(result.data as object) });
+		if ('status' in result && 'data' in result)
+			return fail(result.status as number, {
+				action: 'updateTake',
+				takeId,
+				...(result.data as object)
+			});
 		return { action: 'updateTake', takeId, saved: true };
 	},
 	deleteTake: async (event) => {
@@ -72,7 +100,8 @@ export const actions = {
 			await assertInEpisode(channel.id, event.params.id, 'take', parsed.data.takeId);
 			return deleteTake(channel.id, parsed.data.takeId);
 		});
-		if (result && typeof result === 'object' && 'status' in result) return fail(result.status, { action: 'deleteTake', ...result.data });
+		if (result && typeof result === 'object' && 'status' in result)
+			return fail(result.status, { action: 'deleteTake', ...result.data });
 		return { action: 'deleteTake', saved: true };
 	}
 } satisfies Actions;

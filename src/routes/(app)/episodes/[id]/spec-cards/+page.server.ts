@@ -1,8 +1,17 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/guard';
 import { attempt, forPage, parseForm, type FormErrors } from '$lib/server/forms';
-import { createSpecCard, deleteSpecCard, specCardsFor, updateSpecCard } from '$lib/server/spec-cards';
-import { specCardCreateSchema, specCardInputFromForm, specCardUpdateSchema } from '$lib/schemas/spec-cards';
+import {
+	createSpecCard,
+	deleteSpecCard,
+	specCardsFor,
+	updateSpecCard
+} from '$lib/server/spec-cards';
+import {
+	specCardCreateSchema,
+	specCardInputFromForm,
+	specCardUpdateSchema
+} from '$lib/schemas/spec-cards';
 import type { Actions, PageServerLoad } from './$types';
 
 /**
@@ -23,10 +32,15 @@ export const load = (async (event) => {
 
 /** Every field of the form as text, so a failed save gives back exactly what was typed. */
 const formValues = (form: FormData): Record<string, string> =>
-	Object.fromEntries([...form.entries()].filter((entry): entry is [string, string] => typeof entry[1] === 'string'));
+	Object.fromEntries(
+		[...form.entries()].filter((entry): entry is [string, string] => typeof entry[1] === 'string')
+	);
 
 /** Issues on the card's input are keyed "input.from"; the form's fields are named "from". */
-const formErrors = (errors: FormErrors): FormErrors => Object.fromEntries(Object.entries(errors).map(([key, messages]) => [key.replace(/^input\./, ''), messages]));
+const formErrors = (errors: FormErrors): FormErrors =>
+	Object.fromEntries(
+		Object.entries(errors).map(([key, messages]) => [key.replace(/^input\./, ''), messages])
+	);
 
 function typedSeconds(text: string | undefined): number | undefined {
 	const trimmed = (text ?? '').trim();
@@ -43,7 +57,8 @@ function requestFrom(values: Record<string, string>) {
 	};
 }
 
-const cardsPage = (episodeId: string, cardId?: string) => `/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`;
+const cardsPage = (episodeId: string, cardId?: string) =>
+	`/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`;
 
 export const actions = {
 	/** Adds a card, or saves one being changed (the form carries its id and the version it read). */
@@ -54,15 +69,30 @@ export const actions = {
 		const request = requestFrom(values);
 		if (cardId === '') {
 			const parsed = parseForm(specCardCreateSchema, request);
-			if (!parsed.ok) return fail(400, { action: 'save', errors: formErrors(parsed.errors), values });
-			const result = await attempt(values, () => createSpecCard(channel.id, person, event.params.id, parsed.data));
-			if ('status' in result) return fail(result.status, { action: 'save', ...result.data, errors: formErrors(result.data.errors) });
+			if (!parsed.ok)
+				return fail(400, { action: 'save', errors: formErrors(parsed.errors), values });
+			const result = await attempt(values, () =>
+				createSpecCard(channel.id, person, event.params.id, parsed.data)
+			);
+			if ('status' in result)
+				return fail(result.status, {
+					action: 'save',
+					...result.data,
+					errors: formErrors(result.data.errors)
+				});
 			redirect(303, cardsPage(event.params.id, result.id));
 		}
 		const parsed = parseForm(specCardUpdateSchema, { ...request, version: Number(values.version) });
 		if (!parsed.ok) return fail(400, { action: 'save', errors: formErrors(parsed.errors), values });
-		const result = await attempt(values, () => updateSpecCard(channel.id, event.params.id, cardId, parsed.data));
-		if ('status' in result) return fail(result.status, { action: 'save', ...result.data, errors: formErrors(result.data.errors) });
+		const result = await attempt(values, () =>
+			updateSpecCard(channel.id, event.params.id, cardId, parsed.data)
+		);
+		if ('status' in result)
+			return fail(result.status, {
+				action: 'save',
+				...result.data,
+				errors: formErrors(result.data.errors)
+			});
 		redirect(303, cardsPage(event.params.id, result.id));
 	},
 	/** Removes a card, if nobody changed it since the page was loaded. */
@@ -70,9 +100,18 @@ export const actions = {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const values = formValues(await event.request.formData());
 		const version = Number(values.version);
-		if (!Number.isSafeInteger(version)) return fail(400, { action: 'remove', cardId: values.cardId, errors: { form: ['Reload the page and try again.'] }, values });
-		const result = await attempt(values, () => deleteSpecCard(channel.id, event.params.id, values.cardId ?? '', version));
-		if ('status' in result) return fail(result.status, { action: 'remove', cardId: values.cardId, ...result.data });
+		if (!Number.isSafeInteger(version))
+			return fail(400, {
+				action: 'remove',
+				cardId: values.cardId,
+				errors: { form: ['Reload the page and try again.'] },
+				values
+			});
+		const result = await attempt(values, () =>
+			deleteSpecCard(channel.id, event.params.id, values.cardId ?? '', version)
+		);
+		if ('status' in result)
+			return fail(result.status, { action: 'remove', cardId: values.cardId, ...result.data });
 		redirect(303, cardsPage(event.params.id));
 	}
 } satisfies Actions;

@@ -6,6 +6,13 @@ import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [detail, settings] = await Promise.all([forPage(() => shootDayDetail(channel.id, event.params.id)), db.selectFrom('channel').select(['name', 'contact']).where('id', '=', channel.id).executeTakeFirstOrThrow()]);
+	const [detail, settings] = await Promise.all([
+		forPage(() => shootDayDetail(channel.id, event.params.id)),
+		db
+			.selectFrom('channel')
+			.select(['name', 'contact'])
+			.where('id', '=', channel.id)
+			.executeTakeFirstOrThrow()
+	]);
 	return { ...detail, settings };
 }) satisfies PageServerLoad;

@@ -6,13 +6,20 @@ import { isUuid } from '$lib/server/identity';
 import { CLICK_DAYS, clicksFor } from '$lib/server/tracked-links';
 import type { RequestHandler } from './$types';
 
-const daysParam = z.coerce.number({ error: 'days is a whole number.' }).int('days is a whole number.').min(1, 'days is 1 or more.').max(366, 'days is at most 366.').default(CLICK_DAYS);
+const daysParam = z.coerce
+	.number({ error: 'days is a whole number.' })
+	.int('days is a whole number.')
+	.min(1, 'days is 1 or more.')
+	.max(366, 'days is at most 366.')
+	.default(CLICK_DAYS);
 
 /** Any crew member reads the tracked links' clicks per day (UTC) for the last `?days=` days (30). */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const days = parseWith(daysParam, event.url.searchParams.get('days') ?? undefined);
-	const clicks = isUuid(event.params.id) ? await clicksFor(channel.id, event.params.id, { origin: event.url.origin, days }) : null;
+	const clicks = isUuid(event.params.id)
+		? await clicksFor(channel.id, event.params.id, { origin: event.url.origin, days })
+		: null;
 	if (!clicks) throw notFound('That episode');
 	return json(clicks);
 });

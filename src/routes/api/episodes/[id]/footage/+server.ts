@@ -17,5 +17,7 @@ const querySchema = z.object({
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const query = parseWith(querySchema, Object.fromEntries(event.url.searchParams));
-	return json(await listFootage(channel.id, event.params.id, { ...query, shootDayId: query.shootDay }));
+	return json(
+		await listFootage(channel.id, event.params.id, { ...query, shootDayId: query.shootDay })
+	);
 });

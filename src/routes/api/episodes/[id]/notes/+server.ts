@@ -15,5 +15,15 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
 	const input = await readJson(event, noteCreateSchema);
-	return json({ note: await createNote(channel.id, { id: person.id, name: person.name, roles }, event.params.id, input) }, { status: 201 });
+	return json(
+		{
+			note: await createNote(
+				channel.id,
+				{ id: person.id, name: person.name, roles },
+				event.params.id,
+				input
+			)
+		},
+		{ status: 201 }
+	);
 });

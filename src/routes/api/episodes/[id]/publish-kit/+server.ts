@@ -14,7 +14,10 @@ export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const format = event.url.searchParams.get('format');
 	const kit = await publishKitFor(channel.id, event.params.id, { origin: event.url.origin });
-	const timing = { 'cache-control': 'private, no-store', 'server-timing': `total;dur=${(performance.now() - started).toFixed(3)}` };
+	const timing = {
+		'cache-control': 'private, no-store',
+		'server-timing': `total;dur=${(performance.now() - started).toFixed(3)}`
+	};
 	if (format === null) return json(kit, { headers: timing });
 	const file = renderKit(kit, parseWith(kitFormatSchema, format));
 	return new Response(file.body, {

@@ -18,5 +18,10 @@ export const POST: RequestHandler = api(async (event) => {
 	const episode = await episodeInChannel(db, channel.id, event.params.id);
 	const pace = await hostPaceFor(channel.id, episode.id);
 	const words = countSpokenWords(markdown);
-	return json({ html: renderScriptMarkdown(markdown), words, spokenSeconds: estimateSpokenSeconds(words, pace.wordsPerMinute), wordsPerMinute: pace.wordsPerMinute });
+	return json({
+		html: renderScriptMarkdown(markdown),
+		words,
+		spokenSeconds: estimateSpokenSeconds(words, pace.wordsPerMinute),
+		wordsPerMinute: pace.wordsPerMinute
+	});
 });

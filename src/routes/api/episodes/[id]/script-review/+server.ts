@@ -8,7 +8,10 @@ import type { RequestHandler } from './$types';
 /** The script's approval state (with the fingerprint to approve against) and its review trail. */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
-	const [state, reviews] = await Promise.all([scriptStateFor(channel.id, event.params.id), reviewsFor(channel.id, event.params.id)]);
+	const [state, reviews] = await Promise.all([
+		scriptStateFor(channel.id, event.params.id),
+		reviewsFor(channel.id, event.params.id)
+	]);
 	return json({ ...state, reviews });
 });
 
@@ -16,5 +19,7 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'producer', 'host');
 	const input = await readJson(event, scriptReviewSchema);
-	return json(await reviewScript(channel.id, { ...person, roles }, event.params.id, input, event.url.origin));
+	return json(
+		await reviewScript(channel.id, { ...person, roles }, event.params.id, input, event.url.origin)
+	);
 });

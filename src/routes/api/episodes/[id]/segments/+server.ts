@@ -15,5 +15,8 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event, 'producer', 'host');
 	const input = await readJson(event, segmentCreateSchema);
-	return json({ segment: await createSegment(channel.id, event.params.id, input) }, { status: 201 });
+	return json(
+		{ segment: await createSegment(channel.id, event.params.id, input) },
+		{ status: 201 }
+	);
 });

@@ -8,7 +8,10 @@ import type { RequestHandler } from './$types';
 /** Where the episode stands, what its next gate says (a dry run), and the history of moves. */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event);
-	const [report, history] = await Promise.all([stageReportFor(channel.id, event.params.id, { id: person.id, roles }), stageHistory(channel.id, event.params.id)]);
+	const [report, history] = await Promise.all([
+		stageReportFor(channel.id, event.params.id, { id: person.id, roles }),
+		stageHistory(channel.id, event.params.id)
+	]);
 	return json({ ...report, history });
 });
 
@@ -20,5 +23,7 @@ export const GET: RequestHandler = api(async (event) => {
 export const POST: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event);
 	const input = await readJson(event, stageMoveSchema);
-	return json(await moveStage(channel.id, { ...person, roles }, event.params.id, input, event.url.origin));
+	return json(
+		await moveStage(channel.id, { ...person, roles }, event.params.id, input, event.url.origin)
+	);
 });

@@ -18,7 +18,10 @@ export const GET: RequestHandler = api(async (event) => {
 	const size = await stat(file.path).then(
 		(info) => info.size,
 		() => {
-			throw new DomainError(404, 'The file behind this clip is not on the server (demo data, or removed from disk).');
+			throw new DomainError(
+				404,
+				'The file behind this clip is not on the server (demo data, or removed from disk).'
+			);
 		}
 	);
 	// The type was the uploader's word. Only media a browser plays or shows in place is served as
@@ -36,13 +39,27 @@ export const GET: RequestHandler = api(async (event) => {
 	const rangeHeader = event.request.headers.get('range');
 	if (rangeHeader) {
 		const ranges = parseRange(size, rangeHeader, { combine: true });
-		if (ranges === -1) return new Response(null, { status: 416, headers: { ...headers, 'Content-Range': `bytes */${size}` } });
+		if (ranges === -1)
+			return new Response(null, {
+				status: 416,
+				headers: { ...headers, 'Content-Range': `bytes */${size}` }
+			});
 		if (ranges !== -2 && ranges.type === 'bytes' && ranges.length === 1) {
 			const { start, end } = ranges[0];
 			const body = Readable.toWeb(createReadStream(file.path, { start, end })) as ReadableStream;
-			return new Response(body, { status: 206, headers: { ...headers, 'Content-Range': `bytes ${start}-${end}/${size}`, 'Content-Length': String(end - start + 1) } });
+			return new Response(body, {
+				status: 206,
+				headers: {
+					...headers,
+					'Content-Range': `bytes ${start}-${end}/${size}`,
+					'Content-Length': String(end - start + 1)
+				}
+			});
 		}
 	}
 	const body = Readable.toWeb(createReadStream(file.path)) as ReadableStream;
-	return new Response(body, { status: 200, headers: { ...headers, 'Content-Length': String(size) } });
+	return new Response(body, {
+		status: 200,
+		headers: { ...headers, 'Content-Length': String(size) }
+	});
 });

@@ -1,9 +1,22 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/guard';
-import { addShot, assertSegmentOfEpisode, checkSegmentChangeRoles, deleteSegment, segmentView, updateCaution, updateSegment } from '$lib/server/segments';
+import {
+	addShot,
+	assertSegmentOfEpisode,
+	checkSegmentChangeRoles,
+	deleteSegment,
+	segmentView,
+	updateCaution,
+	updateSegment
+} from '$lib/server/segments';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes';
 import { db } from '$lib/server/db';
-import { cautionUpdateSchema, segmentDeleteSchema, segmentUpdateSchema, shotCreateSchema } from '$lib/schemas/episodes';
+import {
+	cautionUpdateSchema,
+	segmentDeleteSchema,
+	segmentUpdateSchema,
+	shotCreateSchema
+} from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/forms';
 import { attemptAction, found, text } from '$lib/server/episode-forms';
 import { defaultDropFrame, formatTimecode, isFrameRate } from '$lib/timecode';
@@ -12,12 +25,25 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [segment, episode, options] = await found(Promise.all([segmentView(channel.id, event.params.segmentId), episodeInChannel(db, channel.id, event.params.id), episodeFormOptions(channel.id)]));
+	const [segment, episode, options] = await found(
+		Promise.all([
+			segmentView(channel.id, event.params.segmentId),
+			episodeInChannel(db, channel.id, event.params.id),
+			episodeFormOptions(channel.id)
+		])
+	);
 	if (segment.episodeId !== episode.id) error(404, 'That segment is not in this episode.');
 	const rate = isFrameRate(episode.frameRate) ? episode.frameRate : '29.97';
 	return {
 		segment,
-		episode: { id: episode.id, title: episode.title, frameRate: rate, dropFrame: defaultDropFrame(rate), cut: episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate) },
+		episode: {
+			id: episode.id,
+			title: episode.title,
+			frameRate: rate,
+			dropFrame: defaultDropFrame(rate),
+			cut:
+				episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+		},
 		builds: options.builds,
 		episodes: options.episodes.filter((other) => other.id !== episode.id),
 		can: {
@@ -33,7 +59,9 @@ export const actions = {
 	save: async (event) => {
 		const { channel, roles } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('segment', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
 		const values = { ...segmentFormValues(form), version: text(form, 'version') };
 		const parsed = parseForm(segmentUpdateSchema, values);
@@ -49,7 +77,9 @@ export const actions = {
 	recorded: async (event) => {
 		const { channel, roles } = requireRole(event, 'producer', 'editor');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('segment', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
 		const values = { recorded: text(form, 'recorded'), version: text(form, 'version') };
 		const parsed = parseForm(segmentUpdateSchema, values);
@@ -65,7 +95,9 @@ export const actions = {
 	caution: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer', 'host', 'editor');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('segment', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
 		const hazard = text(form, 'hazard');
 		const values: Record<string, string> = { version: text(form, 'version') };
@@ -73,31 +105,47 @@ export const actions = {
 		if (form.has('at')) values.at = text(form, 'at');
 		const parsed = parseForm(cautionUpdateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'caution', hazard, errors: parsed.errors, values });
-		const result = await attemptAction('caution', values, () => updateCaution(channel.id, { ...person, roles }, event.params.segmentId, hazard, parsed.data));
+		const result = await attemptAction('caution', values, () =>
+			updateCaution(channel.id, { ...person, roles }, event.params.segmentId, hazard, parsed.data)
+		);
 		if (!result.ok) return fail(result.failure.status, { ...result.failure.data, hazard });
 		return { action: 'caution', hazard, saved: true };
 	},
 	addShot: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('segment', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
-		const values = { what: text(form, 'what'), angle: text(form, 'angle'), roll: text(form, 'roll') || 'A', camera: text(form, 'camera'), notes: text(form, 'notes') };
+		const values = {
+			what: text(form, 'what'),
+			angle: text(form, 'angle'),
+			roll: text(form, 'roll') || 'A',
+			camera: text(form, 'camera'),
+			notes: text(form, 'notes')
+		};
 		const parsed = parseForm(shotCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'addShot', errors: parsed.errors, values });
-		const result = await attemptAction('addShot', values, () => addShot(channel.id, event.params.segmentId, parsed.data));
+		const result = await attemptAction('addShot', values, () =>
+			addShot(channel.id, event.params.segmentId, parsed.data)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'addShot', added: result.value.what };
 	},
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('segment', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
 		const values = { version: text(form, 'version') };
 		const parsed = parseForm(segmentDeleteSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'delete', errors: parsed.errors, values });
-		const result = await attemptAction('delete', values, () => deleteSegment(channel.id, event.params.segmentId, parsed.data.version));
+		const result = await attemptAction('delete', values, () =>
+			deleteSegment(channel.id, event.params.segmentId, parsed.data.version)
+		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/episodes/${event.params.id}/rundown`);
 	}

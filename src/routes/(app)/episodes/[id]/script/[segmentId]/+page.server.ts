@@ -16,15 +16,21 @@ export const load = (async (event) => {
 	if (index === -1) error(404, 'That segment is not in this episode.');
 	const segment = rundown.segments[index];
 	// The producer's comments on this segment, so the host reads them where they write.
-	const comments = (await reviewsFor(channel.id, event.params.id)).filter((review) => review.segmentId === segment.id && review.body.trim());
+	const comments = (await reviewsFor(channel.id, event.params.id)).filter(
+		(review) => review.segmentId === segment.id && review.body.trim()
+	);
 	return {
 		comments,
 		episode: rundown.episode,
 		pace: rundown.pace,
 		segment,
 		count: rundown.segments.length,
-		previous: rundown.segments[index - 1] ? { id: rundown.segments[index - 1].id, title: rundown.segments[index - 1].title } : null,
-		next: rundown.segments[index + 1] ? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title } : null,
+		previous: rundown.segments[index - 1]
+			? { id: rundown.segments[index - 1].id, title: rundown.segments[index - 1].title }
+			: null,
+		next: rundown.segments[index + 1]
+			? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title }
+			: null,
 		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
 		previewHtml: renderScriptMarkdown(segment.script.body),
 		canWrite: hasRole(event.locals, 'producer', 'host')
@@ -36,12 +42,19 @@ export const actions = {
 	save: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('save', {}, () => assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId));
+		const owned = await attemptAction('save', {}, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
+		);
 		if (!owned.ok) return owned.failure;
-		const values = { body: text(form, 'body').replace(/\r\n?/g, '\n'), version: text(form, 'version') };
+		const values = {
+			body: text(form, 'body').replace(/\r\n?/g, '\n'),
+			version: text(form, 'version')
+		};
 		const parsed = parseForm(scriptSaveSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attemptAction('save', values, () => saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data));
+		const result = await attemptAction('save', values, () =>
+			saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data)
+		);
 		if (!result.ok) return result.failure;
 		return { action: 'save', saved: result.value };
 	}

@@ -13,7 +13,11 @@ export const PATCH: RequestHandler = api(async (event) => {
 	return json(await updateSpecCard(channel.id, event.params.id, event.params.cardId, input));
 });
 
-const versionParam = z.coerce.number({ error: 'version is a whole number.' }).int('version is a whole number.').min(1, 'version is 1 or more.').optional();
+const versionParam = z.coerce
+	.number({ error: 'version is a whole number.' })
+	.int('version is a whole number.')
+	.min(1, 'version is 1 or more.')
+	.optional();
 
 /** Removes a card; `?version=` makes it conditional on nobody having changed it since. */
 export const DELETE: RequestHandler = api(async (event) => {

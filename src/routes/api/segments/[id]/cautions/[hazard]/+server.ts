@@ -12,5 +12,13 @@ import type { RequestHandler } from './$types';
 export const PATCH: RequestHandler = api(async (event) => {
 	const { channel, person, roles } = requireRole(event, 'producer', 'host', 'editor');
 	const input = await readJson(event, cautionUpdateSchema);
-	return json({ caution: await updateCaution(channel.id, { ...person, roles }, event.params.id, event.params.hazard, input) });
+	return json({
+		caution: await updateCaution(
+			channel.id,
+			{ ...person, roles },
+			event.params.id,
+			event.params.hazard,
+			input
+		)
+	});
 });
