@@ -25,7 +25,7 @@ import { startCluster } from './lib/postgres.ts';
 import { startFakeMail } from './lib/fake-mail.ts';
 import { projectRoot } from './lib/config.ts';
 import { freePort, runScript, signInCookie, waitForHttp } from './lib/bench-world.ts';
-import { BODY_SIZE_LIMIT_BYTES, UPLOAD_CHUNK_BYTES } from '../src/lib/uploads.ts';
+import { BODY_SIZE_LIMIT_BYTES, UPLOAD_CHUNK_BYTES } from '../src/lib/upload-rules.ts';
 
 const SIZE = Number(process.env.BENCH_UPLOAD_BYTES ?? 2 * 1024 ** 3);
 const work = mkdtempSync(

@@ -11,7 +11,7 @@ import { migrateToLatest } from './lib/migrator.ts';
 import { startCluster, type Cluster } from './lib/postgres.ts';
 import { seedDemo } from './lib/seed.ts';
 import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
-import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/uploads.ts';
+import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/upload-rules.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
 
 const host = process.env.HOST ?? '127.0.0.1';

@@ -8,7 +8,12 @@ import Credentials from '@auth/sveltekit/providers/credentials';
 import { dev } from '$app/environment';
 import { env } from '$env/dynamic/private';
 import { signInSchema } from '$lib/schemas/people';
-import { verifyCredentials, openSession, closeSession, SESSION_DAYS } from '$lib/server/sessions';
+import {
+	verifyCredentials,
+	openSession,
+	closeSession,
+	SESSION_DAYS
+} from '$lib/server/auth/sessions';
 
 class TooManyAttempts extends CredentialsSignin {
 	code = 'throttled';

@@ -9,11 +9,11 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { getToken } from '@auth/core/jwt';
 import { env } from '$env/dynamic/private';
 import { authHandle } from './auth';
-import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/identity';
+import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/auth/identity';
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
-import { handleUpload } from '$lib/server/uploads';
-import { UPLOAD_PATH } from '$lib/uploads';
+import { handleUpload } from '$lib/server/footage/tus-server';
+import { UPLOAD_PATH } from '$lib/upload-rules';
 
 export const init: ServerInit = async () => {
 	startMailSender();

@@ -19,7 +19,7 @@ import {
 	secondsToFrames,
 	type FrameRate
 } from '../../src/lib/timecode.ts';
-import { scriptFingerprint } from '../../src/lib/server/fingerprint.ts';
+import { scriptFingerprint } from '../../src/lib/server/episodes/fingerprint.ts';
 import type { SeedContext } from './seed-context.ts';
 
 type TakeSeed = [

@@ -140,7 +140,7 @@ const demoNotes: Record<string, NoteSeed[]> = {
 const clickShape = (day: number, rank: number) =>
 	Math.max(0, Math.round((38 - rank * 7) * Math.exp(-day / 5) + ((day * 7 + rank * 3) % 5)));
 
-// The same alphabet as src/lib/server/tracked-links.ts (which the seed can't import: it reads $env).
+// The same alphabet as src/lib/server/merch/tracked-links.ts (which the seed can't import: it reads $env).
 const CODE_ALPHABET = 'ABCDEFGHJKLMNPQRSTUVWXYZabcdefghijkmnopqrstuvwxyz23456789';
 function linkCode(): string {
 	let code = '';

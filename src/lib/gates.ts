@@ -1,7 +1,7 @@
 /**
  * Gate checks: what must be true before an episode moves one stage forward. A pure function over a
  * snapshot of the episode's data (gathered on the server in one transaction, see
- * src/lib/server/stages.ts), answering a list of refusal reasons. Each reason names the segment or
+ * src/lib/server/episodes/stage-moves.ts), answering a list of refusal reasons. Each reason names the segment or
  * thing it is about, says what to do in the crew's words, and says whose job that is.
  *
  * The rules (our own, from the issue's wording):

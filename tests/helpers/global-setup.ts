@@ -11,7 +11,7 @@ import type { TestProject } from 'vitest/node';
 import { startCluster } from '../../scripts/lib/postgres';
 import { startFakeMail } from '../../scripts/lib/fake-mail';
 import { freePort, waitForHttp } from './net';
-import { BODY_SIZE_LIMIT_BYTES } from '../../src/lib/uploads';
+import { BODY_SIZE_LIMIT_BYTES } from '../../src/lib/upload-rules';
 
 const root = path.resolve(import.meta.dirname, '../..');
 const buildDir = path.resolve(root, process.env.WRENCHROLL_BUILD_DIR ?? 'build');

@@ -26,7 +26,7 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
 import { parseTimecode, TimecodeError } from '$lib/timecode';
-import { chapterProblemsFor } from '$lib/server/edit';
+import { chapterProblemsFor } from '$lib/server/edit/edit';
 import type { Database } from '$lib/server/db/types';
 
 interface WebVttCue {

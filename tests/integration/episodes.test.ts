@@ -16,8 +16,8 @@ import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, baseUrl, demo, signedIn, sql } from '../helpers/http';
-import { cautionMarksFor } from '$lib/server/segments';
-import { chapterProblemsFor } from '$lib/server/stages';
+import { cautionMarksFor } from '$lib/server/episodes/segments';
+import { chapterProblemsFor } from '$lib/server/episodes/stage-moves';
 import type { Database } from '$lib/server/db/types';
 
 interface Mail {

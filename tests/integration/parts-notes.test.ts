@@ -16,7 +16,7 @@ import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
-import { featuredPartProblemsFor } from '$lib/server/featured-parts';
+import { featuredPartProblemsFor } from '$lib/server/merch/featured-parts';
 import type { Database } from '$lib/server/db/types';
 
 const require = createRequire(import.meta.url);

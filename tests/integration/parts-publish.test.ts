@@ -23,7 +23,7 @@ import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, baseUrl, demo, signedIn, sql } from '../helpers/http';
-import { publishKitFor } from '$lib/server/publish-kit';
+import { publishKitFor } from '$lib/server/merch/publish-kit';
 import type { Database } from '$lib/server/db/types';
 
 let channelId: string;

@@ -4,7 +4,7 @@ import {
 	MAX_SCRIPT_CHARACTERS,
 	SCRIPT_LINK_REL,
 	renderScriptMarkdown
-} from '../../src/lib/server/markdown.ts';
+} from '../../src/lib/server/episodes/markdown.ts';
 
 // The hostile inputs are classic payloads from the OWASP XSS Filter Evasion
 // Cheat Sheet (from memory). The output is checked by parsing it again with

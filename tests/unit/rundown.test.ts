@@ -14,7 +14,7 @@ import {
 	isSegmentKind
 } from '../../src/lib/rundown.ts';
 import { SCRIPT_CHARACTER_LIMIT, durationSchema } from '../../src/lib/schemas/episodes.ts';
-import { MAX_SCRIPT_CHARACTERS } from '../../src/lib/server/markdown.ts';
+import { MAX_SCRIPT_CHARACTERS } from '../../src/lib/server/episodes/markdown.ts';
 import { runtimeBalance } from '../../src/lib/script/timing.ts';
 
 describe('parseDurationText', () => {

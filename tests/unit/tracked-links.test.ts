@@ -18,7 +18,7 @@ import {
 	isLinkCode,
 	newLinkCode,
 	trackedUrl
-} from '$lib/server/tracked-links';
+} from '$lib/server/merch/tracked-links';
 
 const require = createRequire(import.meta.url);
 // url-parse: new Url(address, true) parses the query into an object with querystringify.

@@ -12,7 +12,7 @@ import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
 
 /**
- * One segment's script limit; the same number as MAX_SCRIPT_CHARACTERS in src/lib/server/markdown.ts
+ * One segment's script limit; the same number as MAX_SCRIPT_CHARACTERS in src/lib/server/episodes/markdown.ts
  * (repeated here because this file reaches the browser; a unit test keeps the two equal).
  */
 export const SCRIPT_CHARACTER_LIMIT = 100_000;

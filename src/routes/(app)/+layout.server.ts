@@ -1,4 +1,4 @@
-import { requireRole } from '$lib/server/guard';
+import { requireRole } from '$lib/server/auth/guard';
 import type { LayoutServerLoad } from './$types';
 
 export const load = (async (event) => {

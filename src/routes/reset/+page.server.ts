@@ -1,7 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { forgotSchema } from '$lib/schemas/people';
-import { fieldIssues } from '$lib/server/api';
-import { requestPasswordReset } from '$lib/server/crew';
+import { fieldIssues } from '$lib/server/http/api';
+import { requestPasswordReset } from '$lib/server/channel/crew';
 import type { Actions } from './$types';
 
 export const actions = {

@@ -2,8 +2,8 @@ import { fail, isRedirect, redirect } from '@sveltejs/kit';
 import { CredentialsSignin } from '@auth/sveltekit';
 import { signIn } from '../../auth';
 import { signInSchema } from '$lib/schemas/people';
-import { fieldIssues } from '$lib/server/api';
-import { withFormBody } from '$lib/server/forward';
+import { fieldIssues } from '$lib/server/http/api';
+import { withFormBody } from '$lib/server/auth/form-body';
 import type { Actions, PageServerLoad } from './$types';
 
 /**

@@ -1,7 +1,7 @@
 import { isRedirect, redirect } from '@sveltejs/kit';
 import { signOut } from '../../auth';
-import { closeSession } from '$lib/server/sessions';
-import { withFormBody } from '$lib/server/forward';
+import { closeSession } from '$lib/server/auth/sessions';
+import { withFormBody } from '$lib/server/auth/form-body';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (() => redirect(303, '/')) satisfies PageServerLoad;

@@ -4,7 +4,7 @@
  * localStorage under the file's fingerprint; re-adding the same file continues where it stopped).
  */
 import * as tus from 'tus-js-client';
-import { UPLOAD_CHUNK_BYTES, UPLOAD_PATH } from '$lib/uploads';
+import { UPLOAD_CHUNK_BYTES, UPLOAD_PATH } from '$lib/upload-rules';
 
 export type UploadState = 'waiting' | 'uploading' | 'paused' | 'finishing' | 'done' | 'failed';
 

@@ -1,8 +1,8 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { createToken, listTokens, revokeToken } from '$lib/server/tokens';
+import { requireRole } from '$lib/server/auth/guard';
+import { createToken, listTokens, revokeToken } from '$lib/server/auth/tokens';
 import { tokenCreateSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/forms';
+import { attempt, parseForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

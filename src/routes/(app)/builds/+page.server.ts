@@ -1,5 +1,5 @@
-import { requireRole, hasRole } from '$lib/server/guard';
-import { listBuilds } from '$lib/server/builds';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { listBuilds } from '$lib/server/episodes/builds';
 import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,9 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { channelSettings, updateChannelSettings } from '$lib/server/channels';
+import { requireRole } from '$lib/server/auth/guard';
+import { channelSettings, updateChannelSettings } from '$lib/server/channel/channels';
 import { channelSettingsSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/forms';
-import { CHANNEL_COOKIE } from '$lib/server/identity';
+import { attempt, parseForm } from '$lib/server/http/forms';
+import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,8 +1,8 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { invitePerson, listCrew, updateMember } from '$lib/server/crew';
+import { requireRole } from '$lib/server/auth/guard';
+import { invitePerson, listCrew, updateMember } from '$lib/server/channel/crew';
 import { inviteSchema, crewUpdateSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/forms';
+import { attempt, parseForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,7 +1,7 @@
-import { requireRole, hasRole } from '$lib/server/guard';
-import { episodeFormOptions, listEpisodes } from '$lib/server/episodes';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { episodeFormOptions, listEpisodes } from '$lib/server/episodes/episodes';
 import { episodeListQuerySchema } from '$lib/schemas/episodes';
-import { fieldIssues } from '$lib/server/api';
+import { fieldIssues } from '$lib/server/http/api';
 import type { PageServerLoad } from './$types';
 
 /** The episode list: filters and sort come from the query string, so a plain GET form drives them. */

@@ -1,5 +1,5 @@
-import { requireRole } from '$lib/server/guard';
-import { listFollowUps } from '$lib/server/follow-ups';
+import { requireRole } from '$lib/server/auth/guard';
+import { listFollowUps } from '$lib/server/episodes/follow-ups';
 import type { PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,5 +1,5 @@
-import { hasRole, requireRole } from '$lib/server/guard';
-import { partCategories, searchParts } from '$lib/server/parts';
+import { hasRole, requireRole } from '$lib/server/auth/guard';
+import { partCategories, searchParts } from '$lib/server/merch/parts';
 import { partSearchSchema } from '$lib/schemas/parts';
 import type { PageServerLoad } from './$types';
 

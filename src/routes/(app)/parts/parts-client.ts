@@ -1,5 +1,5 @@
 /** The parts pages' calls to /api/parts…: JSON in, an answer or the server's words out. */
-import type { PartPage } from '$lib/server/parts';
+import type { PartPage } from '$lib/server/merch/parts';
 
 export type { PartPage };
 

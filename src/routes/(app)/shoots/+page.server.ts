@@ -1,9 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { db } from '$lib/server/db';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { createShootDay, listShootDays } from '$lib/server/shoot-days';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { createShootDay, listShootDays } from '$lib/server/shoot/shoot-days';
 import { shootDaySchema } from '$lib/schemas/shoot';
-import { attempt, parseForm } from '$lib/server/forms';
+import { attempt, parseForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { channelSettings, updateChannelSettings } from '$lib/server/channels';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { channelSettings, updateChannelSettings } from '$lib/server/channel/channels';
 import { channelSettingsSchema } from '$lib/schemas/people';
 import type { RequestHandler } from './$types';
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { invitePerson, listCrew } from '$lib/server/crew';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { invitePerson, listCrew } from '$lib/server/channel/crew';
 import { inviteSchema } from '$lib/schemas/people';
 import type { RequestHandler } from './$types';
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createEpisode, listEpisodes } from '$lib/server/episodes';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createEpisode, listEpisodes } from '$lib/server/episodes/episodes';
 import { episodeCreateSchema, episodeListQuerySchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { api } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
+import { api } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api(async (event) => {

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createPart, searchParts } from '$lib/server/parts';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createPart, searchParts } from '$lib/server/merch/parts';
 import { partCreateSchema, partSearchSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createShootDay, listShootDays } from '$lib/server/shoot-days';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createShootDay, listShootDays } from '$lib/server/shoot/shoot-days';
 import { shootDaySchema } from '$lib/schemas/shoot';
 import type { RequestHandler } from './$types';
 

@@ -1,7 +1,7 @@
 import { error, json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createToken, listTokens } from '$lib/server/tokens';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createToken, listTokens } from '$lib/server/auth/tokens';
 import { tokenCreateSchema } from '$lib/schemas/people';
 import type { RequestHandler } from './$types';
 

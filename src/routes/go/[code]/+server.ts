@@ -1,5 +1,5 @@
 import { isbot } from 'isbot';
-import { followTrackedLink } from '$lib/server/tracked-links';
+import { followTrackedLink } from '$lib/server/merch/tracked-links';
 import type { RequestHandler } from './$types';
 
 /**

@@ -1,4 +1,4 @@
-import { loadLink, setPasswordAction } from '$lib/server/password-link';
+import { loadLink, setPasswordAction } from '$lib/server/auth/password-link';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (({ params }) => loadLink(params.token, 'invite')) satisfies PageServerLoad;

@@ -1,9 +1,9 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { buildSheet, updateBuild } from '$lib/server/builds';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { buildSheet, updateBuild } from '$lib/server/episodes/builds';
 import { buildSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found } from '$lib/server/http/episode-forms';
 import { buildFormValues } from '../build-form';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -1,9 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { createBuild } from '$lib/server/builds';
+import { requireRole } from '$lib/server/auth/guard';
+import { createBuild } from '$lib/server/episodes/builds';
 import { buildSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction } from '$lib/server/http/episode-forms';
 import { buildFormValues } from '../build-form';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -1,7 +1,7 @@
 import { error } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { episodeInChannel } from '$lib/server/episodes';
-import { DomainError } from '$lib/server/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { episodeInChannel } from '$lib/server/episodes/episodes';
+import { DomainError } from '$lib/server/http/api';
 import { db } from '$lib/server/db';
 import type { LayoutServerLoad } from './$types';
 

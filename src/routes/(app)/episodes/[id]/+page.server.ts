@@ -1,11 +1,11 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { episodeDetail, episodeFormOptions, updateEpisode } from '$lib/server/episodes';
-import { moveStage, stageHistory, stageReportFor } from '$lib/server/stages';
-import { scriptStateFor } from '$lib/server/script-reviews';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { episodeDetail, episodeFormOptions, updateEpisode } from '$lib/server/episodes/episodes';
+import { moveStage, stageHistory, stageReportFor } from '$lib/server/episodes/stage-moves';
+import { scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { episodeUpdateSchema, stageMoveSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { episodeFormValues } from '../episode-form';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -1,9 +1,9 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { createEpisode, episodeFormOptions } from '$lib/server/episodes';
+import { requireRole } from '$lib/server/auth/guard';
+import { createEpisode, episodeFormOptions } from '$lib/server/episodes/episodes';
 import { episodeCreateSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction } from '$lib/server/http/episode-forms';
 import { episodeFormValues } from '../episode-form';
 import type { Actions, PageServerLoad } from './$types';
 

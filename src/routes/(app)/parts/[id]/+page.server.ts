@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { hasRole, requireRole } from '$lib/server/guard';
-import { attempt, forPage, parseForm, readVersion } from '$lib/server/forms';
-import { partDetail, priceText, removePart, updatePart } from '$lib/server/parts';
+import { hasRole, requireRole } from '$lib/server/auth/guard';
+import { attempt, forPage, parseForm, readVersion } from '$lib/server/http/forms';
+import { partDetail, priceText, removePart, updatePart } from '$lib/server/merch/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
 import { partFormValues } from '../part-form';
 import type { Actions, PageServerLoad } from './$types';

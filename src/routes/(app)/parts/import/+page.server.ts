@@ -1,8 +1,8 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { DomainError } from '$lib/server/api';
-import { parseForm } from '$lib/server/forms';
-import { commitPartImport, previewPartImport, type ImportPreview } from '$lib/server/parts';
+import { requireRole } from '$lib/server/auth/guard';
+import { DomainError } from '$lib/server/http/api';
+import { parseForm } from '$lib/server/http/forms';
+import { commitPartImport, previewPartImport, type ImportPreview } from '$lib/server/merch/parts';
 import { importRequestSchema } from '$lib/schemas/parts';
 import type { Actions, PageServerLoad } from './$types';
 

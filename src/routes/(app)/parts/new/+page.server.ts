@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { attempt, parseForm } from '$lib/server/forms';
-import { createPart } from '$lib/server/parts';
+import { requireRole } from '$lib/server/auth/guard';
+import { attempt, parseForm } from '$lib/server/http/forms';
+import { createPart } from '$lib/server/merch/parts';
 import { partCreateSchema } from '$lib/schemas/parts';
 import { partFormValues } from '../part-form';
 import type { Actions, PageServerLoad } from './$types';

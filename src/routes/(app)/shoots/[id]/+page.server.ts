@@ -1,7 +1,7 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { z } from 'zod';
-import { requireRole, hasRole } from '$lib/server/guard';
-import * as days from '$lib/server/shoot-days';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import * as days from '$lib/server/shoot/shoot-days';
 import {
 	cameraSchema,
 	gearSchema,
@@ -11,9 +11,9 @@ import {
 	pullItemSchema,
 	shootDayUpdateSchema
 } from '$lib/schemas/shoot';
-import { attempt, parseForm, forPage } from '$lib/server/forms';
-import { assertOnShootDay } from '$lib/server/ownership';
-import { searchPartsForPicker } from '$lib/server/parts-picker';
+import { attempt, parseForm, forPage } from '$lib/server/http/forms';
+import { assertOnShootDay } from '$lib/server/http/ownership';
+import { searchPartsForPicker } from '$lib/server/merch/parts-picker';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
 export const load = (async (event) => {

@@ -1,8 +1,8 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { createProfile, deleteProfile, listProfiles } from '$lib/server/shoot-days';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { createProfile, deleteProfile, listProfiles } from '$lib/server/shoot/shoot-days';
 import { profileSchema } from '$lib/schemas/shoot';
-import { attempt, parseForm } from '$lib/server/forms';
+import { attempt, parseForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { episodeDetail, updateEpisode } from '$lib/server/episodes';
-import { stageReportFor } from '$lib/server/stages';
-import { scriptStateFor } from '$lib/server/script-reviews';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { episodeDetail, updateEpisode } from '$lib/server/episodes/episodes';
+import { stageReportFor } from '$lib/server/episodes/stage-moves';
+import { scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { episodeUpdateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

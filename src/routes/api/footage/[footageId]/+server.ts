@@ -1,6 +1,6 @@
-import { api } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteFootage } from '$lib/server/footage';
+import { api } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteFootage } from '$lib/server/footage/footage';
 import type { RequestHandler } from './$types';
 
 /** Only a producer deletes footage: the file and its row go together. */

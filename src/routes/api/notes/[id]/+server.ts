@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteNote, updateNote } from '$lib/server/notes';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteNote, updateNote } from '$lib/server/merch/notes';
 import { noteUpdateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

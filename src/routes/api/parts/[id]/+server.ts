@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { partDetail, removePart, updatePart } from '$lib/server/parts';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { partDetail, removePart, updatePart } from '$lib/server/merch/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

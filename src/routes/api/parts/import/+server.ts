@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { commitPartImport, previewPartImport } from '$lib/server/parts';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { commitPartImport, previewPartImport } from '$lib/server/merch/parts';
 import { importRequestSchema, type ImportRequest } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

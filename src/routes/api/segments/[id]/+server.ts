@@ -1,12 +1,12 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
 import {
 	checkSegmentChangeRoles,
 	deleteSegment,
 	segmentView,
 	updateSegment
-} from '$lib/server/segments';
+} from '$lib/server/episodes/segments';
 import { segmentDeleteSchema, segmentUpdateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

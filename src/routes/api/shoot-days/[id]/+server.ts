@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteShootDay, shootDayDetail, updateShootDay } from '$lib/server/shoot-days';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteShootDay, shootDayDetail, updateShootDay } from '$lib/server/shoot/shoot-days';
 import { shootDayUpdateSchema } from '$lib/schemas/shoot';
 import type { RequestHandler } from './$types';
 

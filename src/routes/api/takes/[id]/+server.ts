@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteTake, updateTake } from '$lib/server/takes';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteTake, updateTake } from '$lib/server/shoot/takes';
 import { takeUpdateSchema } from '$lib/schemas/takes';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,6 @@
-import { api } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { revokeToken } from '$lib/server/tokens';
+import { api } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { revokeToken } from '$lib/server/auth/tokens';
 import type { RequestHandler } from './$types';
 
 export const DELETE: RequestHandler = api(async (event) => {

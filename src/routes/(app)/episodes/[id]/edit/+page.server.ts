@@ -1,16 +1,16 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { hasRole, requireRole } from '$lib/server/guard';
+import { hasRole, requireRole } from '$lib/server/auth/guard';
 import {
 	addChapter,
 	deleteChapter,
 	findEditState,
 	setCutDuration,
 	updateChapter
-} from '$lib/server/edit';
-import { attempt, parseForm } from '$lib/server/forms';
+} from '$lib/server/edit/edit';
+import { attempt, parseForm } from '$lib/server/http/forms';
 import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
 import type { TimelineMark } from '$lib/components/timeline';
-import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/timeline-marks';
+import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
 
 /**

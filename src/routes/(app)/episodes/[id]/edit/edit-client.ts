@@ -1,5 +1,5 @@
 /** The edit page's calls to /api/episodes/[id]/…: every change answers with the new edit state. */
-import type { EditChapter, EditState } from '$lib/server/edit';
+import type { EditChapter, EditState } from '$lib/server/edit/edit';
 
 export type { EditChapter, EditState };
 

@@ -1,10 +1,10 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { deleteFootage, listFootage } from '$lib/server/footage';
-import { shootDayOptions } from '$lib/server/shoot-days';
-import { attempt, forPage } from '$lib/server/forms';
-import { assertInEpisode } from '$lib/server/ownership';
-import { UPLOAD_ROLES } from '$lib/server/uploads';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { deleteFootage, listFootage } from '$lib/server/footage/footage';
+import { shootDayOptions } from '$lib/server/shoot/shoot-days';
+import { attempt, forPage } from '$lib/server/http/forms';
+import { assertInEpisode } from '$lib/server/http/ownership';
+import { UPLOAD_ROLES } from '$lib/server/footage/tus-server';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

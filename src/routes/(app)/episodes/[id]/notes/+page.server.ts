@@ -1,10 +1,16 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { DomainError } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { attempt, forPage, parseForm, readVersion } from '$lib/server/forms';
-import { assertInEpisode } from '$lib/server/ownership';
-import { createNote, deleteNote, notesPageFor, noteRightsFor, updateNote } from '$lib/server/notes';
-import { partIdBySku } from '$lib/server/parts';
+import { DomainError } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { attempt, forPage, parseForm, readVersion } from '$lib/server/http/forms';
+import { assertInEpisode } from '$lib/server/http/ownership';
+import {
+	createNote,
+	deleteNote,
+	notesPageFor,
+	noteRightsFor,
+	updateNote
+} from '$lib/server/merch/notes';
+import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import type { Actions, PageServerLoad } from './$types';
 

@@ -1,8 +1,8 @@
 import { error } from '@sveltejs/kit';
-import { requireRole } from '$lib/server/guard';
-import { forPage } from '$lib/server/forms';
-import { featuredPartsFor } from '$lib/server/featured-parts';
-import { clicksFor } from '$lib/server/tracked-links';
+import { requireRole } from '$lib/server/auth/guard';
+import { forPage } from '$lib/server/http/forms';
+import { featuredPartsFor } from '$lib/server/merch/featured-parts';
+import { clicksFor } from '$lib/server/merch/tracked-links';
 import type { PageServerLoad } from './$types';
 
 /** The featured parts list with its warnings, and the tracked links' clicks. Every crew member reads. */

@@ -1,6 +1,6 @@
-import { requireRole } from '$lib/server/guard';
-import { forPage } from '$lib/server/forms';
-import { publishKitFor } from '$lib/server/publish-kit';
+import { requireRole } from '$lib/server/auth/guard';
+import { forPage } from '$lib/server/http/forms';
+import { publishKitFor } from '$lib/server/merch/publish-kit';
 import type { PageServerLoad } from './$types';
 
 /** The publish kit: every crew member reads and copies it (the text is assembled, never stored). */

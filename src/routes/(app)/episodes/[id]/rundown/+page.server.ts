@@ -1,10 +1,10 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { createSegment, moveSegment, rundownFor } from '$lib/server/segments';
-import { episodeFormOptions } from '$lib/server/episodes';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { createSegment, moveSegment, rundownFor } from '$lib/server/episodes/segments';
+import { episodeFormOptions } from '$lib/server/episodes/episodes';
 import { segmentCreateSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { segmentFormValues } from './segment-form';
 import type { Actions, PageServerLoad } from './$types';
 

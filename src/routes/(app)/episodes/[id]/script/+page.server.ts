@@ -1,11 +1,11 @@
 import { fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { rundownFor } from '$lib/server/segments';
-import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/script-reviews';
-import { renderScriptMarkdown } from '$lib/server/markdown';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { rundownFor } from '$lib/server/episodes/segments';
+import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/script-reviews';
+import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
 import { scriptReviewSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The whole script to read, with its approval state and review trail; the producer approves here. */

@@ -1,12 +1,12 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { deleteTake, logTake, shotListFor, updateTake } from '$lib/server/takes';
-import { addShot } from '$lib/server/segments';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { deleteTake, logTake, shotListFor, updateTake } from '$lib/server/shoot/takes';
+import { addShot } from '$lib/server/episodes/segments';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
-import { attempt, forPage, parseForm } from '$lib/server/forms';
-import { assertInEpisode } from '$lib/server/ownership';
+import { attempt, forPage, parseForm } from '$lib/server/http/forms';
+import { assertInEpisode } from '$lib/server/http/ownership';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {

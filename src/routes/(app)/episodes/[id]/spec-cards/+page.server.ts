@@ -1,12 +1,12 @@
 import { fail, redirect } from '@sveltejs/kit';
-import { hasRole, requireRole } from '$lib/server/guard';
-import { attempt, forPage, parseForm, type FormErrors } from '$lib/server/forms';
+import { hasRole, requireRole } from '$lib/server/auth/guard';
+import { attempt, forPage, parseForm, type FormErrors } from '$lib/server/http/forms';
 import {
 	createSpecCard,
 	deleteSpecCard,
 	specCardsFor,
 	updateSpecCard
-} from '$lib/server/spec-cards';
+} from '$lib/server/edit/spec-cards';
 import {
 	specCardCreateSchema,
 	specCardInputFromForm,

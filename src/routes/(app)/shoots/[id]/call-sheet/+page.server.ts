@@ -1,6 +1,6 @@
-import { forPage } from '$lib/server/forms';
-import { requireRole } from '$lib/server/guard';
-import { shootDayDetail } from '$lib/server/shoot-days';
+import { forPage } from '$lib/server/http/forms';
+import { requireRole } from '$lib/server/auth/guard';
+import { shootDayDetail } from '$lib/server/shoot/shoot-days';
 import { db } from '$lib/server/db';
 import type { PageServerLoad } from './$types';
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { addChapter, chapterDownloadFor, editStateFor } from '$lib/server/edit';
+import { DomainError, api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { addChapter, chapterDownloadFor, editStateFor } from '$lib/server/edit/edit';
 import { chapterCreateSchema, chapterFormatSchema } from '$lib/schemas/edit';
 import type { RequestHandler } from './$types';
 

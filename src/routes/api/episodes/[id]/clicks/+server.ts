@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, notFound, parseWith } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { isUuid } from '$lib/server/identity';
-import { CLICK_DAYS, clicksFor } from '$lib/server/tracked-links';
+import { api, notFound, parseWith } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { isUuid } from '$lib/server/auth/identity';
+import { CLICK_DAYS, clicksFor } from '$lib/server/merch/tracked-links';
 import type { RequestHandler } from './$types';
 
 const daysParam = z.coerce

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { setCutDuration } from '$lib/server/edit';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { setCutDuration } from '$lib/server/edit/edit';
 import { cutUpdateSchema } from '$lib/schemas/edit';
 import type { RequestHandler } from './$types';
 

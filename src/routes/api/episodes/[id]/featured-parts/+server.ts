@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { featuredPartsFor } from '$lib/server/featured-parts';
+import { api } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { featuredPartsFor } from '$lib/server/merch/featured-parts';
 import type { RequestHandler } from './$types';
 
 /** Any crew member reads the featured parts list (first appearance order) and its warnings. */

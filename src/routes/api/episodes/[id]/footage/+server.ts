@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, parseWith } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { FOOTAGE_SORTS, listFootage } from '$lib/server/footage';
+import { api, parseWith } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { FOOTAGE_SORTS, listFootage } from '$lib/server/footage/footage';
 import type { RequestHandler } from './$types';
 
 const querySchema = z.object({

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createNote, notesPageFor } from '$lib/server/notes';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createNote, notesPageFor } from '$lib/server/merch/notes';
 import { noteCreateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

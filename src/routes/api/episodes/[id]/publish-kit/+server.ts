@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { publishKitFor, renderKit } from '$lib/server/publish-kit';
+import { api, parseWith } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { publishKitFor, renderKit } from '$lib/server/merch/publish-kit';
 import { kitFormatSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { episodeInChannel, hostPaceFor } from '$lib/server/episodes';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { episodeInChannel, hostPaceFor } from '$lib/server/episodes/episodes';
 import { db } from '$lib/server/db';
-import { renderScriptMarkdown } from '$lib/server/markdown';
+import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
 import { countSpokenWords, estimateSpokenSeconds } from '$lib/script/timing';
 import { scriptPreviewSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';

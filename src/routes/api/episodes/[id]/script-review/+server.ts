@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/script-reviews';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { scriptReviewSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

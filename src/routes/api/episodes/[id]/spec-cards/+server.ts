@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { DomainError, api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { createSpecCard, specCardDownloadFor, specCardsFor } from '$lib/server/spec-cards';
+import { DomainError, api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { createSpecCard, specCardDownloadFor, specCardsFor } from '$lib/server/edit/spec-cards';
 import { specCardCreateSchema, specCardExportFormatSchema } from '$lib/schemas/spec-cards';
 import type { RequestHandler } from './$types';
 

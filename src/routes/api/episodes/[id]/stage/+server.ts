@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { moveStage, stageHistory, stageReportFor } from '$lib/server/stages';
+import { api, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { moveStage, stageHistory, stageReportFor } from '$lib/server/episodes/stage-moves';
 import { stageMoveSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

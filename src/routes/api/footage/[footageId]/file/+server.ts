@@ -2,10 +2,10 @@ import { createReadStream } from 'node:fs';
 import { stat } from 'node:fs/promises';
 import { Readable } from 'node:stream';
 import parseRange from 'range-parser';
-import { api, DomainError } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { footageFile } from '$lib/server/footage';
-import { INLINE_TYPE } from '$lib/uploads';
+import { api, DomainError } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { footageFile } from '$lib/server/footage/footage';
+import { INLINE_TYPE } from '$lib/upload-rules';
 import type { RequestHandler } from './$types';
 
 /**

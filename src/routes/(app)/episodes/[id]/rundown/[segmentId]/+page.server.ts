@@ -1,5 +1,5 @@
 import { error, fail, redirect } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
 import {
 	addShot,
 	assertSegmentOfEpisode,
@@ -8,8 +8,8 @@ import {
 	segmentView,
 	updateCaution,
 	updateSegment
-} from '$lib/server/segments';
-import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes';
+} from '$lib/server/episodes/segments';
+import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
 import { db } from '$lib/server/db';
 import {
 	cautionUpdateSchema,
@@ -17,8 +17,8 @@ import {
 	segmentUpdateSchema,
 	shotCreateSchema
 } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { defaultDropFrame, formatTimecode, isFrameRate } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,11 +1,11 @@
 import { error, fail } from '@sveltejs/kit';
-import { requireRole, hasRole } from '$lib/server/guard';
-import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/segments';
-import { renderScriptMarkdown } from '$lib/server/markdown';
-import { reviewsFor } from '$lib/server/script-reviews';
+import { requireRole, hasRole } from '$lib/server/auth/guard';
+import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/episodes/segments';
+import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
+import { reviewsFor } from '$lib/server/episodes/script-reviews';
 import { scriptSaveSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/forms';
-import { attemptAction, found, text } from '$lib/server/episode-forms';
+import { parseForm } from '$lib/server/http/forms';
+import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import type { Actions, PageServerLoad } from './$types';
 
 /** One segment's script editor, with what the live timing needs: the pace and the rest of the episode's spoken time. */

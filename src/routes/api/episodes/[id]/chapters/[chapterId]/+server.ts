@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteChapter, updateChapter } from '$lib/server/edit';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteChapter, updateChapter } from '$lib/server/edit/edit';
 import { chapterUpdateSchema } from '$lib/schemas/edit';
 import type { RequestHandler } from './$types';
 

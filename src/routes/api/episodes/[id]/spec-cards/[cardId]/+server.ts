@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { api, parseWith, readJson } from '$lib/server/api';
-import { requireRole } from '$lib/server/guard';
-import { deleteSpecCard, updateSpecCard } from '$lib/server/spec-cards';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { requireRole } from '$lib/server/auth/guard';
+import { deleteSpecCard, updateSpecCard } from '$lib/server/edit/spec-cards';
 import { specCardUpdateSchema } from '$lib/schemas/spec-cards';
 import type { RequestHandler } from './$types';
 

@@ -1,0 +1,229 @@
+/** The crew of a channel: invites, roles, disabling, and the one-time links for passwords. */
+import { sql } from 'kysely';
+import { db } from '../db';
+import type { Role } from '../db/types';
+import { DomainError, notFound } from '../http/api';
+import { hashSecret, newSecret } from '../auth/secrets';
+import { queueMail } from '../mail/outbox';
+import { inviteMail, resetMail } from '../mail/messages';
+import { hashPassword, passwordProblem } from '../auth/passwords';
+import { closeAllSessions } from '../auth/sessions';
+import { isUuid } from '../auth/identity';
+
+const INVITE_DAYS = 7;
+const RESET_HOURS = 1;
+
+export async function listCrew(channelId: string) {
+	return db
+		.selectFrom('membership')
+		.innerJoin('person', 'person.id', 'membership.personId')
+		.select([
+			'person.id',
+			'person.name',
+			'person.email',
+			'membership.roles',
+			'membership.disabledAt',
+			'membership.createdAt',
+			sql<boolean>`person.password_hash IS NOT NULL`.as('hasPassword')
+		])
+		.where('membership.channelId', '=', channelId)
+		.orderBy('person.name')
+		.execute();
+}
+
+export type CrewMember = Awaited<ReturnType<typeof listCrew>>[number];
+
+/** Adds a person to the crew; a new person gets a link to set a password, someone already known gets a note. */
+export async function invitePerson(
+	channelId: string,
+	inviter: { id: string; name: string },
+	input: { email: string; name: string; roles: Role[] },
+	origin: string
+) {
+	return db.transaction().execute(async (trx) => {
+		const channel = await trx
+			.selectFrom('channel')
+			.select(['name'])
+			.where('id', '=', channelId)
+			.executeTakeFirstOrThrow();
+		let person = await trx
+			.selectFrom('person')
+			.select(['id', 'name', 'email', 'passwordHash'])
+			.where(sql`lower(email)`, '=', input.email.toLowerCase())
+			.executeTakeFirst();
+		if (!person) {
+			person = await trx
+				.insertInto('person')
+				.values({ email: input.email, name: input.name })
+				.returning(['id', 'name', 'email', 'passwordHash'])
+				.executeTakeFirstOrThrow();
+		}
+		const existing = await trx
+			.selectFrom('membership')
+			.select('personId')
+			.where('channelId', '=', channelId)
+			.where('personId', '=', person.id)
+			.executeTakeFirst();
+		if (existing)
+			throw new DomainError(
+				409,
+				`${input.email} is already on the ${channel.name} crew. Change their roles instead.`,
+				{ email: ['Already on the crew.'] }
+			);
+		await trx
+			.insertInto('membership')
+			.values({ channelId, personId: person.id, roles: input.roles, invitedBy: inviter.id })
+			.execute();
+
+		const secret = newSecret();
+		await trx
+			.insertInto('oneTimeLink')
+			.values({
+				personId: person.id,
+				channelId,
+				purpose: 'invite',
+				tokenHash: hashSecret(secret),
+				expiresAt: new Date(Date.now() + INVITE_DAYS * 24 * 3600 * 1000)
+			})
+			.execute();
+		const link = `${origin}/welcome/${secret}`;
+		await queueMail(trx, {
+			to: person.email,
+			channelId,
+			...inviteMail({
+				channelName: channel.name,
+				inviterName: inviter.name,
+				link,
+				roles: input.roles
+			})
+		});
+		return { id: person.id, email: person.email, name: person.name, roles: input.roles };
+	});
+}
+
+/** Changes roles or disables a member; the channel never loses its last active producer. */
+export async function updateMember(
+	channelId: string,
+	actorId: string,
+	personId: string,
+	change: { roles?: Role[]; disabled?: boolean }
+) {
+	if (!isUuid(personId)) throw notFound('That crew member');
+	return db.transaction().execute(async (trx) => {
+		const member = await trx
+			.selectFrom('membership')
+			.selectAll()
+			.where('channelId', '=', channelId)
+			.where('personId', '=', personId)
+			.forUpdate()
+			.executeTakeFirst();
+		if (!member) throw notFound('That crew member');
+		const roles = change.roles ?? member.roles;
+		const disabledAt =
+			change.disabled === undefined
+				? member.disabledAt
+				: change.disabled
+					? (member.disabledAt ?? new Date())
+					: null;
+		const losesProducer =
+			member.roles.includes('producer') &&
+			!member.disabledAt &&
+			(!roles.includes('producer') || disabledAt);
+		if (losesProducer) {
+			const others = await trx
+				.selectFrom('membership')
+				.select((eb) => eb.fn.countAll<number>().as('count'))
+				.where('channelId', '=', channelId)
+				.where('personId', '!=', personId)
+				.where('disabledAt', 'is', null)
+				.where(sql<boolean>`'producer' = ANY(roles)`)
+				.executeTakeFirstOrThrow();
+			if (others.count === 0) {
+				throw new DomainError(
+					409,
+					personId === actorId
+						? 'You are the only producer: make someone else a producer first.'
+						: 'This is the only producer: make someone else a producer first.'
+				);
+			}
+		}
+		await trx
+			.updateTable('membership')
+			.set({ roles, disabledAt })
+			.where('channelId', '=', channelId)
+			.where('personId', '=', personId)
+			.execute();
+		return { id: personId, roles, disabledAt };
+	});
+}
+
+/** Always answers the same way, so the form never tells a stranger which addresses have accounts. */
+export async function requestPasswordReset(email: string, origin: string): Promise<void> {
+	const person = await db
+		.selectFrom('person')
+		.select(['id', 'email'])
+		.where(sql`lower(email)`, '=', email.toLowerCase())
+		.executeTakeFirst();
+	if (!person) return;
+	await db.transaction().execute(async (trx) => {
+		const secret = newSecret();
+		await trx
+			.insertInto('oneTimeLink')
+			.values({
+				personId: person.id,
+				purpose: 'reset',
+				tokenHash: hashSecret(secret),
+				expiresAt: new Date(Date.now() + RESET_HOURS * 3600 * 1000)
+			})
+			.execute();
+		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
+	});
+}
+
+/** Looks up an unused, unexpired link (invite or reset). */
+export async function findLink(secret: string, purpose: 'invite' | 'reset') {
+	return db
+		.selectFrom('oneTimeLink')
+		.innerJoin('person', 'person.id', 'oneTimeLink.personId')
+		.leftJoin('channel', 'channel.id', 'oneTimeLink.channelId')
+		.select([
+			'oneTimeLink.id',
+			'person.id as personId',
+			'person.email',
+			'person.name',
+			'channel.name as channelName',
+			'person.passwordHash'
+		])
+		.where('oneTimeLink.tokenHash', '=', hashSecret(secret))
+		.where('oneTimeLink.purpose', '=', purpose)
+		.where('oneTimeLink.usedAt', 'is', null)
+		.where('oneTimeLink.expiresAt', '>', sql<Date>`now()`)
+		.executeTakeFirst();
+}
+
+/** Sets the password through a link and uses the link up; a reset also ends every open session. */
+export async function setPasswordWithLink(
+	secret: string,
+	purpose: 'invite' | 'reset',
+	password: string
+) {
+	const problem = passwordProblem(password);
+	if (problem) throw new DomainError(400, problem, { password: [problem] });
+	const link = await findLink(secret, purpose);
+	if (!link)
+		throw new DomainError(404, 'This link has expired or was already used. Ask for a new one.');
+	const passwordHash = await hashPassword(password);
+	await db.transaction().execute(async (trx) => {
+		const used = await trx
+			.updateTable('oneTimeLink')
+			.set({ usedAt: new Date() })
+			.where('id', '=', link.id)
+			.where('usedAt', 'is', null)
+			.executeTakeFirst();
+		if (Number(used.numUpdatedRows) !== 1)
+			throw new DomainError(404, 'This link was already used. Ask for a new one.');
+		await trx.updateTable('person').set({ passwordHash }).where('id', '=', link.personId).execute();
+	});
+	if (purpose === 'reset') await closeAllSessions(link.personId);
+	return { email: link.email };
+}

@@ -1,0 +1,485 @@
+/**
+ * The edit: an episode's cut length and its chapter markers, their rules and their exports.
+ *
+ * Every function takes the channel id and filters by it: an episode of another channel is "not
+ * found". Chapter rules (src/lib/chapters/rules.ts) are reported, never refused, so the editor can
+ * work through a half-finished list; only the exports refuse (422) a list that breaks them.
+ * Chapters carry a version; a change that names a stale one answers 409 with the current row.
+ */
+import type { Kysely } from 'kysely';
+import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import { db } from '../db';
+import type { Database } from '../db/types';
+import { DomainError, notFound } from '../http/api';
+import { isUuid } from '../auth/identity';
+import {
+	ChapterExportError,
+	chapterStartFromText,
+	exportChapters,
+	validateChapters,
+	type ChapterFormat,
+	type ChapterProblem
+} from '$lib/chapters';
+import {
+	TimecodeError,
+	defaultDropFrame,
+	formatTimecode,
+	isFrameRate,
+	parseTimecode,
+	type FrameRate
+} from '$lib/timecode';
+import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
+import { editLocks, type Stage } from '$lib/stages';
+
+/** The shared instance or an open transaction (a Transaction is a Kysely). */
+export type Executor = Kysely<Database>;
+
+export interface EditChapter {
+	id: string;
+	startFrame: number;
+	/** The start as timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	startTimecode: string;
+	title: string;
+	url: string | null;
+	partId: string | null;
+	version: number;
+}
+
+/** A rule the chapter list breaks; `chapterId` null means the list as a whole. */
+export interface EditProblem {
+	chapterId: string | null;
+	field: ChapterProblem['field'];
+	message: string;
+}
+
+export interface EditState {
+	episode: {
+		id: string;
+		title: string;
+		slug: string;
+		stage: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+	};
+	cut: { durationFrames: number | null; timecode: string | null };
+	/** In start order, the order the crew sees them in. */
+	chapters: EditChapter[];
+	problems: EditProblem[];
+	/** Why the cut's length or the chapters can't change at this stage (null: they can). */
+	locks: { cut: string | null; chapters: string | null };
+}
+
+const episodeNotFound = () => notFound('That episode');
+const chapterNotFound = () => notFound('That chapter');
+
+/**
+ * One round trip: the episode and its chapters (in start order) as a JSON aggregate.
+ * The export relies on this being a single query (see scripts/bench.ts).
+ */
+function episodeWithChapters(executor: Executor, channelId: string, episodeId: string) {
+	return executor
+		.selectFrom('episode')
+		.select((eb) => [
+			'episode.id',
+			'episode.title',
+			'episode.slug',
+			'episode.stage',
+			'episode.frameRate',
+			'episode.cutDurationFrames',
+			jsonArrayFrom(
+				eb
+					.selectFrom('chapter')
+					.select([
+						'chapter.id',
+						'chapter.startFrame',
+						'chapter.title',
+						'chapter.url',
+						'chapter.partId',
+						'chapter.version'
+					])
+					.whereRef('chapter.episodeId', '=', 'episode.id')
+					// Ties keep the order they were made in, so a duplicate start reads as "the later one".
+					.orderBy('chapter.startFrame')
+					.orderBy('chapter.createdAt')
+					.orderBy('chapter.id')
+			).as('chapters')
+		])
+		.where('episode.id', '=', episodeId)
+		.where('episode.channelId', '=', channelId)
+		.executeTakeFirst();
+}
+
+type EpisodeWithChapters = NonNullable<Awaited<ReturnType<typeof episodeWithChapters>>>;
+
+function rateOf(episode: { frameRate: string }): FrameRate {
+	if (!isFrameRate(episode.frameRate)) {
+		// The episode table has no check on frame_rate; a bad value is a data fault, not the caller's.
+		throw new Error(`episode has an unknown frame rate ${JSON.stringify(episode.frameRate)}`);
+	}
+	return episode.frameRate;
+}
+
+function toEditChapter(
+	row: {
+		id: string;
+		startFrame: number;
+		title: string;
+		url: string | null;
+		partId: string | null;
+		version: number;
+	},
+	rate: FrameRate
+): EditChapter {
+	return {
+		id: row.id,
+		startFrame: row.startFrame,
+		startTimecode: formatTimecode(row.startFrame, rate),
+		title: row.title,
+		url: row.url,
+		partId: row.partId,
+		version: row.version
+	};
+}
+
+/** validateChapters on the list in start order, with each problem tied to its chapter's id. */
+function problemsOf(
+	chapters: readonly { id: string; startFrame: number; title: string; url: string | null }[],
+	cutDurationFrames: number | null,
+	rate: FrameRate
+): EditProblem[] {
+	return validateChapters([...chapters], cutDurationFrames ?? 0, rate).map((problem) => ({
+		chapterId: problem.index === null ? null : (chapters[problem.index]?.id ?? null),
+		field: problem.field,
+		message: problem.message
+	}));
+}
+
+function stateOf(row: EpisodeWithChapters): EditState {
+	const rate = rateOf(row);
+	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
+	return {
+		episode: {
+			id: row.id,
+			title: row.title,
+			slug: row.slug,
+			stage: row.stage,
+			frameRate: rate,
+			dropFrame: defaultDropFrame(rate)
+		},
+		cut: {
+			durationFrames: row.cutDurationFrames,
+			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
+		},
+		chapters,
+		problems: problemsOf(row.chapters, row.cutDurationFrames, rate),
+		locks: editLocks(row.stage as Stage)
+	};
+}
+
+/** The episode's edit state, or null when the id names no episode of this channel. */
+export async function findEditState(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<EditState | null> {
+	if (!isUuid(episodeId)) return null;
+	const row = await episodeWithChapters(executor, channelId, episodeId);
+	return row ? stateOf(row) : null;
+}
+
+/** The episode's edit state; 404 when the id names no episode of this channel. */
+export async function editStateFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<EditState> {
+	const state = await findEditState(channelId, episodeId, executor);
+	if (!state) throw episodeNotFound();
+	return state;
+}
+
+/**
+ * The chapter rule violations for a stage gate: null when the episode has no chapters yet,
+ * otherwise validateChapters' messages ([] when the list is ready). 404 for another channel's episode.
+ */
+export async function chapterProblemsFor(
+	executor: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<string[] | null> {
+	const state = await editStateFor(channelId, episodeId, executor);
+	if (state.chapters.length === 0) return null;
+	return state.problems.map((problem) => problem.message);
+}
+
+/** Runs a parse of typed time; a person's typing mistake is a 400 in plain words on that field. */
+function readTyped(field: string, parse: () => number): number {
+	try {
+		return parse();
+	} catch (failure) {
+		if (failure instanceof TimecodeError)
+			throw new DomainError(400, failure.message, { [field]: [failure.message] });
+		throw failure;
+	}
+}
+
+async function scopedEpisode(executor: Executor, channelId: string, episodeId: string) {
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	const episode = await executor
+		.selectFrom('episode')
+		.select(['id', 'frameRate', 'cutDurationFrames', 'stage'])
+		.where('id', '=', episodeId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!episode) throw episodeNotFound();
+	return { ...episode, rate: rateOf(episode), locks: editLocks(episode.stage as Stage) };
+}
+
+/** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
+function refuseLocked(reason: string | null): void {
+	if (reason) throw new DomainError(409, reason);
+}
+
+function startFrameOf(
+	input: { start?: string; startFrame?: number },
+	rate: FrameRate
+): number | undefined {
+	if (input.startFrame !== undefined) return input.startFrame;
+	if (input.start !== undefined)
+		return readTyped('start', () => chapterStartFromText(input.start!, rate));
+	return undefined;
+}
+
+/** Sets how long the cut runs, from timecode or clock text at the episode's rate. */
+export async function setCutDuration(
+	channelId: string,
+	episodeId: string,
+	input: CutUpdate
+): Promise<EditState> {
+	const episode = await scopedEpisode(db, channelId, episodeId);
+	refuseLocked(episode.locks.cut);
+	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
+	const frames = readTyped('duration', () =>
+		parseTimecode(input.duration, episode.rate, { dropFrame: defaultDropFrame(episode.rate) })
+	);
+	if (frames <= 0) {
+		const message =
+			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
+		throw new DomainError(400, message, { duration: [message] });
+	}
+	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
+	// episode's details at the same time is not told about a conflict that doesn't touch their fields.
+	let update = db
+		.updateTable('episode')
+		.set({ cutDurationFrames: frames })
+		.where('id', '=', episode.id)
+		.where('channelId', '=', channelId);
+	if (input.expectedFrames !== undefined) {
+		update = update.where(
+			sql<boolean>`cut_duration_frames IS NOT DISTINCT FROM ${input.expectedFrames}`
+		);
+	}
+	const result = await update.executeTakeFirst();
+	if (Number(result.numUpdatedRows) !== 1) {
+		const state = await editStateFor(channelId, episodeId);
+		throw new DomainError(
+			409,
+			`Someone set the cut's length to ${state.cut.timecode ?? 'nothing'} while you were working. Check it, then set yours again if it should change.`,
+			undefined,
+			{ current: state.cut, state }
+		);
+	}
+	return editStateFor(channelId, episodeId);
+}
+
+/** A chapter may name a part only from its own channel's catalogue. */
+async function checkChapterPart(
+	channelId: string,
+	partId: string | null | undefined
+): Promise<void> {
+	if (!partId) return;
+	const part = await db
+		.selectFrom('part')
+		.select('id')
+		.where('id', '=', partId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!part) {
+		const message =
+			"That part isn't in this channel's catalogue. Pick one from Parts, or leave the chapter without a part.";
+		throw new DomainError(400, message, { partId: [message] });
+	}
+}
+
+/** Adds a chapter at a typed time or a frame; the rules it breaks come back in the state. */
+export async function addChapter(
+	channelId: string,
+	episodeId: string,
+	input: ChapterCreate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(db, channelId, episodeId);
+	refuseLocked(episode.locks.chapters);
+	await checkChapterPart(channelId, input.partId);
+	const startFrame = startFrameOf(input, episode.rate)!;
+	const row = await db
+		.insertInto('chapter')
+		.values({
+			episodeId: episode.id,
+			startFrame,
+			title: input.title,
+			url: input.url ?? null,
+			partId: input.partId ?? null
+		})
+		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
+		.executeTakeFirstOrThrow();
+	return {
+		chapter: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
+}
+
+async function chapterOf(episodeId: string, chapterId: string) {
+	return db
+		.selectFrom('chapter')
+		.select(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
+		.where('id', '=', chapterId)
+		.where('episodeId', '=', episodeId)
+		.executeTakeFirst();
+}
+
+async function staleVersion(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	rate: FrameRate
+): Promise<never> {
+	const current = await chapterOf(episodeId, chapterId);
+	if (!current) throw chapterNotFound();
+	throw new DomainError(
+		409,
+		`Someone changed chapter “${current.title}” while you were working on it. Their version is shown now; make your change again on top of it.`,
+		undefined,
+		{ current: toEditChapter(current, rate), state: await editStateFor(channelId, episodeId) }
+	);
+}
+
+/** Moves, renames or relinks a chapter; `version` must be the one the editor read (else 409). */
+export async function updateChapter(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	input: ChapterUpdate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(db, channelId, episodeId);
+	if (!isUuid(chapterId)) throw chapterNotFound();
+	refuseLocked(episode.locks.chapters);
+	await checkChapterPart(channelId, input.partId);
+	const startFrame = startFrameOf(input, episode.rate);
+	const row = await db
+		.updateTable('chapter')
+		.set((eb) => ({
+			...(startFrame !== undefined ? { startFrame } : {}),
+			...(input.title !== undefined ? { title: input.title } : {}),
+			...(input.url !== undefined ? { url: input.url } : {}),
+			...(input.partId !== undefined ? { partId: input.partId } : {}),
+			version: eb('version', '+', 1)
+		}))
+		.where('id', '=', chapterId)
+		.where('episodeId', '=', episode.id)
+		.where('version', '=', input.version)
+		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
+		.executeTakeFirst();
+	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	return {
+		chapter: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
+}
+
+/** Removes a chapter; with a version, only if nobody changed it since (else 409). */
+export async function deleteChapter(
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	version?: number
+): Promise<{ removed: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(db, channelId, episodeId);
+	if (!isUuid(chapterId)) throw chapterNotFound();
+	refuseLocked(episode.locks.chapters);
+	let removal = db
+		.deleteFrom('chapter')
+		.where('id', '=', chapterId)
+		.where('episodeId', '=', episode.id);
+	if (version !== undefined) removal = removal.where('version', '=', version);
+	const row = await removal
+		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
+		.executeTakeFirst();
+	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	return {
+		removed: toEditChapter(row, episode.rate),
+		state: await editStateFor(channelId, episodeId)
+	};
+}
+
+export interface ChapterDownload {
+	body: string;
+	contentType: string;
+	filename: string;
+	/** Where the server's time went, for the Server-Timing header. */
+	timing: { queryMilliseconds: number; renderMilliseconds: number };
+}
+
+/** A file name from the slug, kept to characters every download dialog and header accepts. */
+function downloadName(slug: string, extension: string): string {
+	const safe = slug.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'episode';
+	return `${safe}-chapters.${extension}`;
+}
+
+/**
+ * The chapters in one export format, read with a single query. 422 with the problems (per chapter)
+ * when the list breaks a chapter rule, since a half-finished list must not reach a description.
+ */
+export async function chapterDownloadFor(
+	channelId: string,
+	episodeId: string,
+	format: ChapterFormat
+): Promise<ChapterDownload> {
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	const started = performance.now();
+	const row = await episodeWithChapters(db, channelId, episodeId);
+	const queried = performance.now();
+	if (!row) throw episodeNotFound();
+	const rate = rateOf(row);
+	const problems = problemsOf(row.chapters, row.cutDurationFrames, rate);
+	if (problems.length > 0) {
+		throw new DomainError(
+			422,
+			`These chapters can't be exported yet: ${problems.length === 1 ? 'one rule is' : `${problems.length} rules are`} broken. Fix what is listed, then download again.`,
+			undefined,
+			{ problems }
+		);
+	}
+	try {
+		const exported = exportChapters(format, row.chapters, {
+			rate,
+			cutEndFrame: row.cutDurationFrames ?? 0
+		});
+		return {
+			body: exported.body,
+			contentType: exported.contentType,
+			filename: downloadName(row.slug, exported.extension),
+			timing: {
+				queryMilliseconds: queried - started,
+				renderMilliseconds: performance.now() - queried
+			}
+		};
+	} catch (failure) {
+		// The rules above cover what the exporter checks; this keeps any gap a 422 in plain words.
+		if (failure instanceof ChapterExportError)
+			throw new DomainError(422, failure.message, undefined, {
+				problems: [{ chapterId: null, field: 'list', message: failure.message }]
+			});
+		throw failure;
+	}
+}

@@ -1,0 +1,615 @@
+/**
+ * Spec cards: the numbers an episode puts on screen (tyre sizes, tyre changes, torque, lift, free
+ * text), attached to a rundown segment and placed at a program time in the cut.
+ *
+ * The lines on screen are never stored: they are rendered from the stored input with
+ * renderSpecCard ($lib/specs) every time they are read, so a card always shows what the spec
+ * modules compute. Every function takes the channel id and filters by it; a card or episode of
+ * another channel is "not found". Cards carry a version; a change that names a stale one answers
+ * 409 with the current card.
+ */
+import { sql } from 'kysely';
+import { db } from '../db';
+import { DomainError, notFound } from '../http/api';
+import { isUuid } from '../auth/identity';
+import { episodeInChannel, rateOf, type Executor } from '../episodes/episodes';
+import { framesFromText } from '../episodes/segments';
+import {
+	compareTyres,
+	liftSummary,
+	parseTyreSize,
+	torqueCard,
+	type SpecCard,
+	type SpecCardInput,
+	type SpecCardKind
+} from '$lib/specs';
+import {
+	defaultDropFrame,
+	formatTimecode,
+	framesToMilliseconds,
+	secondsToFrames,
+	type FrameRate
+} from '$lib/timecode';
+import {
+	DEFAULT_ON_SCREEN_SECONDS,
+	SPEC_CARD_KIND_LABELS,
+	checkSpecCard,
+	type SpecCardCreate,
+	type SpecCardExportFormat,
+	type SpecCardUpdate
+} from '$lib/schemas/spec-cards';
+import type { TimelineMark } from '$lib/components/timeline';
+import { csvText } from '$lib/csv';
+
+export interface SpecCardSegment {
+	id: string;
+	position: number;
+	title: string;
+	/** Where the segment starts in the cut, from the rundown's recorded lengths; null while one before it is unknown. */
+	startsAtFrame: number | null;
+	startsAtTimecode: string | null;
+}
+
+export interface SpecCardView {
+	id: string;
+	kind: SpecCardKind;
+	kindLabel: string;
+	/** The card as entered. */
+	input: SpecCardInput;
+	segment: { id: string; position: number; title: string } | null;
+	/** Program time in the cut (episode frame rate); null until placed. */
+	atFrame: number | null;
+	atTimecode: string | null;
+	durationFrames: number;
+	durationSeconds: number;
+	/** True when the cut's length is known and the card starts at or after its end. */
+	pastCutEnd: boolean;
+	position: number;
+	version: number;
+	createdByName: string | null;
+	updatedAt: string;
+	/** The lines as they read on screen; null (with `problem`) if the stored input no longer renders. */
+	card: SpecCard | null;
+	problem: string | null;
+}
+
+export interface SpecCardBoard {
+	episode: {
+		id: string;
+		title: string;
+		slug: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+		cutDurationFrames: number | null;
+		cutTimecode: string | null;
+	};
+	segments: SpecCardSegment[];
+	/** Placed cards in program-time order, then unplaced ones in the order they were made. */
+	cards: SpecCardView[];
+}
+
+const cardNotFound = () => notFound('That spec card');
+
+type Episode = Awaited<ReturnType<typeof episodeInChannel>>;
+
+function cardsQuery(executor: Executor, episodeId: string) {
+	return (
+		executor
+			.selectFrom('specCard')
+			.leftJoin('segment', 'segment.id', 'specCard.segmentId')
+			.leftJoin('person', 'person.id', 'specCard.createdBy')
+			.select([
+				'specCard.id',
+				'specCard.kind',
+				'specCard.input',
+				'specCard.atFrame',
+				'specCard.durationFrames',
+				'specCard.position',
+				'specCard.version',
+				'specCard.updatedAt',
+				'segment.id as segmentId',
+				'segment.position as segmentPosition',
+				'segment.title as segmentTitle',
+				'person.name as createdByName'
+			])
+			.where('specCard.episodeId', '=', episodeId)
+			// Program-time order; cards not placed yet come last, in the order they were made.
+			.orderBy(sql`spec_card.at_frame ASC NULLS LAST`)
+			.orderBy('specCard.position')
+	);
+}
+
+type CardRow = Awaited<ReturnType<ReturnType<typeof cardsQuery>['execute']>>[number];
+
+/** The default time on screen in frames at the episode's rate. */
+const defaultDurationFrames = (rate: FrameRate) => secondsToFrames(DEFAULT_ON_SCREEN_SECONDS, rate);
+
+function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
+	const checked = checkSpecCard(row.input);
+	const durationFrames = row.durationFrames ?? defaultDurationFrames(rate);
+	return {
+		id: row.id,
+		kind: row.kind,
+		kindLabel: SPEC_CARD_KIND_LABELS[row.kind],
+		input: row.input,
+		segment:
+			row.segmentId === null
+				? null
+				: { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
+		atFrame: row.atFrame,
+		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		durationFrames,
+		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
+		pastCutEnd:
+			row.atFrame !== null &&
+			episode.cutDurationFrames !== null &&
+			row.atFrame >= episode.cutDurationFrames,
+		position: row.position,
+		version: row.version,
+		createdByName: row.createdByName,
+		updatedAt: new Date(row.updatedAt).toISOString(),
+		card: checked.ok ? checked.card : null,
+		// A stored card always rendered when it was saved; this only shows if the spec modules tightened since.
+		problem: checked.ok ? null : checked.message
+	};
+}
+
+async function segmentsOf(
+	executor: Executor,
+	episodeId: string,
+	rate: FrameRate
+): Promise<SpecCardSegment[]> {
+	const rows = await executor
+		.selectFrom('segment')
+		.select(['id', 'position', 'title', 'recordedFrames'])
+		.where('episodeId', '=', episodeId)
+		.orderBy('position')
+		.execute();
+	let startsAt: number | null = 0;
+	return rows.map((row) => {
+		const segment: SpecCardSegment = {
+			id: row.id,
+			position: row.position,
+			title: row.title,
+			startsAtFrame: startsAt,
+			startsAtTimecode: startsAt === null ? null : formatTimecode(startsAt, rate)
+		};
+		startsAt =
+			startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
+		return segment;
+	});
+}
+
+function boardEpisode(episode: Episode, rate: FrameRate): SpecCardBoard['episode'] {
+	return {
+		id: episode.id,
+		title: episode.title,
+		slug: episode.slug,
+		frameRate: rate,
+		dropFrame: defaultDropFrame(rate),
+		cutDurationFrames: episode.cutDurationFrames,
+		cutTimecode:
+			episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+	};
+}
+
+/** The episode's spec cards with their lines as they read on screen, and its segments; 404 for another channel's episode. */
+export async function specCardsFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<SpecCardBoard> {
+	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const rate = rateOf(episode);
+	const [segments, rows] = await Promise.all([
+		segmentsOf(executor, episode.id, rate),
+		cardsQuery(executor, episode.id).execute()
+	]);
+	return {
+		episode: boardEpisode(episode, rate),
+		segments,
+		cards: rows.map((row) => toView(row, episode, rate))
+	};
+}
+
+async function cardView(
+	executor: Executor,
+	episode: Episode,
+	cardId: string
+): Promise<SpecCardView | null> {
+	const row = await cardsQuery(executor, episode.id)
+		.where('specCard.id', '=', cardId)
+		.executeTakeFirst();
+	return row ? toView(row, episode, rateOf(episode)) : null;
+}
+
+/** Checks the card's shape and numbers; a parser's refusal is a 400 with its own words on the field. */
+function checkedInput(input: SpecCardInput): SpecCardInput {
+	const checked = checkSpecCard(input);
+	if (!checked.ok)
+		throw new DomainError(400, checked.message, { [`input.${checked.field}`]: [checked.message] });
+	return checked.input;
+}
+
+async function checkSegment(
+	executor: Executor,
+	episodeId: string,
+	segmentId: string | null
+): Promise<string | null> {
+	if (segmentId === null) return null;
+	const segment = await executor
+		.selectFrom('segment')
+		.select('id')
+		.where('id', '=', segmentId)
+		.where('episodeId', '=', episodeId)
+		.executeTakeFirst();
+	if (!segment) {
+		const message =
+			'That segment is not in this episode’s rundown. Pick one from the list, or none.';
+		throw new DomainError(400, message, { segmentId: [message] });
+	}
+	return segment.id;
+}
+
+/** The frame a placement names: typed text read at the episode's rate, or a frame count; undefined leaves it as it is. */
+function placedFrame(
+	input: { at?: string | null; atFrame?: number | null },
+	episode: Episode,
+	rate: FrameRate
+): number | null | undefined {
+	let frame: number | null | undefined;
+	if (input.atFrame !== undefined) frame = input.atFrame;
+	else if (input.at !== undefined)
+		frame = input.at === null ? null : framesFromText(input.at, rate, 'at');
+	if (
+		frame !== null &&
+		frame !== undefined &&
+		episode.cutDurationFrames !== null &&
+		frame >= episode.cutDurationFrames
+	) {
+		const message = `That is at or after the end of the cut (${formatTimecode(episode.cutDurationFrames, rate)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
+		throw new DomainError(400, message, { at: [message] });
+	}
+	return frame;
+}
+
+const durationFramesOf = (seconds: number | undefined, rate: FrameRate) =>
+	seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate));
+
+/** Adds a card to the episode, checked by the spec parsers, at the end of the episode's card order. */
+export async function createSpecCard(
+	channelId: string,
+	actor: { id: string },
+	episodeId: string,
+	input: SpecCardCreate
+): Promise<SpecCardView> {
+	const cardInput = checkedInput(input.input);
+	return db.transaction().execute(async (trx) => {
+		// Locked so two cards added at once get different positions.
+		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const rate = rateOf(episode);
+		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
+		const atFrame = placedFrame(input, episode, rate) ?? null;
+		const last = await trx
+			.selectFrom('specCard')
+			.select((eb) => eb.fn.max('position').as('position'))
+			.where('episodeId', '=', episode.id)
+			.executeTakeFirst();
+		const row = await trx
+			.insertInto('specCard')
+			.values({
+				episodeId: episode.id,
+				segmentId,
+				kind: cardInput.kind,
+				input: JSON.stringify(cardInput),
+				atFrame,
+				durationFrames:
+					durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
+				position: (last?.position ?? 0) + 1,
+				createdBy: actor.id
+			})
+			.returning('id')
+			.executeTakeFirstOrThrow();
+		return (await cardView(trx, episode, row.id))!;
+	});
+}
+
+async function staleCard(executor: Executor, episode: Episode, cardId: string): Promise<never> {
+	const current = await cardView(executor, episode, cardId);
+	if (!current) throw cardNotFound();
+	const what = current.card?.heading ?? current.kindLabel;
+	throw new DomainError(
+		409,
+		`Someone changed the spec card “${what}” while you were working on it. Their version is shown now; make your change again on top of it.`,
+		undefined,
+		{ current }
+	);
+}
+
+/** Changes a card's figures, segment, program time or time on screen; `version` must be the one read (else 409). */
+export async function updateSpecCard(
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	input: SpecCardUpdate
+): Promise<SpecCardView> {
+	const episode = await episodeInChannel(db, channelId, episodeId);
+	if (!isUuid(cardId)) throw cardNotFound();
+	const rate = rateOf(episode);
+	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
+	const segmentId =
+		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
+	const atFrame = placedFrame(input, episode, rate);
+	const durationFrames = durationFramesOf(input.durationSeconds, rate);
+	const row = await db
+		.updateTable('specCard')
+		.set((eb) => ({
+			...(cardInput !== undefined
+				? { kind: cardInput.kind, input: JSON.stringify(cardInput) }
+				: {}),
+			...(segmentId !== undefined ? { segmentId } : {}),
+			...(atFrame !== undefined ? { atFrame } : {}),
+			...(durationFrames !== undefined ? { durationFrames } : {}),
+			version: eb('version', '+', 1),
+			updatedAt: new Date()
+		}))
+		.where('id', '=', cardId)
+		.where('episodeId', '=', episode.id)
+		.where('version', '=', input.version)
+		.returning('id')
+		.executeTakeFirst();
+	if (!row) return staleCard(db, episode, cardId);
+	return (await cardView(db, episode, row.id))!;
+}
+
+/** Places a card at a program time (typed text or a frame), or takes it off the cut with null: what the timeline calls. */
+export async function placeSpecCard(
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	placement: { version: number } & ({ at: string | null } | { atFrame: number | null })
+): Promise<SpecCardView> {
+	return updateSpecCard(channelId, episodeId, cardId, placement);
+}
+
+/** Removes a card; with a version, only if nobody changed it since (else 409). */
+export async function deleteSpecCard(
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	version?: number
+): Promise<{ removed: SpecCardView }> {
+	const episode = await episodeInChannel(db, channelId, episodeId);
+	if (!isUuid(cardId)) throw cardNotFound();
+	const removed = await cardView(db, episode, cardId);
+	if (!removed) throw cardNotFound();
+	let removal = db
+		.deleteFrom('specCard')
+		.where('id', '=', cardId)
+		.where('episodeId', '=', episode.id);
+	if (version !== undefined) removal = removal.where('version', '=', version);
+	const row = await removal.returning('id').executeTakeFirst();
+	if (!row) return staleCard(db, episode, cardId);
+	return { removed };
+}
+
+/** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
+export async function specCardMarksFor(
+	channelId: string,
+	episodeId: string
+): Promise<TimelineMark[]> {
+	const board = await specCardsFor(channelId, episodeId);
+	return board.cards
+		.filter((view) => view.atFrame !== null)
+		.map((view) => ({
+			kind: 'spec-card' as const,
+			atFrame: view.atFrame!,
+			label: `${view.kindLabel}: ${view.card?.heading ?? 'needs checking'}`,
+			href: `/episodes/${board.episode.id}/spec-cards?edit=${view.id}#card-form`
+		}));
+}
+
+/** Exact figures behind a card's lines (unrounded), for graphics that lay the numbers out themselves. */
+export function specCardFigures(input: SpecCardInput): Record<string, number | string> {
+	switch (input.kind) {
+		case 'tyre': {
+			const size = parseTyreSize(input.size);
+			return {
+				diameterIn: size.diameterIn,
+				diameterMm: size.diameterMm,
+				sectionWidthIn: size.sectionWidthIn,
+				sectionWidthMm: size.sectionWidthMm,
+				sidewallIn: size.sidewallIn,
+				sidewallMm: size.sidewallMm,
+				revsPerMile: size.revsPerMile,
+				revsPerKm: size.revsPerKm
+			};
+		}
+		case 'tyre-change': {
+			const change = compareTyres(parseTyreSize(input.from), parseTyreSize(input.to));
+			return {
+				fromDiameterIn: change.from.diameterIn,
+				toDiameterIn: change.to.diameterIn,
+				fromDiameterMm: change.from.diameterMm,
+				toDiameterMm: change.to.diameterMm,
+				diameterChangeIn: change.diameterChangeIn,
+				diameterChangeMm: change.diameterChangeMm,
+				axleHeightChangeIn: change.groundClearanceChangeIn,
+				axleHeightChangeMm: change.groundClearanceChangeMm,
+				speedometerFactor: change.speedometerFactor,
+				revsPerMileChange: change.revsPerMileChange,
+				revsPerKmChange: change.revsPerKmChange
+			};
+		}
+		case 'torque': {
+			const torque = torqueCard({ value: input.value, unit: input.unit });
+			return {
+				statedValue: input.value,
+				statedUnit: input.unit,
+				newtonMetres: torque.newtonMetres,
+				footPoundsForce: torque.footPoundsForce,
+				inchPoundsForce: torque.inchPoundsForce
+			};
+		}
+		case 'lift': {
+			const lift = liftSummary(input);
+			return {
+				frontLiftIn: lift.frontLiftIn,
+				rearLiftIn: lift.rearLiftIn,
+				frontLiftMm: lift.frontLiftMm,
+				rearLiftMm: lift.rearLiftMm,
+				rakeChangeIn: lift.rakeChangeIn,
+				rakeChangeMm: lift.rakeChangeMm
+			};
+		}
+		case 'text':
+			return {};
+	}
+}
+
+/** One card as the editor's graphics read it. */
+export interface SpecCardExportRow {
+	id: string;
+	kind: SpecCardKind;
+	segment: { position: number; title: string } | null;
+	start: { frame: number; timecode: string; seconds: string } | null;
+	end: { frame: number; timecode: string; seconds: string } | null;
+	durationSeconds: string;
+	heading: string;
+	body: string | null;
+	lines: SpecCard['lines'];
+	cautions: string[];
+	figures: Record<string, number | string>;
+}
+
+/** Seconds with exactly three decimals, written from whole milliseconds so no float formatting creeps in. */
+function secondsText(frames: number, rate: FrameRate): string {
+	const milliseconds = framesToMilliseconds(frames, rate);
+	return `${Math.floor(milliseconds / 1000)}.${String(milliseconds % 1000).padStart(3, '0')}`;
+}
+
+function pointOf(frame: number, rate: FrameRate) {
+	return { frame, timecode: formatTimecode(frame, rate), seconds: secondsText(frame, rate) };
+}
+
+/** The board's cards as export rows; 422 when a stored card no longer renders, so no half-checked number reaches the graphics. */
+export function specCardExportRows(board: SpecCardBoard): SpecCardExportRow[] {
+	const broken = board.cards.filter((view) => view.card === null);
+	if (broken.length > 0) {
+		throw new DomainError(
+			422,
+			`${broken.length === 1 ? 'One spec card needs' : `${broken.length} spec cards need`} checking before the export: ${broken.map((view) => view.problem).join(' ')} Open the card, fix it and save, then download again.`,
+			undefined,
+			{ problems: broken.map((view) => ({ cardId: view.id, message: view.problem })) }
+		);
+	}
+	const rate = board.episode.frameRate;
+	return board.cards.map((view) => {
+		const card = view.card!;
+		return {
+			id: view.id,
+			kind: view.kind,
+			segment: view.segment && { position: view.segment.position, title: view.segment.title },
+			start: view.atFrame === null ? null : pointOf(view.atFrame, rate),
+			end: view.atFrame === null ? null : pointOf(view.atFrame + view.durationFrames, rate),
+			durationSeconds: secondsText(view.durationFrames, rate),
+			heading: card.heading,
+			body: card.body ?? null,
+			lines: card.lines,
+			cautions: card.cautions,
+			figures: specCardFigures(view.input)
+		};
+	});
+}
+
+/**
+ * CSV for a titler: one row per card, a header row, CRLF line ends (RFC 4180). Lines go in
+ * numbered column triples (label, imperial, metric) up to the longest card; cautions share one
+ * field, one caution per line, the way they read on screen.
+ */
+export function specCardsCsv(rows: SpecCardExportRow[]): string {
+	const lineCount = Math.max(1, ...rows.map((row) => row.lines.length));
+	const header = [
+		'card_id',
+		'kind',
+		'segment_position',
+		'segment_title',
+		'start_timecode',
+		'start_seconds',
+		'end_timecode',
+		'duration_seconds',
+		'heading',
+		'body'
+	];
+	for (let index = 1; index <= lineCount; index++)
+		header.push(`line_${index}_label`, `line_${index}_imperial`, `line_${index}_metric`);
+	header.push('cautions');
+	const records = [header];
+	for (const row of rows) {
+		const record = [
+			row.id,
+			row.kind,
+			row.segment ? String(row.segment.position) : '',
+			row.segment?.title ?? '',
+			row.start?.timecode ?? '',
+			row.start?.seconds ?? '',
+			row.end?.timecode ?? '',
+			row.durationSeconds,
+			row.heading,
+			row.body ?? ''
+		];
+		for (let index = 0; index < lineCount; index++) {
+			const line = row.lines[index];
+			record.push(line?.label ?? '', line?.imperial ?? '', line?.metric ?? '');
+		}
+		record.push(row.cautions.join('\n'));
+		records.push(record);
+	}
+	return csvText(records);
+}
+
+export interface SpecCardDownload {
+	body: string;
+	contentType: string;
+	filename: string;
+}
+
+/** A file name from the slug, kept to characters every download dialog and header accepts. */
+function downloadName(slug: string, extension: string): string {
+	const safe = slug.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'episode';
+	return `${safe}-spec-cards.${extension}`;
+}
+
+/** The episode's spec cards as a CSV or JSON file for the editor's graphics. */
+export async function specCardDownloadFor(
+	channelId: string,
+	episodeId: string,
+	format: SpecCardExportFormat
+): Promise<SpecCardDownload> {
+	const board = await specCardsFor(channelId, episodeId);
+	const rows = specCardExportRows(board);
+	if (format === 'csv') {
+		// RFC 4180 §3 registers the optional header parameter; ours always has a header row.
+		return {
+			body: specCardsCsv(rows),
+			contentType: 'text/csv; charset=utf-8; header=present',
+			filename: downloadName(board.episode.slug, 'csv')
+		};
+	}
+	const { episode } = board;
+	const document = {
+		episode: {
+			id: episode.id,
+			slug: episode.slug,
+			title: episode.title,
+			frameRate: episode.frameRate,
+			dropFrame: episode.dropFrame
+		},
+		cards: rows
+	};
+	return {
+		body: `${JSON.stringify(document, null, 2)}\n`,
+		contentType: 'application/json; charset=utf-8',
+		filename: downloadName(episode.slug, 'json')
+	};
+}

@@ -1,0 +1,357 @@
+/**
+ * Moving an episode along the production line. A move runs in one transaction: lock the episode,
+ * check who is moving (src/lib/stages.ts), gather the gate snapshot and run the gate checks
+ * (src/lib/gates.ts) for a forward move, change the stage, write the history row, and queue mail
+ * to the people assigned to the stage it arrives at.
+ */
+import { chapterProblemsFor as editChapterProblems } from '../edit/edit';
+import { featuredPartProblemsFor as featuredPartProblems } from '../merch/featured-parts';
+import { error } from '@sveltejs/kit';
+import { db } from '../db';
+import type { Role } from '../db/types';
+import { DomainError } from '../http/api';
+import { scriptFingerprint } from './fingerprint';
+import { assignmentMap, episodeInChannel, rateOf, type Actor, type Executor } from './episodes';
+import { queueMail } from '../mail/outbox';
+import { stageArrivalMail } from '../mail/episode-messages';
+import { gateChecksFor, type GateReason, type GateSnapshot, type ScriptStatus } from '$lib/gates';
+import { isHazardId, type HazardId } from '$lib/cautions';
+import { countSpokenWords } from '$lib/script/timing';
+import {
+	mayMoveStage,
+	moveDirection,
+	nextStage,
+	previousStages,
+	STAGE_LABELS,
+	STAGE_OWNER,
+	STAGE_WORK,
+	forwardMoversText,
+	type Stage
+} from '$lib/stages';
+import type { StageMoveInput } from '$lib/schemas/episodes';
+
+export { scriptFingerprint };
+
+/** The fingerprint of an episode's script as it is saved now. */
+export async function currentScriptFingerprint(
+	executor: Executor,
+	episodeId: string
+): Promise<string> {
+	const rows = await executor
+		.selectFrom('segment')
+		.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
+		.select(['segment.id', 'segmentScript.body'])
+		.where('segment.episodeId', '=', episodeId)
+		.orderBy('segment.position')
+		.execute();
+	return scriptFingerprint(rows);
+}
+
+/** Chapter rule violations for the lock gate (null: no chapters yet); the edit module owns the rules. */
+export const chapterProblemsFor = editChapterProblems;
+
+/** Featured parts the lock gate refuses (not linked, not active, no program time); the parts module owns the rules. */
+export const featuredPartProblemsFor = featuredPartProblems;
+
+/** Everything the gate checks read, gathered in the caller's transaction. */
+export async function gateSnapshotFor(
+	trx: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<GateSnapshot> {
+	const episode = await episodeInChannel(trx, channelId, episodeId);
+	const [assignments, segments, cautions, shots, takes, chapterProblems, featuredPartProblems] =
+		await Promise.all([
+			trx
+				.selectFrom('episodeAssignment')
+				.innerJoin('person', 'person.id', 'episodeAssignment.personId')
+				.select(['episodeAssignment.role', 'person.name'])
+				.where('episodeAssignment.episodeId', '=', episodeId)
+				.execute(),
+			trx
+				.selectFrom('segment')
+				.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
+				.select([
+					'segment.id',
+					'segment.position',
+					'segment.title',
+					'segment.needsFootage',
+					'segment.hazards',
+					'segmentScript.body'
+				])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('segment.position')
+				.execute(),
+			trx
+				.selectFrom('caution')
+				.innerJoin('segment', 'segment.id', 'caution.segmentId')
+				.select(['caution.segmentId', 'caution.hazard', 'caution.text', 'caution.atFrame'])
+				.where('segment.episodeId', '=', episodeId)
+				.execute(),
+			trx
+				.selectFrom('shot')
+				.innerJoin('segment', 'segment.id', 'shot.segmentId')
+				.select(['shot.id', 'shot.segmentId', 'shot.what'])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('shot.position')
+				.execute(),
+			trx
+				.selectFrom('take')
+				.innerJoin('shot', 'shot.id', 'take.shotId')
+				.innerJoin('segment', 'segment.id', 'shot.segmentId')
+				.select(['take.shotId', 'take.clipName', 'take.good', 'take.footageId'])
+				.where('segment.episodeId', '=', episodeId)
+				.orderBy('take.createdAt')
+				.execute(),
+			chapterProblemsFor(trx, channelId, episodeId),
+			featuredPartProblemsFor(trx, channelId, episodeId)
+		]);
+	return {
+		stage: episode.stage,
+		frameRate: rateOf(episode),
+		cutDurationFrames: episode.cutDurationFrames,
+		publishDate: episode.publishDate,
+		assignments: Object.fromEntries(assignments.map((row) => [row.role, row.name])),
+		script: {
+			status: episode.scriptStatus as ScriptStatus,
+			approvedFingerprint: episode.scriptApprovedFingerprint,
+			currentFingerprint: scriptFingerprint(segments)
+		},
+		segments: segments.map((segment) => ({
+			id: segment.id,
+			position: segment.position,
+			title: segment.title,
+			needsFootage: segment.needsFootage,
+			words: countSpokenWords(segment.body),
+			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
+			shots: shots
+				.filter((shot) => shot.segmentId === segment.id)
+				.map((shot) => ({
+					id: shot.id,
+					what: shot.what,
+					takes: takes
+						.filter((take) => take.shotId === shot.id)
+						.map((take) => ({
+							clipName: take.clipName,
+							good: take.good,
+							hasFootage: take.footageId !== null
+						}))
+				})),
+			cautions: cautions
+				.filter((caution) => caution.segmentId === segment.id)
+				.map((caution) => ({
+					hazard: caution.hazard,
+					text: caution.text,
+					atFrame: caution.atFrame
+				}))
+		})),
+		chapterProblems,
+		featuredPartProblems
+	};
+}
+
+export interface StageReport {
+	stage: Stage;
+	next: Stage | null;
+	/** Why the episode may not move to `next` yet; empty when the gate passes. */
+	reasons: GateReason[];
+	/** Whether the person asking may move it forward (the gate is separate). */
+	mayMoveForward: boolean;
+	/** The earlier stages this person may move it back to. */
+	mayMoveBackTo: Stage[];
+	forwardMovers: string;
+}
+
+async function assignmentsOf(
+	executor: Executor,
+	episodeId: string
+): Promise<Partial<Record<Role, string>>> {
+	return assignmentMap(
+		await executor
+			.selectFrom('episodeAssignment')
+			.select(['role', 'personId'])
+			.where('episodeId', '=', episodeId)
+			.execute()
+	);
+}
+
+/** Where the episode stands, what its next gate says, and what this person may do about it. */
+export async function stageReportFor(
+	channelId: string,
+	episodeId: string,
+	viewer: { id: string; roles: readonly Role[] },
+	executor: Executor = db
+): Promise<StageReport> {
+	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const stage = episode.stage;
+	const next = nextStage(stage);
+	const assignments = await assignmentsOf(executor, episodeId);
+	const mover = { personId: viewer.id, roles: viewer.roles };
+	const reasons = next
+		? gateChecksFor(await gateSnapshotFor(executor, channelId, episodeId), next)
+		: [];
+	return {
+		stage,
+		next,
+		reasons,
+		mayMoveForward: next !== null && mayMoveStage(mover, assignments, stage, next),
+		mayMoveBackTo: previousStages(stage).filter((to) =>
+			mayMoveStage(mover, assignments, stage, to)
+		),
+		forwardMovers: forwardMoversText(stage)
+	};
+}
+
+/** The history of moves, newest first. */
+export async function stageHistory(channelId: string, episodeId: string, executor: Executor = db) {
+	await episodeInChannel(executor, channelId, episodeId);
+	const rows = await executor
+		.selectFrom('stageMove')
+		.leftJoin('person', 'person.id', 'stageMove.personId')
+		.select([
+			'stageMove.id',
+			'stageMove.fromStage',
+			'stageMove.toStage',
+			'stageMove.note',
+			'stageMove.createdAt',
+			'person.name as personName'
+		])
+		.where('stageMove.episodeId', '=', episodeId)
+		.orderBy('stageMove.createdAt', 'desc')
+		.orderBy('stageMove.id', 'desc')
+		.execute();
+	return rows.map((row) => ({ ...row, createdAt: new Date(row.createdAt).toISOString() }));
+}
+
+export type StageHistoryRow = Awaited<ReturnType<typeof stageHistory>>[number];
+
+/**
+ * Moves an episode. Forward moves pass the gate checks or are refused with 422 and the reasons in
+ * `gate`; a move from a stage the episode already left answers 409; a person without the right
+ * answers 403. Everything, history row and mail included, is one transaction.
+ */
+export async function moveStage(
+	channelId: string,
+	actor: Actor,
+	episodeId: string,
+	input: StageMoveInput,
+	origin: string
+) {
+	return db.transaction().execute(async (trx) => {
+		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const from = episode.stage;
+		if (from !== input.from) {
+			throw new DomainError(
+				409,
+				`Someone already moved this episode to ${STAGE_LABELS[from]}. Look at where it is now before moving it again.`,
+				undefined,
+				{ current: { stage: from } }
+			);
+		}
+		const direction = moveDirection(from, input.to);
+		if (direction === null) {
+			throw new DomainError(
+				400,
+				input.to === from
+					? `The episode is already at ${STAGE_LABELS[from]}.`
+					: `An episode moves forward one stage at a time: from ${STAGE_LABELS[from]} the next stage is ${STAGE_LABELS[nextStage(from) ?? from]}.`,
+				{ to: ['Not a move from here.'] }
+			);
+		}
+		const assignments = await assignmentsOf(trx, episodeId);
+		if (!mayMoveStage({ personId: actor.id, roles: actor.roles }, assignments, from, input.to)) {
+			error(
+				403,
+				direction === 'back'
+					? 'Only a producer moves an episode back.'
+					: `${forwardMoversText(from)} moves an episode on from ${STAGE_LABELS[from]}.`
+			);
+		}
+		if (direction === 'forward') {
+			const reasons = gateChecksFor(await gateSnapshotFor(trx, channelId, episodeId), input.to);
+			if (reasons.length > 0) {
+				throw new DomainError(
+					422,
+					`Not ready for ${STAGE_LABELS[input.to]} yet: ${reasons.length} thing${reasons.length === 1 ? '' : 's'} to do first.`,
+					undefined,
+					{
+						gate: { passed: false, to: input.to, reasons }
+					}
+				);
+			}
+		}
+		await trx.updateTable('episode').set({ stage: input.to }).where('id', '=', episodeId).execute();
+		const move = await trx
+			.insertInto('stageMove')
+			.values({
+				episodeId,
+				personId: actor.id,
+				fromStage: from,
+				toStage: input.to,
+				note: input.note
+			})
+			.returning(['id', 'fromStage', 'toStage', 'note', 'createdAt'])
+			.executeTakeFirstOrThrow();
+		await queueArrivalMail(trx, {
+			channelId,
+			episodeId,
+			episodeTitle: episode.title,
+			stage: input.to,
+			direction,
+			actor,
+			note: input.note,
+			origin
+		});
+		return {
+			episode: { id: episodeId, stage: input.to },
+			move: { ...move, createdAt: new Date(move.createdAt).toISOString(), personName: actor.name },
+			gate: { passed: true, to: input.to, reasons: [] as GateReason[] }
+		};
+	});
+}
+
+/** Mails the person assigned to the role that works the arrival stage (not the mover themself). */
+async function queueArrivalMail(
+	trx: Executor,
+	input: {
+		channelId: string;
+		episodeId: string;
+		episodeTitle: string;
+		stage: Stage;
+		direction: 'forward' | 'back';
+		actor: Actor;
+		note: string;
+		origin: string;
+	}
+): Promise<void> {
+	const role = STAGE_OWNER[input.stage];
+	if (!role) return;
+	const assignee = await trx
+		.selectFrom('episodeAssignment')
+		.innerJoin('person', 'person.id', 'episodeAssignment.personId')
+		.innerJoin('membership', (join) =>
+			join
+				.onRef('membership.personId', '=', 'person.id')
+				.on('membership.channelId', '=', input.channelId)
+		)
+		.select(['person.id', 'person.name', 'person.email'])
+		.where('episodeAssignment.episodeId', '=', input.episodeId)
+		.where('episodeAssignment.role', '=', role)
+		.where('membership.disabledAt', 'is', null)
+		.executeTakeFirst();
+	if (!assignee || assignee.id === input.actor.id) return;
+	await queueMail(trx, {
+		to: assignee.email,
+		channelId: input.channelId,
+		...stageArrivalMail({
+			personName: assignee.name,
+			episodeTitle: input.episodeTitle,
+			stageLabel: STAGE_LABELS[input.stage],
+			direction: input.direction,
+			moverName: input.actor.name,
+			stageWork: STAGE_WORK[input.stage].toLowerCase(),
+			note: input.note,
+			link: `${input.origin}/episodes/${input.episodeId}`
+		})
+	});
+}

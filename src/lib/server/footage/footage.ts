@@ -1,0 +1,119 @@
+/** Footage and uploaded cuts of an episode: listing, the file behind a row, and deleting both together. */
+import { access, unlink } from 'node:fs/promises';
+import path from 'node:path';
+import { db } from '../db';
+import { DomainError, notFound } from '../http/api';
+import { isUuid } from '../auth/identity';
+import { uploadDir } from './tus-server';
+
+export const FOOTAGE_SORTS = ['created', 'clip', 'camera', 'size', 'duration'] as const;
+export type FootageSort = (typeof FOOTAGE_SORTS)[number];
+
+const sortColumn = {
+	created: 'footage.createdAt',
+	clip: 'footage.clipName',
+	camera: 'footage.cameraLabel',
+	size: 'footage.sizeBytes',
+	duration: 'footage.durationSeconds'
+} as const;
+
+export async function listFootage(
+	channelId: string,
+	episodeId: string,
+	options: {
+		shootDayId?: string;
+		camera?: string;
+		purpose?: 'footage' | 'cut';
+		sort?: FootageSort;
+		direction?: 'asc' | 'desc';
+	} = {}
+) {
+	if (!isUuid(episodeId)) throw notFound('That episode');
+	const episode = await db
+		.selectFrom('episode')
+		.select(['id', 'title', 'slug', 'frameRate'])
+		.where('id', '=', episodeId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!episode) throw notFound('That episode');
+	let query = db
+		.selectFrom('footage')
+		.leftJoin('shootDay', 'shootDay.id', 'footage.shootDayId')
+		.leftJoin('person', 'person.id', 'footage.uploadedBy')
+		.select([
+			'footage.id',
+			'footage.uploadId',
+			'footage.purpose',
+			'footage.clipName',
+			'footage.fileName',
+			'footage.fileType',
+			'footage.cameraLabel',
+			'footage.sizeBytes',
+			'footage.sha256',
+			'footage.durationSeconds',
+			'footage.frameRate',
+			'footage.videoCodec',
+			'footage.probeNote',
+			'footage.createdAt',
+			'footage.shootDayId',
+			'shootDay.shootDate',
+			'person.name as uploadedByName'
+		])
+		.where('footage.channelId', '=', channelId)
+		.where('footage.episodeId', '=', episodeId);
+	if (options.shootDayId && isUuid(options.shootDayId))
+		query = query.where('footage.shootDayId', '=', options.shootDayId);
+	if (options.camera) query = query.where('footage.cameraLabel', '=', options.camera);
+	if (options.purpose) query = query.where('footage.purpose', '=', options.purpose);
+	const rows = await query
+		.orderBy(sortColumn[options.sort ?? 'created'], options.direction ?? 'desc')
+		.orderBy('footage.id')
+		.execute();
+	// Whether the file behind each row is on this server, so the page offers Play and Download only
+	// where they can work (the demo's rows, or a file removed from disk, have none).
+	const footage = await Promise.all(
+		rows.map(async ({ uploadId, ...row }) => ({
+			...row,
+			onDisk: await access(path.join(uploadDir(), uploadId)).then(
+				() => true,
+				() => false
+			)
+		}))
+	);
+	return { episode, footage };
+}
+
+export async function footageFile(channelId: string, footageId: string) {
+	if (!isUuid(footageId)) throw notFound('That clip');
+	const row = await db
+		.selectFrom('footage')
+		.select(['id', 'uploadId', 'fileName', 'fileType', 'sizeBytes'])
+		.where('id', '=', footageId)
+		.where('channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!row) throw notFound('That clip');
+	return { ...row, path: path.join(uploadDir(), row.uploadId) };
+}
+
+/** Deletes the row and its file in one go: if the file cannot be removed, the row stays. */
+export async function deleteFootage(channelId: string, footageId: string): Promise<void> {
+	const file = await footageFile(channelId, footageId);
+	await db.transaction().execute(async (trx) => {
+		await trx
+			.deleteFrom('footage')
+			.where('id', '=', file.id)
+			.where('channelId', '=', channelId)
+			.execute();
+		await trx.deleteFrom('upload').where('id', '=', file.uploadId).execute();
+		try {
+			await unlink(file.path);
+		} catch (failure) {
+			if ((failure as NodeJS.ErrnoException).code !== 'ENOENT')
+				throw new DomainError(
+					409,
+					'The file could not be removed from disk; nothing was deleted. Try again.'
+				);
+		}
+		await unlink(file.path + '.json').catch(() => undefined);
+	});
+}

@@ -1,0 +1,269 @@
+/**
+ * Resumable uploads (tus 1.0.0) into UPLOAD_DIR with @tus/server and @tus/file-store, mounted at
+ * /api/uploads from hooks.server.ts. Who may upload is checked before tus sees the request, so no
+ * byte is stored for a caller without the right role. On completion the file is hashed (SHA-256,
+ * streamed), probed with ffprobe when present, and recorded as a footage row.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import path from 'node:path';
+import { pipeline } from 'node:stream/promises';
+import { pipeline as pipe, Transform, type Readable } from 'node:stream';
+import type { RequestEvent } from '@sveltejs/kit';
+import { Server } from '@tus/server';
+import { FileStore } from '@tus/file-store';
+import { Metadata } from '@tus/utils';
+import { z } from 'zod';
+import { env } from '$env/dynamic/private';
+import {
+	ALLOWED_UPLOAD_TYPE,
+	DEFAULT_MAX_UPLOAD_BYTES,
+	UPLOAD_PATH,
+	cleanFileName
+} from '$lib/upload-rules';
+import { db } from '../db';
+import type { Role } from '../db/types';
+import { isUuid } from '../auth/identity';
+import { probeMedia } from './probe';
+
+export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
+export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
+const TUS_ID = /^[0-9a-f]{32}$/;
+
+/** Who may start an upload of each kind (producers may do both). */
+export const UPLOAD_ROLES: Record<'footage' | 'cut', Role[]> = {
+	footage: ['camera', 'producer'],
+	cut: ['editor', 'producer']
+};
+
+const metadataSchema = z.object({
+	episodeId: z.string().refine(isUuid, 'episodeId must be an episode of this channel.'),
+	purpose: z.enum(['footage', 'cut']).default('footage'),
+	filename: z.string().min(1, 'filename is required.').max(1000),
+	filetype: z
+		.string()
+		.regex(
+			ALLOWED_UPLOAD_TYPE,
+			'Only video, audio and still-image files can be uploaded; SVG and other markup files are refused.'
+		),
+	clipName: z.string().trim().max(120).optional(),
+	cameraLabel: z.string().trim().max(40).optional(),
+	shootDayId: z
+		.string()
+		.refine(isUuid, 'shootDayId must be a shoot day of this episode.')
+		.optional()
+});
+
+interface UploadClaim {
+	channelId: string;
+	personId: string;
+	episodeId: string;
+	shootDayId: string | null;
+	purpose: 'footage' | 'cut';
+	clipName: string;
+	cameraLabel: string;
+	fileName: string;
+	fileType: string;
+}
+
+/** The checked facts about a creation request, handed from the hook to tus's callbacks. */
+const claims = new WeakMap<Request, UploadClaim>();
+
+/**
+ * SHA-256 computed while the bytes arrive, so completion needs no second pass over a large file.
+ * The running hash is trusted only while every write continues exactly where the last one ended;
+ * after a resume from another offset (an aborted request, a restarted server) it is dropped and the
+ * file is hashed from disk on completion instead.
+ */
+const runningHashes = new Map<string, { hash: ReturnType<typeof createHash>; offset: number }>();
+
+class HashingFileStore extends FileStore {
+	override async write(readable: Readable, id: string, offset: number): Promise<number> {
+		let tracking = runningHashes.get(id);
+		if (!tracking || tracking.offset !== offset) {
+			runningHashes.delete(id);
+			tracking = offset === 0 ? { hash: createHash('sha256'), offset: 0 } : undefined;
+		}
+		let seen = 0;
+		const tap = new Transform({
+			transform(chunk: Buffer, _encoding, done) {
+				tracking?.hash.update(chunk);
+				seen += chunk.length;
+				done(null, chunk);
+			}
+		});
+		const newOffset = await super.write(
+			pipe(readable, tap, () => undefined),
+			id,
+			offset
+		);
+		if (tracking && newOffset === offset + seen)
+			runningHashes.set(id, { hash: tracking.hash, offset: newOffset });
+		else runningHashes.delete(id);
+		return newOffset;
+	}
+}
+
+/** The hash of a finished upload if it was seen whole while arriving, else null. */
+function takeRunningHash(id: string, size: number): string | null {
+	const tracking = runningHashes.get(id);
+	runningHashes.delete(id);
+	return tracking && tracking.offset === size ? tracking.hash.digest('hex') : null;
+}
+
+let server: Server | null = null;
+function tusServer(): Server {
+	server ??= new Server({
+		path: UPLOAD_PATH,
+		datastore: new HashingFileStore({ directory: uploadDir() }),
+		maxSize: maxUploadBytes(),
+		relativeLocation: true,
+		respectForwardedHeaders: env.TRUST_PROXY === 'true',
+		disableTerminationForFinishedUploads: true,
+		namingFunction: () => randomBytes(16).toString('hex'),
+		async onUploadCreate(req, upload) {
+			const claim = claims.get(req as unknown as Request);
+			if (!claim) throw { status_code: 403, body: 'Upload not authorised.\n' };
+			await db
+				.insertInto('upload')
+				.values({ id: upload.id, ...claim, sizeBytes: upload.size ?? 0 })
+				.execute();
+			return {};
+		},
+		async onUploadFinish(_req, upload) {
+			await recordFootage(upload.id);
+			return {};
+		}
+	});
+	return server;
+}
+
+const tusError = (status: number, message: string) =>
+	new Response(message + '\n', {
+		status,
+		headers: { 'Tus-Resumable': '1.0.0', 'Content-Type': 'text/plain; charset=utf-8' }
+	});
+
+/** Authorises a tus request, then hands it to @tus/server. Called from hooks.server.ts. */
+export async function handleUpload(event: RequestEvent): Promise<Response> {
+	const method = event.request.method;
+	if (method === 'OPTIONS') return tusServer().handleWeb(event.request);
+	const { person, channel, roles } = event.locals;
+	if (!person || !channel) return tusError(401, 'Sign in to upload.');
+	const rest = event.url.pathname.slice(UPLOAD_PATH.length).replace(/^\//, '');
+
+	if (method === 'POST') {
+		if (rest !== '') return tusError(404, 'Not found.');
+		const parsed = metadataSchema.safeParse(
+			Metadata.parse(event.request.headers.get('upload-metadata') ?? undefined)
+		);
+		if (!parsed.success)
+			return tusError(400, parsed.error.issues.map((issue) => issue.message).join(' '));
+		const meta = parsed.data;
+		if (!UPLOAD_ROLES[meta.purpose].some((role) => roles.includes(role))) {
+			return tusError(
+				403,
+				meta.purpose === 'cut'
+					? 'Uploading a cut needs the editor or producer role.'
+					: 'Uploading footage needs the camera or producer role.'
+			);
+		}
+		const episode = await db
+			.selectFrom('episode')
+			.select('id')
+			.where('id', '=', meta.episodeId)
+			.where('channelId', '=', channel.id)
+			.executeTakeFirst();
+		if (!episode) return tusError(404, 'That episode was not found in this channel.');
+		if (meta.shootDayId) {
+			const day = await db
+				.selectFrom('shootDay')
+				.select('id')
+				.where('id', '=', meta.shootDayId)
+				.where('episodeId', '=', meta.episodeId)
+				.executeTakeFirst();
+			if (!day) return tusError(404, 'That shoot day was not found for this episode.');
+		}
+		const fileName = cleanFileName(meta.filename);
+		claims.set(event.request, {
+			channelId: channel.id,
+			personId: person.id,
+			episodeId: meta.episodeId,
+			shootDayId: meta.shootDayId ?? null,
+			purpose: meta.purpose,
+			clipName: meta.clipName || fileName.replace(/\.[^.]+$/, ''),
+			cameraLabel: meta.cameraLabel ?? '',
+			fileName,
+			fileType: meta.filetype.toLowerCase()
+		});
+		return tusServer().handleWeb(event.request);
+	}
+
+	// HEAD, PATCH, DELETE on one upload: it must be the caller's, in this channel (a producer may act on any).
+	if (!TUS_ID.test(rest)) return tusError(404, 'Not found.');
+	if (method !== 'HEAD' && method !== 'PATCH' && method !== 'DELETE')
+		return tusError(405, 'Use HEAD, PATCH or DELETE on an upload.');
+	const upload = await db
+		.selectFrom('upload')
+		.select(['personId', 'channelId'])
+		.where('id', '=', rest)
+		.executeTakeFirst();
+	if (
+		!upload ||
+		upload.channelId !== channel.id ||
+		(upload.personId !== person.id && !roles.includes('producer'))
+	)
+		return tusError(404, 'Not found.');
+	const response = await tusServer().handleWeb(event.request);
+	if (method === 'DELETE' && response.status === 204)
+		await db.deleteFrom('upload').where('id', '=', rest).where('completedAt', 'is', null).execute();
+	return response;
+}
+
+/** Streams the file through SHA-256: memory stays flat whatever the file's size. */
+export async function sha256OfFile(file: string): Promise<string> {
+	const hash = createHash('sha256');
+	await pipeline(createReadStream(file, { highWaterMark: 1024 * 1024 }), hash);
+	return hash.digest('hex');
+}
+
+async function recordFootage(uploadId: string): Promise<void> {
+	const upload = await db
+		.selectFrom('upload')
+		.selectAll()
+		.where('id', '=', uploadId)
+		.executeTakeFirstOrThrow();
+	const file = path.join(uploadDir(), uploadId);
+	const running = takeRunningHash(uploadId, upload.sizeBytes);
+	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
+	await db.transaction().execute(async (trx) => {
+		await trx
+			.insertInto('footage')
+			.values({
+				channelId: upload.channelId,
+				episodeId: upload.episodeId,
+				shootDayId: upload.shootDayId,
+				uploadId,
+				purpose: upload.purpose,
+				cameraLabel: upload.cameraLabel,
+				clipName: upload.clipName,
+				fileName: upload.fileName,
+				fileType: upload.fileType,
+				sizeBytes: upload.sizeBytes,
+				sha256,
+				durationSeconds: probe.durationSeconds,
+				frameRate: probe.frameRate,
+				videoCodec: probe.videoCodec,
+				probeNote: probe.note,
+				uploadedBy: upload.personId
+			})
+			.onConflict((oc) => oc.column('uploadId').doNothing())
+			.execute();
+		await trx
+			.updateTable('upload')
+			.set({ completedAt: new Date() })
+			.where('id', '=', uploadId)
+			.execute();
+	});
+}

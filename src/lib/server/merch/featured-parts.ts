@@ -1,0 +1,288 @@
+/**
+ * Featured parts: every catalogue part linked on an episode's segment notes, in order of first
+ * appearance in the cut, with each appearance time, and what needs fixing before the picture is
+ * locked:
+ * - a part discontinued or out of stock (viewers would follow a link to a part they can't buy);
+ * - a part on a note with no program time yet (the description can't say when it is on screen);
+ * - a part named in the script (its SKU, or its exact name, as whole words, ignoring case and
+ *   the punctuation around them) but never linked on a note (a list only; it doesn't hold up the lock).
+ */
+import { sql } from 'kysely';
+import { db } from '../db';
+import { episodeInChannel, rateOf, type Executor } from '../episodes/episodes';
+import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import type { Role } from '$lib/roles';
+
+export interface FeaturedAppearance {
+	noteId: string;
+	programFrame: number;
+	timecode: string;
+	/** M:SS (H:MM:SS past an hour), cut off to the second as a description shows it. */
+	clock: string;
+}
+
+export interface FeaturedPart {
+	partId: string;
+	sku: string;
+	name: string;
+	brand: string;
+	category: string;
+	status: 'active' | 'discontinued' | 'out_of_stock';
+	storeUrl: string;
+	priceCents: number;
+	currency: string;
+	/** First frame in the cut it is on screen; null when none of its notes is placed. */
+	firstFrame: number | null;
+	appearances: FeaturedAppearance[];
+	/** Notes showing it that have no program time yet. */
+	unplaced: { noteId: string; text: string }[];
+	linkCode: string | null;
+}
+
+export type FeaturedWarningKind =
+	'discontinued' | 'out-of-stock' | 'no-program-time' | 'named-not-linked';
+
+export interface FeaturedWarning {
+	kind: FeaturedWarningKind;
+	partId: string;
+	sku: string;
+	message: string;
+	/** Whether this one holds up the edit → locked gate. */
+	blocksLock: boolean;
+}
+
+export interface FeaturedParts {
+	episode: { id: string; title: string; slug: string; frameRate: FrameRate };
+	parts: FeaturedPart[];
+	warnings: FeaturedWarning[];
+}
+
+/** The columns of a featured-part row (a note's part link, the part, its tracked link); the publish kit reads the same. */
+export const FEATURED_COLUMNS = [
+	'part.id as partId',
+	'part.sku',
+	'part.name',
+	'part.brand',
+	'part.category',
+	'part.status',
+	'part.storeUrl',
+	'part.priceCents',
+	'part.currency',
+	'segmentNote.id as noteId',
+	'segmentNote.programFrame',
+	'segmentNote.text',
+	'trackedLink.code as linkCode'
+] as const;
+
+/** One row per (note, part) link of the episode, with the part and its tracked link. */
+function featuredRows(executor: Executor, episodeId: string) {
+	return executor
+		.selectFrom('segmentNotePart')
+		.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
+		.innerJoin('part', 'part.id', 'segmentNotePart.partId')
+		.leftJoin('trackedLink', (join) =>
+			join
+				.onRef('trackedLink.partId', '=', 'part.id')
+				.onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId')
+		)
+		.select(FEATURED_COLUMNS)
+		.where('segmentNote.episodeId', '=', episodeId)
+		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
+		.orderBy('segmentNote.createdAt')
+		.execute();
+}
+
+type FeaturedRow = Awaited<ReturnType<typeof featuredRows>>[number];
+
+export const clockAt = (frame: number, rate: FrameRate) =>
+	formatClock(framesToSeconds(frame, rate));
+
+/** Groups (note, part) rows into parts ordered by first appearance; parts never placed come last, by SKU. */
+export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): FeaturedPart[] {
+	const parts = new Map<string, FeaturedPart>();
+	for (const row of rows) {
+		let part = parts.get(row.partId);
+		if (!part) {
+			part = {
+				partId: row.partId,
+				sku: row.sku,
+				name: row.name,
+				brand: row.brand,
+				category: row.category,
+				status: row.status,
+				storeUrl: row.storeUrl,
+				priceCents: row.priceCents,
+				currency: row.currency,
+				firstFrame: null,
+				appearances: [],
+				unplaced: [],
+				linkCode: row.linkCode
+			};
+			parts.set(row.partId, part);
+		}
+		if (row.programFrame === null) part.unplaced.push({ noteId: row.noteId, text: row.text });
+		else {
+			part.appearances.push({
+				noteId: row.noteId,
+				programFrame: row.programFrame,
+				timecode: formatTimecode(row.programFrame, rate),
+				clock: clockAt(row.programFrame, rate)
+			});
+			part.firstFrame =
+				part.firstFrame === null ? row.programFrame : Math.min(part.firstFrame, row.programFrame);
+		}
+	}
+	for (const part of parts.values())
+		part.appearances.sort((a, b) => a.programFrame - b.programFrame);
+	return [...parts.values()].sort((a, b) => {
+		if (a.firstFrame === null || b.firstFrame === null)
+			return a.firstFrame === b.firstFrame
+				? a.sku.localeCompare(b.sku)
+				: a.firstFrame === null
+					? 1
+					: -1;
+		return a.firstFrame - b.firstFrame || a.sku.localeCompare(b.sku);
+	});
+}
+
+const shortText = (text: string) => {
+	const line = text.replace(/\s+/g, ' ').trim();
+	return line.length > 50 ? `${line.slice(0, 49)}…` : line;
+};
+
+const atTimes = (part: FeaturedPart) =>
+	part.appearances.length
+		? ` (on screen at ${part.appearances.map((a) => a.clock).join(', ')})`
+		: '';
+
+/** The warnings that hold up the lock, in the crew's words. */
+export function lockWarnings(parts: readonly FeaturedPart[]): FeaturedWarning[] {
+	const warnings: FeaturedWarning[] = [];
+	for (const part of parts) {
+		const label = `${part.sku} “${part.name}”`;
+		if (part.status === 'discontinued') {
+			warnings.push({
+				kind: 'discontinued',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is discontinued${atTimes(part)}: link a current catalogue part on its notes instead.`
+			});
+		} else if (part.status === 'out_of_stock') {
+			warnings.push({
+				kind: 'out-of-stock',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is out of stock${atTimes(part)}: restock it or link an active part instead.`
+			});
+		}
+		for (const note of part.unplaced) {
+			warnings.push({
+				kind: 'no-program-time',
+				partId: part.partId,
+				sku: part.sku,
+				blocksLock: true,
+				message: `${label} is on a note with no program time (“${shortText(note.text)}”): the editor places the note in the cut.`
+			});
+		}
+	}
+	return warnings;
+}
+
+/** Sentence punctuation and Markdown emphasis around a word, which a part number or name doesn't include. */
+const LEADING = /^[("'“‘*_[]+/u;
+const TRAILING = /[.,;:!?)"'”’*_\]]+$/u;
+
+/**
+ * Every run of 1 to `maxWords` consecutive words of the text, lower-cased, joined by one space,
+ * with the punctuation around the run taken off (and also as written). A part is "named" when its
+ * SKU or its whole name is one of these: whole words only, so "IBS-LB-300" is not named by
+ * "IBS-LB-300T", and case and line breaks don't matter.
+ */
+export function scriptPhrases(text: string, maxWords = 12): string[] {
+	const words = text.toLowerCase().split(/\s+/u).filter(Boolean);
+	const phrases = new Set<string>();
+	for (let start = 0; start < words.length; start++) {
+		for (let length = 1; length <= maxWords && start + length <= words.length; length++) {
+			const run = words.slice(start, start + length);
+			phrases.add(run.join(' '));
+			run[0] = run[0].replace(LEADING, '');
+			run[run.length - 1] = run[run.length - 1].replace(TRAILING, '');
+			const trimmed = run.join(' ');
+			if (trimmed) phrases.add(trimmed);
+		}
+	}
+	return [...phrases];
+}
+
+/** Catalogue parts whose SKU or exact name is in the episode's script text (see scriptPhrases). */
+async function partsNamedInScript(executor: Executor, channelId: string, episodeId: string) {
+	const scripts = await executor
+		.selectFrom('segmentScript')
+		.innerJoin('segment', 'segment.id', 'segmentScript.segmentId')
+		.select('segmentScript.body')
+		.where('segment.episodeId', '=', episodeId)
+		.execute();
+	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
+	if (phrases.length === 0) return [];
+	// One pass over the catalogue with hashed lookups in the phrase list, instead of a text search per part.
+	const named = await sql<{ id: string; sku: string; name: string }>`
+		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
+		SELECT part.id, part.sku, part.name FROM part
+		WHERE part.channel_id = ${channelId}
+		  AND (lower(part.sku) IN (SELECT text FROM phrase) OR lower(part.name) IN (SELECT text FROM phrase))
+		ORDER BY part.sku`.execute(executor);
+	return named.rows;
+}
+
+/** The featured parts list and its warnings for one episode of the channel (404 otherwise). */
+export async function featuredPartsFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<FeaturedParts> {
+	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const rate = rateOf(episode);
+	const [rows, named] = await Promise.all([
+		featuredRows(executor, episode.id),
+		partsNamedInScript(executor, channelId, episode.id)
+	]);
+	const parts = groupFeatured(rows, rate);
+	const featured = new Set(parts.map((part) => part.partId));
+	const warnings = lockWarnings(parts);
+	for (const part of named) {
+		if (featured.has(part.id)) continue;
+		warnings.push({
+			kind: 'named-not-linked',
+			partId: part.id,
+			sku: part.sku,
+			blocksLock: false,
+			message: `${part.sku} “${part.name}” is named in the script but no note links it: link it where it is on screen, or check the script.`
+		});
+	}
+	return {
+		episode: { id: episode.id, title: episode.title, slug: episode.slug, frameRate: rate },
+		parts,
+		warnings
+	};
+}
+
+/**
+ * For the edit → locked gate: why the featured parts aren't ready, in plain words ([] when they
+ * are): every featured part is an active catalogue part and every note showing one has a program
+ * time. 404 for an episode of another channel.
+ */
+export async function featuredPartProblemsFor(
+	executor: Executor,
+	channelId: string,
+	episodeId: string
+): Promise<{ message: string; fixedBy: Role }[]> {
+	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const parts = groupFeatured(await featuredRows(executor, episode.id), rateOf(episode));
+	// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
+	return lockWarnings(parts).map((warning) => ({
+		message: warning.message,
+		fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch'
+	}));
+}
