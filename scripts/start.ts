@@ -54,7 +54,9 @@ const env: Record<string, string> = {
 	DATABASE_URL: databaseUrl,
 	HOST: host,
 	PORT: String(port),
-	ORIGIN: origin
+	ORIGIN: origin,
+	// Production mode for the libraries that read it (SvelteKit's server output, Auth.js's logging).
+	NODE_ENV: 'production'
 };
 if (!env.SMTP_URL) {
 	const mailPort = Number(process.env.FAKE_SMTP_PORT ?? 2526);

@@ -6,10 +6,10 @@ import {
 	type HandleServerError
 } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { getToken } from '@auth/core/jwt';
 import { env } from '$env/dynamic/private';
 import { authHandle } from './auth';
 import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/server/auth/identity';
+import { sessionIdFromCookie } from '$lib/server/auth/session-cookie';
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
@@ -43,16 +43,14 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 		return resolve(event);
 	}
 
-	// The Auth.js session cookie only carries the session id, so it is decoded here with Auth.js's
-	// own getToken (same cookie name, salt and secret) instead of a full round through its session
-	// endpoint, which would also re-encrypt the cookie on every request. A forged, stale or expired
-	// cookie decodes to null: simply no session.
-	const token = await getToken({
-		req: event.request,
-		secret: env.AUTH_SECRET,
-		secureCookie: event.url.protocol === 'https:'
-	}).catch(() => null);
-	const sid = typeof token?.sid === 'string' ? token.sid : undefined;
+	// The Auth.js session cookie only carries the session id, so it is decoded with Auth.js's own
+	// getToken (same cookie name, salt and secret) instead of a full round through its session
+	// endpoint, which would also re-encrypt the cookie on every request.
+	const sid = await sessionIdFromCookie(
+		event.request,
+		env.AUTH_SECRET,
+		event.url.protocol === 'https:'
+	);
 	if (sid) {
 		const identity = await identityFromSession(sid, event.cookies.get(CHANNEL_COOKIE));
 		if (identity.person) Object.assign(event.locals, identity, { via: 'session', sessionId: sid });

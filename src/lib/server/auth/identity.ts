@@ -109,10 +109,18 @@ export async function identityFromToken(token: string): Promise<Identity> {
 		.where('apiToken.revokedAt', 'is', null)
 		.executeTakeFirst();
 	if (!row) return nobody;
+	// At most one write a minute per token: a script calling many times a second would otherwise
+	// turn every read into a write.
 	await db
 		.updateTable('apiToken')
 		.set({ lastUsedAt: sql<Date>`now()` })
 		.where('id', '=', row.tokenId)
+		.where((eb) =>
+			eb.or([
+				eb('lastUsedAt', 'is', null),
+				eb('lastUsedAt', '<', sql<Date>`now() - interval '1 minute'`)
+			])
+		)
 		.execute();
 	return identityFor(
 		{ id: row.id, email: row.email, name: row.name },
