@@ -17,6 +17,8 @@ export default defineConfig({
 			{
 				// Integration and browser tests share one throwaway PostgreSQL cluster,
 				// one fake mail server and one built server, started in global setup.
+				// One project, so that world starts once; `npm run test:integration` and
+				// `npm run test:browser` pass it one folder each.
 				extends: true,
 				test: {
 					name: 'server',

@@ -111,7 +111,7 @@ function searchMix(): { kind: string; query: string }[] {
 
 /** An hour-long episode: 12 chapters, 10 segments with a caution each, 200 notes showing 100 parts. */
 async function bigEpisode(pool: pg.Pool, channelId: string): Promise<string> {
-	// 1 h at 29.97: 107892 frames (SMPTE ST 12-1, REFERENCES.md).
+	// 1 h at 29.97: 107892 frames (SMPTE ST 12-1; tests/REFERENCES.md, "Timecode").
 	const [{ id }] = (
 		await pool.query(
 			`INSERT INTO episode (channel_id, title, slug, logline, target_runtime_seconds, frame_rate, stage, cut_duration_frames)

@@ -1,5 +1,6 @@
 /**
- * npm start: the whole product on one machine. Uses DATABASE_URL when set, else the embedded
+ * npm start: the whole product on one machine. Installs the Debian packages it needs when they are
+ * missing (scripts/lib/system-packages.sh); uses DATABASE_URL when set, else the embedded
  * PostgreSQL cluster under .data/postgres; migrates; writes the demo data into an empty database;
  * runs the loopback fake mail server unless SMTP_URL is set; then serves the built app.
  */
@@ -13,6 +14,16 @@ import { seedDemo } from './lib/seed.ts';
 import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
 import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/upload-rules.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
+
+// PostgreSQL for the embedded cluster (not needed with DATABASE_URL); ffmpeg because the server
+// reads uploaded footage with ffprobe. The shared check installs them as root or says how.
+const systemPackages = process.env.DATABASE_URL ? ['ffmpeg'] : ['postgresql', 'ffmpeg'];
+const packageCheck = spawnSync(
+	'bash',
+	[path.join(projectRoot, 'scripts/lib/system-packages.sh'), 'npm start', ...systemPackages],
+	{ stdio: 'inherit' }
+);
+if (packageCheck.status !== 0) process.exit(packageCheck.status ?? 1);
 
 const host = process.env.HOST ?? '127.0.0.1';
 const port = Number(process.env.PORT ?? 3100);

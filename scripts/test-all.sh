@@ -1,7 +1,10 @@
 #!/usr/bin/env bash
-# npm test: lint and format check, type-check, build the production server, then run every test (unit, integration, browser).
+# npm test: install the Debian packages the tests need when missing, lint and format check,
+# type-check, build the production server, then run every test (unit, integration, browser).
 set -euo pipefail
 cd "$(dirname "$0")/.."
+# PostgreSQL for the throwaway test cluster, Chromium for the browser tests, ffmpeg for footage.
+bash scripts/lib/system-packages.sh 'npm test' postgresql chromium ffmpeg
 node node_modules/@sveltejs/kit/svelte-kit.js sync
 npm run lint
 node node_modules/svelte-check/bin/svelte-check --tsconfig ./tsconfig.json --threshold error --output human

@@ -2,9 +2,10 @@
  * In a real browser: the editor opens a demo episode's timeline, types the cut's length, marks
  * three chapters with the keyboard at the playhead and downloads the description text.
  *
- * Expected times use the exact rate 30000/1001 (REFERENCES.md): ten seconds are 299.7 frames, so a
- * Shift+→ from a whole frame lands 300 frames on, and → lands 30 frames on (29.97 → 30). Timecode
- * labels are checked with the npm package `smpte-timecode` (SMPTE ST 12-1 drop-frame).
+ * Expected times use the exact rate 30000/1001 (tests/REFERENCES.md, "Frame rates"): ten seconds
+ * are 299.7 frames, so a Shift+→ from a whole frame lands 300 frames on, and → lands 30 frames on
+ * (29.97 → 30). Timecode labels are checked with the npm package `smpte-timecode` (SMPTE ST 12-1
+ * drop-frame).
  */
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';

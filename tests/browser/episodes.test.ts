@@ -6,7 +6,8 @@
  * Sources: narration pace 150 wpm by default (common practice; Lucas, The Art of Public Speaking),
  * so 300 spoken words are 2:00 before any calibration; Rico's pace in the demo is measured from his
  * recorded segments (calibratePace: words ÷ recorded minutes), so the test reads the pace the page
- * states and checks the time against it. Drop-frame labels per SMPTE ST 12-1 (REFERENCES.md).
+ * states and checks the time against it. Drop-frame labels per SMPTE ST 12-1
+ * (tests/REFERENCES.md, "Timecode").
  */
 import { afterAll, beforeAll, beforeEach, describe, expect, test } from 'vitest';
 import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';

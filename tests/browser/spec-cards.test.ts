@@ -3,12 +3,12 @@
  * and a torque card with their live previews, and downloads the CSV export.
  *
  * Expected figures come from outside sources, not from the code:
- * - Tyres: handbook arithmetic (REFERENCES.md): 265/70R17 → 31.61 in (802.8 mm), 285/70R17 → 32.71 in
- *   (830.8 mm); axle height rises by half the diameter change (common practice); true speed =
+ * - Tyres: handbook arithmetic (tests/REFERENCES.md, "Tyres"): 265/70R17 → 31.61 in (802.8 mm),
+ *   285/70R17 → 32.71 in (830.8 mm); axle height rises by half the diameter change (common practice); true speed =
  *   indicated × 32.71 ÷ 31.61.
  * - Torque: NIST SP 811 Appendix B.8, 1 ft·lbf = 1.355818 N·m.
  * - Timecode: SMPTE ST 12-1 drop-frame labels at 29.97, checked with the npm package `smpte-timecode`;
- *   clock time to frames at the exact rate 30000/1001 (REFERENCES.md).
+ *   clock time to frames at the exact rate 30000/1001 (tests/REFERENCES.md, "Frame rates").
  * - CSV: RFC 4180, read back with `papaparse`.
  */
 import { readFileSync } from 'node:fs';

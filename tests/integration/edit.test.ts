@@ -5,7 +5,8 @@
  *
  * Outside sources for the checks:
  * - Timecode: SMPTE ST 12-1 drop-frame counting (the spec is paywalled; checked with the npm
- *   package `smpte-timecode`); real time at the exact rate 30000/1001 (REFERENCES.md).
+ *   package `smpte-timecode`); real time at the exact rate 30000/1001 (tests/REFERENCES.md,
+ *   "Frame rates").
  * - WebVTT: W3C WebVTT, read back by `webvtt-parser` (the W3C validator's parser), zero errors.
  * - FFmpeg metadata: ffmpeg-formats "Metadata", read back by `ffmeta` (modelled on FFmpeg's
  *   ffmetadec.c), and by ffprobe where Debian's ffmpeg is installed.
@@ -184,7 +185,7 @@ describe('the cut’s length', () => {
 			json: { duration: '13:40' }
 		});
 		expect(clock.status).toBe(200);
-		// 820 s × 30000 / 1001 = 24575.42… → 24575 (REFERENCES.md: exact rates).
+		// 820 s × 30000 / 1001 = 24575.42… → 24575 (tests/REFERENCES.md, "Frame rates").
 		expect(clock.body.cut.durationFrames).toBe(24575);
 		const withMillis = await visitors.producer!.api(`/api/episodes/${id}/cut`, {
 			method: 'PATCH',
@@ -1010,7 +1011,7 @@ describe('the edit page', () => {
 		const { id } = await newEpisode();
 		const cut = await editor().action(`/episodes/${id}/edit?/setCut`, { duration: '00:10:00;00' });
 		expect(cut.type).toBe('redirect');
-		// 00:10:00;00 at 29.97 DF = 17982 frames (SMPTE ST 12-1; REFERENCES.md).
+		// 00:10:00;00 at 29.97 DF = 17982 frames (SMPTE ST 12-1; tests/REFERENCES.md, "Timecode").
 		expect(
 			(await sql(`SELECT cut_duration_frames FROM episode WHERE id = $1`, [id]))[0]
 				.cut_duration_frames

@@ -4,8 +4,9 @@
  * the version checks that keep two people's edits.
  *
  * Outside sources for the checks:
- * - Timecode of placed cautions: SMPTE ST 12-1 drop-frame labels at 29.97 (REFERENCES.md: frame
- *   1800 is 00:01:00;02; 17982 frames are 00:10:00;00), so 00:00:10;00 is frame 300.
+ * - Timecode of placed cautions: SMPTE ST 12-1 drop-frame labels at 29.97 (tests/REFERENCES.md,
+ *   "Timecode": frame 1800 is 00:01:00;02; 17982 frames are 00:10:00;00), so 00:00:10;00 is
+ *   frame 300.
  * - Narration pace: 150 words per minute by default (common practice; Lucas, The Art of Public
  *   Speaking, 125–150 wpm), so 150 spoken words are 60 s.
  * - Optimistic concurrency answering 409 Conflict: RFC 9110 §15.5.10 (the request conflicts with
@@ -352,7 +353,8 @@ describe('an episode from idea to shoot and on', () => {
 			method: 'PATCH',
 			json: { at: '1:00', version: cautions[1].version }
 		});
-		// 60 s at 30000/1001 fps is 1798.2 frames, nearest 1798 = label 00:00:59;28 (REFERENCES.md exact rates).
+		// 60 s at 30000/1001 fps is 1798.2 frames, nearest 1798 = label 00:00:59;28
+		// (tests/REFERENCES.md, "Frame rates").
 		expect(placedB.body.caution.atFrame).toBe(1798);
 		expect(placedB.body.caution.atTimecode).toBe('00:00:59;28');
 		const lock2 = await editor.api(`/api/episodes/${episode.id}/stage`, {
@@ -767,7 +769,8 @@ describe('rundown', () => {
 			json: { recorded: '00:02:00;04', version: segment.version }
 		});
 		expect(recorded.status).toBe(200);
-		// 00:02:00;04 at 29.97 DF = (120 × 30 + 4) − 2 × 2 = 3600 frames (SMPTE ST 12-1 formula, REFERENCES.md).
+		// 00:02:00;04 at 29.97 DF = (120 × 30 + 4) − 2 × 2 = 3600 frames
+		// (SMPTE ST 12-1 formula; tests/REFERENCES.md, "Timecode").
 		expect(recorded.body.segment.recordedFrames).toBe(3600);
 		const rundown = (await host.api(`/api/episodes/${episode.id}/segments`)).body;
 		expect(rundown.pace.calibrated).toBe(true);

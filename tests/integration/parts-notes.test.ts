@@ -7,7 +7,7 @@
  * Outside sources for the checks:
  * - Timecode: SMPTE ST 12-1 drop-frame and non-drop counting (the spec is paywalled; frame counts
  *   come from the npm package `smpte-timecode`); clock times at the exact rate 30000/1001
- *   (REFERENCES.md), to the first frame at or after the typed time.
+ *   (tests/REFERENCES.md, "Frame rates"), to the first frame at or after the typed time.
  * - Access control: OWASP ASVS 4.0 V4 (checked on the server, deny by default; another channel's
  *   records are "not found").
  */

@@ -7,7 +7,7 @@
  * Outside sources for the checks:
  * - Chapter lines: description timestamps (common practice of video platforms, from memory:
  *   first at 0:00, M:SS cut off to the second), times from frame counts at the exact rate
- *   30000/1001 (REFERENCES.md), computed here in integers.
+ *   30000/1001 (tests/REFERENCES.md, "Frame rates"), computed here in integers.
  * - Redirects: RFC 9110 §15.4.3 (302 Found with Location); HEAD answers as GET would, without
  *   a body (RFC 9110 §9.3.2).
  * - Who is a bot: the `isbot` npm package's pattern list is the reference; the browser strings are

@@ -4,12 +4,14 @@
  * who may do what.
  *
  * Outside sources for the expected values (written from the sources, not read from the code):
- * - Tyres: handbook arithmetic (REFERENCES.md): overall diameter = rim + 2 × width × aspect ÷ 100 ÷ 25.4;
+ * - Tyres: handbook arithmetic (tests/REFERENCES.md, "Tyres"): overall diameter =
+ *   rim + 2 × width × aspect ÷ 100 ÷ 25.4;
  *   worked examples 265/70R17 → 31.61 in and 285/70R17 → 32.71 in; revolutions per mile = 63,360 ÷ (π × diameter).
  * - Axle height rises by half the diameter increase (common practice); true speed = indicated × new ÷ old diameter.
  * - Torque: NIST SP 811 Appendix B.8, 1 ft·lbf = 1.355818 N·m.
  * - Timecode: SMPTE ST 12-1 drop-frame counting at 29.97 (the spec is paywalled; checked with the npm
- *   package `smpte-timecode`); real time at the exact rate 30000/1001 (REFERENCES.md).
+ *   package `smpte-timecode`); real time at the exact rate 30000/1001 (tests/REFERENCES.md,
+ *   "Frame rates").
  * - CSV: RFC 4180, read back by `papaparse`. Content-Disposition: RFC 6266.
  * - Access control: OWASP ASVS 4.0 V4 (checked on the server, deny by default; other channels 404).
  */
@@ -72,7 +74,7 @@ const lineOf = (card: CardView['card'], label: string) => {
 	return found;
 };
 
-// Handbook arithmetic, worked here from the formula (REFERENCES.md "Tyres").
+// Handbook arithmetic, worked here from the formula (tests/REFERENCES.md, "Tyres").
 const oldDiameterIn = 17 + (2 * 265 * 70) / 100 / 25.4; // 31.606 in (worked example: 31.61)
 const newDiameterIn = 17 + (2 * 285 * 70) / 100 / 25.4; // 32.709 in (worked example: 32.71)
 const oldDiameterMm = 17 * 25.4 + (2 * 265 * 70) / 100; // 802.8 mm
@@ -190,7 +192,7 @@ describe('creating and reading cards', () => {
 			segmentId: episode.segments[0],
 			at: '00:02:10;00'
 		});
-		expect(oldDiameterIn).toBeCloseTo(31.61, 2); // the worked example in REFERENCES.md
+		expect(oldDiameterIn).toBeCloseTo(31.61, 2); // worked example in tests/REFERENCES.md, "Tyres"
 		expect(newDiameterIn).toBeCloseTo(32.71, 2);
 		const card = created.card;
 		expect(lineOf(card, 'Overall diameter')).toMatchObject({
@@ -552,7 +554,8 @@ describe('the export for the graphics', () => {
 			'text'
 		]);
 		const [tyres, torque] = cards;
-		// REFERENCES.md worked examples: 31.61 in and 32.71 in; axle +0.55 in (half of 1.10); speedometer 32.71 / 31.61.
+		// tests/REFERENCES.md, "Tyres", worked examples: 31.61 in and 32.71 in; axle +0.55 in
+		// (half of 1.10); speedometer 32.71 / 31.61.
 		expect(tyres.figures.fromDiameterIn).toBeCloseTo(31.61, 2);
 		expect(tyres.figures.toDiameterIn).toBeCloseTo(32.71, 2);
 		expect(tyres.figures.diameterChangeIn).toBeCloseTo(1.1, 2);

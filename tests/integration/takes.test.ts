@@ -89,7 +89,8 @@ describe('takes and the shoot gate', () => {
 		});
 		expect(logged.status).toBe(201);
 		expect(logged.body.take.sourceInFrames).toBe(1800);
-		// 00:01:10;00 → (70 s × 30) − 2 × (1 − 0) = 2098 frames by the drop-frame formula in REFERENCES.md.
+		// 00:01:10;00 → (70 s × 30) − 2 × (1 − 0) = 2098 frames by the drop-frame formula
+		// (tests/REFERENCES.md, "Timecode").
 		expect(logged.body.take.sourceOutFrames).toBe(2098);
 		expect(await reasons()).toContain('take-missing'); // logged, but not marked good
 	});

@@ -195,7 +195,8 @@ describe('chapter rules (common practice of video platforms, from memory)', () =
 	});
 
 	test('exactly 10 s passes and one frame less fails, measured at the exact rate', () => {
-		// 29.97: 300 frames = 10.01 s (passes), 299 frames = 9.976 s (fails); 30000/1001 per REFERENCES.md.
+		// 29.97: 300 frames = 10.01 s (passes), 299 frames = 9.976 s (fails); 30000/1001 per
+		// tests/REFERENCES.md, "Frame rates".
 		const chapters = (secondLength: number): Chapter[] => [
 			{ startFrame: 0, title: 'Cold open' },
 			{ startFrame: 600, title: 'Break the U-bolts loose' },
@@ -368,7 +369,10 @@ function trickyChapters(): Chapter[] {
 	}));
 }
 
-/** Expected start and end milliseconds: exact rate 30000/1001 (REFERENCES.md), rounded once. */
+/**
+ * Expected start and end milliseconds: exact rate 30000/1001 (tests/REFERENCES.md, "Frame rates"),
+ * rounded once.
+ */
 function trickyTimes(): { start: number; end: number }[] {
 	return TRICKY_STARTS.map((start, index) => ({
 		start: exactMilliseconds(start, 30000, 1001),

@@ -1,6 +1,7 @@
 /**
  * The shoot-day storage plan, checked against hand-worked arithmetic with the decimal definition
- * GB = Mbit/s × seconds ÷ 8 ÷ 1000 (REFERENCES.md "Recording storage"; NIST SP 811 SI prefixes).
+ * GB = Mbit/s × seconds ÷ 8 ÷ 1000 (tests/REFERENCES.md, "Recording storage"; NIST SP 811 SI
+ * prefixes).
  */
 import { expect, test } from 'vitest';
 import { planShootDay } from '../../src/lib/shoot/day-plan';
@@ -16,10 +17,12 @@ test('a camera with its own roll hours is planned with them; the others use prog
 		cardSizeGB: 64,
 		uplinkMbps: 100
 	});
-	// A cam: 100 Mbit/s × 3600 s ÷ 8 ÷ 1000 = 45 GB (worked example in REFERENCES.md).
+	// A cam: 100 Mbit/s × 3600 s ÷ 8 ÷ 1000 = 45 GB
+	// (worked example in tests/REFERENCES.md, "Recording storage").
 	expect(plan.cameras[0]).toMatchObject({ label: 'A cam', rollSeconds: 3600 });
 	expect(plan.cameras[0].gigabytes).toBeCloseTo(45, 10);
-	// B cam: 50 Mbit/s × 1200 s ÷ 8 ÷ 1000 = 7.5 GB (worked example in REFERENCES.md).
+	// B cam: 50 Mbit/s × 1200 s ÷ 8 ÷ 1000 = 7.5 GB
+	// (worked example in tests/REFERENCES.md, "Recording storage").
 	expect(plan.cameras[1].rollSeconds).toBeCloseTo(1200, 6);
 	expect(plan.cameras[1].gigabytes).toBeCloseTo(7.5, 10);
 	expect(plan.totalGigabytes).toBeCloseTo(52.5, 10);

@@ -2,7 +2,7 @@
  * Gate checks per stage. The rules are our own (written from issue 3's wording, see the header of
  * src/lib/gates.ts); these tests pin each one down with a snapshot that breaks exactly that rule,
  * and a snapshot that passes. Timecodes in messages are checked against SMPTE ST 12-1 worked values
- * (via /work/shared/REFERENCES.md: 17982 frames at 29.97 drop-frame is 00:10:00;00).
+ * (tests/REFERENCES.md, "Timecode": 17982 frames at 29.97 drop-frame is 00:10:00;00).
  */
 import { describe, expect, test } from 'vitest';
 import {
@@ -306,7 +306,8 @@ describe('edit → locked', () => {
 		};
 		const reasons = gateChecksFor(snapshot, 'locked');
 		expect(reasons[0].rule).toBe('caution-past-end');
-		// 17982 frames = 00:10:00;00 and 19782 = 00:11:00;02 at 29.97 DF (REFERENCES.md; frame 1800 ↔ 00:01:00;02).
+		// 17982 frames = 00:10:00;00 and 19782 = 00:11:00;02 at 29.97 DF
+		// (tests/REFERENCES.md, "Timecode"; frame 1800 ↔ 00:01:00;02).
 		expect(reasons[0].message).toContain('00:11:00;02');
 		expect(reasons[0].message).toContain('00:10:00;00');
 	});

@@ -17,7 +17,7 @@ function line(card: SpecCard, label: string) {
 
 describe('renderSpecCard: tyre', () => {
 	test('285/70R17 reads 32.7 in / 831 mm tall', () => {
-		// REFERENCES.md worked example: 32.71 in → 0.1 in: 32.7; 830.8 mm → whole mm: 831.
+		// tests/REFERENCES.md, "Tyres", worked example: 32.71 in → 0.1 in: 32.7; 830.8 mm → whole mm: 831.
 		const card = renderSpecCard({ kind: 'tyre', size: '285/70r17' });
 		expect(card.heading).toBe('285/70R17');
 		expect(line(card, 'Overall diameter')).toEqual({
@@ -36,7 +36,7 @@ describe('renderSpecCard: tyre', () => {
 		expect(card.cautions.join(' ')).toMatch(/under load/);
 	});
 
-	test('225/70R15 reads 27.4 in / 696 mm (REFERENCES.md)', () => {
+	test('225/70R15 reads 27.4 in / 696 mm (handbook tyre arithmetic)', () => {
 		expect(
 			line(renderSpecCard({ kind: 'tyre', size: '225/70R15' }), 'Overall diameter')
 		).toMatchObject({ imperial: '27.4 in', metric: '696 mm' });

@@ -2,7 +2,7 @@ import { describe, expect, test } from 'vitest';
 import { compareTyres, parseTyreSize, SpecError, trueSpeed } from '$lib/specs';
 
 describe('compareTyres: 265/70R17 → 285/70R17, worked by hand', () => {
-	// Handbook arithmetic (REFERENCES.md, Tyres):
+	// Handbook arithmetic (tests/REFERENCES.md, "Tyres"):
 	//   265/70R17: 17 × 25.4 + 2 × 265 × 0.70 = 431.8 + 371 = 802.8 mm
 	//   285/70R17: 17 × 25.4 + 2 × 285 × 0.70 = 431.8 + 399 = 830.8 mm
 	const change = compareTyres(parseTyreSize('265/70R17'), parseTyreSize('285/70R17'));
@@ -16,13 +16,14 @@ describe('compareTyres: 265/70R17 → 285/70R17, worked by hand', () => {
 	});
 
 	test('ground clearance under the axle rises by half the diameter change: 14 mm = 0.551 in', () => {
-		// Common practice (REFERENCES.md): axle height rises by half the diameter increase. 28 ÷ 2 = 14 mm; 14 ÷ 25.4 = 0.5512 in.
+		// Common practice (tests/REFERENCES.md, "Tyres"): axle height rises by half the diameter
+		// increase. 28 ÷ 2 = 14 mm; 14 ÷ 25.4 = 0.5512 in.
 		expect(change.groundClearanceChangeMm).toBeCloseTo(14, 9);
 		expect(change.groundClearanceChangeIn).toBeCloseTo(0.5512, 4);
 	});
 
 	test('speedometer: true speed = indicated × 830.8 ÷ 802.8', () => {
-		// REFERENCES.md: true = indicated × new ÷ old. 830.8 ÷ 802.8 = 1.034878.
+		// tests/REFERENCES.md, "Tyres": true = indicated × new ÷ old. 830.8 ÷ 802.8 = 1.034878.
 		// 60 mph × 1.034878 = 62.093 mph; 100 km/h × 1.034878 = 103.488 km/h.
 		expect(change.speedometerFactor).toBeCloseTo(1.034878, 6);
 		expect(change.trueSpeedAt(60)).toBeCloseTo(62.093, 3);
@@ -52,7 +53,7 @@ describe('compareTyres: 265/70R17 → 285/70R17, worked by hand', () => {
 });
 
 describe('compareTyres: a tyre 5 in taller', () => {
-	// Common practice (brief and REFERENCES.md): a tyre 5 in taller raises the axle about 2.5 in.
+	// Common practice (tests/REFERENCES.md, "Tyres"): a tyre 5 in taller raises the axle about 2.5 in.
 	const change = compareTyres(parseTyreSize('30x9.50R15'), parseTyreSize('35x12.50R15'));
 
 	test('raises the axle 2.5 in (63.5 mm)', () => {

@@ -23,18 +23,18 @@ describe('parseTyreSize: metric diameters against handbook arithmetic', () => {
 		expect(size.sidewallMm).toBe(213);
 	});
 
-	test('285/70R17 is 32.71 in (REFERENCES.md worked example)', () => {
-		// REFERENCES.md, Tyres: 17 + 2 × 199.5 ÷ 25.4 = 17 + 15.709 = 32.71 in.
+	test('285/70R17 is 32.71 in (handbook worked example)', () => {
+		// tests/REFERENCES.md, "Tyres": 17 + 2 × 199.5 ÷ 25.4 = 17 + 15.709 = 32.71 in.
 		expect(parseTyreSize('285/70R17').diameterIn).toBeCloseTo(32.71, 2);
 	});
 
-	test('265/70R17 is 31.61 in (REFERENCES.md worked example)', () => {
-		// REFERENCES.md, Tyres: 17 + 2 × 185.5 ÷ 25.4 = 17 + 14.606 = 31.61 in.
+	test('265/70R17 is 31.61 in (handbook worked example)', () => {
+		// tests/REFERENCES.md, "Tyres": 17 + 2 × 185.5 ÷ 25.4 = 17 + 14.606 = 31.61 in.
 		expect(parseTyreSize('265/70R17').diameterIn).toBeCloseTo(31.61, 2);
 	});
 
-	test('225/70R15 is 27.40 in and 696 mm (REFERENCES.md worked example)', () => {
-		// REFERENCES.md, Tyres: 15 × 25.4 + 2 × 157.5 = 381 + 315 = 696 mm; 696 ÷ 25.4 = 27.40 in
+	test('225/70R15 is 27.40 in and 696 mm (handbook worked example)', () => {
+		// tests/REFERENCES.md, "Tyres": 15 × 25.4 + 2 × 157.5 = 381 + 315 = 696 mm; 696 ÷ 25.4 = 27.40 in
 		// (matches a drivetrain maker's published calculator example).
 		const size = parseTyreSize('225/70R15');
 		expect(size.diameterIn).toBeCloseTo(27.4, 2);

@@ -13,7 +13,7 @@ import {
 // Decimal units throughout: 1 GB = 10^9 bytes, 1 Mbit = 10^6 bit, 1 byte = 8 bit
 // (SI prefixes per NIST SP 811 §4; the decimal meaning of G and M for bytes as
 // storage and camera makers label them, from memory). So
-// GB = Mbit/s × s ÷ 8 ÷ 1000 — see /work/shared/REFERENCES.md, "Recording storage".
+// GB = Mbit/s × s ÷ 8 ÷ 1000 — see tests/REFERENCES.md, "Recording storage".
 // Every expected value below is that arithmetic, worked by hand.
 
 describe('gigabytesRecorded (decimal definition)', () => {

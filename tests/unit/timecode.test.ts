@@ -53,8 +53,8 @@ const RATE_MODES: { rate: FrameRate; dropFrame: boolean }[] = FRAME_RATES.flatMa
 );
 
 /**
- * The drop-frame counting formula as the references state it (SMPTE ST 12-1 via
- * /work/shared/REFERENCES.md): n = (3600h + 60m + s)·fps + f − D·(T − ⌊T/10⌋), T = 60h + m.
+ * The drop-frame counting formula as the references state it (SMPTE ST 12-1;
+ * tests/REFERENCES.md, "Timecode"): n = (3600h + 60m + s)·fps + f − D·(T − ⌊T/10⌋), T = 60h + m.
  */
 function frameCountByFormula(
 	hours: number,
@@ -97,7 +97,7 @@ describe('frame rates', () => {
 	});
 
 	test('exact rates are the 1000/1001 fractions for the NTSC-family rates', () => {
-		// REFERENCES.md: real time uses 24000/1001, 30000/1001, 60000/1001.
+		// tests/REFERENCES.md, "Frame rates": real time uses 24000/1001, 30000/1001, 60000/1001.
 		expect(exactFps('23.976')).toEqual({ numerator: 24000, denominator: 1001 });
 		expect(exactFps('29.97')).toEqual({ numerator: 30000, denominator: 1001 });
 		expect(exactFps('59.94')).toEqual({ numerator: 60000, denominator: 1001 });
@@ -112,7 +112,8 @@ describe('frame rates', () => {
 });
 
 describe('SMPTE ST 12-1 drop-frame worked values', () => {
-	// Values from SMPTE ST 12-1 as restated in REFERENCES.md; cross-checked against smpte-timecode below.
+	// Values from SMPTE ST 12-1 as restated in tests/REFERENCES.md, "Timecode"; cross-checked
+	// against smpte-timecode below.
 	test('29.97 DF: frame 1800 is 00:01:00;02 (labels ;00 and ;01 of minute 1 are skipped)', () => {
 		expect(formatTimecode(1800, '29.97')).toBe('00:01:00;02');
 		expect(parseTimecode('00:01:00;02', '29.97')).toBe(1800);
@@ -176,7 +177,7 @@ describe('SMPTE ST 12-1 drop-frame worked values', () => {
 
 describe('real time at the exact rates', () => {
 	test('107892 frames at 29.97 last 3599.9964 s', () => {
-		// 107892 × 1001 / 30000 (REFERENCES.md, exact rate 30000/1001).
+		// 107892 × 1001 / 30000 (tests/REFERENCES.md, "Frame rates": exact rate 30000/1001).
 		expect(framesToSeconds(107892, '29.97')).toBe(3599.9964);
 		expect(secondsToFrames(3599.9964, '29.97')).toBe(107892);
 	});

@@ -31,7 +31,7 @@ import { Lexer, type Token, type Tokens } from 'marked';
  * Presented speech runs about 150 words per minute (common practice; Lucas,
  * The Art of Public Speaking, cites 125–150 wpm for US speakers; radio
  * bulletins run 160–180 wpm per Rodero 2012, Text & Talk 32(3)). See
- * /work/shared/REFERENCES.md, "Narration pace".
+ * tests/REFERENCES.md, "Narration pace".
  */
 export const DEFAULT_WORDS_PER_MINUTE = 150;
 
