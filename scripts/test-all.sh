@@ -8,5 +8,6 @@ bash scripts/lib/system-packages.sh 'npm test' postgresql chromium ffmpeg
 node node_modules/@sveltejs/kit/svelte-kit.js sync
 npm run lint
 node node_modules/svelte-check/bin/svelte-check --tsconfig ./tsconfig.json --threshold error --output human
+node node_modules/typescript/bin/tsc -p scripts
 node node_modules/vite/bin/vite.js build --logLevel warn
 node node_modules/vitest/vitest.mjs run "$@"

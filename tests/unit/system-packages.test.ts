@@ -201,3 +201,16 @@ describe('system-packages.sh', () => {
 		expect(result.stderr).toContain("no check for a package named 'postgres'");
 	});
 });
+
+describe('system-packages.sh on this machine', () => {
+	test('finds everything npm start and npm test need, so it says nothing and installs nothing', () => {
+		// The real check, no stand-ins: npm test ran it before the unit tests. With installing
+		// switched off, a missing package would fail here instead of changing the machine.
+		const result = spawnSync(
+			'/bin/bash',
+			[script, 'npm test', 'postgresql', 'chromium', 'ffmpeg'],
+			{ env: { ...process.env, WRENCHROLL_INSTALL_PACKAGES: 'no' }, encoding: 'utf8' }
+		);
+		expect(result).toMatchObject({ status: 0, stdout: '', stderr: '' });
+	});
+});
