@@ -10,7 +10,7 @@
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
+import { openBrowser, signInAs, switchChannel, type BrowserSession } from '../helpers/browser';
 import { demo, sql } from '../helpers/http';
 
 const require = createRequire(import.meta.url);
@@ -37,11 +37,7 @@ test('the editor marks three chapters with the keyboard and downloads the txt ex
 
 	await signInAs(page, demo.editor);
 	// The shared editor starts in the other channel (channels sort by name): switch like a person would.
-	await Promise.all([
-		page.waitForResponse((response) => response.url().includes('/channel?/switch')),
-		page.getByLabel('Channel').selectOption({ label: 'Torquehaven Garage' })
-	]);
-	await page.waitForLoadState();
+	await switchChannel(page, 'Torquehaven Garage');
 	await page.goto(`/episodes/${episode.id}/edit`);
 	expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Edit timeline');
 	expect(await page.title()).toContain('Fitting 285/70R17 tyres');

@@ -16,7 +16,7 @@ import { createRequire } from 'node:module';
 import Papa from 'papaparse';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
+import { openBrowser, signInAs, switchChannel, type BrowserSession } from '../helpers/browser';
 import { demo, sql } from '../helpers/http';
 import { parseTyreSize } from '$lib/specs';
 
@@ -56,11 +56,7 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 
 	await signInAs(page, demo.editor);
 	// The shared editor may start in the other channel: switch like a person would.
-	await Promise.all([
-		page.waitForResponse((response) => response.url().includes('/channel?/switch')),
-		page.getByLabel('Channel').selectOption({ label: 'Torquehaven Garage' })
-	]);
-	await page.waitForLoadState();
+	await switchChannel(page, 'Torquehaven Garage');
 	await page.goto(`/episodes/${episode.id}/spec-cards`);
 	expect(await page.getByRole('heading', { level: 1 }).textContent()).toBe('Spec cards');
 

@@ -76,6 +76,22 @@ function waitForHydrationOnLoad(page: Page): void {
 		options?.waitUntil === 'commit' ? reload(options) : settle(await reload(options));
 }
 
+/**
+ * Switches channel with the top bar's picker, as a person would, and waits until the page the switch
+ * lands on has loaded and hydrated. Waiting only for the form's answer is not enough: the browser
+ * then still follows the redirect, and a `goto` made meanwhile is interrupted by it.
+ */
+export async function switchChannel(page: Page, name: string): Promise<void> {
+	const landed = page.waitForEvent(
+		'framenavigated',
+		(frame) => frame === page.mainFrame() && !new URL(frame.url()).pathname.startsWith('/channel')
+	);
+	await page.getByLabel('Channel').selectOption({ label: name });
+	await landed;
+	await page.waitForLoadState('load');
+	await page.waitForSelector('html[data-hydrated]', { state: 'attached' });
+}
+
 /** Signs in through the real sign-in form and waits for the bench (home page). */
 export async function signInAs(page: Page, email: string, password = DEMO_PASSWORD): Promise<void> {
 	await page.goto('/signin');
