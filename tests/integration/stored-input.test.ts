@@ -7,6 +7,14 @@
  */
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import {
+	DATE_YEARS,
+	INT_MAX,
+	INT_MIN,
+	dateProblem,
+	textProblem,
+	wholeNumber
+} from '$lib/schemas/fields';
 
 const NUL = '\u0000';
 const TOO_BIG = 2 ** 31; // one past the largest PostgreSQL integer
@@ -185,6 +193,26 @@ describe('a NUL character in a text field', () => {
 		expect(result.status).toBe(400);
 		expect(JSON.stringify(result.body.issues)).toMatch(/invisible control character/);
 		expect(await count('spec_card')).toBe(before);
+	});
+
+	test('in an upload’s clip name is refused before any byte is stored', async () => {
+		// tus 1.0.0 creation: Upload-Metadata is comma-separated `key base64value` pairs.
+		const metadata = Object.entries({
+			episodeId,
+			filename: 'A001_C002.mov',
+			filetype: 'video/quicktime',
+			clipName: `A001${NUL}C002`
+		})
+			.map(([key, value]) => `${key} ${Buffer.from(value).toString('base64')}`)
+			.join(',');
+		const before = await count('upload');
+		const result = await producer.request('/api/uploads', {
+			method: 'POST',
+			headers: { 'tus-resumable': '1.0.0', 'upload-length': '1024', 'upload-metadata': metadata }
+		});
+		expect(result.status).toBe(400);
+		expect(await result.text()).toMatch(/invisible control character/);
+		expect(await count('upload')).toBe(before);
 	});
 
 	test('in a search or a filter is a 400 about that field, not a 500', async () => {
@@ -404,5 +432,64 @@ describe('a day that is not on the calendar', () => {
 		const page = await producer.request('/episodes?from=2027-02-31');
 		expect(page.status).toBe(200);
 		expect(await page.text()).toMatch(/February 2027 has 28 days/);
+	});
+});
+
+describe('the shared checks agree with PostgreSQL itself', () => {
+	/** What the database makes of a value: the text it gives back, or null when it refuses it. */
+	const stored = async (value: unknown, type: string): Promise<string | null> => {
+		try {
+			const [row] = await sql(`SELECT ($1::${type})::text AS back`, [value]);
+			return row.back;
+		} catch {
+			return null;
+		}
+	};
+
+	test('every character PostgreSQL refuses or changes in text is refused beside the field', async () => {
+		const codes = [
+			...Array.from({ length: 0xa0 }, (_, code) => code),
+			0xd800,
+			0xdbff,
+			0xdc00,
+			0xdfff,
+			0x200f,
+			0x202e,
+			0xfeff
+		];
+		const refused: number[] = [];
+		const changed: number[] = [];
+		for (const code of codes) {
+			const value = `a${String.fromCharCode(code)}b`;
+			const back = await stored(value, 'text');
+			if (back === null) refused.push(code);
+			else if (back !== value) changed.push(code);
+			if (back !== value) expect(textProblem(value), `U+${code.toString(16)}`).not.toBeNull();
+		}
+		// Only NUL is refused; half surrogates come back as U+FFFD (the driver writes UTF-8).
+		expect(refused).toEqual([0]);
+		expect(changed).toEqual([0xd800, 0xdbff, 0xdc00, 0xdfff]);
+	});
+
+	test('a whole number is accepted exactly when an integer column holds it', async () => {
+		const field = wholeNumber({ error: 'A number.' });
+		for (const value of [INT_MIN - 1, INT_MIN, -1, 0, INT_MAX, INT_MAX + 1, 2 ** 32]) {
+			const back = await stored(value, 'integer');
+			expect(field.safeParse(value).success, String(value)).toBe(back === String(value));
+		}
+	});
+
+	test('a date is accepted exactly when PostgreSQL’s date type reads it back as typed', async () => {
+		const pad = (value: number, width: number) => String(value).padStart(width, '0');
+		for (const year of [DATE_YEARS.min, 2000, 2027, 2028, 2100, DATE_YEARS.max])
+			for (const month of [0, 1, 2, 4, 12, 13])
+				for (const day of [0, 1, 28, 29, 30, 31, 32]) {
+					const typed = `${pad(year, 4)}-${pad(month, 2)}-${pad(day, 2)}`;
+					const back = await stored(typed, 'date');
+					expect(dateProblem(typed) === null, typed).toBe(back === typed);
+				}
+		// Year 0 does not exist: PostgreSQL refuses it, and so does the check (with the range in words).
+		expect(await stored('0000-01-01', 'date')).toBeNull();
+		expect(dateProblem('0000-01-01')).toMatch(/between 1900 and 2200/);
 	});
 });
