@@ -16,6 +16,12 @@
  * - Real time uses the exact rational rates (24000/1001, 30000/1001, 60000/1001), never 29.97.
  */
 
+/**
+ * The most frames any time in Wrenchroll counts (a cut's length, a chapter, a take's timecode):
+ * over 9,000 hours at 60 fps, far past any episode, and well inside a PostgreSQL `integer`.
+ */
+export const MAX_FRAMES = 2_000_000_000;
+
 export type FrameRate = '23.976' | '24' | '25' | '29.97' | '30' | '50' | '59.94' | '60';
 
 export const FRAME_RATES: readonly FrameRate[] = Object.freeze([
@@ -210,6 +216,9 @@ function checkMinutesAndSeconds(text: string, minutes: number, seconds: number):
 	}
 }
 
+const tooLong = (text: string) =>
+	`“${text}” is far too long a time: check the hours (no cut runs anywhere near that long).`;
+
 /** Nearest integer to numerator/denominator for non-negative BigInts, halves rounding up. */
 function roundRatio(numerator: bigint, denominator: bigint): bigint {
 	return (2n * numerator + denominator) / (2n * denominator);
@@ -231,7 +240,7 @@ function parseClockTime(text: string, match: RegExpExecArray, facts: RateFacts):
 		scale * BigInt(facts.denominator)
 	);
 	const result = Number(frames);
-	if (!Number.isSafeInteger(result)) throw new TimecodeError(`“${text}” is far too long a time.`);
+	if (!Number.isSafeInteger(result) || result > MAX_FRAMES) throw new TimecodeError(tooLong(text));
 	return result;
 }
 
@@ -282,8 +291,8 @@ export function parseTimecode(
 			(3600 * hours + 60 * minutes + seconds) * facts.nominal +
 			frameLabel -
 			dropped * (totalMinutes - Math.floor(totalMinutes / 10));
-		if (!Number.isSafeInteger(frames))
-			throw new TimecodeError(`“${trimmed}” is far too long a time.`);
+		if (!Number.isSafeInteger(frames) || frames > MAX_FRAMES)
+			throw new TimecodeError(tooLong(trimmed));
 		return frames;
 	}
 

@@ -6,33 +6,32 @@
  */
 import { z } from 'zod';
 import { CHAPTER_FORMATS, type ChapterFormat } from '$lib/chapters';
+import { INT_MAX, MAX_FRAMES, text, versionNumber, wholeNumber } from './fields';
 
 /** Longest title accepted at all; the chapter rules ask for 100 or fewer and say so per chapter. */
 export const CHAPTER_TITLE_HARD_LIMIT = 500;
 
 /** A timecode or a clock time as typed; parsed on the server at the episode's frame rate. */
-export const timeTextSchema = z
-	.string({ error: 'Type a timecode or a clock time, e.g. 00:13:40;00 or 13:40.' })
+export const timeTextSchema = text('Type a timecode or a clock time, e.g. 00:13:40;00 or 13:40.')
 	.trim()
 	.min(1, 'Type a timecode or a clock time, e.g. 00:13:40;00 or 13:40.')
 	.max(40, 'That time is far too long; type it as HH:MM:SS:FF or M:SS.');
 
-const startFrameSchema = z
-	.number({ error: 'The start frame is a whole number of frames.' })
-	.int('The start frame is a whole number of frames.')
-	.min(0, 'The start frame is 0 or more.')
-	.max(2_000_000_000, 'That start frame is far past any cut.');
+const startFrameSchema = wholeNumber({
+	error: 'The start frame is a whole number of frames.',
+	min: 0,
+	max: MAX_FRAMES,
+	tooSmall: 'The start frame is 0 or more.',
+	tooBig: 'That start frame is far past any cut.'
+});
 
-const titleSchema = z
-	.string({ error: 'Give the chapter a title.' })
-	.max(
-		CHAPTER_TITLE_HARD_LIMIT,
-		`Keep the title well under ${CHAPTER_TITLE_HARD_LIMIT} characters (chapters read best under 100).`
-	);
+const titleSchema = text('Give the chapter a title.').max(
+	CHAPTER_TITLE_HARD_LIMIT,
+	`Keep the title well under ${CHAPTER_TITLE_HARD_LIMIT} characters (chapters read best under 100).`
+);
 
 /** A link for the chapter (a featured part's shop page): http or https only, or null to clear it. */
-const urlSchema = z
-	.string({ error: 'The link is a web address.' })
+const urlSchema = text('The link is a web address.')
 	.trim()
 	.max(2000, 'That link is too long.')
 	.refine(
@@ -42,16 +41,19 @@ const urlSchema = z
 	.transform((text) => (text === '' ? null : text))
 	.nullable();
 
-const versionSchema = z
-	.number({ error: 'Send the version of the chapter you read.' })
-	.int()
-	.min(1, 'Send the version of the chapter you read.');
+const versionSchema = versionNumber('Send the version of the chapter you read.');
 
 export const cutUpdateSchema = z
 	.object({
 		duration: timeTextSchema,
 		/** The length the editor last saw; when given and stale the server answers 409. */
-		expectedFrames: z.number().int().min(1).nullable().optional()
+		expectedFrames: wholeNumber({
+			error: 'expectedFrames is the cut’s length you last saw, in frames.',
+			min: 1,
+			max: INT_MAX
+		})
+			.nullable()
+			.optional()
 	})
 	.strict();
 

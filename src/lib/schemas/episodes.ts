@@ -10,6 +10,7 @@ import { SUSPENSION_TYPES, LIFT_METHODS, MAX_LIFT_IN } from '$lib/specs/lift';
 import { parseTyreSize } from '$lib/specs/tyres';
 import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
+import { MAX_FRAMES, calendarDate, text, versionNumber, wholeNumber } from './fields';
 
 /**
  * One segment's script limit; the same number as MAX_SCRIPT_CHARACTERS in src/lib/server/episodes/markdown.ts
@@ -66,27 +67,18 @@ export function durationSchema(what: string, max: number) {
 		});
 }
 
-const title = z
-	.string({ error: 'Give it a title.' })
+const title = text('Give it a title.')
 	.trim()
 	.min(1, 'Give it a title.')
 	.max(120, 'Keep the title under 120 characters.');
-const slug = z
-	.string()
+const slug = text()
 	.trim()
 	.max(80, 'Keep the slug under 80 characters.')
 	.regex(
 		/^$|^[a-z0-9]+(?:-[a-z0-9]+)*$/,
 		'Use lower-case letters, digits and single hyphens, e.g. mule-rear-block-lift.'
 	);
-const publishDate = z
-	.string()
-	.trim()
-	.regex(/^$|^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
-	.refine(
-		(value) => value === '' || !Number.isNaN(Date.parse(`${value}T00:00:00Z`)),
-		'That date does not exist.'
-	)
+const publishDate = calendarDate('Enter the date as YYYY-MM-DD.', { allowEmpty: true })
 	.transform((value) => (value === '' ? null : value))
 	.nullable();
 
@@ -104,7 +96,7 @@ const assignments = z
 const episodeFields = {
 	title,
 	slug: slug.optional(),
-	logline: z.string().trim().max(500, 'Keep the logline under 500 characters.').optional(),
+	logline: text().trim().max(500, 'Keep the logline under 500 characters.').optional(),
 	targetRuntimeSeconds: durationSchema('target runtime', MAX_TARGET_RUNTIME_SECONDS).refine(
 		(seconds) => seconds > 0,
 		'Give the episode a target runtime above 0, e.g. 12:00.'
@@ -124,7 +116,7 @@ export type EpisodeCreate = z.infer<typeof episodeCreateSchema>;
 export const episodeUpdateSchema = z
 	.object({
 		...episodeFields,
-		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.partial({ title: true, targetRuntimeSeconds: true, frameRate: true })
 	.strict();
@@ -134,14 +126,8 @@ export const EPISODE_SORTS = ['publish', 'title', 'stage', 'created'] as const;
 export const episodeListQuerySchema = z.object({
 	stage: z.enum(STAGES).optional(),
 	assignee: uuid('a crew member').optional(),
-	from: z
-		.string()
-		.regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
-		.optional(),
-	to: z
-		.string()
-		.regex(/^\d{4}-\d{2}-\d{2}$/, 'Enter the date as YYYY-MM-DD.')
-		.optional(),
+	from: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
+	to: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
 	sort: z.enum(EPISODE_SORTS).default('publish'),
 	direction: z.enum(['asc', 'desc']).default('asc')
 });
@@ -153,8 +139,7 @@ const hazards = z
 
 const segmentFields = {
 	kind: z.enum(SEGMENT_KINDS, { error: 'Pick a kind of segment from the list.' }),
-	title: z
-		.string({ error: 'Give the segment a title.' })
+	title: text('Give the segment a title.')
 		.trim()
 		.min(1, 'Give the segment a title.')
 		.max(120, 'Keep the title under 120 characters.'),
@@ -163,8 +148,7 @@ const segmentFields = {
 	needsFootage: z.boolean().optional(),
 	hazards: hazards.optional(),
 	promiseEpisodeId: uuid('an episode').nullable().optional(),
-	promiseTitle: z
-		.string()
+	promiseTitle: text()
 		.trim()
 		.max(120, 'Keep the follow-up title under 120 characters.')
 		.nullable()
@@ -180,20 +164,29 @@ export const segmentUpdateSchema = z
 	.object({
 		...segmentFields,
 		/** Length in the cut: timecode or clock text at the episode's rate, or a frame count; null clears it. */
-		recorded: z.string().trim().max(20).nullable().optional(),
-		recordedFrames: z
-			.number()
-			.int('A frame count is a whole number.')
-			.min(0, 'A length can’t be negative.')
+		recorded: text()
+			.trim()
+			.max(20, 'That is too long for a length in the cut.')
 			.nullable()
 			.optional(),
-		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+		recordedFrames: wholeNumber({
+			error: 'A frame count is a whole number.',
+			min: 0,
+			max: MAX_FRAMES,
+			tooSmall: 'A length can’t be negative.',
+			tooBig: 'That length is far past any cut.'
+		})
+			.nullable()
+			.optional(),
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.partial({ kind: true, title: true, plannedSeconds: true })
 	.strict();
 export type SegmentUpdate = z.infer<typeof segmentUpdateSchema>;
 
-export const segmentDeleteSchema = z.object({ version: z.coerce.number().int().min(1) }).strict();
+export const segmentDeleteSchema = z
+	.object({ version: versionNumber('The version is missing: reload the page.', { coerce: true }) })
+	.strict();
 
 export const reorderSchema = z
 	.object({
@@ -212,25 +205,22 @@ export const reorderSchema = z
 	})
 	.strict();
 
-const scriptBody = z
-	.string({ error: 'Send the script as text.' })
-	.max(
-		SCRIPT_CHARACTER_LIMIT,
-		`A segment’s script is limited to ${SCRIPT_CHARACTER_LIMIT.toLocaleString('en')} characters: split it into two segments.`
-	);
+const scriptBody = text('Send the script as text.').max(
+	SCRIPT_CHARACTER_LIMIT,
+	`A segment’s script is limited to ${SCRIPT_CHARACTER_LIMIT.toLocaleString('en')} characters: split it into two segments.`
+);
 
 export const scriptSaveSchema = z
 	.object({
 		body: scriptBody,
-		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.strict();
 export const scriptPreviewSchema = z.object({ markdown: scriptBody }).strict();
 
 export const cautionUpdateSchema = z
 	.object({
-		text: z
-			.string()
+		text: text()
 			.trim()
 			.min(1, 'A caution needs its text; the default wording is a good start.')
 			.max(
@@ -239,29 +229,31 @@ export const cautionUpdateSchema = z
 			)
 			.optional(),
 		/** Where the card appears: timecode or clock text at the episode's rate; '' or null clears it. */
-		at: z.string().trim().max(20, 'That is too long for a time in the cut.').nullable().optional(),
-		atFrame: z
-			.number()
-			.int('A frame is a whole number.')
-			.min(0, 'A time in the cut can’t be negative.')
+		at: text().trim().max(20, 'That is too long for a time in the cut.').nullable().optional(),
+		atFrame: wholeNumber({
+			error: 'A frame is a whole number.',
+			min: 0,
+			max: MAX_FRAMES,
+			tooSmall: 'A time in the cut can’t be negative.',
+			tooBig: 'That frame is far past any cut.'
+		})
 			.nullable()
 			.optional(),
-		version: z.coerce.number({ error: 'The version is missing: reload the page.' }).int().min(1)
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.strict();
 export type CautionUpdate = z.infer<typeof cautionUpdateSchema>;
 
 export const shotCreateSchema = z
 	.object({
-		what: z
-			.string({ error: 'Say what the shot shows.' })
+		what: text('Say what the shot shows.')
 			.trim()
 			.min(1, 'Say what the shot shows.')
 			.max(200, 'Keep it under 200 characters.'),
-		angle: z.string().trim().max(80, 'Keep the angle under 80 characters.').default(''),
+		angle: text().trim().max(80, 'Keep the angle under 80 characters.').default(''),
 		roll: z.enum(['A', 'B'], { error: 'A-roll or B-roll?' }).default('A'),
-		camera: z.string().trim().max(60, 'Keep the camera name under 60 characters.').default(''),
-		notes: z.string().trim().max(500, 'Keep the notes under 500 characters.').default('')
+		camera: text().trim().max(60, 'Keep the camera name under 60 characters.').default(''),
+		notes: text().trim().max(500, 'Keep the notes under 500 characters.').default('')
 	})
 	.strict();
 export type ShotCreate = z.infer<typeof shotCreateSchema>;
@@ -271,7 +263,7 @@ export const stageMoveSchema = z
 		to: z.enum(STAGES, { error: 'Pick the stage to move to.' }),
 		/** The stage the person saw: a move from a stage the episode already left is refused (409). */
 		from: z.enum(STAGES, { error: 'Say which stage the episode is in now.' }),
-		note: z.string().trim().max(1000, 'Keep the note under 1,000 characters.').default('')
+		note: text().trim().max(1000, 'Keep the note under 1,000 characters.').default('')
 	})
 	.strict();
 export type StageMoveInput = z.infer<typeof stageMoveSchema>;
@@ -280,9 +272,9 @@ export const REVIEW_ACTIONS = ['submit', 'approve', 'return', 'comment'] as cons
 export const scriptReviewSchema = z
 	.object({
 		action: z.enum(REVIEW_ACTIONS, { error: 'Submit, approve, return or comment?' }),
-		body: z.string().trim().max(4000, 'Keep the comment under 4,000 characters.').default(''),
+		body: text().trim().max(4000, 'Keep the comment under 4,000 characters.').default(''),
 		/** The fingerprint of the script the reviewer read; approving a script that changed since is refused. */
-		fingerprint: z.string().max(128).optional(),
+		fingerprint: text().max(128).optional(),
 		segmentId: uuid('a segment').nullable().optional()
 	})
 	.strict()
@@ -309,32 +301,32 @@ const optionalChoice = <T extends readonly [string, ...string[]]>(values: T, mes
 
 export const buildSchema = z
 	.object({
-		name: z
-			.string()
+		name: text()
 			.trim()
 			.min(1, 'Give the build a name, e.g. Project Mule.')
 			.max(80, 'Keep the name under 80 characters.'),
-		year: z.coerce
-			.number({ error: 'Enter the model year, e.g. 2004.' })
-			.int('Enter the model year, e.g. 2004.')
-			.min(1900, 'Enter a model year after 1900.')
-			.max(2100, 'Enter a real model year.'),
-		vehicleType: z
-			.string()
+		year: wholeNumber({
+			error: 'Enter the model year, e.g. 2004.',
+			coerce: true,
+			min: 1900,
+			max: 2100,
+			tooSmall: 'Enter a model year after 1900.',
+			tooBig: 'Enter a real model year.'
+		}),
+		vehicleType: text()
 			.trim()
 			.min(1, 'Describe the vehicle, e.g. Midsize pickup, extended cab.')
 			.max(120),
-		drivetrain: z.string().trim().min(1, 'Enter the drivetrain, e.g. Part-time 4WD.').max(80),
-		frontSuspension: z.string().trim().min(1, 'Describe the front suspension.').max(120),
-		rearSuspension: z.string().trim().min(1, 'Describe the rear suspension.').max(120),
+		drivetrain: text().trim().min(1, 'Enter the drivetrain, e.g. Part-time 4WD.').max(80),
+		frontSuspension: text().trim().min(1, 'Describe the front suspension.').max(120),
+		rearSuspension: text().trim().min(1, 'Describe the rear suspension.').max(120),
 		frontSpring: optionalChoice(SUSPENSION_TYPES, 'Pick leaf, coil, torsion or strut.'),
 		rearSpring: optionalChoice(SUSPENSION_TYPES, 'Pick leaf, coil, torsion or strut.'),
 		frontLiftIn: liftInches('front'),
 		rearLiftIn: liftInches('rear'),
 		frontLiftMethod: optionalChoice(LIFT_METHODS, 'Pick a lift method from the list.'),
 		rearLiftMethod: optionalChoice(LIFT_METHODS, 'Pick a lift method from the list.'),
-		tyreSize: z
-			.string()
+		tyreSize: text()
 			.trim()
 			.min(1, 'Enter the tyre size from the sidewall, e.g. 285/70R17.')
 			.superRefine((value, context) => {
@@ -347,8 +339,8 @@ export const buildSchema = z
 					});
 				}
 			}),
-		notes: z.string().trim().max(2000, 'Keep the notes under 2,000 characters.').default(''),
-		version: z.coerce.number().int().min(1).optional()
+		notes: text().trim().max(2000, 'Keep the notes under 2,000 characters.').default(''),
+		version: versionNumber('The version is missing: reload the page.', { coerce: true }).optional()
 	})
 	.strict();
 export type BuildInput = z.infer<typeof buildSchema>;

@@ -5,6 +5,14 @@
  * in one is accepted in all three.
  */
 import { z } from 'zod';
+import {
+	MAX_FRAMES,
+	normaliseNewlines,
+	text,
+	textProblem,
+	versionNumber,
+	wholeNumber
+} from './fields';
 
 export const PART_STATUSES = ['active', 'discontinued', 'out_of_stock'] as const;
 export type PartStatusValue = (typeof PART_STATUSES)[number];
@@ -93,6 +101,8 @@ export function readStoreUrl(input: string): FieldReading<string> {
 			ok: false,
 			message: `store URL ${quote(text)} has spaces in it; a web address has none.`
 		};
+	const problem = textProblem(text, 'store URL');
+	if (problem) return { ok: false, message: problem };
 	return { ok: true, value: text };
 }
 
@@ -124,20 +134,20 @@ export function readCurrency(input: string | undefined): FieldReading<string> {
 	};
 }
 
-/** Required one-line text with a length limit; control characters are refused, not stripped. */
+/** Text with a length limit; control and broken characters are refused (not stripped), line ends normalised. */
 export function readText(
 	field: string,
 	input: string | undefined,
 	limit: number,
 	required = true
 ): FieldReading<string> {
-	const text = String(input ?? '').trim();
+	const text = normaliseNewlines(String(input ?? '')).trim();
 	if (text === '')
 		return required ? { ok: false, message: `${field} is empty.` } : { ok: true, value: '' };
 	if ([...text].length > limit)
 		return { ok: false, message: `${field} is longer than ${limit} characters.` };
-	if (/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(text))
-		return { ok: false, message: `${field} has control characters in it.` };
+	const problem = textProblem(text, field);
+	if (problem) return { ok: false, message: problem };
 	return { ok: true, value: text };
 }
 
@@ -193,10 +203,7 @@ export const partCreateSchema = z
 
 export const partUpdateSchema = z
 	.object({
-		version: z
-			.number({ error: 'Send the version of the part you read.' })
-			.int()
-			.min(1, 'Send the version of the part you read.'),
+		version: versionNumber('Send the version of the part you read.'),
 		sku: partFields.sku.optional(),
 		name: partFields.name.optional(),
 		category: partFields.category.optional(),
@@ -218,9 +225,15 @@ const emptyToUndefined = (value: unknown) => (value === '' || value === null ? u
 export const partSearchSchema = z.object({
 	q: z.preprocess(
 		emptyToUndefined,
-		z.string().trim().max(100, 'Search for 100 characters or fewer.').optional()
+		text().trim().max(100, 'Search for 100 characters or fewer.').optional()
 	),
-	category: z.preprocess(emptyToUndefined, z.string().trim().max(PART_LIMITS.category).optional()),
+	category: z.preprocess(
+		emptyToUndefined,
+		text()
+			.trim()
+			.max(PART_LIMITS.category, `A category has at most ${PART_LIMITS.category} characters.`)
+			.optional()
+	),
 	status: z.preprocess(
 		emptyToUndefined,
 		z.enum(PART_STATUSES, { error: 'Status is active, discontinued or out_of_stock.' }).optional()
@@ -235,21 +248,24 @@ export const partSearchSchema = z.object({
 	),
 	page: z.preprocess(
 		emptyToUndefined,
-		z.coerce
-			.number({ error: 'page is a whole number.' })
-			.int('page is a whole number.')
-			.min(1, 'page starts at 1.')
-			.max(100_000)
-			.default(1)
+		wholeNumber({
+			error: 'page is a whole number.',
+			coerce: true,
+			min: 1,
+			max: 100_000,
+			tooSmall: 'page starts at 1.'
+		}).default(1)
 	),
 	pageSize: z.preprocess(
 		emptyToUndefined,
-		z.coerce
-			.number({ error: 'pageSize is a whole number.' })
-			.int('pageSize is a whole number.')
-			.min(1, 'pageSize is 1 or more.')
-			.max(MAX_PART_PAGE_SIZE, `pageSize is at most ${MAX_PART_PAGE_SIZE}.`)
-			.default(25)
+		wholeNumber({
+			error: 'pageSize is a whole number.',
+			coerce: true,
+			min: 1,
+			max: MAX_PART_PAGE_SIZE,
+			tooSmall: 'pageSize is 1 or more.',
+			tooBig: `pageSize is at most ${MAX_PART_PAGE_SIZE}.`
+		}).default(25)
 	)
 });
 export type PartSearch = z.infer<typeof partSearchSchema>;
@@ -301,7 +317,12 @@ export const importRequestSchema = z
 			.string({ error: 'Send the file’s text in csv.' })
 			.max(MAX_IMPORT_CHARACTERS, 'That file is too big for one import; split it.'),
 		/** Wrenchroll field → the file's column header (null: not in the file). Omitted: guessed from the headers. */
-		mapping: z.partialRecord(z.enum(IMPORT_FIELDS), z.string().max(200).nullable()).optional()
+		mapping: z
+			.partialRecord(
+				z.enum(IMPORT_FIELDS),
+				text().max(200, 'A column name has at most 200 characters.').nullable()
+			)
+			.optional()
 	})
 	.strict();
 export type ImportRequest = z.infer<typeof importRequestSchema>;
@@ -312,17 +333,17 @@ const uuidList = z
 		error: 'partIds is a list of part ids.'
 	})
 	.max(50, 'A note shows at most 50 parts.');
-const timeText = z
-	.string({ error: 'Type a timecode or a clock time, e.g. 00:04:05;00 or 4:05.' })
+const timeText = text('Type a timecode or a clock time, e.g. 00:04:05;00 or 4:05.')
 	.trim()
 	.max(40, 'That time is far too long.');
-const frameNumber = z
-	.number({ error: 'A frame is a whole number.' })
-	.int('A frame is a whole number.')
-	.min(0, 'A frame is 0 or more.')
-	.max(2_000_000_000);
-const noteText = z
-	.string({ error: 'Write what is on screen.' })
+const frameNumber = wholeNumber({
+	error: 'A frame is a whole number.',
+	min: 0,
+	max: MAX_FRAMES,
+	tooSmall: 'A frame is 0 or more.',
+	tooBig: 'That frame is far past any cut.'
+});
+const noteText = text('Write what is on screen.')
 	.trim()
 	.min(1, 'Write what is on screen.')
 	.max(2000, 'Keep a note under 2,000 characters.');
@@ -343,10 +364,7 @@ export const noteCreateSchema = z
 
 export const noteUpdateSchema = noteCreateSchema
 	.extend({
-		version: z
-			.number({ error: 'Send the version of the note you read.' })
-			.int()
-			.min(1, 'Send the version of the note you read.'),
+		version: versionNumber('Send the version of the note you read.'),
 		text: noteText.optional()
 	})
 	.strict();

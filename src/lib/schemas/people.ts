@@ -2,24 +2,24 @@
 import { z } from 'zod';
 
 import { ROLES } from '$lib/roles';
+import { text, versionNumber, wholeNumber } from './fields';
 
 export const roleSchema = z.enum(ROLES, {
 	error: 'Pick one of: producer, host, camera, editor, merch.'
 });
 
-const email = z
-	.string({ error: 'Enter an e-mail address.' })
+const email = text('Enter an e-mail address.')
 	.trim()
 	.min(1, 'Enter an e-mail address.')
 	.max(254, 'That e-mail address is too long.')
 	.pipe(z.email({ error: 'That does not look like an e-mail address.' }));
 
-const personName = z
-	.string({ error: 'Enter a name.' })
+const personName = text('Enter a name.')
 	.trim()
 	.min(1, 'Enter a name.')
 	.max(80, 'Keep the name under 80 characters.');
 
+// Passwords are only ever hashed, never stored as text: every character counts as typed.
 export const signInSchema = z.object({
 	email,
 	password: z
@@ -76,25 +76,27 @@ export const FRAME_RATE_VALUES = [
 ] as const;
 
 export const channelSettingsSchema = z.object({
-	name: z
-		.string()
+	name: text()
 		.trim()
 		.min(1, 'Give the channel a name.')
 		.max(80, 'Keep the name under 80 characters.'),
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
-	callToAction: z.string().trim().max(1000, 'Keep the call to action under 1,000 characters.'),
-	contact: z.string().trim().max(500, 'Keep the contact details under 500 characters.'),
-	descriptionLimit: z.coerce
-		.number({ error: 'Enter a number of characters.' })
-		.int('Use a whole number.')
-		.min(500, 'At least 500 characters.')
-		.max(20000, 'At most 20,000 characters.'),
-	version: z.coerce.number().int().min(1)
+	callToAction: text().trim().max(1000, 'Keep the call to action under 1,000 characters.'),
+	contact: text().trim().max(500, 'Keep the contact details under 500 characters.'),
+	descriptionLimit: wholeNumber({
+		error: 'Enter a number of characters.',
+		notWhole: 'Use a whole number.',
+		coerce: true,
+		min: 500,
+		max: 20000,
+		tooSmall: 'At least 500 characters.',
+		tooBig: 'At most 20,000 characters.'
+	}),
+	version: versionNumber('The version is missing: reload the page.', { coerce: true })
 });
 
 export const tokenCreateSchema = z.object({
-	label: z
-		.string({ error: 'Name the token.' })
+	label: text('Name the token.')
 		.trim()
 		.min(1, 'Name the token, e.g. "graphics laptop".')
 		.max(60, 'Keep the name under 60 characters.')

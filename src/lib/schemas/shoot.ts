@@ -1,5 +1,6 @@
 /** Shapes of shoot-day input: shared by the forms, the API and the client. */
 import { z } from 'zod';
+import { calendarDate, text, versionNumber, wholeNumber } from './fields';
 
 const time = z
 	.string({ error: 'Use a 24-hour time like 07:30.' })
@@ -8,7 +9,7 @@ const optionalTime = z
 	.union([time, z.literal('')])
 	.optional()
 	.transform((v) => v || null);
-const date = z.string({ error: 'Pick a date.' }).regex(/^\d{4}-\d{2}-\d{2}$/, 'Pick a date.');
+const date = calendarDate('Pick a date.');
 const positive = (label: string, max: number) =>
 	z.coerce
 		.number({ error: `Enter ${label}.` })
@@ -31,14 +32,17 @@ export const shootDaySchema = z
 	.object({
 		episodeId: z.string({ error: 'Pick an episode.' }).uuid('Pick an episode.'),
 		shootDate: date,
-		locationName: z.string().trim().min(1, 'Name the shop or location.').max(120),
-		locationAddress: z.string().trim().max(300).default(''),
-		bay: z.string().trim().max(60).default(''),
+		locationName: text()
+			.trim()
+			.min(1, 'Name the shop or location.')
+			.max(120, 'Keep the location under 120 characters.'),
+		locationAddress: text().trim().max(300, 'Keep the address under 300 characters.').default(''),
+		bay: text().trim().max(60, 'Keep the bay under 60 characters.').default(''),
 		bayFrom: optionalTime,
 		bayUntil: optionalTime,
 		callTime: time,
 		wrapTime: time,
-		notes: z.string().trim().max(2000).default('')
+		notes: text().trim().max(2000, 'Keep the notes under 2,000 characters.').default('')
 	})
 	// Checked even when another field is wrong too, so every problem shows in one pass.
 	.refine((d) => d.wrapTime > d.callTime, {
@@ -55,15 +59,18 @@ export const shootDaySchema = z
 export const shootDayUpdateSchema = z
 	.object({
 		shootDate: date,
-		locationName: z.string().trim().min(1, 'Name the shop or location.').max(120),
-		locationAddress: z.string().trim().max(300),
-		bay: z.string().trim().max(60),
+		locationName: text()
+			.trim()
+			.min(1, 'Name the shop or location.')
+			.max(120, 'Keep the location under 120 characters.'),
+		locationAddress: text().trim().max(300, 'Keep the address under 300 characters.'),
+		bay: text().trim().max(60, 'Keep the bay under 60 characters.'),
 		bayFrom: optionalTime,
 		bayUntil: optionalTime,
 		callTime: time,
 		wrapTime: time,
-		notes: z.string().trim().max(2000),
-		version: z.coerce.number().int().min(1)
+		notes: text().trim().max(2000, 'Keep the notes under 2,000 characters.'),
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.refine((d) => d.wrapTime > d.callTime, {
 		path: ['wrapTime'],
@@ -82,7 +89,10 @@ export const plannerSchema = z.object({
 });
 
 export const cameraSchema = z.object({
-	label: z.string().trim().min(1, 'Name the camera, e.g. "A cam".').max(40),
+	label: text()
+		.trim()
+		.min(1, 'Name the camera, e.g. "A cam".')
+		.max(40, 'Keep the name under 40 characters.'),
 	profileId: z.string().uuid('Pick a recording profile.'),
 	rollHours: z
 		.union([
@@ -94,15 +104,31 @@ export const cameraSchema = z.object({
 
 export const gearSchema = z.object({
 	kind: z.enum(['camera', 'audio', 'light', 'grip', 'other'], { error: 'Pick a kind of gear.' }),
-	label: z.string().trim().min(1, 'Say what the gear is.').max(120),
-	quantity: z.coerce.number().int('Use a whole number.').min(1, 'At least one.').max(999)
+	label: text().trim().min(1, 'Say what the gear is.').max(120, 'Keep it under 120 characters.'),
+	quantity: wholeNumber({
+		error: 'Enter how many.',
+		notWhole: 'Use a whole number.',
+		coerce: true,
+		min: 1,
+		max: 999,
+		tooSmall: 'At least one.',
+		tooBig: 'At most 999.'
+	})
 });
 
 export const pullItemSchema = z
 	.object({
 		partId: z.union([z.literal(''), z.string().uuid()]).transform((v) => v || null),
-		label: z.string().trim().max(160).default(''),
-		quantity: z.coerce.number().int('Use a whole number.').min(1, 'At least one.').max(999)
+		label: text().trim().max(160, 'Keep it under 160 characters.').default(''),
+		quantity: wholeNumber({
+			error: 'Enter how many.',
+			notWhole: 'Use a whole number.',
+			coerce: true,
+			min: 1,
+			max: 999,
+			tooSmall: 'At least one.',
+			tooBig: 'At most 999.'
+		})
 	})
 	.refine((d) => d.partId || d.label, {
 		path: ['label'],
@@ -111,14 +137,14 @@ export const pullItemSchema = z
 
 export const onHandSchema = z.object({
 	onHand: z.boolean({ error: 'onHand is true or false.' }),
-	version: z.coerce.number().int().min(1)
+	version: versionNumber('The version is missing: reload the page.', { coerce: true })
 });
 
 export const profileSchema = z.object({
-	name: z.string().trim().min(1, 'Name the profile.').max(80),
-	camera: z.string().trim().min(1, 'Say which camera body.').max(80),
-	codec: z.string().trim().min(1, 'Say which codec.').max(60),
-	resolution: z.string().trim().min(1, 'Say which resolution.').max(40),
+	name: text().trim().min(1, 'Name the profile.').max(80, 'Keep the name under 80 characters.'),
+	camera: text().trim().min(1, 'Say which camera body.').max(80, 'Keep it under 80 characters.'),
+	codec: text().trim().min(1, 'Say which codec.').max(60, 'Keep it under 60 characters.'),
+	resolution: text().trim().min(1, 'Say which resolution.').max(40, 'Keep it under 40 characters.'),
 	frameRate: z.enum(['23.976', '24', '25', '29.97', '30', '50', '59.94', '60'], {
 		error: 'Pick a frame rate.'
 	}),

@@ -15,6 +15,7 @@ import {
 	type SpecCardInput,
 	type SpecCardKind
 } from '../specs';
+import { MAX_FRAMES, text, versionNumber, wholeNumber } from './fields';
 
 export const SPEC_CARD_KINDS = [
 	'tyre-change',
@@ -48,19 +49,20 @@ export const DEFAULT_ON_SCREEN_SECONDS = 6;
 export const ON_SCREEN_SECONDS_LIMITS = { min: 1, max: 60 } as const;
 
 /** A timecode or a clock time as typed; parsed on the server at the episode's frame rate. */
-const programTimeSchema = z
-	.string({
-		error: 'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.'
-	})
+const programTimeSchema = text(
+	'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.'
+)
 	.trim()
 	.min(1, 'Type the program time as a timecode or a clock time, e.g. 00:04:20;00 or 4:20.')
 	.max(40, 'That time is far too long; type it as HH:MM:SS:FF or M:SS.');
 
-const atFrameSchema = z
-	.number({ error: 'The program time in frames is a whole number.' })
-	.int('The program time in frames is a whole number.')
-	.min(0, 'The program time in frames is 0 or more.')
-	.max(2_000_000_000, 'That frame is far past any cut.');
+const atFrameSchema = wholeNumber({
+	error: 'The program time in frames is a whole number.',
+	min: 0,
+	max: MAX_FRAMES,
+	tooSmall: 'The program time in frames is 0 or more.',
+	tooBig: 'That frame is far past any cut.'
+});
 
 const segmentIdSchema = z
 	.uuid({ error: 'Pick a segment of this episode’s rundown, or none.' })
@@ -77,10 +79,7 @@ const onScreenSecondsSchema = z
 		`Keep a card on screen for ${ON_SCREEN_SECONDS_LIMITS.max} s or less; split it if there is more to say.`
 	);
 
-const versionSchema = z
-	.number({ error: 'Send the version of the card you read.' })
-	.int()
-	.min(1, 'Send the version of the card you read.');
+const versionSchema = versionNumber('Send the version of the card you read.');
 
 const placement = {
 	segmentId: segmentIdSchema.optional(),

@@ -1,24 +1,20 @@
 /** Takes logged against shots: typed source timecode, good or no good, and the clip it is in. */
 import { z } from 'zod';
+import { text, versionNumber } from './fields';
 
 const timecodeText = (label: string) =>
-	z
-		.string({ error: `Type the source ${label} timecode.` })
+	text(`Type the source ${label} timecode.`)
 		.trim()
 		.min(1, `Type the source ${label} timecode.`)
 		.max(20);
 
 export const takeCreateSchema = z
 	.object({
-		clipName: z
-			.string({ error: 'Name the clip.' })
-			.trim()
-			.min(1, 'Name the clip, e.g. A012_C004.')
-			.max(120),
+		clipName: text('Name the clip.').trim().min(1, 'Name the clip, e.g. A012_C004.').max(120),
 		sourceIn: timecodeText('in'),
 		sourceOut: timecodeText('out'),
 		good: z.boolean().default(false),
-		note: z.string().trim().max(500, 'Keep the note under 500 characters.').default(''),
+		note: text().trim().max(500, 'Keep the note under 500 characters.').default(''),
 		footageId: z
 			.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')])
 			.nullable()
@@ -30,13 +26,13 @@ export const takeCreateSchema = z
 export const takeUpdateSchema = z
 	.object({
 		good: z.boolean().optional(),
-		note: z.string().trim().max(500, 'Keep the note under 500 characters.').optional(),
+		note: text().trim().max(500, 'Keep the note under 500 characters.').optional(),
 		footageId: z
 			.union([z.literal(''), z.string().uuid('Pick a clip from this episode’s footage.')])
 			.nullable()
 			.optional()
 			.transform((v) => (v === undefined ? undefined : v || null)),
-		version: z.coerce.number().int().min(1)
+		version: versionNumber('The version is missing: reload the page.', { coerce: true })
 	})
 	.strict();
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { text } from '../schemas/fields';
 import { SpecError } from './errors';
 import {
 	LIFT_CAUTION,
@@ -44,8 +45,7 @@ export const SPEC_CARD_PRECISION = {
 	torque: 0
 } as const;
 
-const tyreSizeText = z
-	.string({ error: 'Enter the tyre size as text, for example 285/70R17.' })
+const tyreSizeText = text('Enter the tyre size as text, for example 285/70R17.')
 	.trim()
 	.min(1, 'Enter a tyre size, for example 285/70R17.');
 
@@ -67,8 +67,7 @@ export const specCardInputSchema = z.discriminatedUnion(
 			kind: z.literal('torque'),
 			value: z.number({ error: 'Enter the torque as a number, for example 95.' }),
 			unit: z.enum(TORQUE_UNITS, { error: 'Choose a torque unit: ft·lbf, N·m or in·lbf.' }),
-			fastener: z
-				.string()
+			fastener: text()
 				.trim()
 				.min(1, 'Name the fastener, or leave it out.')
 				.max(
@@ -96,16 +95,14 @@ export const specCardInputSchema = z.discriminatedUnion(
 		}),
 		z.object({
 			kind: z.literal('text'),
-			heading: z
-				.string({ error: 'Enter a heading.' })
+			heading: text('Enter a heading.')
 				.trim()
 				.min(1, 'Enter a heading.')
 				.max(
 					TEXT_CARD_LIMITS.heading,
 					`Keep the heading to ${TEXT_CARD_LIMITS.heading} characters.`
 				),
-			body: z
-				.string({ error: 'Enter the text for the card.' })
+			body: text('Enter the text for the card.')
 				.trim()
 				.min(1, 'Enter the text for the card.')
 				.max(TEXT_CARD_LIMITS.body, `Keep the text to ${TEXT_CARD_LIMITS.body} characters.`)

@@ -22,6 +22,7 @@ import {
 	UPLOAD_PATH,
 	cleanFileName
 } from '$lib/upload-rules';
+import { text } from '$lib/schemas/fields';
 import { db } from '../db';
 import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
@@ -47,8 +48,8 @@ const metadataSchema = z.object({
 			ALLOWED_UPLOAD_TYPE,
 			'Only video, audio and still-image files can be uploaded; SVG and other markup files are refused.'
 		),
-	clipName: z.string().trim().max(120).optional(),
-	cameraLabel: z.string().trim().max(40).optional(),
+	clipName: text().trim().max(120).optional(),
+	cameraLabel: text().trim().max(40).optional(),
 	shootDayId: z
 		.string()
 		.refine(isUuid, 'shootDayId must be a shoot day of this episode.')

@@ -2,6 +2,7 @@
 import { error, fail, type ActionFailure } from '@sveltejs/kit';
 import { z } from 'zod';
 import { DomainError, fieldIssues } from './api';
+import { versionNumber } from '$lib/schemas/fields';
 
 export type FormErrors = Record<string, string[]>;
 
@@ -46,9 +47,7 @@ export async function forPage<T>(work: () => Promise<T>): Promise<T> {
 
 const RELOAD =
 	'Reload the page and try again: the form did not say which version you were looking at.';
-const versionSchema = z.object({
-	version: z.coerce.number({ error: RELOAD }).int(RELOAD).min(1, RELOAD)
-});
+const versionSchema = z.object({ version: versionNumber(RELOAD, { coerce: true }) });
 
 /** The `version` a form carries for its optimistic lock (a whole number from 1), or the field error. */
 export function readVersion(

@@ -42,6 +42,7 @@ import {
 	type PartStatusValue,
 	type PartUpdate
 } from '$lib/schemas/parts';
+import { textProblem } from '$lib/schemas/fields';
 
 export const partNotFound = () => notFound('That part');
 
@@ -875,6 +876,8 @@ export async function partIdBySku(
 		const message = 'Type the part’s SKU (or, with JavaScript, a name or brand and pick the part).';
 		throw new DomainError(400, message, { sku: [message] });
 	}
+	const problem = textProblem(sku, 'The SKU');
+	if (problem) throw new DomainError(400, problem, { sku: [problem] });
 	const part = await executor
 		.selectFrom('part')
 		.select('id')

@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import { api, parseWith, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { deleteNote, updateNote } from '$lib/server/merch/notes';
 import { noteUpdateSchema } from '$lib/schemas/parts';
+import { versionNumber } from '$lib/schemas/fields';
 import type { RequestHandler } from './$types';
 
 /**
@@ -24,11 +24,9 @@ export const PATCH: RequestHandler = api(async (event) => {
 	});
 });
 
-const versionParam = z.coerce
-	.number({ error: 'version is a whole number.' })
-	.int('version is a whole number.')
-	.min(1, 'version is 1 or more.')
-	.optional();
+const versionParam = versionNumber('version is a whole number from 1.', {
+	coerce: true
+}).optional();
 
 /** The camera operator (or the producer) removes a note; `?version=` makes it conditional. */
 export const DELETE: RequestHandler = api(async (event) => {

@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import { api, parseWith, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { partDetail, removePart, updatePart } from '$lib/server/merch/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
+import { versionNumber } from '$lib/schemas/fields';
 import type { RequestHandler } from './$types';
 
 /** Any crew member reads a part, with how many notes and tracked links feature it. */
@@ -19,11 +19,9 @@ export const PATCH: RequestHandler = api(async (event) => {
 	return json({ part: await updatePart(channel.id, event.params.id, input) });
 });
 
-const versionParam = z.coerce
-	.number({ error: 'version is a whole number.' })
-	.int('version is a whole number.')
-	.min(1, 'version is 1 or more.')
-	.optional();
+const versionParam = versionNumber('version is a whole number from 1.', {
+	coerce: true
+}).optional();
 
 /** Removes a part no note or tracked link uses; a featured one answers 409 (retire it instead). */
 export const DELETE: RequestHandler = api(async (event) => {

@@ -7,7 +7,7 @@ import {
 	setCutDuration,
 	updateChapter
 } from '$lib/server/edit/edit';
-import { attempt, parseForm } from '$lib/server/http/forms';
+import { attempt, parseForm, readVersion } from '$lib/server/http/forms';
 import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
 import type { TimelineMark } from '$lib/components/timeline';
 import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
@@ -92,15 +92,11 @@ export const actions = {
 		const form = await event.request.formData();
 		const chapterId = text(form, 'chapterId');
 		const values = { version: number(form, 'version') };
-		if (!Number.isSafeInteger(values.version))
-			return fail(400, {
-				action: 'removeChapter',
-				chapterId,
-				errors: { version: ['Reload the page and try again.'] },
-				values
-			});
+		const read = readVersion(form);
+		if (!read.ok)
+			return fail(400, { action: 'removeChapter', chapterId, errors: read.errors, values });
 		const result = await attempt(values, () =>
-			deleteChapter(channel.id, event.params.id, chapterId, values.version)
+			deleteChapter(channel.id, event.params.id, chapterId, read.version)
 		);
 		if ('status' in result)
 			return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });

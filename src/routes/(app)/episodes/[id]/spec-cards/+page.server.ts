@@ -1,6 +1,6 @@
 import { fail, redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/auth/guard';
-import { attempt, forPage, parseForm, type FormErrors } from '$lib/server/http/forms';
+import { attempt, forPage, parseForm, readVersion, type FormErrors } from '$lib/server/http/forms';
 import {
 	createSpecCard,
 	deleteSpecCard,
@@ -98,17 +98,18 @@ export const actions = {
 	/** Removes a card, if nobody changed it since the page was loaded. */
 	remove: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
-		const values = formValues(await event.request.formData());
-		const version = Number(values.version);
-		if (!Number.isSafeInteger(version))
+		const form = await event.request.formData();
+		const values = formValues(form);
+		const read = readVersion(form);
+		if (!read.ok)
 			return fail(400, {
 				action: 'remove',
 				cardId: values.cardId,
-				errors: { form: ['Reload the page and try again.'] },
+				errors: { form: read.errors.version ?? ['Reload the page and try again.'] },
 				values
 			});
 		const result = await attempt(values, () =>
-			deleteSpecCard(channel.id, event.params.id, values.cardId ?? '', version)
+			deleteSpecCard(channel.id, event.params.id, values.cardId ?? '', read.version)
 		);
 		if ('status' in result)
 			return fail(result.status, { action: 'remove', cardId: values.cardId, ...result.data });

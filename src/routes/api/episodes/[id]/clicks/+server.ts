@@ -1,17 +1,19 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import { api, notFound, parseWith } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { isUuid } from '$lib/server/auth/identity';
 import { CLICK_DAYS, clicksFor } from '$lib/server/merch/tracked-links';
+import { wholeNumber } from '$lib/schemas/fields';
 import type { RequestHandler } from './$types';
 
-const daysParam = z.coerce
-	.number({ error: 'days is a whole number.' })
-	.int('days is a whole number.')
-	.min(1, 'days is 1 or more.')
-	.max(366, 'days is at most 366.')
-	.default(CLICK_DAYS);
+const daysParam = wholeNumber({
+	error: 'days is a whole number.',
+	coerce: true,
+	min: 1,
+	max: 366,
+	tooSmall: 'days is 1 or more.',
+	tooBig: 'days is at most 366.'
+}).default(CLICK_DAYS);
 
 /** Any crew member reads the tracked links' clicks per day (UTC) for the last `?days=` days (30). */
 export const GET: RequestHandler = api(async (event) => {

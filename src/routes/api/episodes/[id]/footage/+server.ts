@@ -3,11 +3,12 @@ import { z } from 'zod';
 import { api, parseWith } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { FOOTAGE_SORTS, listFootage } from '$lib/server/footage/footage';
+import { text } from '$lib/schemas/fields';
 import type { RequestHandler } from './$types';
 
 const querySchema = z.object({
-	shootDay: z.string().optional(),
-	camera: z.string().max(40).optional(),
+	shootDay: text().optional(),
+	camera: text().max(40, 'A camera name has at most 40 characters.').optional(),
 	purpose: z.enum(['footage', 'cut']).optional(),
 	sort: z.enum(FOOTAGE_SORTS).optional(),
 	direction: z.enum(['asc', 'desc']).optional()
