@@ -42,9 +42,8 @@ export default ts.config(
 			'no-control-regex': 'off',
 			// Svelte 5 trims whitespace at the edges of a block, so {' · '} keeps a deliberate space.
 			'svelte/no-useless-mustaches': 'off',
-			// Issue 15, step 6 turns these two into errors once the components are converted.
-			'svelte/prefer-writable-derived': 'warn',
-			'@typescript-eslint/no-explicit-any': 'warn'
+			'svelte/prefer-writable-derived': 'error',
+			'@typescript-eslint/no-explicit-any': 'error'
 		}
 	},
 	{

@@ -1,5 +1,6 @@
 // See https://svelte.dev/docs/kit/types#app.d.ts
 import type { Role } from '$lib/roles';
+import type { FrameRate } from '$lib/timecode';
 
 declare global {
 	namespace App {
@@ -11,7 +12,7 @@ declare global {
 			/** The signed-in person, read from the database on every request. */
 			person: { id: string; email: string; name: string } | null;
 			/** The channel this request works in; every query is scoped to it. */
-			channel: { id: string; name: string; frameRate: string } | null;
+			channel: { id: string; name: string; frameRate: FrameRate } | null;
 			/** The person's roles in the current channel. */
 			roles: Role[];
 			/** Every channel the person may enter, for the switcher. */

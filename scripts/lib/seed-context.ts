@@ -1,4 +1,6 @@
 /** What the core demo seed hands to the per-area seeds: ids by readable key. */
+import type { FrameRate } from '../../src/lib/timecode.ts';
+
 export interface SeedContext {
 	/** channel key ('torquehaven', 'dunewagon') → channel id */
 	channels: Map<string, string>;
@@ -7,5 +9,5 @@ export interface SeedContext {
 	/** build key ('mule', 'tallboy', 'sandpiper') → build id */
 	builds: Map<string, string>;
 	/** episode slug → { id, channelId, frameRate, stage } */
-	episodes: Map<string, { id: string; channelId: string; frameRate: string; stage: string }>;
+	episodes: Map<string, { id: string; channelId: string; frameRate: FrameRate; stage: string }>;
 }

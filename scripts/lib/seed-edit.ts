@@ -5,7 +5,7 @@
  */
 import type { Transaction } from 'kysely';
 import type { Database } from '../../src/lib/server/db/types.ts';
-import { isFrameRate, parseTimecode, type FrameRate } from '../../src/lib/timecode.ts';
+import { parseTimecode, type FrameRate } from '../../src/lib/timecode.ts';
 import { chapterStartFromText } from '../../src/lib/chapters/start.ts';
 import type { SeedContext } from './seed-context.ts';
 
@@ -61,8 +61,6 @@ export async function seedEdit(trx: Transaction<Database>, context: SeedContext)
 	for (const [slug, edit] of Object.entries(demoEdits)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate))
-			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate: FrameRate = episode.frameRate;
 		await trx
 			.updateTable('episode')

@@ -14,7 +14,6 @@ import type { Stage } from '../../src/lib/stages.ts';
 import { countSpokenWords } from '../../src/lib/script/timing.ts';
 import {
 	framesToSeconds,
-	isFrameRate,
 	parseTimecode,
 	secondsToFrames,
 	type FrameRate
@@ -781,8 +780,6 @@ export async function seedEpisodeWork(
 	for (const [slug, seed] of Object.entries(work)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate))
-			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate = episode.frameRate;
 		const lastMove = seed.history[seed.history.length - 1];
 		if (lastMove.to !== episode.stage)

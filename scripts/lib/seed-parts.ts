@@ -8,7 +8,7 @@ import { randomBytes } from 'node:crypto';
 import type { Transaction } from 'kysely';
 import type { Database } from '../../src/lib/server/db/types.ts';
 import { chapterStartFromText } from '../../src/lib/chapters/start.ts';
-import { isFrameRate, parseTimecode, type FrameRate } from '../../src/lib/timecode.ts';
+import { parseTimecode, type FrameRate } from '../../src/lib/timecode.ts';
 import type { SeedContext } from './seed-context.ts';
 
 interface NoteSeed {
@@ -157,8 +157,6 @@ export async function seedParts(trx: Transaction<Database>, context: SeedContext
 	for (const [slug, notes] of Object.entries(demoNotes)) {
 		const episode = context.episodes.get(slug);
 		if (!episode) continue;
-		if (!isFrameRate(episode.frameRate))
-			throw new Error(`demo episode ${slug} has an unknown frame rate ${episode.frameRate}`);
 		const rate: FrameRate = episode.frameRate;
 		const segments = await trx
 			.selectFrom('segment')

@@ -18,7 +18,7 @@
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
 import type { Stage } from './stages';
-import { formatTimecode, isFrameRate, type FrameRate } from './timecode';
+import { formatTimecode, type FrameRate } from './timecode';
 
 export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
 
@@ -231,9 +231,7 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 
 function cautionRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
-	const rate = snapshot.frameRate;
-	const at = (frames: number) =>
-		isFrameRate(rate) ? formatTimecode(frames, rate) : `frame ${frames}`;
+	const at = (frames: number) => formatTimecode(frames, snapshot.frameRate);
 	for (const segment of snapshot.segments) {
 		for (const hazard of segment.hazards) {
 			const label = hazardById(hazard)?.label ?? hazard;

@@ -98,7 +98,9 @@ describe('from an idea to the shoot', () => {
 		await page.getByRole('button', { name: 'Save script' }).click();
 		await expect.poll(() => page.getByTestId('save-status').textContent()).toMatch(/Saved/);
 		await page.getByRole('link', { name: 'Segment 2 →' }).click();
-		await page.waitForURL(/script\/[0-9a-f-]{36}$/);
+		// Segment 1's script URL matches the same pattern, so wait for segment 2's own heading:
+		// typing earlier lands in segment 1's editor, which the navigation then replaces.
+		await page.getByRole('heading', { level: 1, name: 'Bolting the bumper on' }).waitFor();
 		await page
 			.locator('#script-body')
 			.fill(

@@ -4,6 +4,7 @@ import type { ColumnType, Generated, Insertable, Selectable, Updateable } from '
 import type { Role } from '$lib/roles';
 import type { Stage } from '$lib/stages';
 import type { SuspensionType } from '$lib/specs/lift';
+import type { FrameRate } from '$lib/timecode';
 import type { EpisodeWorkTables } from './tables/episode-work';
 import type { EditTables } from './tables/edit';
 import type { ShootTables } from './tables/shoot';
@@ -18,7 +19,8 @@ type Timestamp = ColumnType<Date, Date | string, Date | string>;
 export interface ChannelTable {
 	id: Generated<string>;
 	name: string;
-	frameRate: Generated<string>;
+	/** One of FRAME_RATES; the channel_frame_rate_known check refuses anything else. */
+	frameRate: ColumnType<FrameRate, FrameRate | undefined, FrameRate>;
 	callToAction: Generated<string>;
 	contact: Generated<string>;
 	descriptionLimit: Generated<number>;
@@ -142,7 +144,8 @@ export interface EpisodeTable {
 	slug: string;
 	logline: Generated<string>;
 	targetRuntimeSeconds: number;
-	frameRate: string;
+	/** One of FRAME_RATES; the episode_frame_rate_known check refuses anything else. */
+	frameRate: FrameRate;
 	publishDate: ColumnType<string | null, string | null | undefined, string | null>;
 	stage: ColumnType<Stage, Stage | undefined, Stage>;
 	cutDurationFrames: number | null;

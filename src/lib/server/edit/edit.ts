@@ -25,7 +25,6 @@ import {
 	TimecodeError,
 	defaultDropFrame,
 	formatTimecode,
-	isFrameRate,
 	parseTimecode,
 	type FrameRate
 } from '$lib/timecode';
@@ -112,14 +111,6 @@ function episodeWithChapters(executor: Executor, channelId: string, episodeId: s
 
 type EpisodeWithChapters = NonNullable<Awaited<ReturnType<typeof episodeWithChapters>>>;
 
-function rateOf(episode: { frameRate: string }): FrameRate {
-	if (!isFrameRate(episode.frameRate)) {
-		// The episode table has no check on frame_rate; a bad value is a data fault, not the caller's.
-		throw new Error(`episode has an unknown frame rate ${JSON.stringify(episode.frameRate)}`);
-	}
-	return episode.frameRate;
-}
-
 function toEditChapter(
 	row: {
 		id: string;
@@ -156,7 +147,7 @@ function problemsOf(
 }
 
 function stateOf(row: EpisodeWithChapters): EditState {
-	const rate = rateOf(row);
+	const rate = row.frameRate;
 	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
 	return {
 		episode: {
@@ -233,7 +224,7 @@ async function scopedEpisode(executor: Executor, channelId: string, episodeId: s
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!episode) throw episodeNotFound();
-	return { ...episode, rate: rateOf(episode), locks: editLocks(episode.stage as Stage) };
+	return { ...episode, rate: episode.frameRate, locks: editLocks(episode.stage as Stage) };
 }
 
 /** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
@@ -450,7 +441,7 @@ export async function chapterDownloadFor(
 	const row = await episodeWithChapters(db, channelId, episodeId);
 	const queried = performance.now();
 	if (!row) throw episodeNotFound();
-	const rate = rateOf(row);
+	const rate = row.frameRate;
 	const problems = problemsOf(row.chapters, row.cutDurationFrames, rate);
 	if (problems.length > 0) {
 		throw new DomainError(

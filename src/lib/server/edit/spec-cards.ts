@@ -12,7 +12,7 @@ import { sql } from 'kysely';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, rateOf, type Executor } from '../episodes/episodes';
+import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { framesFromText } from '../episodes/segments';
 import {
 	compareTyres,
@@ -200,7 +200,7 @@ export async function specCardsFor(
 	executor: Executor = db
 ): Promise<SpecCardBoard> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
-	const rate = rateOf(episode);
+	const rate = episode.frameRate;
 	const [segments, rows] = await Promise.all([
 		segmentsOf(executor, episode.id, rate),
 		cardsQuery(executor, episode.id).execute()
@@ -220,7 +220,7 @@ async function cardView(
 	const row = await cardsQuery(executor, episode.id)
 		.where('specCard.id', '=', cardId)
 		.executeTakeFirst();
-	return row ? toView(row, episode, rateOf(episode)) : null;
+	return row ? toView(row, episode, episode.frameRate) : null;
 }
 
 /** Checks the card's shape and numbers; a parser's refusal is a 400 with its own words on the field. */
@@ -287,7 +287,7 @@ export async function createSpecCard(
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
-		const rate = rateOf(episode);
+		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
 		const atFrame = placedFrame(input, episode, rate) ?? null;
 		const last = await trx
@@ -335,7 +335,7 @@ export async function updateSpecCard(
 ): Promise<SpecCardView> {
 	const episode = await episodeInChannel(db, channelId, episodeId);
 	if (!isUuid(cardId)) throw cardNotFound();
-	const rate = rateOf(episode);
+	const rate = episode.frameRate;
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
 	const segmentId =
 		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);

@@ -17,7 +17,7 @@ import {
 	DEFAULT_WORDS_PER_MINUTE,
 	type CalibratedPace
 } from '$lib/script/timing';
-import { framesToSeconds, isFrameRate, type FrameRate } from '$lib/timecode';
+import { framesToSeconds } from '$lib/timecode';
 import { STAGES, type Stage } from '$lib/stages';
 import {
 	ASSIGNABLE_ROLES,
@@ -38,13 +38,6 @@ export interface Actor {
 }
 
 export const episodeNotFound = () => notFound('That episode');
-
-/** The episode's frame rate, checked: a bad stored value is a data fault, not the caller's. */
-export function rateOf(episode: { frameRate: string }): FrameRate {
-	if (!isFrameRate(episode.frameRate))
-		throw new Error(`episode has an unknown frame rate ${JSON.stringify(episode.frameRate)}`);
-	return episode.frameRate;
-}
 
 /** The episode row of this channel, optionally locked for the rest of the transaction; 404 otherwise. */
 export async function episodeInChannel(
@@ -569,12 +562,10 @@ export async function hostPaceFor(
 		.where('episodeAssignment.personId', '=', host.id)
 		.where('segment.recordedFrames', 'is not', null)
 		.execute();
-	const samples = recorded
-		.filter((row) => isFrameRate(row.frameRate))
-		.map((row) => ({
-			words: countSpokenWords(row.body),
-			recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate as FrameRate)
-		}));
+	const samples = recorded.map((row) => ({
+		words: countSpokenWords(row.body),
+		recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate)
+	}));
 	return { ...calibratePace(samples), hostName: host.name };
 }
 

@@ -10,7 +10,7 @@ import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, hostPaceFor, rateOf, type Actor, type Executor } from './episodes';
+import { episodeInChannel, hostPaceFor, type Actor, type Executor } from './episodes';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
 import { countSpokenWords, estimateSpokenSeconds } from '$lib/script/timing';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
@@ -213,7 +213,7 @@ function cautionView(
 }
 
 function toView(row: SegmentRow, wordsPerMinute: number): SegmentView {
-	const rate = rateOf(row);
+	const rate = row.frameRate;
 	const words = countSpokenWords(row.scriptBody);
 	const flagged = new Set(row.hazards);
 	return {
@@ -277,7 +277,7 @@ export async function rundownFor(channelId: string, episodeId: string, executor:
 			id: episode.id,
 			title: episode.title,
 			stage: episode.stage,
-			frameRate: rateOf(episode),
+			frameRate: episode.frameRate,
 			targetRuntimeSeconds: episode.targetRuntimeSeconds,
 			cutDurationFrames: episode.cutDurationFrames
 		},
@@ -524,7 +524,7 @@ export async function updateSegment(
 				input.promiseTitle
 			);
 		if (input.buildId !== undefined) await checkBuild(trx, channelId, input.buildId);
-		const rate = rateOf(segment);
+		const rate = segment.frameRate;
 		let recordedFrames = segment.recordedFrames;
 		if (input.recordedFrames !== undefined) recordedFrames = input.recordedFrames;
 		else if (input.recorded !== undefined)
@@ -777,7 +777,7 @@ export async function updateCaution(
 		);
 	return db.transaction().execute(async (trx) => {
 		const segment = await segmentInChannel(trx, channelId, segmentId);
-		const rate = rateOf(segment);
+		const rate = segment.frameRate;
 		const caution = await trx
 			.selectFrom('caution')
 			.selectAll()

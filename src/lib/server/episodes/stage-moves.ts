@@ -11,7 +11,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
 import { scriptFingerprint } from './fingerprint';
-import { assignmentMap, episodeInChannel, rateOf, type Actor, type Executor } from './episodes';
+import { assignmentMap, episodeInChannel, type Actor, type Executor } from './episodes';
 import { queueMail } from '../mail/outbox';
 import { stageArrivalMail } from '../mail/episode-messages';
 import { gateChecksFor, type GateReason, type GateSnapshot, type ScriptStatus } from '$lib/gates';
@@ -108,7 +108,7 @@ export async function gateSnapshotFor(
 		]);
 	return {
 		stage: episode.stage,
-		frameRate: rateOf(episode),
+		frameRate: episode.frameRate,
 		cutDurationFrames: episode.cutDurationFrames,
 		publishDate: episode.publishDate,
 		assignments: Object.fromEntries(assignments.map((row) => [row.role, row.name])),

@@ -66,11 +66,15 @@ export async function probeMedia(file: string): Promise<ProbeResult> {
 	}
 }
 
-/** "30000/1001" → "29.97"; "25/1" → "25". */
+/**
+ * "30000/1001" → "29.97"; "25/1" → "25"; "120/1" → "120". Only a positive rate gets a label: the
+ * footage table's check accepts a plain decimal with up to three places, or null.
+ */
 export function frameRateLabel(ratio: string | undefined): string | null {
 	if (!ratio) return null;
 	const [numerator, denominator] = ratio.split('/').map(Number);
 	if (!numerator || !denominator) return null;
 	const fps = numerator / denominator;
+	if (!(fps > 0)) return null;
 	return String(Math.round(fps * 1000) / 1000);
 }

@@ -5,6 +5,8 @@ import { DomainError, fieldIssues } from './api';
 import { versionNumber } from '$lib/schemas/fields';
 
 export type FormErrors = Record<string, string[]>;
+/** What a failed `attempt` hands the page: the errors, the typed values, and the domain's extra (e.g. `current`). */
+export type FormFailure<V> = { errors: FormErrors; values: V; extra?: Record<string, unknown> };
 
 export function parseForm<T extends z.ZodType>(
 	schema: T,
@@ -20,7 +22,7 @@ export function parseForm<T extends z.ZodType>(
 export async function attempt<T, V>(
 	values: V,
 	work: () => Promise<T>
-): Promise<T | ActionFailure<{ errors: FormErrors; values: V; extra?: Record<string, unknown> }>> {
+): Promise<T | ActionFailure<FormFailure<V>>> {
 	try {
 		return await work();
 	} catch (failure) {

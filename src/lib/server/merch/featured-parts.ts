@@ -9,7 +9,7 @@
  */
 import { sql } from 'kysely';
 import { db } from '../db';
-import { episodeInChannel, rateOf, type Executor } from '../episodes/episodes';
+import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
 import type { Role } from '$lib/roles';
 
@@ -243,7 +243,7 @@ export async function featuredPartsFor(
 	executor: Executor = db
 ): Promise<FeaturedParts> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
-	const rate = rateOf(episode);
+	const rate = episode.frameRate;
 	const [rows, named] = await Promise.all([
 		featuredRows(executor, episode.id),
 		partsNamedInScript(executor, channelId, episode.id)
@@ -279,7 +279,7 @@ export async function featuredPartProblemsFor(
 	episodeId: string
 ): Promise<{ message: string; fixedBy: Role }[]> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
-	const parts = groupFeatured(await featuredRows(executor, episode.id), rateOf(episode));
+	const parts = groupFeatured(await featuredRows(executor, episode.id), episode.frameRate);
 	// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
 	return lockWarnings(parts).map((warning) => ({
 		message: warning.message,

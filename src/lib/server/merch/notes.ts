@@ -16,7 +16,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, rateOf, type Actor, type Executor } from '../episodes/episodes';
+import { episodeInChannel, type Actor, type Executor } from '../episodes/episodes';
 import { ensureTrackedLinks } from './tracked-links';
 import { chapterStartFromText } from '$lib/chapters';
 import {
@@ -186,7 +186,7 @@ export async function notesPageFor(
 	executor: Executor = db
 ): Promise<NotesPage> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
-	const rate = rateOf(episode);
+	const rate = episode.frameRate;
 	const [segments, takes, notes] = await Promise.all([
 		executor
 			.selectFrom('segment')
@@ -427,7 +427,7 @@ export async function createNote(
 	assertNoteRights(actor.roles, input, true);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
-		const rate = rateOf(episode);
+		const rate = episode.frameRate;
 		const placement = await checkPlacement(trx, episode.id, rate, {
 			segmentId: input.segmentId ?? null,
 			takeId: input.takeId ?? null,
@@ -472,7 +472,7 @@ async function scopedNote(trx: Executor, channelId: string, noteId: string) {
 		.forUpdate('segmentNote')
 		.executeTakeFirst();
 	if (!note) throw noteNotFound();
-	return { ...note, rate: rateOf(note) };
+	return { ...note, rate: note.frameRate };
 }
 
 async function refuseStale(

@@ -16,7 +16,7 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
-import { episodeNotFound, rateOf, type Executor } from '../episodes/episodes';
+import { episodeNotFound, type Executor } from '../episodes/episodes';
 import { isUuid } from '../auth/identity';
 import { FEATURED_COLUMNS, groupFeatured, type FeaturedPart } from './featured-parts';
 import { ensureTrackedLinks, linkAddress } from './tracked-links';
@@ -129,7 +129,7 @@ function loglineBlock(row: KitRow): KitBlock {
 
 function chaptersBlock(row: KitRow): KitBlock {
 	const title = 'Chapters';
-	const rate = rateOf(row);
+	const rate = row.frameRate;
 	const chapters = row.chapters.map((chapter) => ({
 		startFrame: chapter.startFrame,
 		title: chapter.title,
@@ -250,7 +250,7 @@ function callToActionBlock(row: KitRow): KitBlock {
 }
 
 function assemble(row: KitRow, origin: string): PublishKit {
-	const parts = groupFeatured(row.featured as Parameters<typeof groupFeatured>[0], rateOf(row));
+	const parts = groupFeatured(row.featured as Parameters<typeof groupFeatured>[0], row.frameRate);
 	const blocks = [
 		loglineBlock(row),
 		chaptersBlock(row),

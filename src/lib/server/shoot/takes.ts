@@ -6,7 +6,7 @@
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, rateOf } from '../episodes/episodes';
+import { episodeInChannel } from '../episodes/episodes';
 import { formatTimecode, parseTimecode, TimecodeError, type FrameRate } from '$lib/timecode';
 import type { TakeCreate, TakeUpdate } from '$lib/schemas/takes';
 import { hazardById } from '$lib/cautions';
@@ -14,7 +14,7 @@ import { hazardById } from '$lib/cautions';
 /** Every segment of the episode with its shots and their takes, and the footage a take can point at. */
 export async function shotListFor(channelId: string, episodeId: string) {
 	const episode = await episodeInChannel(db, channelId, episodeId);
-	const rate = rateOf(episode);
+	const rate = episode.frameRate;
 	const [segments, shots, takes, footage, cautions] = await Promise.all([
 		db
 			.selectFrom('segment')
@@ -115,7 +115,7 @@ async function checkFootage(episodeId: string, footageId: string | null | undefi
 
 export async function logTake(channelId: string, shotId: string, input: TakeCreate) {
 	const shot = await shotInChannel(channelId, shotId);
-	const rate = shot.frameRate as FrameRate;
+	const rate = shot.frameRate;
 	// Source timecode is read as the camera wrote it: ';' before the frames is drop-frame, ':' is not.
 	const sourceDropFrame = input.sourceIn.includes(';');
 	if (input.sourceOut.includes(';') !== sourceDropFrame) {

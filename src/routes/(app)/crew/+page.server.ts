@@ -20,12 +20,13 @@ export const actions = {
 			roles: form.getAll('roles').map(String)
 		};
 		const parsed = parseForm(inviteSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'invite', errors: parsed.errors, values });
+		if (!parsed.ok) return fail(400, { action: 'invite' as const, errors: parsed.errors, values });
 		const result = await attempt(values, () =>
 			invitePerson(channel.id, person, parsed.data, event.url.origin)
 		);
-		if ('status' in result) return fail(result.status, { action: 'invite', ...result.data });
-		return { action: 'invite', invited: result.email };
+		if ('status' in result)
+			return fail(result.status, { action: 'invite' as const, ...result.data });
+		return { action: 'invite' as const, invited: result.email };
 	},
 	update: async (event) => {
 		const { channel, person } = requireRole(event, 'producer');
@@ -37,12 +38,13 @@ export const actions = {
 			disabled: disabled === null ? undefined : disabled === 'true'
 		};
 		const parsed = parseForm(crewUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'update', personId, errors: parsed.errors, values });
+		if (!parsed.ok)
+			return fail(400, { action: 'update' as const, personId, errors: parsed.errors, values });
 		const result = await attempt(values, () =>
 			updateMember(channel.id, person.id, personId, parsed.data)
 		);
 		if ('status' in result)
-			return fail(result.status, { action: 'update', personId, ...result.data });
-		return { action: 'update', personId, saved: true };
+			return fail(result.status, { action: 'update' as const, personId, ...result.data });
+		return { action: 'update' as const, personId, saved: true };
 	}
 } satisfies Actions;

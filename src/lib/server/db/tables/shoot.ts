@@ -1,5 +1,6 @@
 /** Tables for the shoot: shoot days, recording profiles, gear, pull list, uploads and footage. */
 import type { ColumnType, Generated } from 'kysely';
+import type { FrameRate } from '$lib/timecode';
 
 type CreatedAt = ColumnType<Date, Date | string | undefined, never>;
 type Numeric = ColumnType<number, number | undefined, number>;
@@ -11,7 +12,8 @@ export interface RecordingProfileTable {
 	camera: string;
 	codec: string;
 	resolution: string;
-	frameRate: string;
+	/** One of FRAME_RATES; the recording_profile_frame_rate_known check refuses anything else. */
+	frameRate: FrameRate;
 	bitrateMbps: number;
 	version: Generated<number>;
 	createdAt: CreatedAt;
@@ -112,6 +114,10 @@ export interface FootageTable {
 	sizeBytes: number;
 	sha256: string;
 	durationSeconds: number | null;
+	/**
+	 * The rate ffprobe measured, as a decimal label ("29.97", "120"): a fact about the file, not a
+	 * programme rate, so not a FrameRate. Null when nothing was read.
+	 */
 	frameRate: string | null;
 	videoCodec: string | null;
 	probeNote: string | null;

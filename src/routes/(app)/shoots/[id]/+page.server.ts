@@ -1,4 +1,4 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { fail, redirect, type ActionFailure } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import * as days from '$lib/server/shoot/shoot-days';
@@ -11,7 +11,7 @@ import {
 	pullItemSchema,
 	shootDayUpdateSchema
 } from '$lib/schemas/shoot';
-import { attempt, parseForm, forPage } from '$lib/server/http/forms';
+import { attempt, parseForm, forPage, type FormFailure } from '$lib/server/http/forms';
 import { assertOnShootDay } from '$lib/server/http/ownership';
 import { searchPartsForPicker } from '$lib/server/merch/parts-picker';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
@@ -32,13 +32,15 @@ export const load = (async (event) => {
 type Values = Record<string, string | string[]>;
 
 /** Reads the form, validates it and runs the domain call; every failure keeps what was typed. */
-async function run<T extends z.ZodType>(
+async function run<Action extends string, T extends z.ZodType>(
 	event: RequestEvent,
-	action: string,
+	action: Action,
 	schema: T,
 	work: (data: z.infer<T>, values: Values) => Promise<unknown>,
 	read?: (form: FormData) => unknown
-) {
+): Promise<
+	ActionFailure<{ action: Action } & FormFailure<Values>> | { action: Action; saved: true }
+> {
 	const form = await event.request.formData();
 	const values = Object.fromEntries(
 		[...form.keys()].map((key) => [
@@ -50,7 +52,7 @@ async function run<T extends z.ZodType>(
 	if (!parsed.ok) return fail(400, { action, errors: parsed.errors, values });
 	const result = await attempt(values, () => work(parsed.data, values));
 	if (result && typeof result === 'object' && 'status' in result && 'data' in result)
-		return fail(result.status as number, { action, ...(result.data as object) });
+		return fail(result.status as number, { action, ...(result.data as FormFailure<Values>) });
 	return { action, saved: true };
 }
 
@@ -117,10 +119,10 @@ export const actions = {
 		const result = await attempt({}, () => days.pullPartsFromSegments(channel.id, event.params.id));
 		if ('status' in result && 'data' in result)
 			return fail(result.status as number, {
-				action: 'pullFromSegments',
-				...(result.data as object)
+				action: 'pullFromSegments' as const,
+				...result.data
 			});
-		return { action: 'pullFromSegments', added: (result as { added: number }).added };
+		return { action: 'pullFromSegments' as const, added: (result as { added: number }).added };
 	},
 	removeItem: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
@@ -145,7 +147,7 @@ export const actions = {
 		const { channel } = requireRole(event, 'producer');
 		const result = await attempt({}, () => days.deleteShootDay(channel.id, event.params.id));
 		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, { action: 'delete', ...result.data });
+			return fail(result.status, { action: 'delete' as const, ...result.data });
 		redirect(303, '/shoots');
 	}
 } satisfies Actions;

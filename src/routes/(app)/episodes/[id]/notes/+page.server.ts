@@ -37,9 +37,9 @@ const actorOf = (caller: ReturnType<typeof requireRole>) => ({
 	roles: caller.roles
 });
 
-async function change(
+async function change<Action extends string>(
 	event: Parameters<Actions[string]>[0],
-	action: string,
+	action: Action,
 	roles: Parameters<typeof requireRole>[1][],
 	build: (form: FormData, channelId: string) => Promise<Record<string, unknown>>
 ) {
@@ -84,11 +84,12 @@ export const actions = {
 				: {})
 		};
 		const parsed = parseForm(noteCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
+		if (!parsed.ok) return fail(400, { action: 'create' as const, errors: parsed.errors, values });
 		const result = await attempt(values, () =>
 			createNote(caller.channel.id, actorOf(caller), event.params.id, parsed.data)
 		);
-		if ('status' in result) return fail(result.status, { action: 'create', ...result.data });
+		if ('status' in result)
+			return fail(result.status, { action: 'create' as const, ...result.data });
 		redirect(303, `${event.url.pathname}#note-${result.id}`);
 	},
 	place: (event) =>
@@ -123,13 +124,14 @@ export const actions = {
 		const form = await event.request.formData();
 		const noteId = text(form, 'noteId');
 		const read = readVersion(form);
-		if (!read.ok) return fail(400, { action: 'remove', noteId, errors: read.errors, values: {} });
+		if (!read.ok)
+			return fail(400, { action: 'remove' as const, noteId, errors: read.errors, values: {} });
 		const result = await attempt({}, async () => {
 			await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
 			return deleteNote(caller.channel.id, actorOf(caller), noteId, read.version);
 		});
 		if ('status' in result)
-			return fail(result.status, { action: 'remove', noteId, ...result.data });
-		return { action: 'remove', noteId, saved: true };
+			return fail(result.status, { action: 'remove' as const, noteId, ...result.data });
+		return { action: 'remove' as const, noteId, saved: true };
 	}
 } satisfies Actions;

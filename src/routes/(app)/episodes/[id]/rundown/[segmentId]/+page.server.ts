@@ -19,7 +19,7 @@ import {
 } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/http/forms';
 import { attemptAction, found, text } from '$lib/server/http/episode-forms';
-import { defaultDropFrame, formatTimecode, isFrameRate } from '$lib/timecode';
+import { defaultDropFrame, formatTimecode } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -33,16 +33,17 @@ export const load = (async (event) => {
 		])
 	);
 	if (segment.episodeId !== episode.id) error(404, 'That segment is not in this episode.');
-	const rate = isFrameRate(episode.frameRate) ? episode.frameRate : '29.97';
 	return {
 		segment,
 		episode: {
 			id: episode.id,
 			title: episode.title,
-			frameRate: rate,
-			dropFrame: defaultDropFrame(rate),
+			frameRate: episode.frameRate,
+			dropFrame: defaultDropFrame(episode.frameRate),
 			cut:
-				episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+				episode.cutDurationFrames === null
+					? null
+					: formatTimecode(episode.cutDurationFrames, episode.frameRate)
 		},
 		builds: options.builds,
 		episodes: options.episodes.filter((other) => other.id !== episode.id),
