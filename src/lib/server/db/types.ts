@@ -89,6 +89,8 @@ export interface OutboxTable {
 	nextAttemptAt: ColumnType<Date, Date | string | undefined, Date | string>;
 	lastError: string | null;
 	sentAt: Timestamp | null;
+	/** While set and in the future, a sender is working on the row; after it, anyone may claim it again. */
+	claimedUntil: Timestamp | null;
 	createdAt: CreatedAt;
 }
 
