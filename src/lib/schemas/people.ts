@@ -89,6 +89,13 @@ export const channelSettingsSchema = z.object({
 		.int('Use a whole number.')
 		.min(500, 'At least 500 characters.')
 		.max(20000, 'At most 20,000 characters.'),
+	/** Whole decimal gigabytes; left out, the channel keeps its quota. */
+	storageQuotaGb: z.coerce
+		.number({ error: 'Enter a number of gigabytes, e.g. 2000 for 2 TB.' })
+		.int('Use a whole number of gigabytes.')
+		.min(1, 'At least 1 GB.')
+		.max(1_000_000, 'At most 1,000,000 GB (1 PB).')
+		.optional(),
 	version: z.coerce.number().int().min(1)
 });
 

@@ -22,6 +22,8 @@ export interface ChannelTable {
 	callToAction: Generated<string>;
 	contact: Generated<string>;
 	descriptionLimit: Generated<number>;
+	/** Whole decimal gigabytes that finished footage and unfinished uploads may take. */
+	storageQuotaGb: Generated<number>;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 }

@@ -26,6 +26,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
 import { probeMedia } from './probe';
+import { reserveUpload } from './upload-limits';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -125,14 +126,16 @@ function tusServer(): Server {
 		async onUploadCreate(req, upload) {
 			const claim = claims.get(req as unknown as Request);
 			if (!claim) throw { status_code: 403, body: 'Upload not authorised.\n' };
-			await db
-				.insertInto('upload')
-				.values({ id: upload.id, ...claim, sizeBytes: upload.size ?? 0 })
-				.execute();
+			// Quota and disk space are checked here, before tus creates the file: 413 or 507 otherwise.
+			await reserveUpload(
+				{ id: upload.id, ...claim, sizeBytes: upload.size ?? null },
+				{ directory: uploadDir(), largestUpload: maxUploadBytes() }
+			);
 			return {};
 		},
 		async onUploadFinish(_req, upload) {
-			await recordFootage(upload.id);
+			// A deferred length (Upload-Defer-Length) is known by now: the size is what arrived.
+			await recordFootage(upload.id, upload.size ?? upload.offset);
 			return {};
 		}
 	});
@@ -228,14 +231,14 @@ export async function sha256OfFile(file: string): Promise<string> {
 	return hash.digest('hex');
 }
 
-async function recordFootage(uploadId: string): Promise<void> {
+async function recordFootage(uploadId: string, sizeBytes: number): Promise<void> {
 	const upload = await db
 		.selectFrom('upload')
 		.selectAll()
 		.where('id', '=', uploadId)
 		.executeTakeFirstOrThrow();
 	const file = path.join(uploadDir(), uploadId);
-	const running = takeRunningHash(uploadId, upload.sizeBytes);
+	const running = takeRunningHash(uploadId, sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
 	await db.transaction().execute(async (trx) => {
 		await trx
@@ -250,7 +253,7 @@ async function recordFootage(uploadId: string): Promise<void> {
 				clipName: upload.clipName,
 				fileName: upload.fileName,
 				fileType: upload.fileType,
-				sizeBytes: upload.sizeBytes,
+				sizeBytes,
 				sha256,
 				durationSeconds: probe.durationSeconds,
 				frameRate: probe.frameRate,
@@ -262,7 +265,7 @@ async function recordFootage(uploadId: string): Promise<void> {
 			.execute();
 		await trx
 			.updateTable('upload')
-			.set({ completedAt: new Date() })
+			.set({ completedAt: new Date(), sizeBytes })
 			.where('id', '=', uploadId)
 			.execute();
 	});
