@@ -2,18 +2,21 @@
  * Limits on resumable uploads, over HTTP against the built server, per tus 1.0.0
  * (https://tus.io/protocols/resumable-upload): a channel's storage quota and the upload disk's free
  * space are checked when an upload is created (Creation extension; 413 and 507 with a body that
- * says what to do), and a deferred length (Upload-Defer-Length) is recorded once known.
+ * says what to do), a deferred length (Upload-Defer-Length) is recorded once known, and unfinished
+ * uploads expire (Expiration extension: Upload-Expires in RFC 7231 date format) and are swept.
  * No test fills the disk: uploads only declare their lengths.
  */
-import { type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, statfsSync } from 'node:fs';
+import { spawnSync, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdtempSync, readdirSync, rmSync, statfsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import pg from 'pg';
 import { afterAll, afterEach, beforeAll, describe, expect, inject, test } from 'vitest';
 import { DEMO_PASSWORD, demo, signedIn, sql } from '../helpers/http';
 import { startServer, stopServer } from '../helpers/global-setup';
 import { freePort, waitForHttp } from '../helpers/net';
 
+const root = path.resolve(import.meta.dirname, '../..');
 const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-upload-limits-'));
 const GB = 1e9; // decimal gigabyte, as disk makers and the settings page count
 const servers: ChildProcess[] = [];
@@ -258,5 +261,125 @@ describe('the free-space floor of the upload disk (checked at creation)', () => 
 		const again = await create(call, declared);
 		expect(again.status).toBe(201);
 		await terminate(call, again.headers.get('location')!);
+	});
+});
+
+describe('expiration (tus 1.0.0 Expiration extension)', () => {
+	const DATABASE = 'wrenchroll_upload_expiry';
+	let databaseUrl = '';
+	beforeAll(async () => {
+		const admin = new pg.Client({ connectionString: inject('databaseUrl') });
+		await admin.connect();
+		await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
+		await admin.query(`CREATE DATABASE ${DATABASE}`);
+		await admin.end();
+		const url = new URL(inject('databaseUrl'));
+		url.pathname = `/${DATABASE}`;
+		databaseUrl = url.toString();
+		for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
+			const result = spawnSync(path.join(root, 'node_modules/.bin/tsx'), [script], {
+				cwd: root,
+				env: { ...process.env, DATABASE_URL: databaseUrl },
+				encoding: 'utf8'
+			});
+			expect(result.status, result.stderr).toBe(0);
+		}
+	});
+	afterAll(async () => {
+		await Promise.all(servers.splice(0).map((server) => stopServer(server)));
+		const admin = new pg.Client({ connectionString: inject('databaseUrl') });
+		await admin.connect();
+		await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
+		await admin.end();
+	});
+
+	test('creation and PATCH send Upload-Expires as an RFC 7231 date; an expired partial upload is swept (file, sidecar, row) and a finished one stays', async () => {
+		const uploadDir = path.join(work, 'expiring-uploads');
+		// 0.001 h = 3.6 s: a server of its own with its own database and disk folder.
+		const base = await startSecondServer({
+			DATABASE_URL: databaseUrl,
+			UPLOAD_DIR: uploadDir,
+			UPLOAD_TTL_HOURS: '0.001'
+		});
+		const db = new pg.Client({ connectionString: databaseUrl });
+		await db.connect();
+		try {
+			const {
+				rows: [episode]
+			} = await db.query(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`);
+			const call = await callerAt(base, demo.camera);
+			const createHere = (length: number, name: string) =>
+				call('/api/uploads', {
+					method: 'POST',
+					headers: {
+						'Tus-Resumable': '1.0.0',
+						'Upload-Length': String(length),
+						'Upload-Metadata': metadata({
+							filename: name,
+							filetype: 'video/mp4',
+							episodeId: episode.id
+						})
+					}
+				});
+			const patch = (url: string, offset: number, bytes: string) =>
+				call(url, {
+					method: 'PATCH',
+					headers: {
+						'Tus-Resumable': '1.0.0',
+						'Upload-Offset': String(offset),
+						'Content-Type': 'application/offset+octet-stream'
+					},
+					body: Buffer.from(bytes)
+				});
+
+			const options = await fetch(`${base}/api/uploads`, { method: 'OPTIONS' });
+			expect(options.headers.get('tus-extension')!.split(',')).toContain('expiration');
+
+			const startedAt = Date.now();
+			const partial = await createHere(100, 'bay3-abandoned.mp4');
+			expect(partial.status).toBe(201);
+			// RFC 7231 §7.1.1.1 IMF-fixdate, e.g. "Sun, 06 Nov 1994 08:49:37 GMT".
+			const imfFixdate =
+				/^(Mon|Tue|Wed|Thu|Fri|Sat|Sun), \d{2} (Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec) \d{4} \d{2}:\d{2}:\d{2} GMT$/;
+			const expires = partial.headers.get('upload-expires')!;
+			expect(expires).toMatch(imfFixdate);
+			const expiresAt = Date.parse(expires);
+			expect(expiresAt).toBeGreaterThan(startedAt + 2_000);
+			expect(expiresAt).toBeLessThan(Date.now() + 5_000);
+			const partialUrl = partial.headers.get('location')!;
+			const partialId = partialUrl.split('/').pop()!;
+			const patched = await patch(partialUrl, 0, 'half a clip');
+			expect(patched.status).toBe(204);
+			expect(patched.headers.get('upload-expires')).toBe(expires);
+
+			const finished = await createHere(4, 'bay3-done.mp4');
+			const finishedId = finished.headers.get('location')!.split('/').pop()!;
+			expect((await patch(finished.headers.get('location')!, 0, 'done')).status).toBe(204);
+
+			// After the expiry the sweep removes the partial upload: file, tus sidecar, and its row.
+			const deadline = Date.now() + 30_000;
+			const gone = () =>
+				!existsSync(path.join(uploadDir, partialId)) &&
+				!existsSync(path.join(uploadDir, `${partialId}.json`));
+			while (!gone() && Date.now() < deadline)
+				await new Promise((resolve) => setTimeout(resolve, 200));
+			expect(gone()).toBe(true);
+			expect(Date.now()).toBeGreaterThanOrEqual(expiresAt - 1_000); // not before it was due
+			expect((await db.query(`SELECT 1 FROM upload WHERE id = $1`, [partialId])).rows).toEqual([]);
+			const head = await call(partialUrl, {
+				method: 'HEAD',
+				headers: { 'Tus-Resumable': '1.0.0' }
+			});
+			expect([404, 410]).toContain(head.status); // tus: 404 Not Found or 410 Gone
+
+			// The finished upload is footage now: its file and row stay.
+			expect(readdirSync(uploadDir)).toContain(finishedId);
+			const footage = await db.query(`SELECT size_bytes FROM footage WHERE upload_id = $1`, [
+				finishedId
+			]);
+			expect(footage.rows).toHaveLength(1);
+		} finally {
+			await db.end();
+		}
 	});
 });

@@ -11,7 +11,7 @@ import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import { pipeline as pipe, Transform, type Readable } from 'node:stream';
 import type { RequestEvent } from '@sveltejs/kit';
-import { Server } from '@tus/server';
+import { MemoryLocker, Server } from '@tus/server';
 import { FileStore } from '@tus/file-store';
 import { Metadata } from '@tus/utils';
 import { z } from 'zod';
@@ -26,7 +26,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
 import { probeMedia } from './probe';
-import { reserveUpload } from './upload-limits';
+import { reserveUpload, uploadExpiryMs } from './upload-limits';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -114,10 +114,17 @@ function takeRunningHash(id: string, size: number): string | null {
 }
 
 let server: Server | null = null;
+/** tus's per-upload locks, shared with the sweep of expired uploads. */
+const locker = new MemoryLocker();
 function tusServer(): Server {
 	server ??= new Server({
 		path: UPLOAD_PATH,
-		datastore: new HashingFileStore({ directory: uploadDir() }),
+		// An unfinished upload expires this long after its creation (tus Expiration: Upload-Expires).
+		datastore: new HashingFileStore({
+			directory: uploadDir(),
+			expirationPeriodInMilliseconds: uploadExpiryMs()
+		}),
+		locker,
 		maxSize: maxUploadBytes(),
 		relativeLocation: true,
 		respectForwardedHeaders: env.TRUST_PROXY === 'true',
@@ -140,6 +147,11 @@ function tusServer(): Server {
 		}
 	});
 	return server;
+}
+
+/** What the sweep of expired uploads needs: the folder, tus's store and its locks. */
+export function sweepTools() {
+	return { directory: uploadDir(), store: tusServer().datastore, locker };
 }
 
 const tusError = (status: number, message: string) =>

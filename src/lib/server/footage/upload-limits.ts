@@ -18,6 +18,14 @@ import type { UploadTable } from '../db/tables/shoot';
 export const GB = 1e9;
 /** Share of the upload disk kept free when UPLOAD_FREE_FLOOR is not set. */
 const DEFAULT_FLOOR_SHARE = 0.05;
+const DEFAULT_EXPIRY_HOURS = 168;
+
+/** How long an unfinished upload lives after its creation: UPLOAD_TTL_HOURS (decimals allowed), default 7 days. */
+export function uploadExpiryMs(): number {
+	const hours = Number(env.UPLOAD_TTL_HOURS ?? DEFAULT_EXPIRY_HOURS);
+	return (Number.isFinite(hours) && hours > 0 ? hours : DEFAULT_EXPIRY_HOURS) * 3_600_000;
+}
+
 /** Bytes the upload disk keeps free: UPLOAD_FREE_FLOOR, else 5 % of the disk. */
 export function freeFloorBytes(diskBytes: number): number {
 	const configured = Number(env.UPLOAD_FREE_FLOOR || NaN);
