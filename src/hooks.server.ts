@@ -13,13 +13,18 @@ import { sessionIdFromCookie } from '$lib/server/auth/session-cookie';
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
+import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 
 export const init: ServerInit = async () => {
 	startMailSender();
-	// adapter-node emits this after it stops taking requests: stop the mail sender, then close the
-	// pool so the process can exit.
-	process.on('sveltekit:shutdown', () => void stopMailSender().then(() => db.destroy()));
+	startUploadSweep();
+	// adapter-node emits this after it stops taking requests: stop the mail sender and the upload
+	// sweep, then close the pool so the process can exit.
+	process.on(
+		'sveltekit:shutdown',
+		() => void Promise.all([stopMailSender(), stopUploadSweep()]).then(() => db.destroy())
+	);
 };
 
 /** Reads the person, roles and channel from the database on every request (a disabled account loses access at once). */

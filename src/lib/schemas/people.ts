@@ -92,6 +92,16 @@ export const channelSettingsSchema = z.object({
 		tooSmall: 'At least 500 characters.',
 		tooBig: 'At most 20,000 characters.'
 	}),
+	/** Whole decimal gigabytes; left out, the channel keeps its quota. */
+	storageQuotaGb: wholeNumber({
+		error: 'Enter a number of gigabytes, e.g. 2000 for 2 TB.',
+		notWhole: 'Use a whole number of gigabytes.',
+		coerce: true,
+		min: 1,
+		max: 1_000_000,
+		tooSmall: 'At least 1 GB.',
+		tooBig: 'At most 1,000,000 GB (1 PB).'
+	}).optional(),
 	version: versionNumber('The version is missing: reload the page.', { coerce: true })
 });
 

@@ -49,6 +49,11 @@ export class UploadQueue {
 			endpoint: UPLOAD_PATH,
 			chunkSize: UPLOAD_CHUNK_BYTES,
 			retryDelays: [0, 1000, 3000, 5000, 10000, 20000],
+			// A full storage quota (413) or upload disk (507) is not fixed by trying again in a few seconds.
+			onShouldRetry: (error, attempt, options) => {
+				const status = error.originalResponse?.getStatus();
+				return status !== 413 && status !== 507 && (tus.defaultOptions.onShouldRetry?.(error, attempt, options) ?? false);
+			},
 			removeFingerprintOnSuccess: true,
 			metadata,
 			onProgress: (sent) => this.progress(key, sent),

@@ -7,7 +7,16 @@ import type { channelSettingsSchema } from '$lib/schemas/people';
 export async function channelSettings(channelId: string) {
 	return db
 		.selectFrom('channel')
-		.select(['id', 'name', 'frameRate', 'callToAction', 'contact', 'descriptionLimit', 'version'])
+		.select([
+			'id',
+			'name',
+			'frameRate',
+			'callToAction',
+			'contact',
+			'descriptionLimit',
+			'storageQuotaGb',
+			'version'
+		])
 		.where('id', '=', channelId)
 		.executeTakeFirstOrThrow();
 }
@@ -29,6 +38,7 @@ export async function updateChannelSettings(
 			'callToAction',
 			'contact',
 			'descriptionLimit',
+			'storageQuotaGb',
 			'version'
 		])
 		.executeTakeFirst();

@@ -24,6 +24,8 @@ export interface ChannelTable {
 	callToAction: Generated<string>;
 	contact: Generated<string>;
 	descriptionLimit: Generated<number>;
+	/** Whole decimal gigabytes that finished footage and unfinished uploads may take. */
+	storageQuotaGb: Generated<number>;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 }
@@ -91,6 +93,8 @@ export interface OutboxTable {
 	nextAttemptAt: ColumnType<Date, Date | string | undefined, Date | string>;
 	lastError: string | null;
 	sentAt: Timestamp | null;
+	/** While set and in the future, a sender is working on the row; after it, anyone may claim it again. */
+	claimedUntil: Timestamp | null;
 	createdAt: CreatedAt;
 }
 

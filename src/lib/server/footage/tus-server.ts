@@ -11,7 +11,7 @@ import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import { pipeline as pipe, Transform, type Readable } from 'node:stream';
 import type { RequestEvent } from '@sveltejs/kit';
-import { Server } from '@tus/server';
+import { MemoryLocker, Server } from '@tus/server';
 import { FileStore } from '@tus/file-store';
 import { Metadata } from '@tus/utils';
 import { z } from 'zod';
@@ -27,6 +27,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
 import { probeMedia } from './probe';
+import { reserveUpload, uploadExpiryMs } from './upload-limits';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -114,10 +115,17 @@ function takeRunningHash(id: string, size: number): string | null {
 }
 
 let server: Server | null = null;
+/** tus's per-upload locks, shared with the sweep of expired uploads. */
+const locker = new MemoryLocker();
 function tusServer(): Server {
 	server ??= new Server({
 		path: UPLOAD_PATH,
-		datastore: new HashingFileStore({ directory: uploadDir() }),
+		// An unfinished upload expires this long after its creation (tus Expiration: Upload-Expires).
+		datastore: new HashingFileStore({
+			directory: uploadDir(),
+			expirationPeriodInMilliseconds: uploadExpiryMs()
+		}),
+		locker,
 		maxSize: maxUploadBytes(),
 		relativeLocation: true,
 		respectForwardedHeaders: env.TRUST_PROXY === 'true',
@@ -126,18 +134,25 @@ function tusServer(): Server {
 		async onUploadCreate(req, upload) {
 			const claim = claims.get(req as unknown as Request);
 			if (!claim) throw { status_code: 403, body: 'Upload not authorised.\n' };
-			await db
-				.insertInto('upload')
-				.values({ id: upload.id, ...claim, sizeBytes: upload.size ?? 0 })
-				.execute();
+			// Quota and disk space are checked here, before tus creates the file: 413 or 507 otherwise.
+			await reserveUpload(
+				{ id: upload.id, ...claim, sizeBytes: upload.size ?? null },
+				{ directory: uploadDir(), largestUpload: maxUploadBytes() }
+			);
 			return {};
 		},
 		async onUploadFinish(_req, upload) {
-			await recordFootage(upload.id);
+			// A deferred length (Upload-Defer-Length) is known by now: the size is what arrived.
+			await recordFootage(upload.id, upload.size ?? upload.offset);
 			return {};
 		}
 	});
 	return server;
+}
+
+/** What the sweep of expired uploads needs: the folder, tus's store and its locks. */
+export function sweepTools() {
+	return { directory: uploadDir(), store: tusServer().datastore, locker };
 }
 
 const tusError = (status: number, message: string) =>
@@ -229,14 +244,14 @@ export async function sha256OfFile(file: string): Promise<string> {
 	return hash.digest('hex');
 }
 
-async function recordFootage(uploadId: string): Promise<void> {
+async function recordFootage(uploadId: string, sizeBytes: number): Promise<void> {
 	const upload = await db
 		.selectFrom('upload')
 		.selectAll()
 		.where('id', '=', uploadId)
 		.executeTakeFirstOrThrow();
 	const file = path.join(uploadDir(), uploadId);
-	const running = takeRunningHash(uploadId, upload.sizeBytes);
+	const running = takeRunningHash(uploadId, sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
 	await db.transaction().execute(async (trx) => {
 		await trx
@@ -251,7 +266,7 @@ async function recordFootage(uploadId: string): Promise<void> {
 				clipName: upload.clipName,
 				fileName: upload.fileName,
 				fileType: upload.fileType,
-				sizeBytes: upload.sizeBytes,
+				sizeBytes,
 				sha256,
 				durationSeconds: probe.durationSeconds,
 				frameRate: probe.frameRate,
@@ -263,7 +278,7 @@ async function recordFootage(uploadId: string): Promise<void> {
 			.execute();
 		await trx
 			.updateTable('upload')
-			.set({ completedAt: new Date() })
+			.set({ completedAt: new Date(), sizeBytes })
 			.where('id', '=', uploadId)
 			.execute();
 	});

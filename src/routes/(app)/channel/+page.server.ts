@@ -4,11 +4,17 @@ import { channelSettings, updateChannelSettings } from '$lib/server/channel/chan
 import { channelSettingsSchema } from '$lib/schemas/people';
 import { attempt, parseForm } from '$lib/server/http/forms';
 import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
+import { storageInUse } from '$lib/server/footage/upload-limits';
+import { maxUploadBytes } from '$lib/server/footage/tus-server';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event, 'producer');
-	return { settings: await channelSettings(channel.id) };
+	const [settings, storage] = await Promise.all([
+		channelSettings(channel.id),
+		storageInUse(channel.id, maxUploadBytes())
+	]);
+	return { settings, storageUsedBytes: storage.usedBytes };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -21,6 +27,8 @@ export const actions = {
 				String(form.get(key) ?? '')
 			])
 		);
+		// A form without the quota field (an older page) keeps the channel's quota.
+		if (form.has('storageQuotaGb')) values.storageQuotaGb = String(form.get('storageQuotaGb'));
 		const parsed = parseForm(channelSettingsSchema, values);
 		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
 		const result = await attempt(values, () => updateChannelSettings(channel.id, parsed.data));

@@ -95,7 +95,8 @@ export interface UploadTable {
 	clipName: string;
 	fileName: string;
 	fileType: string;
-	sizeBytes: number;
+	/** Null until known for an upload created with tus Upload-Defer-Length. */
+	sizeBytes: number | null;
 	createdAt: CreatedAt;
 	completedAt: Date | null;
 }
