@@ -303,6 +303,20 @@ export function parseTimecode(
 }
 
 /**
+ * Frame count for timecode typed against a source of known form (a take logged drop-frame or
+ * not): the labels are read in that form whichever of ':' or ';' separates the frames, since the
+ * digits mean one frame either way; clock times read as in {@link parseTimecode}.
+ */
+export function parseTimecodeInForm(text: string, rate: FrameRate, dropFrame: boolean): number {
+	const trimmed = String(text ?? '').trim();
+	const timecode = TIMECODE_PATTERN.exec(trimmed);
+	if (timecode && !dropFrame && timecode[4] === ';') {
+		return parseTimecode(trimmed.replace(/;(\d{2})$/, ':$1'), rate, { dropFrame: false });
+	}
+	return parseTimecode(trimmed, rate, { dropFrame: dropFrame && isDropFrameCapable(rate) });
+}
+
+/**
  * Clock time `M:SS`, `H:MM:SS`, or with millis `M:SS.mmm` / `HH:MM:SS.mmm` (two-digit hours when
  * hours are 'always'). Rounds to whole milliseconds first and then splits, so 59.9996 s shows as
  * 1:00.000, never 0:60.000. Without millis the seconds are cut off, not rounded, so a timestamp

@@ -144,9 +144,18 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 		);
 	}
 	expect(copied).toMatch(/licensed professional/);
+	// Counted as video platforms count a description: UTF-8 bytes (from memory; tests/REFERENCES.md
+	// "Publish kit"), here checked against Node's Buffer.byteLength.
 	expect(await page.getByTestId('character-count').textContent()).toContain(
-		`${[...copied].length.toLocaleString('en')} / 5,000 characters`
+		`${Buffer.byteLength(copied, 'utf8').toLocaleString('en')} / 5,000 as platforms count`
 	);
+	// A "<" typed by hand is flagged with where it is, then the kit is taken back as assembled.
+	await page.getByLabel('Whole description text').fill('Lift <2 in\nfits 33s');
+	expect(await page.getByTestId('description-problem').textContent()).toContain(
+		'“<” on line 1, column 6'
+	);
+	await page.getByRole('button', { name: 'Start again from the kit' }).click();
+	expect(await page.getByLabel('Whole description text').inputValue()).toBe(copied);
 
 	// 4. The safety block can't be left out, and a hand edit that removes it is called out.
 	// (The product owner's rule: hazardous work carries its cautions and defers to licensed practice.)

@@ -166,14 +166,14 @@ describe('torqueCard', () => {
 		});
 	});
 
-	test('small fasteners keep their meaning: in·lbf with N·m to 0.1, small N·m shown in in·lbf', () => {
-		// 80 × 0.1129848 = 9.04 N·m → "9.0 N·m"; 9 ÷ 0.1129848 = 79.66 in·lbf → "80 in·lbf".
+	test('small fasteners keep their meaning: in·lbf input, small N·m shown in in·lbf', () => {
+		// 80 × 0.1129848 = 9.0388 N·m → "9.04 N·m"; 9 ÷ 0.1129848 = 79.657 in·lbf → "79.7 in·lbf".
 		expect(torqueCard({ value: 80, unit: 'in·lbf' })).toMatchObject({
 			imperial: '80 in·lbf',
-			metric: '9.0 N·m'
+			metric: '9.04 N·m'
 		});
 		expect(torqueCard({ value: 9, unit: 'N·m' })).toMatchObject({
-			imperial: '80 in·lbf',
+			imperial: '79.7 in·lbf',
 			metric: '9 N·m'
 		});
 	});
@@ -184,5 +184,50 @@ describe('torqueCard', () => {
 		expect(() => torqueCard({ value: Number.NaN, unit: 'N·m' })).toThrow(SpecError);
 		expect(() => torqueCard({ value: 1e9, unit: 'ft·lbf' })).toThrow(SpecError);
 		expect(() => torqueCard({ value: 10, unit: 'kg·m' as 'N·m' })).toThrow(SpecError);
+	});
+});
+
+describe('torque precision: three significant figures, the same rule both directions', () => {
+	// NIST SP 811 Appendix B.8: 1 ft·lbf = 1.355818 N·m; 1 in·lbf = 0.1129848 N·m.
+	test('2 ft·lbf reads 2.71 N·m and 0.5 ft·lbf reads 0.678 N·m', () => {
+		// 2 × 1.355818 = 2.711636 → 2.71; 0.5 × 1.355818 = 0.677909 → 0.678.
+		expect(torqueCard({ value: 2, unit: 'ft·lbf' }).metric).toBe('2.71 N·m');
+		expect(torqueCard({ value: 0.5, unit: 'ft·lbf' }).metric).toBe('0.678 N·m');
+		// 20 × 1.355818 = 27.11636 → 27.1; 95 → 128.80 → 129 (whole units are never rounded away).
+		expect(torqueCard({ value: 20, unit: 'ft·lbf' }).metric).toBe('27.1 N·m');
+		expect(torqueCard({ value: 95, unit: 'ft·lbf' }).metric).toBe('129 N·m');
+	});
+
+	test('N·m to ft·lbf and in·lbf rounds by the same rule', () => {
+		// 2.71 ÷ 0.1129848 = 23.985 → 24.0 in·lbf; 140 ÷ 1.355818 = 103.26 → 103 ft·lbf.
+		expect(torqueCard({ value: 2.71, unit: 'N·m' }).imperial).toBe('24.0 in·lbf');
+		expect(torqueCard({ value: 140, unit: 'N·m' }).imperial).toBe('103 ft·lbf');
+		// 20 N·m ÷ 1.355818 = 14.751 → 14.8 ft·lbf.
+		expect(torqueCard({ value: 20, unit: 'N·m' }).imperial).toBe('14.8 ft·lbf');
+	});
+
+	test('the shown converted figure never errs more than 1 % from the exact one, either way', () => {
+		const statedTorque = fc.integer({ min: 1, max: 1_000_000 }).map((x) => x / 1000);
+		fc.assert(
+			fc.property(statedTorque, fc.constantFrom('ft·lbf', 'N·m', 'in·lbf'), (value, unit) => {
+				const card = torqueCard({ value, unit: unit as 'ft·lbf' | 'N·m' | 'in·lbf' });
+				const converted = unit === 'N·m' ? card.imperial : card.metric;
+				const [number, shownUnit] = converted.split(' ');
+				const exact =
+					shownUnit === 'N·m'
+						? card.newtonMetres
+						: shownUnit === 'ft·lbf'
+							? card.footPoundsForce
+							: card.inchPoundsForce;
+				expect(Math.abs(Number(number) - exact) / exact).toBeLessThanOrEqual(0.01);
+			}),
+			{ numRuns: 3000 }
+		);
+	});
+
+	test('convert-units agrees on 2 ft·lbf to three significant figures', () => {
+		// Rebuilt from convert-units' foot and pound with standard gravity (it has no torque measure).
+		const nm = convert(2).from('ft').to('m') * convert(1).from('lb').to('kg') * STANDARD_GRAVITY;
+		expect(torqueCard({ value: 2, unit: 'ft·lbf' }).metric).toBe(`${nm.toPrecision(3)} N·m`);
 	});
 });

@@ -23,6 +23,7 @@ import {
 	isFrameRate,
 	nominalFps,
 	parseTimecode,
+	parseTimecodeInForm,
 	secondsToFrames,
 	type FrameRate
 } from '$lib/timecode';
@@ -434,5 +435,28 @@ describe('error messages a person understands', () => {
 	test('frame counts that are negative or fractional cannot be formatted', () => {
 		expect(timecodeErrorFor(() => formatTimecode(-1, '25')).message).toContain('0 or more');
 		expect(timecodeErrorFor(() => formatTimecode(1.5, '25')).message).toContain('whole number');
+	});
+});
+
+describe('parseTimecodeInForm: timecode read in a take’s own form', () => {
+	const ntsc: [number, number] = [30000, 1001];
+	test('a drop-frame source reads ":" and ";" as the same drop-frame label', () => {
+		// SMPTE ST 12-1 drop-frame counting, as computed by smpte-timecode.
+		const expected = referenceTimecode('08:01:15;00', ntsc, true).frameCount;
+		expect(parseTimecodeInForm('08:01:15;00', '29.97', true)).toBe(expected);
+		expect(parseTimecodeInForm('08:01:15:00', '29.97', true)).toBe(expected);
+	});
+
+	test('a non-drop source reads ":" and ";" as the same non-drop label', () => {
+		const expected = referenceTimecode('08:01:15:00', ntsc, false).frameCount;
+		expect(parseTimecodeInForm('08:01:15:00', '29.97', false)).toBe(expected);
+		expect(parseTimecodeInForm('08:01:15;00', '29.97', false)).toBe(expected);
+		expect(parseTimecodeInForm('01:00:00;12', '25', false)).toBe(90012);
+	});
+
+	test('a label drop-frame skips is refused, naming the next frame', () => {
+		// SMPTE ST 12-1: ;00 and ;01 are skipped at minute 02 (not a tenth minute).
+		expect(() => parseTimecodeInForm('08:02:00:00', '29.97', true)).toThrow(/08:02:00;02/);
+		expect(() => parseTimecodeInForm('08:02:00:00', '29.97', true)).toThrow(TimecodeError);
 	});
 });

@@ -168,7 +168,11 @@ function tyreCard(size: TyreSize): SpecCard {
 		kind: 'tyre',
 		heading: size.code,
 		lines: [
-			lengthLine('Overall diameter', size.diameterIn, size.diameterMm),
+			lengthLine(
+				size.diameterNominal ? 'Overall diameter (nominal, from the size)' : 'Overall diameter',
+				size.diameterIn,
+				size.diameterMm
+			),
 			lengthLine('Section width', size.sectionWidthIn, size.sectionWidthMm),
 			lengthLine('Sidewall height', size.sidewallIn, size.sidewallMm),
 			{
@@ -187,6 +191,13 @@ function tyreCard(size: TyreSize): SpecCard {
 	};
 }
 
+/** A flotation size's diameter is the nominal one its size names: the label says which. */
+function diameterLabel(from: TyreSize, to: TyreSize): string {
+	const nominal = [from, to].filter((size) => size.diameterNominal).map((size) => size.code);
+	if (nominal.length === 0) return 'Overall diameter';
+	return `Overall diameter (${[...new Set(nominal)].join(' and ')} nominal)`;
+}
+
 function tyreChangeCard(from: TyreSize, to: TyreSize): SpecCard {
 	const change = compareTyres(from, to);
 	const { lengthIn, lengthMm, speed, revolutions } = SPEC_CARD_PRECISION;
@@ -195,7 +206,7 @@ function tyreChangeCard(from: TyreSize, to: TyreSize): SpecCard {
 		heading: `${from.code} → ${to.code}`,
 		lines: [
 			{
-				label: 'Overall diameter',
+				label: diameterLabel(from, to),
 				imperial: `${formatQuantity(from.diameterIn, 'in', lengthIn)} → ${formatQuantity(to.diameterIn, 'in', lengthIn)}`,
 				metric: `${formatQuantity(from.diameterMm, 'mm', lengthMm)} → ${formatQuantity(to.diameterMm, 'mm', lengthMm)}`
 			},

@@ -31,6 +31,15 @@ export type TyreSize = {
 	/** Second load index of an LT service description ("121/118"): the rating when fitted as a dual pair. */
 	dualLoadIndex?: number;
 	speedRating?: string;
+	/** "C" after the rim (215/65R16C): commercial, light-truck load construction. */
+	commercial: boolean;
+	/** "RF" for the construction (245/45RF18): run-flat radial. */
+	runFlat: boolean;
+	/**
+	 * True for flotation sizes: their diameter is the nominal figure the size names, not worked out
+	 * from width and aspect ratio, so every screen that shows it says "nominal".
+	 */
+	diameterNominal: boolean;
 };
 
 /** What the parser accepts; outside these it is a typo or not a car or light-truck tyre. */
@@ -55,13 +64,20 @@ const MAX_CODE_LENGTH = 40;
 
 const EXAMPLES = 'for example 285/70R17, LT285/70R17 121/118S or 35x12.50R17';
 
-const CONSTRUCTION = '(ZR|R|D|B)';
+// RF is a run-flat radial (245/45RF18); it goes before R so the longer form wins.
+const CONSTRUCTION = '(ZR|RF|R|D|B)';
 // Speed symbols: A1–A8, then B–Z without I, O and X; "(Y)" is how ratings above 300 km/h are written.
+const SPEED_LETTER = '(A[1-8]|[B-HJ-NP-WYZ])';
 const SPEED_RATING = '(A[1-8]|[B-HJ-NP-WYZ]|\\(Y\\))';
-/** Everything after width/aspect (or diameter×width): construction, rim, LT suffix, service description. */
+/**
+ * Everything after width/aspect (or diameter×width): construction, rim, LT or C (commercial)
+ * suffix, service description plain ("121/118S") or in parentheses ("(102Y)").
+ */
 const SIZE_TAIL = new RegExp(
-	`^(?: ?${CONSTRUCTION} ?| )(\\d+(?:\\.\\d+)?)(?: ?(LT))?(?: (\\d{1,3})(?:/(\\d{1,3}))? ?${SPEED_RATING}?)?$`
+	`^(?: ?${CONSTRUCTION} ?| )(\\d+(?:\\.\\d+)?)(?: ?(LT|C))?(?: (?:(\\d{1,3})(?:/(\\d{1,3}))? ?${SPEED_RATING}?|\\((\\d{1,3})(?:/(\\d{1,3}))?${SPEED_LETTER}\\)))?$`
 );
+/** A bias-ply size in inches, width-rim: 7.50-16, 7.50-16LT, 6.50-16C. */
+const BIAS_SIZE = /^(\d+(?:\.\d+)?) ?- ?(\d+(?:\.\d+)?) ?(LT|C)?(?: .*)?$/;
 /** The same, up to the rim only: tells "bad rim" apart from "bad text after the rim". */
 const SIZE_TAIL_TO_RIM = new RegExp(`^(?: ?${CONSTRUCTION} ?| )(\\d+(?:\\.\\d+)?)(.*)$`);
 const NO_RIM_TAIL = new RegExp(`^ ?${CONSTRUCTION}? ?$`);
@@ -77,6 +93,10 @@ type ParsedTail = {
 	rimIn: number;
 	rimText: string;
 	ltSuffix: boolean;
+	commercial: boolean;
+	runFlat: boolean;
+	/** The service description was written in parentheses, as on some high-speed sizes. */
+	parenthesised: boolean;
 	loadIndex?: number;
 	dualLoadIndex?: number;
 	speedRating?: string;
@@ -94,6 +114,7 @@ export function parseTyreSize(text: string): TyreSize {
 	if (cleaned.length > MAX_CODE_LENGTH) {
 		throw new SpecError(`That is too long for a tyre size. Enter just the size, ${EXAMPLES}.`);
 	}
+	if (BIAS_SIZE.test(cleaned)) refuseBias(cleaned);
 	if (FLOTATION_START.test(cleaned)) return parseFlotation(cleaned);
 	if (METRIC_START.test(cleaned)) return parseMetric(cleaned);
 	if (FLOTATION_WITH_PREFIX.test(cleaned)) {
@@ -111,6 +132,18 @@ export function parseTyreSize(text: string): TyreSize {
 	}
 	throw new SpecError(
 		`That is not a tyre size Wrenchroll can read. Use the size on the sidewall, ${EXAMPLES}.`
+	);
+}
+
+/**
+ * Bias sizes name the section width in inches and the rim (7.50-16: 7.50 in on a 16 in rim) but
+ * not the aspect ratio, so the overall diameter comes from the maker's chart, not the code.
+ */
+function refuseBias(cleaned: string): never {
+	const [, widthText, rimText] = BIAS_SIZE.exec(cleaned)!;
+	const widthMm = Number(widthText) * MILLIMETRES_PER_INCH;
+	throw new SpecError(
+		`${widthText}-${rimText} is a bias-ply size: ${widthText} in (${Number(widthMm.toFixed(1))} mm) wide on a ${Number(rimText)} in rim. The code does not give its overall diameter: diameter from the maker’s chart needed. Enter the maker’s diameter as a flotation size (diameter x width and rim, like 31x7.50R16) or use a text card.`
 	);
 }
 
@@ -148,8 +181,8 @@ function parseMetric(cleaned: string): TyreSize {
 	const sidewallMm = (sectionWidthMm * aspectRatio) / 100;
 	const diameterMm = tail.rimIn * MILLIMETRES_PER_INCH + 2 * sidewallMm;
 	const code =
-		`${serviceType ?? ''}${sectionWidthMm}/${aspectRatio}${tail.construction ?? ' '}${tail.rimText}` +
-		serviceDescriptionText(tail);
+		`${serviceType ?? ''}${sectionWidthMm}/${aspectRatio}${constructionText(tail)}${tail.rimText}` +
+		`${tail.commercial ? 'C' : ''}${serviceDescriptionText(tail)}`;
 	return withGeometry({
 		kind: 'metric',
 		code,
@@ -180,6 +213,11 @@ function parseFlotation(cleaned: string): TyreSize {
 	const sectionWidthIn = Number(widthText);
 	const tail = parseTail(rest ?? '', `${diameterText}x${widthText}`, 'flotation');
 	const serviceType: TyreServiceType | null = tail.ltSuffix ? 'LT' : null;
+	if (tail.commercial) {
+		throw new SpecError(
+			'The C (commercial) suffix belongs to metric sizes like 215/65R16C; flotation sizes put LT at the end, like 37x13.50R20LT.'
+		);
+	}
 
 	checkWidthMm(sectionWidthIn * MILLIMETRES_PER_INCH, `${sectionWidthIn} in`);
 	checkRim(tail);
@@ -197,7 +235,7 @@ function parseFlotation(cleaned: string): TyreSize {
 	}
 	const code =
 		`${diameterIn}x${formatFlotationWidth(sectionWidthIn, widthText ?? '')}` +
-		`${tail.construction ?? ' '}${tail.rimText}${tail.ltSuffix ? 'LT' : ''}${serviceDescriptionText(tail)}`;
+		`${constructionText(tail)}${tail.rimText}${tail.ltSuffix ? 'LT' : ''}${serviceDescriptionText(tail)}`;
 	return withGeometry({
 		kind: 'flotation',
 		code,
@@ -238,12 +276,21 @@ function parseTail(rest: string, sizeSoFar: string, kind: TyreSizeKind): ParsedT
 			`After ${sizeSoFar} comes the construction letter and the rim diameter in inches, like ${example}.`
 		);
 	}
-	const [, construction, rimText, ltSuffix, loadText, dualText, speedRating] = tail;
+	const [, construction, rimText, suffix, plainLoad, plainDual, plainSpeed] = tail;
+	const [, , , , , , , boxedLoad, boxedDual, boxedSpeed] = tail;
+	const parenthesised = boxedLoad !== undefined;
+	const loadText = parenthesised ? boxedLoad : plainLoad;
+	const dualText = parenthesised ? boxedDual : plainDual;
+	const speedRating = parenthesised ? boxedSpeed : plainSpeed;
 	const parsed: ParsedTail = {
-		construction: (construction as TyreConstruction | undefined) ?? null,
+		construction:
+			construction === 'RF' ? 'R' : ((construction as TyreConstruction | undefined) ?? null),
 		rimIn: Number(rimText),
 		rimText: String(Number(rimText)),
-		ltSuffix: ltSuffix === 'LT'
+		ltSuffix: suffix === 'LT',
+		commercial: suffix === 'C',
+		runFlat: construction === 'RF',
+		parenthesised
 	};
 	if (loadText !== undefined) {
 		parsed.loadIndex = checkLoadIndex(Number(loadText));
@@ -307,7 +354,14 @@ function serviceTypeFrom(prefix: string | undefined, ltSuffix: boolean): TyreSer
 function serviceDescriptionText(tail: ParsedTail): string {
 	if (tail.loadIndex === undefined) return '';
 	const dual = tail.dualLoadIndex === undefined ? '' : `/${tail.dualLoadIndex}`;
-	return ` ${tail.loadIndex}${dual}${tail.speedRating ?? ''}`;
+	const description = `${tail.loadIndex}${dual}${tail.speedRating ?? ''}`;
+	return tail.parenthesised ? ` (${description})` : ` ${description}`;
+}
+
+/** The construction letters as written: RF for run-flat, a space when there are none. */
+function constructionText(tail: ParsedTail): string {
+	if (tail.runFlat) return 'RF';
+	return tail.construction ?? ' ';
 }
 
 /** Flotation widths are written with two decimals ("12.50", "10.50") when they have a fraction. */
@@ -327,6 +381,9 @@ type SizeWithoutGeometry = Omit<
 	| 'loadIndex'
 	| 'dualLoadIndex'
 	| 'speedRating'
+	| 'commercial'
+	| 'runFlat'
+	| 'diameterNominal'
 > & {
 	tail: ParsedTail;
 };
@@ -352,7 +409,10 @@ function withGeometry(size: SizeWithoutGeometry): TyreSize {
 		circumferenceIn,
 		circumferenceMm,
 		revsPerMile: INCHES_PER_MILE / circumferenceIn,
-		revsPerKm: MILLIMETRES_PER_KILOMETRE / circumferenceMm
+		revsPerKm: MILLIMETRES_PER_KILOMETRE / circumferenceMm,
+		commercial: size.tail.commercial,
+		runFlat: size.tail.runFlat,
+		diameterNominal: size.kind === 'flotation'
 	};
 	if (size.tail.loadIndex !== undefined) result.loadIndex = size.tail.loadIndex;
 	if (size.tail.dualLoadIndex !== undefined) result.dualLoadIndex = size.tail.dualLoadIndex;

@@ -132,6 +132,20 @@ function appendUnit(number: string, unit: string): string {
 	return unit === '' ? number : `${number} ${unit}`;
 }
 
+/** Significant figures of a converted torque: off by at most 0.5 % of the exact value. */
+export const TORQUE_SIGNIFICANT_FIGURES = 3;
+
+/**
+ * Rounds once to at least `figures` significant figures (never rounding away whole units: 813.49
+ * shows as 813, 2.711636 as 2.71, 0.677909 as 0.678), so the shown figure errs by at most half a
+ * unit in the last kept place: under 0.5 % at three figures.
+ */
+export function formatSignificant(value: number, unit: string, figures: number): string {
+	if (!Number.isFinite(value) || value === 0) return formatQuantity(value, unit, 0);
+	const decimals = Math.max(0, figures - 1 - Math.floor(Math.log10(Math.abs(value))));
+	return formatQuantity(value, unit, Math.min(decimals, 6));
+}
+
 /** How many decimals a typed number carries (95 → 0, 95.5 → 1), capped at 3 for display. */
 export function statedDecimals(value: number): number {
 	if (!Number.isFinite(value) || Number.isInteger(value)) return 0;
@@ -167,9 +181,9 @@ export const SMALL_FASTENER_FT_LBF = 10;
 
 /**
  * Imperial and metric torque side by side. The stated figure is shown as typed; the other is
- * converted from the exact stated value (NIST SP 811 B.8) and rounded once: whole ft·lbf and
- * whole N·m, except small fasteners: in·lbf input gets N·m to 0.1, and N·m input under 10 ft·lbf
- * is shown in whole in·lbf, so the figure keeps its meaning.
+ * converted from the exact stated value (NIST SP 811 B.8) and rounded once to three significant
+ * figures, the same rule in both directions. N·m input under 10 ft·lbf is shown in in·lbf, the
+ * unit the trade states small fasteners in.
  */
 export function torqueCard(input: TorqueCardInput): TorqueCard {
 	const { value, unit } = input;
@@ -196,18 +210,18 @@ export function torqueCard(input: TorqueCardInput): TorqueCard {
 	switch (unit) {
 		case 'ft·lbf':
 			imperial = formatStated(value, 'ft·lbf');
-			metric = formatQuantity(newtonMetres, 'N·m', 0);
+			metric = formatSignificant(newtonMetres, 'N·m', TORQUE_SIGNIFICANT_FIGURES);
 			break;
 		case 'in·lbf':
 			imperial = formatStated(value, 'in·lbf');
-			metric = formatQuantity(newtonMetres, 'N·m', 1);
+			metric = formatSignificant(newtonMetres, 'N·m', TORQUE_SIGNIFICANT_FIGURES);
 			break;
 		case 'N·m':
-			// Below 10 ft·lbf whole ft·lbf is too coarse; the trade states small fasteners in in·lbf.
+			// The trade states small fasteners (under 10 ft·lbf) in in·lbf.
 			imperial =
 				footPoundsForce < SMALL_FASTENER_FT_LBF
-					? formatQuantity(inchPoundsForce, 'in·lbf', 0)
-					: formatQuantity(footPoundsForce, 'ft·lbf', 0);
+					? formatSignificant(inchPoundsForce, 'in·lbf', TORQUE_SIGNIFICANT_FIGURES)
+					: formatSignificant(footPoundsForce, 'ft·lbf', TORQUE_SIGNIFICANT_FIGURES);
 			metric = formatStated(value, 'N·m');
 			break;
 	}

@@ -7,7 +7,8 @@
  * Times: program time is a frame of the cut at the episode's rate, typed as timecode (read
  * drop-frame at 29.97 and 59.94, as the pages show it) or as a clock time (the first frame at or
  * after it, so a timestamp copied into a description never lands before the moment). Source time
- * is the take's camera timecode at the same rate, read and shown non-drop unless typed with ";".
+ * is the take's camera timecode at the same rate, read and shown in the take's own form (drop-frame
+ * when the take was logged with ";"), whichever separator the note's time is typed with.
  */
 import { error } from '@sveltejs/kit';
 import { sql } from 'kysely';
@@ -25,7 +26,7 @@ import {
 	formatClock,
 	formatTimecode,
 	framesToSeconds,
-	parseTimecode,
+	parseTimecodeInForm,
 	type FrameRate
 } from '$lib/timecode';
 import type { NoteCreate, NoteUpdate } from '$lib/schemas/parts';
@@ -98,6 +99,7 @@ export interface NoteView {
 	takeId: string | null;
 	takeClip: string | null;
 	sourceFrame: number | null;
+	/** The source frame as the take's camera showed it (drop-frame when the take was logged so). */
 	sourceTimecode: string | null;
 	text: string;
 	authorName: string | null;
@@ -144,6 +146,7 @@ function notesQuery(executor: Executor, episodeId: string) {
 			'segmentNote.programFrame',
 			'segmentNote.takeId',
 			'take.clipName as takeClip',
+			'take.sourceDropFrame',
 			'segmentNote.sourceFrame',
 			'segmentNote.text',
 			'person.name as authorName',
@@ -168,13 +171,16 @@ function notesQuery(executor: Executor, episodeId: string) {
 type NoteRow = Awaited<ReturnType<ReturnType<typeof notesQuery>['execute']>>[number];
 
 function toView(row: NoteRow, rate: FrameRate): NoteView {
+	const { sourceDropFrame, ...note } = row;
 	return {
-		...row,
+		...note,
 		programTimecode: row.programFrame === null ? null : formatTimecode(row.programFrame, rate),
 		programClock:
 			row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
 		sourceTimecode:
-			row.sourceFrame === null ? null : formatTimecode(row.sourceFrame, rate, { dropFrame: false }),
+			row.sourceFrame === null
+				? null
+				: formatTimecode(row.sourceFrame, rate, { dropFrame: sourceDropFrame ?? false }),
 		parts: row.parts as NotePart[]
 	};
 }
@@ -204,6 +210,7 @@ export async function notesPageFor(
 				'take.good',
 				'take.sourceInFrames',
 				'take.sourceOutFrames',
+				'take.sourceDropFrame',
 				'shot.what',
 				'shot.segmentId'
 			])
@@ -233,8 +240,8 @@ export async function notesPageFor(
 			segmentId: take.segmentId,
 			shot: take.what,
 			good: take.good,
-			sourceIn: formatTimecode(take.sourceInFrames, rate, { dropFrame: false }),
-			sourceOut: formatTimecode(take.sourceOutFrames, rate, { dropFrame: false })
+			sourceIn: formatTimecode(take.sourceInFrames, rate, { dropFrame: take.sourceDropFrame }),
+			sourceOut: formatTimecode(take.sourceOutFrames, rate, { dropFrame: take.sourceDropFrame })
 		})),
 		notes: notes.map((row) => toView(row, rate))
 	};
@@ -276,11 +283,13 @@ function programFrameOf(
 	return frame;
 }
 
-function sourceFrameOf(input: Partial<NoteUpdate>, rate: FrameRate): number | null | undefined {
+/** A source time typed as text, read once the take (and so its timecode form) is known. */
+type SourceTime = { text: string } | number | null;
+
+/** The source time the input names: undefined = unchanged, null = cleared. */
+function sourceTimeOf(input: Partial<NoteUpdate>): SourceTime | undefined {
 	if (input.sourceTime !== undefined) {
-		return input.sourceTime === null || input.sourceTime === ''
-			? null
-			: readTyped('sourceTime', () => parseTimecode(input.sourceTime!, rate));
+		return input.sourceTime === null || input.sourceTime === '' ? null : { text: input.sourceTime };
 	}
 	return input.sourceFrame;
 }
@@ -291,6 +300,31 @@ interface NoteSettings {
 	sourceFrame: number | null;
 }
 
+interface TakeSpan {
+	clipName: string;
+	sourceInFrames: number;
+	sourceOutFrames: number;
+	sourceDropFrame: boolean;
+}
+
+/** "B001_C007 runs 08:01:10;00–08:01:30;00" in the take's own timecode form. */
+function takeRuns(take: TakeSpan, rate: FrameRate): string {
+	const tc = (frames: number) => formatTimecode(frames, rate, { dropFrame: take.sourceDropFrame });
+	return `${tc(take.sourceInFrames)}–${tc(take.sourceOutFrames)}`;
+}
+
+/** The frame a typed source time names, read in the take's form; a typing mistake names the take's range. */
+function sourceFrameIn(take: TakeSpan, rate: FrameRate, source: SourceTime): number | null {
+	if (source === null || typeof source === 'number') return source;
+	try {
+		return parseTimecodeInForm(source.text, rate, take.sourceDropFrame);
+	} catch (failure) {
+		if (!(failure instanceof TimecodeError)) throw failure;
+		const message = `${failure.message} Take ${take.clipName} runs ${takeRuns(take, rate)}.`;
+		throw new DomainError(400, message, { sourceTime: [message] });
+	}
+}
+
 /**
  * Checks the segment and take belong to this episode and the source time falls inside the take;
  * a take without a segment puts the note in the take's segment.
@@ -299,10 +333,10 @@ async function checkPlacement(
 	executor: Executor,
 	episodeId: string,
 	rate: FrameRate,
-	settings: NoteSettings
+	settings: { segmentId: string | null; takeId: string | null; source: SourceTime }
 ): Promise<NoteSettings> {
 	let { segmentId } = settings;
-	const { takeId, sourceFrame } = settings;
+	const { takeId, source } = settings;
 	if (segmentId !== null) {
 		const segment = isUuid(segmentId)
 			? await executor
@@ -320,11 +354,11 @@ async function checkPlacement(
 			);
 	}
 	if (takeId === null) {
-		if (sourceFrame !== null)
+		if (source !== null)
 			throw new DomainError(400, 'A source time belongs to a take: pick the take it is in.', {
 				takeId: ['Pick the take the source time is in.']
 			});
-		return { segmentId, takeId, sourceFrame };
+		return { segmentId, takeId, sourceFrame: null };
 	}
 	const take = await executor
 		.selectFrom('take')
@@ -334,6 +368,7 @@ async function checkPlacement(
 			'take.clipName',
 			'take.sourceInFrames',
 			'take.sourceOutFrames',
+			'take.sourceDropFrame',
 			'shot.segmentId',
 			'segment.position'
 		])
@@ -351,12 +386,13 @@ async function checkPlacement(
 		const message = `Take ${take.clipName} was shot for segment ${take.position}; pick that segment or another take.`;
 		throw new DomainError(400, message, { takeId: [message] });
 	}
+	const sourceFrame = sourceFrameIn(take, rate, source);
 	if (
 		sourceFrame !== null &&
 		(sourceFrame < take.sourceInFrames || sourceFrame > take.sourceOutFrames)
 	) {
-		const span = `${formatTimecode(take.sourceInFrames, rate, { dropFrame: false })}–${formatTimecode(take.sourceOutFrames, rate, { dropFrame: false })}`;
-		const message = `${formatTimecode(sourceFrame, rate, { dropFrame: false })} is outside take ${take.clipName} (${span}); type a source time inside the take.`;
+		const shown = formatTimecode(sourceFrame, rate, { dropFrame: take.sourceDropFrame });
+		const message = `${shown} is outside take ${take.clipName} (${takeRuns(take, rate)}); type a source time inside the take.`;
 		throw new DomainError(400, message, { sourceTime: [message] });
 	}
 	return { segmentId, takeId, sourceFrame };
@@ -431,7 +467,7 @@ export async function createNote(
 		const placement = await checkPlacement(trx, episode.id, rate, {
 			segmentId: input.segmentId ?? null,
 			takeId: input.takeId ?? null,
-			sourceFrame: sourceFrameOf(input, rate) ?? null
+			source: sourceTimeOf(input) ?? null
 		});
 		const programFrame = programFrameOf(input, rate, episode.cutDurationFrames) ?? null;
 		const partIds = await checkParts(trx, channelId, input.partIds ?? []);
@@ -509,7 +545,7 @@ export async function updateNote(
 		if (touchesPlacement) {
 			// A new take without a new source time drops the old one: it was a time in the old take.
 			const takeChanged = input.takeId !== undefined && input.takeId !== note.takeId;
-			const sourceFrame = sourceFrameOf(input, note.rate);
+			const source = sourceTimeOf(input);
 			Object.assign(
 				changes,
 				await checkPlacement(trx, note.episodeId, note.rate, {
@@ -517,8 +553,7 @@ export async function updateNote(
 					segmentId:
 						input.segmentId !== undefined ? input.segmentId : input.takeId ? null : note.segmentId,
 					takeId: input.takeId !== undefined ? input.takeId : note.takeId,
-					sourceFrame:
-						sourceFrame !== undefined ? sourceFrame : takeChanged ? null : note.sourceFrame
+					source: source !== undefined ? source : takeChanged ? null : note.sourceFrame
 				})
 			);
 		}

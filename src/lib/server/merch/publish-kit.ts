@@ -10,8 +10,10 @@
  * the episode and channel row). Only when a featured part has no tracked link yet (a link made
  * outside the notes page) is a second round made: the missing links, then the query again.
  *
- * The character count is of the plain-text description in Unicode code points, against the
- * channel's limit (default 5,000: the common video-description limit, from memory).
+ * The description is counted as video platforms count it, in UTF-8 bytes, against the channel's
+ * limit held to the platforms' 5,000 (from memory); `<` and `>`, which platforms refuse, are
+ * flagged with their line and column, and the episode title is checked against 100 characters
+ * ($lib/publish-limits).
  */
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
@@ -23,6 +25,16 @@ import { ensureTrackedLinks, linkAddress } from './tracked-links';
 import { ChapterExportError, exportChapters, validateChapters } from '$lib/chapters';
 import { GENERAL_SAFETY_NOTE, LIFT_LAW_NOTE } from '$lib/cautions';
 import type { KitFormat } from '$lib/schemas/parts';
+import {
+	DESCRIPTION_MAX,
+	TITLE_MAX,
+	descriptionLength,
+	descriptionProblems,
+	forbiddenMarks,
+	titleLength,
+	titleProblems,
+	type ForbiddenMark
+} from '$lib/publish-limits';
 
 export type KitBlockId = 'logline' | 'chapters' | 'parts' | 'safety' | 'call-to-action';
 
@@ -44,9 +56,18 @@ export interface PublishKit {
 	/** The whole description: every block with text, a blank line between. */
 	text: string;
 	markdown: string;
+	/** Unicode code points, as a person counts characters. */
 	characters: number;
+	/** What platforms count against the limit: UTF-8 bytes. */
+	length: number;
+	/** The channel's limit, never above the platforms' 5,000. */
 	limit: number;
 	overLimit: boolean;
+	/** Every `<` and `>` in the description, which platforms refuse. */
+	forbidden: ForbiddenMark[];
+	/** Why a platform would refuse the description as assembled, in the merch team's words. */
+	problems: string[];
+	title: { text: string; length: number; limit: number; problems: string[] };
 }
 
 /** Unicode code points, so a “°” or an emoji counts as one character. */
@@ -266,15 +287,25 @@ function assemble(row: KitRow, origin: string): PublishKit {
 		.map((block) => block.markdown)
 		.filter(Boolean)
 		.join('\n\n')}\n`;
-	const characters = characterCount(text);
+	const length = descriptionLength(text);
+	const limit = Math.min(row.descriptionLimit, DESCRIPTION_MAX);
 	return {
 		episode: { id: row.id, title: row.title, slug: row.slug, stage: row.stage },
 		blocks,
 		text,
 		markdown,
-		characters,
-		limit: row.descriptionLimit,
-		overLimit: characters > row.descriptionLimit
+		characters: characterCount(text),
+		length,
+		limit,
+		overLimit: length > limit,
+		forbidden: forbiddenMarks(text),
+		problems: descriptionProblems(text, limit),
+		title: {
+			text: row.title,
+			length: titleLength(row.title),
+			limit: TITLE_MAX,
+			problems: titleProblems(row.title)
+		}
 	};
 }
 
