@@ -13,6 +13,7 @@ import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/ser
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
+import { withSecurityHeaders } from '$lib/server/http/security-headers';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 
 export const init: ServerInit = async () => {
@@ -97,7 +98,20 @@ const uploadHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(authHandle, identityHandle, uploadHandle, guardHandle);
+/** Security headers on every answer the app makes, Auth.js's and tus's included. */
+const securityHeadersHandle: Handle = async ({ event, resolve }) =>
+	withSecurityHeaders(
+		await resolve(event),
+		Boolean(event.locals.person) || event.url.pathname.startsWith('/api/')
+	);
+
+export const handle: Handle = sequence(
+	securityHeadersHandle,
+	authHandle,
+	identityHandle,
+	uploadHandle,
+	guardHandle
+);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);
