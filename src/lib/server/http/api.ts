@@ -1,9 +1,12 @@
 /**
  * Wraps a +server.ts handler so every failure answers JSON `{ error, issues? }` with the right status:
- * 400 with zod's field issues, 401, 403, 404, 409 from the guard and domain modules.
+ * 400 with zod's field issues, 401, 403, 404, 409 from the guard and domain modules, and 503 with
+ * Retry-After when the database is out of reach.
  */
 import { isHttpError, isRedirect, json, type RequestEvent } from '@sveltejs/kit';
 import { z } from 'zod';
+import { isDatabaseUnavailable } from '../db/outage';
+import { databaseDownJson } from './outage';
 
 export class DomainError extends Error {
 	constructor(
@@ -121,6 +124,10 @@ export function api<Event extends RequestEvent<any, any>>(
 			}
 			if (isHttpError(failure))
 				return json({ error: failure.body.message }, { status: failure.status });
+			if (isDatabaseUnavailable(failure)) {
+				console.error('database unavailable:', (failure as Error).message);
+				return databaseDownJson();
+			}
 			if (failure instanceof z.ZodError)
 				return json(
 					{ error: 'Some fields need fixing.', issues: fieldIssues(failure) },
