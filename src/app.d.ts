@@ -7,6 +7,8 @@ declare global {
 		interface Error {
 			message: string;
 			issues?: Record<string, string[]>;
+			/** Set when the error is that the database is out of reach (a 503). */
+			down?: 'database';
 		}
 		interface Locals {
 			/** The signed-in person, read from the database on every request. */
@@ -20,6 +22,8 @@ declare global {
 			/** How the caller proved who they are. */
 			via: 'session' | 'token' | null;
 			sessionId: string | null;
+			/** The database did not answer during this request (the answer becomes a 503). */
+			databaseDown: boolean;
 		}
 		interface PageData {
 			person?: App.Locals['person'];

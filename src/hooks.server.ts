@@ -1,7 +1,9 @@
 import {
+	error,
 	redirect,
 	json,
 	type Handle,
+	type RequestEvent,
 	type ServerInit,
 	type HandleServerError
 } from '@sveltejs/kit';
@@ -14,6 +16,14 @@ import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
+import { withSecurityHeaders } from '$lib/server/http/security-headers';
+import { isDatabaseUnavailable } from '$lib/server/db/outage';
+import {
+	asOutage,
+	databaseDownAction,
+	databaseDownError,
+	databaseDownJson
+} from '$lib/server/http/outage';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 
 export const init: ServerInit = async () => {
@@ -57,10 +67,53 @@ const identityHandle: Handle = async ({ event, resolve }) => {
 		event.url.protocol === 'https:'
 	);
 	if (sid) {
-		const identity = await identityFromSession(sid, event.cookies.get(CHANNEL_COOKIE));
+		let identity: Awaited<ReturnType<typeof identityFromSession>>;
+		try {
+			identity = await identityFromSession(sid, event.cookies.get(CHANNEL_COOKIE));
+		} catch (failure) {
+			if (!isDatabaseUnavailable(failure)) throw failure;
+			// Who is calling is unknown while the database is down: say so rather than "sign in".
+			logOutage(failure);
+			event.locals.databaseDown = true;
+			if (event.url.pathname.startsWith('/api/')) return databaseDownJson();
+			if (event.request.headers.get('x-sveltekit-action') === 'true') return databaseDownAction();
+			// Pages go on: the (app) layout answers 503 with the error page; public pages still show.
+			return resolve(event);
+		}
 		if (identity.person) Object.assign(event.locals, identity, { via: 'session', sessionId: sid });
 	}
 	return resolve(event);
+};
+
+const logOutage = (failure: unknown) =>
+	console.error(
+		'database unavailable:',
+		failure instanceof Error ? failure.message || failure.name : failure
+	);
+
+const wantsJson = (event: RequestEvent) =>
+	event.url.pathname.startsWith('/api/') ||
+	!(event.request.headers.get('accept') ?? '').includes('text/html');
+
+/**
+ * PostgreSQL out of reach: 503 with Retry-After instead of 500 (http/outage.ts). Failures inside
+ * loads, actions and endpoints reach handleError, which marks the request; failures in the hooks
+ * below (API token look-up, upload checks) arrive here.
+ */
+const outageHandle: Handle = async ({ event, resolve }) => {
+	event.locals.databaseDown = false;
+	let response: Response;
+	try {
+		response = await resolve(event);
+	} catch (failure) {
+		if (!isDatabaseUnavailable(failure)) throw failure;
+		logOutage(failure);
+		event.locals.databaseDown = true;
+		if (wantsJson(event)) return databaseDownJson();
+		error(503, databaseDownError);
+	}
+	const outage = response.status === 500 || response.status === 503;
+	return event.locals.databaseDown && outage ? asOutage(response) : response;
 };
 
 const PUBLIC_PATHS = [
@@ -77,7 +130,7 @@ const PUBLIC_PATHS = [
 const guardHandle: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
 	if (PUBLIC_PATHS.some((pattern) => pattern.test(path))) return resolve(event);
-	if (!event.locals.person) {
+	if (!event.locals.person && !event.locals.databaseDown) {
 		if (path.startsWith('/api/'))
 			return json(
 				{ error: 'Sign in, or send a personal API token as "Authorization: Bearer …".' },
@@ -100,9 +153,28 @@ const uploadHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(authHandle, identityHandle, uploadHandle, guardHandle);
+/** Security headers on every answer the app makes, Auth.js's and tus's included. */
+const securityHeadersHandle: Handle = async ({ event, resolve }) =>
+	withSecurityHeaders(
+		await resolve(event),
+		Boolean(event.locals.person) || event.url.pathname.startsWith('/api/')
+	);
 
-export const handleError: HandleServerError = ({ error, status }) => {
+export const handle: Handle = sequence(
+	securityHeadersHandle,
+	outageHandle,
+	authHandle,
+	identityHandle,
+	uploadHandle,
+	guardHandle
+);
+
+export const handleError: HandleServerError = ({ error, event, status }) => {
+	if (isDatabaseUnavailable(error)) {
+		logOutage(error);
+		event.locals.databaseDown = true; // outageHandle turns the 500 into a 503
+		return databaseDownError;
+	}
 	if (status !== 404) console.error(error);
 	return { message: status === 404 ? 'Not found.' : 'Something went wrong on the server.' };
 };

@@ -17,7 +17,13 @@ function createDatabase(): Kysely<Database> {
 			'DATABASE_URL is not set: start Wrenchroll with `npm start`, which sets it for you.'
 		);
 	}
-	const pool = new pg.Pool({ connectionString, max: Number(env.DATABASE_POOL_SIZE ?? 10) });
+	const pool = new pg.Pool({
+		connectionString,
+		max: Number(env.DATABASE_POOL_SIZE ?? 10),
+		// Without it, a query waits forever for a connection to a server that accepts but never
+		// answers (or for a free pooled one): fail instead, so the request gets a 503 (see db/outage.ts).
+		connectionTimeoutMillis: Number(env.DATABASE_CONNECT_TIMEOUT_MS ?? 5000)
+	});
 	// An idle connection dropped by the server (restart, failover) must not take the app down; the pool reconnects.
 	pool.on('error', (failure) => console.error('database connection lost:', failure.message));
 	return new Kysely<Database>({

@@ -28,6 +28,7 @@ import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
 import { probeMedia } from './probe';
 import { reserveUpload, uploadExpiryMs } from './upload-limits';
+import { bodySizeLimit, checkPatchBody } from './patch-body';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -231,6 +232,19 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 		(upload.personId !== person.id && !roles.includes('producer'))
 	)
 		return tusError(404, 'Not found.');
+	if (method === 'PATCH') {
+		const checked = await checkPatchBody(
+			event.request,
+			bodySizeLimit(env.BODY_SIZE_LIMIT),
+			path.join(uploadDir(), '.incoming')
+		);
+		if ('refused' in checked) return tusError(checked.refused.status, checked.refused.message);
+		try {
+			return await tusServer().handleWeb(checked.request);
+		} finally {
+			await checked.release();
+		}
+	}
 	const response = await tusServer().handleWeb(event.request);
 	if (method === 'DELETE' && response.status === 204)
 		await db.deleteFrom('upload').where('id', '=', rest).where('completedAt', 'is', null).execute();

@@ -1,5 +1,7 @@
 import { isbot } from 'isbot';
 import { followTrackedLink } from '$lib/server/merch/tracked-links';
+import { isDatabaseUnavailable } from '$lib/server/db/outage';
+import { RETRY_AFTER_SECONDS } from '$lib/server/http/outage';
 import type { RequestHandler } from './$types';
 
 /**
@@ -26,8 +28,30 @@ const byPerson = (request: Request) => {
 	return Boolean(agent) && !isbot(agent);
 };
 
+/** Viewers, not crew, follow these links: a plain word if the database is out of reach. */
+const follow = (code: string, count: boolean) =>
+	followTrackedLink(code, { count }).catch((failure) => {
+		if (!isDatabaseUnavailable(failure)) throw failure;
+		console.error('database unavailable:', (failure as Error).message);
+		return 'down' as const;
+	});
+
+const down = (method: string) =>
+	new Response(
+		method === 'HEAD' ? null : 'That link is out of reach for a moment. Try again in a minute.\n',
+		{
+			status: 503,
+			headers: {
+				'content-type': 'text/plain; charset=utf-8',
+				'cache-control': 'no-store',
+				'retry-after': String(RETRY_AFTER_SECONDS)
+			}
+		}
+	);
+
 export const GET: RequestHandler = async ({ params, request }) => {
-	const target = await followTrackedLink(params.code, { count: byPerson(request) });
+	const target = await follow(params.code, byPerson(request));
+	if (target === 'down') return down('GET');
 	return target
 		? new Response(null, { status: 302, headers: headers(target.location) })
 		: unknown();
@@ -35,7 +59,8 @@ export const GET: RequestHandler = async ({ params, request }) => {
 
 // Without its own HEAD, SvelteKit would run GET for a HEAD request, and count it.
 export const HEAD: RequestHandler = async ({ params }) => {
-	const target = await followTrackedLink(params.code, { count: false });
+	const target = await follow(params.code, false);
+	if (target === 'down') return down('HEAD');
 	return target
 		? new Response(null, { status: 302, headers: headers(target.location) })
 		: new Response(null, { status: 404, headers: { 'cache-control': 'no-store' } });
