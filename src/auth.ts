@@ -14,6 +14,7 @@ import {
 	closeSession,
 	SESSION_DAYS
 } from '$lib/server/auth/sessions';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 class TooManyAttempts extends CredentialsSignin {
 	code = 'throttled';
@@ -41,6 +42,12 @@ export const {
 		})
 	],
 	callbacks: {
+		/** Auth.js's own redirect target (its callbackUrl) goes through the same check as every other. */
+		redirect({ url, baseUrl }) {
+			const target = new URL(url, baseUrl);
+			if (target.origin !== baseUrl) return baseUrl;
+			return baseUrl + safeRedirectPath(target.pathname + target.search + target.hash);
+		},
 		async jwt({ token, user }) {
 			if (user?.id) token.sid = await openSession(user.id);
 			return token;

@@ -14,6 +14,7 @@ import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
 import { UPLOAD_PATH } from '$lib/upload-rules';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const init: ServerInit = async () => {
 	startMailSender();
@@ -85,7 +86,8 @@ const guardHandle: Handle = async ({ event, resolve }) => {
 				{ error: 'Your session has ended. Sign in again; nothing was changed.' },
 				{ status: 401 }
 			);
-		redirect(303, `/signin?next=${encodeURIComponent(path + event.url.search)}`);
+		const next = safeRedirectPath(path + event.url.search);
+		redirect(303, `/signin?next=${encodeURIComponent(next)}`);
 	}
 	return resolve(event);
 };

@@ -4,27 +4,11 @@ import { signIn } from '../../auth';
 import { signInSchema } from '$lib/schemas/people';
 import { fieldIssues } from '$lib/server/http/api';
 import { withFormBody } from '$lib/server/auth/form-body';
+import { safeRedirectPath } from '$lib/safe-redirect';
 import type { Actions, PageServerLoad } from './$types';
 
-/**
- * Where to go after signing in: only a path on this site. The address is resolved the way a browser
- * would (WHATWG URL: "\\" counts as "/", so "/\\evil.example" is another host) and kept only when it
- * stays on our origin; then only its path and query are used.
- */
-const safeNext = (next: string | null) => {
-	if (!next || !next.startsWith('/')) return '/';
-	const base = 'http://wrenchroll.invalid';
-	let target: URL;
-	try {
-		target = new URL(next, base);
-	} catch {
-		return '/';
-	}
-	return target.origin === base ? target.pathname + target.search : '/';
-};
-
 export const load = (async ({ locals, url }) => {
-	if (locals.person) redirect(303, safeNext(url.searchParams.get('next')));
+	if (locals.person) redirect(303, safeRedirectPath(url.searchParams.get('next')));
 	const code = url.searchParams.get('code');
 	const error = url.searchParams.get('error');
 	return {
@@ -39,7 +23,7 @@ export const load = (async ({ locals, url }) => {
 			: url.searchParams.has('reset')
 				? 'New password saved. Sign in with it now.'
 				: null,
-		next: safeNext(url.searchParams.get('next'))
+		next: safeRedirectPath(url.searchParams.get('next'))
 	};
 }) satisfies PageServerLoad;
 
@@ -59,7 +43,7 @@ export const actions = {
 		body.set('providerId', 'credentials');
 		body.set('email', parsed.data.email);
 		body.set('password', parsed.data.password);
-		body.set('redirectTo', safeNext(String(form.get('next') ?? '/')));
+		body.set('redirectTo', safeRedirectPath(form.get('next')));
 		const request = withFormBody(event.request, body);
 		const refuse = (throttled: boolean) =>
 			fail(throttled ? 429 : 400, {
@@ -81,7 +65,9 @@ export const actions = {
 					return refuse(target.searchParams.get('code') === 'throttled');
 				redirect(
 					303,
-					target.origin === event.url.origin ? safeNext(target.pathname + target.search) : '/'
+					target.origin === event.url.origin
+						? safeRedirectPath(target.pathname + target.search)
+						: '/'
 				);
 			}
 			// Auth.js throws its CredentialsSignin error (or our throttling subclass) for a refused sign-in.

@@ -4,6 +4,7 @@ import { channelSettings, updateChannelSettings } from '$lib/server/channel/chan
 import { channelSettingsSchema } from '$lib/schemas/people';
 import { attempt, parseForm } from '$lib/server/http/forms';
 import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
+import { safeRedirectPath } from '$lib/safe-redirect';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -40,6 +41,9 @@ export const actions = {
 			sameSite: 'lax',
 			maxAge: 365 * 24 * 3600
 		});
-		redirect(303, '/');
+		redirect(303, sectionOf(safeRedirectPath(form.get('next'))));
 	}
 } satisfies Actions;
+
+/** The section a page belongs to ("/parts/…" → "/parts"): a record of the old channel is not found in the new one. */
+const sectionOf = (path: string) => '/' + (path.split(/[/?#]/)[1] ?? '');
