@@ -56,8 +56,3 @@ export async function openSession(personId: string): Promise<string> {
 export async function closeSession(sessionId: string): Promise<void> {
 	await db.deleteFrom('personSession').where('id', '=', sessionId).execute();
 }
-
-/** Ends every session of a person (after a password reset). */
-export async function closeAllSessions(personId: string): Promise<void> {
-	await db.deleteFrom('personSession').where('personId', '=', personId).execute();
-}

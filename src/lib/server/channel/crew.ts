@@ -1,13 +1,12 @@
 /** The crew of a channel: invites, roles, disabling, and the one-time links for passwords. */
-import { sql } from 'kysely';
+import { sql, type Transaction } from 'kysely';
 import { db } from '../db';
-import type { Role } from '../db/types';
+import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { hashSecret, newSecret } from '../auth/secrets';
 import { queueMail } from '../mail/outbox';
 import { inviteMail, resetMail } from '../mail/messages';
 import { hashPassword, passwordProblem } from '../auth/passwords';
-import { closeAllSessions } from '../auth/sessions';
 import { isUuid } from '../auth/identity';
 
 const INVITE_DAYS = 7;
@@ -101,7 +100,10 @@ export async function invitePerson(
 	});
 }
 
-/** Changes roles or disables a member; the channel never loses its last active producer. */
+/**
+ * Changes roles or disables a member; the channel never loses its last active producer. Disabling
+ * revokes the person's API tokens for this channel, so enabling them again brings none back.
+ */
 export async function updateMember(
 	channelId: string,
 	actorId: string,
@@ -153,11 +155,22 @@ export async function updateMember(
 			.where('channelId', '=', channelId)
 			.where('personId', '=', personId)
 			.execute();
+		if (disabledAt && !member.disabledAt)
+			await trx
+				.updateTable('apiToken')
+				.set({ revokedAt: sql<Date>`now()` })
+				.where('personId', '=', personId)
+				.where('channelId', '=', channelId)
+				.where('revokedAt', 'is', null)
+				.execute();
 		return { id: personId, roles, disabledAt };
 	});
 }
 
-/** Always answers the same way, so the form never tells a stranger which addresses have accounts. */
+/**
+ * Always answers the same way, so the form never tells a stranger which addresses have accounts.
+ * A new link voids the person's older reset links.
+ */
 export async function requestPasswordReset(email: string, origin: string): Promise<void> {
 	const person = await db
 		.selectFrom('person')
@@ -166,6 +179,7 @@ export async function requestPasswordReset(email: string, origin: string): Promi
 		.executeTakeFirst();
 	if (!person) return;
 	await db.transaction().execute(async (trx) => {
+		await voidLinks(trx, person.id, ['reset']);
 		const secret = newSecret();
 		await trx
 			.insertInto('oneTimeLink')
@@ -178,6 +192,17 @@ export async function requestPasswordReset(email: string, origin: string): Promi
 			.execute();
 		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
 	});
+}
+
+/** Ends a person's live links of these purposes. */
+async function voidLinks(trx: Transaction<Database>, personId: string, purposes: 'reset'[]) {
+	await trx
+		.updateTable('oneTimeLink')
+		.set({ expiresAt: sql<Date>`now()` })
+		.where('personId', '=', personId)
+		.where('purpose', 'in', purposes)
+		.where('expiresAt', '>', sql<Date>`now()`)
+		.execute();
 }
 
 /** Looks up an unused, unexpired link (invite or reset). */
@@ -201,7 +226,10 @@ export async function findLink(secret: string, purpose: 'invite' | 'reset') {
 		.executeTakeFirst();
 }
 
-/** Sets the password through a link and uses the link up; a reset also ends every open session. */
+/**
+ * Sets the password through a link and uses the link up. A reset also ends everything the old
+ * password let in: every session, every API token, the other reset links.
+ */
 export async function setPasswordWithLink(
 	secret: string,
 	purpose: 'invite' | 'reset',
@@ -223,7 +251,15 @@ export async function setPasswordWithLink(
 		if (Number(used.numUpdatedRows) !== 1)
 			throw new DomainError(404, 'This link was already used. Ask for a new one.');
 		await trx.updateTable('person').set({ passwordHash }).where('id', '=', link.personId).execute();
+		if (purpose !== 'reset') return;
+		await trx.deleteFrom('personSession').where('personId', '=', link.personId).execute();
+		await trx
+			.updateTable('apiToken')
+			.set({ revokedAt: sql<Date>`now()` })
+			.where('personId', '=', link.personId)
+			.where('revokedAt', 'is', null)
+			.execute();
+		await voidLinks(trx, link.personId, ['reset']);
 	});
-	if (purpose === 'reset') await closeAllSessions(link.personId);
 	return { email: link.email };
 }
