@@ -19,6 +19,8 @@ declare global {
 			/** How the caller proved who they are. */
 			via: 'session' | 'token' | null;
 			sessionId: string | null;
+			/** Set when throttling refused a sign-in or a mail: seconds to wait (hooks.server.ts answers 429). */
+			retryAfter?: number;
 		}
 		interface PageData {
 			person?: App.Locals['person'];

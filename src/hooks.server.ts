@@ -15,9 +15,11 @@ import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
+import { standInHash } from '$lib/server/auth/passwords';
 
 export const init: ServerInit = async () => {
 	startMailSender();
+	await standInHash(); // made now, so no sign-in pays for making it
 	// adapter-node emits this after it stops taking requests: stop the mail sender, then close the
 	// pool so the process can exit.
 	process.on('sveltekit:shutdown', () => void stopMailSender().then(() => db.destroy()));
@@ -66,6 +68,7 @@ const PUBLIC_PATHS = [
 	/^\/auth\//,
 	/^\/welcome\//,
 	/^\/reset(\/|$)/,
+	/^\/unlock(\/|$)/,
 	/^\/go\//,
 	/^\/dev\/mail/,
 	/^\/healthz$/
@@ -99,7 +102,36 @@ const uploadHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(authHandle, identityHandle, uploadHandle, guardHandle);
+/**
+ * A sign-in or reset refused by throttling sets `locals.retryAfter`: its answer gets Retry-After
+ * (RFC 9110 §10.2.3, in seconds) and status 429 (RFC 6585 §4), also the JSON of a form posted with
+ * JavaScript (SvelteKit answers those 200 with the status inside) and Auth.js's own endpoint.
+ */
+const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	const seconds = event.locals.retryAfter;
+	if (!seconds) return response;
+	const retryAfter = String(seconds);
+	if (event.url.pathname.startsWith('/auth/'))
+		return json(
+			{
+				error: `Too many sign-in tries. Try again in ${retryAfter} seconds, or ask for an unlock link at /unlock.`
+			},
+			{ status: 429, headers: { 'retry-after': retryAfter, 'cache-control': 'no-store' } }
+		);
+	const headers = new Headers(response.headers);
+	headers.set('retry-after', retryAfter);
+	const status = response.status === 200 ? 429 : response.status;
+	return new Response(response.body, { status, statusText: '', headers });
+};
+
+export const handle: Handle = sequence(
+	throttleAnswerHandle,
+	authHandle,
+	identityHandle,
+	uploadHandle,
+	guardHandle
+);
 
 export const handleError: HandleServerError = ({ error, status }) => {
 	if (status !== 404) console.error(error);

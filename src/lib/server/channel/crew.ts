@@ -7,6 +7,8 @@ import { hashSecret, newSecret } from '../auth/secrets';
 import { queueMail } from '../mail/outbox';
 import { inviteMail, resetMail } from '../mail/messages';
 import { hashPassword, passwordProblem } from '../auth/passwords';
+import { clearCounter, mailCounters, takeAttempt } from '../auth/throttle';
+import { signInAddressCounter } from '../auth/sessions';
 import { isUuid } from '../auth/identity';
 
 const INVITE_DAYS = 7;
@@ -168,16 +170,23 @@ export async function updateMember(
 }
 
 /**
- * Always answers the same way, so the form never tells a stranger which addresses have accounts.
- * A new link voids the person's older reset links.
+ * Always answers the same way for known and unknown addresses, so the form never tells a stranger
+ * which addresses have accounts. Limited per address asked for and per client asking (reset and
+ * unlock mail share the limits); a new link voids the person's older reset links.
  */
-export async function requestPasswordReset(email: string, origin: string): Promise<void> {
+export async function requestPasswordReset(
+	email: string,
+	origin: string,
+	clientAddress: string
+): Promise<{ sent: true } | { sent: false; retryAfter: number }> {
+	const taken = await takeAttempt(mailCounters(email, clientAddress));
+	if (!taken.ok) return { sent: false, retryAfter: taken.retryAfter };
 	const person = await db
 		.selectFrom('person')
 		.select(['id', 'email'])
-		.where(sql`lower(email)`, '=', email.toLowerCase())
+		.where(sql`lower(email)`, '=', email.trim().toLowerCase())
 		.executeTakeFirst();
-	if (!person) return;
+	if (!person) return { sent: true };
 	await db.transaction().execute(async (trx) => {
 		await voidLinks(trx, person.id, ['reset']);
 		const secret = newSecret();
@@ -192,10 +201,15 @@ export async function requestPasswordReset(email: string, origin: string): Promi
 			.execute();
 		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
 	});
+	return { sent: true };
 }
 
-/** Ends a person's live links of these purposes. */
-async function voidLinks(trx: Transaction<Database>, personId: string, purposes: 'reset'[]) {
+/** Ends a person's live links of these purposes (unused ones, and opened unlock grants). */
+async function voidLinks(
+	trx: Transaction<Database>,
+	personId: string,
+	purposes: ('reset' | 'unlock')[]
+) {
 	await trx
 		.updateTable('oneTimeLink')
 		.set({ expiresAt: sql<Date>`now()` })
@@ -228,7 +242,8 @@ export async function findLink(secret: string, purpose: 'invite' | 'reset') {
 
 /**
  * Sets the password through a link and uses the link up. A reset also ends everything the old
- * password let in: every session, every API token, the other reset links.
+ * password let in: every session, every API token, the other reset and unlock links; and it clears
+ * the address's count of failed sign-ins (whoever guessed, the guesses were at the old password).
  */
 export async function setPasswordWithLink(
 	secret: string,
@@ -259,7 +274,8 @@ export async function setPasswordWithLink(
 			.where('personId', '=', link.personId)
 			.where('revokedAt', 'is', null)
 			.execute();
-		await voidLinks(trx, link.personId, ['reset']);
+		await voidLinks(trx, link.personId, ['reset', 'unlock']);
 	});
+	if (purpose === 'reset') await clearCounter(signInAddressCounter(link.email));
 	return { email: link.email };
 }
