@@ -2,7 +2,8 @@
  * npm start: the whole product on one machine. Installs the Debian packages it needs when they are
  * missing (scripts/lib/system-packages.sh); uses DATABASE_URL when set, else the embedded
  * PostgreSQL cluster under .data/postgres; migrates; writes the demo data into an empty database;
- * runs the loopback fake mail server unless SMTP_URL is set; then serves the built app.
+ * runs the loopback fake mail server unless SMTP_URL is set, with the dev mailbox (DEV_MAILBOX=1)
+ * for a server on loopback; then serves the built app.
  */
 import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
@@ -12,6 +13,7 @@ import { migrateToLatest } from './lib/migrator.ts';
 import { startCluster, type Cluster } from './lib/postgres.ts';
 import { seedDemo } from './lib/seed.ts';
 import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
+import { demoMailbox } from './lib/dev-mailbox.ts';
 import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/upload-rules.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
 
@@ -69,13 +71,22 @@ const env: Record<string, string> = {
 	// Production mode for the libraries that read it (SvelteKit's server output, Auth.js's logging).
 	NODE_ENV: 'production'
 };
-if (!env.SMTP_URL) {
+const mailSetting = demoMailbox(env);
+delete env.DEV_MAILBOX;
+if (mailSetting.fakeMail) {
 	const mailPort = Number(process.env.FAKE_SMTP_PORT ?? 2526);
 	const mailbox = path.join(dataDir, 'mail');
 	fakeMail = await startFakeMail({ port: mailPort, dir: mailbox });
 	env.SMTP_URL = fakeMail.url;
 	env.DEV_MAILBOX_DIR = mailbox;
-	console.log(`mail: fake mail server on 127.0.0.1:${mailPort}; read it at ${origin}/dev/mail`);
+	if (mailSetting.mailbox) {
+		env.DEV_MAILBOX = '1';
+		console.log(`mail: fake mail server on 127.0.0.1:${mailPort}; read it at ${origin}/dev/mail`);
+	} else {
+		console.log(
+			`mail: fake mail server on 127.0.0.1:${mailPort}; the dev mailbox is off (set DEV_MAILBOX=1 to read it at ${origin}/dev/mail)`
+		);
+	}
 }
 if (!env.AUTH_SECRET) {
 	// For the local demo only: a secret kept under .data so sessions survive a restart.

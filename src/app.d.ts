@@ -24,6 +24,8 @@ declare global {
 			sessionId: string | null;
 			/** The database did not answer during this request (the answer becomes a 503). */
 			databaseDown: boolean;
+			/** Set when throttling refused a sign-in or a mail: seconds to wait (hooks.server.ts answers 429). */
+			retryAfter?: number;
 		}
 		interface PageData {
 			person?: App.Locals['person'];

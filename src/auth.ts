@@ -2,6 +2,8 @@
  * Sign-in with Auth.js: e-mail and password (Credentials), JWT cookies that carry only a session id.
  * The session row in person_session is the real session: sign-out deletes it, and every request
  * reads the person, roles and disabled flags from the database (see hooks.server.ts).
+ * The configuration is made per request (Auth.js's lazy initialisation) so that the credentials
+ * check knows the connecting client and the browser's unlock grant, for throttling.
  */
 import { SvelteKitAuth, CredentialsSignin } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
@@ -12,18 +14,26 @@ import {
 	verifyCredentials,
 	openSession,
 	closeSession,
-	SESSION_DAYS
+	SESSION_DAYS,
+	type ThrottledBy
 } from '$lib/server/auth/sessions';
+import { UNLOCK_COOKIE } from '$lib/server/auth/unlock';
+import { connectingAddress } from '$lib/server/auth/client-address';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
+/** The code Auth.js passes on in its redirect: `throttled` (this address) or `throttled-client`. */
 class TooManyAttempts extends CredentialsSignin {
-	code = 'throttled';
+	constructor(by: ThrottledBy) {
+		super();
+		this.code = by === 'client' ? 'throttled-client' : 'throttled';
+	}
 }
 
 export const {
 	handle: authHandle,
 	signIn,
 	signOut
-} = SvelteKitAuth({
+} = SvelteKitAuth(async (event) => ({
 	trustHost: dev || env.AUTH_TRUST_HOST === 'true' || Boolean(env.ORIGIN),
 	basePath: '/auth',
 	session: { strategy: 'jwt', maxAge: SESSION_DAYS * 24 * 3600 },
@@ -34,13 +44,27 @@ export const {
 			async authorize(raw) {
 				const parsed = signInSchema.safeParse(raw);
 				if (!parsed.success) return null;
-				const result = await verifyCredentials(parsed.data.email, parsed.data.password);
-				if (result === 'throttled') throw new TooManyAttempts();
-				return result ? { id: result.id, email: result.email, name: result.name } : null;
+				const outcome = await verifyCredentials(parsed.data.email, parsed.data.password, {
+					clientAddress: connectingAddress(event),
+					unlockSecret: event.cookies.get(UNLOCK_COOKIE)
+				});
+				if (outcome.ok) return outcome.person;
+				if (outcome.throttled) {
+					// hooks.server.ts turns this into 429 with Retry-After.
+					event.locals.retryAfter = outcome.retryAfter;
+					throw new TooManyAttempts(outcome.throttled);
+				}
+				return null;
 			}
 		})
 	],
 	callbacks: {
+		/** Auth.js's own redirect target (its callbackUrl) goes through the same check as every other. */
+		redirect({ url, baseUrl }) {
+			const target = new URL(url, baseUrl);
+			if (target.origin !== baseUrl) return baseUrl;
+			return baseUrl + safeRedirectPath(target.pathname + target.search + target.hash);
+		},
 		async jwt({ token, user }) {
 			if (user?.id) token.sid = await openSession(user.id);
 			return token;
@@ -65,4 +89,4 @@ export const {
 		},
 		warn() {}
 	}
-});
+}));

@@ -25,10 +25,13 @@ import {
 	databaseDownJson
 } from '$lib/server/http/outage';
 import { UPLOAD_PATH } from '$lib/upload-rules';
+import { safeRedirectPath } from '$lib/safe-redirect';
+import { standInHash } from '$lib/server/auth/passwords';
 
 export const init: ServerInit = async () => {
 	startMailSender();
 	startUploadSweep();
+	await standInHash(); // made now, so no sign-in pays for making it
 	// adapter-node emits this after it stops taking requests: stop the mail sender and the upload
 	// sweep, then close the pool so the process can exit.
 	process.on(
@@ -121,6 +124,7 @@ const PUBLIC_PATHS = [
 	/^\/auth\//,
 	/^\/welcome\//,
 	/^\/reset(\/|$)/,
+	/^\/unlock(\/|$)/,
 	/^\/go\//,
 	/^\/dev\/mail/,
 	/^\/healthz$/
@@ -141,7 +145,8 @@ const guardHandle: Handle = async ({ event, resolve }) => {
 				{ error: 'Your session has ended. Sign in again; nothing was changed.' },
 				{ status: 401 }
 			);
-		redirect(303, `/signin?next=${encodeURIComponent(path + event.url.search)}`);
+		const next = safeRedirectPath(path + event.url.search);
+		redirect(303, `/signin?next=${encodeURIComponent(next)}`);
 	}
 	return resolve(event);
 };
@@ -160,8 +165,32 @@ const securityHeadersHandle: Handle = async ({ event, resolve }) =>
 		Boolean(event.locals.person) || event.url.pathname.startsWith('/api/')
 	);
 
+/**
+ * A sign-in or reset refused by throttling sets `locals.retryAfter`: its answer gets Retry-After
+ * (RFC 9110 §10.2.3, in seconds) and status 429 (RFC 6585 §4), also the JSON of a form posted with
+ * JavaScript (SvelteKit answers those 200 with the status inside) and Auth.js's own endpoint.
+ */
+const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	const seconds = event.locals.retryAfter;
+	if (!seconds) return response;
+	const retryAfter = String(seconds);
+	if (event.url.pathname.startsWith('/auth/'))
+		return json(
+			{
+				error: `Too many sign-in tries. Try again in ${retryAfter} seconds, or ask for an unlock link at /unlock.`
+			},
+			{ status: 429, headers: { 'retry-after': retryAfter, 'cache-control': 'no-store' } }
+		);
+	const headers = new Headers(response.headers);
+	headers.set('retry-after', retryAfter);
+	const status = response.status === 200 ? 429 : response.status;
+	return new Response(response.body, { status, statusText: '', headers });
+};
+
 export const handle: Handle = sequence(
 	securityHeadersHandle,
+	throttleAnswerHandle,
 	outageHandle,
 	authHandle,
 	identityHandle,

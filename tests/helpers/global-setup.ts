@@ -60,6 +60,7 @@ export default async function setup(project: TestProject) {
 		DATABASE_URL: cluster.url,
 		SMTP_URL: mail.url,
 		DEV_MAILBOX_DIR: mailboxDir,
+		DEV_MAILBOX: '1',
 		AUTH_SECRET: 'test-secret-for-the-throwaway-server-only-0123456789',
 		UPLOAD_DIR: uploadDir,
 		MAIL_INTERVAL_MS: '500',

@@ -1,4 +1,5 @@
 /** Talking to the built server over HTTP as a person would: sign-in, cookies, JSON calls, the fake mailbox. */
+import { request as httpRequest } from 'node:http';
 import { inject } from 'vitest';
 import pg from 'pg';
 import { parse as parseDevalue } from 'devalue';
@@ -15,9 +16,47 @@ export const demo = {
 
 export const baseUrl = () => inject('baseUrl');
 
+/**
+ * One HTTP request from a chosen loopback source address (all of 127.0.0.0/8 reaches the server
+ * on Linux), so a test can act as a client of its own: the server's per-client limits see
+ * `from`, not the 127.0.0.1 every other test shares. Global fetch cannot pick its source address.
+ */
+export function requestFrom(
+	from: string,
+	url: string,
+	init: { method?: string; headers?: Headers; body?: string } = {}
+): Promise<Response> {
+	return new Promise((resolve, reject) => {
+		const headers: Record<string, string> = {};
+		init.headers?.forEach((value, name) => (headers[name] = value));
+		const outgoing = httpRequest(
+			url,
+			{ method: init.method ?? 'GET', headers, localAddress: from },
+			(incoming) => {
+				const chunks: Buffer[] = [];
+				incoming.on('data', (chunk: Buffer) => chunks.push(chunk));
+				incoming.on('error', reject);
+				incoming.on('end', () => {
+					const answer = new Headers();
+					for (const [name, value] of Object.entries(incoming.headers))
+						for (const one of [value ?? []].flat()) answer.append(name, one);
+					const status = incoming.statusCode ?? 500;
+					const empty = status === 204 || status === 304 || init.method === 'HEAD';
+					resolve(new Response(empty ? null : Buffer.concat(chunks), { status, headers: answer }));
+				});
+			}
+		);
+		outgoing.on('error', reject);
+		outgoing.end(init.body);
+	});
+}
+
 /** A person's browser, minus the browser: keeps cookies between requests. */
 export class Visitor {
 	cookies = new Map<string, string>();
+
+	/** `from`: a loopback source address of this visitor's own (see requestFrom). */
+	constructor(readonly from?: string) {}
 
 	cookieHeader(): string {
 		return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
@@ -40,9 +79,16 @@ export class Visitor {
 			for (const [key, value] of Object.entries(init.form))
 				for (const v of [value].flat()) params.append(key, v);
 			body = params;
+			headers.set('content-type', 'application/x-www-form-urlencoded;charset=UTF-8');
 			if (!headers.has('accept')) headers.set('accept', 'text/html');
 		}
-		const response = await fetch(baseUrl() + path, { ...init, headers, body, redirect: 'manual' });
+		const response = this.from
+			? await requestFrom(this.from, baseUrl() + path, {
+					method: init.method,
+					headers,
+					body: body === undefined || body === null ? undefined : String(body)
+				})
+			: await fetch(baseUrl() + path, { ...init, headers, body, redirect: 'manual' });
 		for (const line of response.headers.getSetCookie()) {
 			const [pair, ...attributes] = line.split(';');
 			const [name, ...rest] = pair.split('=');
@@ -89,8 +135,8 @@ export class Visitor {
 	}
 }
 
-export async function signedIn(email: string): Promise<Visitor> {
-	const visitor = new Visitor();
+export async function signedIn(email: string, from?: string): Promise<Visitor> {
+	const visitor = new Visitor(from);
 	const response = await visitor.signIn(email);
 	if (response.status !== 303) throw new Error(`sign-in as ${email} answered ${response.status}`);
 	return visitor;

@@ -49,7 +49,7 @@ describe('sign-in', () => {
 		await sql(
 			`INSERT INTO person (email, name, password_hash) VALUES ('throttle@example.test', 'Throttle Test', NULL)`
 		);
-		const visitor = new Visitor();
+		const visitor = new Visitor('127.0.5.1'); // a client of its own: the suite's 127.0.0.1 keeps its budget
 		let last: Awaited<ReturnType<Visitor['action']>> | null = null;
 		for (let i = 0; i < 11; i++)
 			last = await visitor.action('/signin', {
@@ -87,11 +87,17 @@ describe('sign-in', () => {
 describe('where sign-in sends you next', () => {
 	// Browsers read "\\" in a URL as "/" (WHATWG URL Standard, special schemes), so "/\\host" and
 	// "//host" both name another host: an open redirect if followed (OWASP Unvalidated Redirects).
+	// Dot segments (also "%2e") are removed after parsing, so "/..//host" normalises to "//host".
 	const offSite = [
 		'//evil.example/x',
 		'/\\evil.example/x',
 		'https://evil.example/x',
-		'/\t/evil.example'
+		'/\t/evil.example',
+		'/..//evil.example/login',
+		'/%2e%2e//evil.example/login',
+		'/a/../..//evil.example/login',
+		'/%2e//',
+		'javascript:alert(1)'
 	];
 
 	test('a signed-in visitor sent to /signin?next=… stays on this site', async () => {
@@ -122,6 +128,34 @@ describe('where sign-in sends you next', () => {
 			form: { email: demo.host, password: DEMO_PASSWORD, next: '/episodes' }
 		});
 		expect(answer.headers.get('location')).toBe('/episodes');
+	});
+
+	test('a signed-out visit is sent to sign-in with a next that stays on this site', async () => {
+		const answer = await new Visitor().request('/parts?q=coil%20spring');
+		expect(answer.status).toBe(303);
+		const location = new URL(answer.headers.get('location')!, baseUrl());
+		expect(location.pathname).toBe('/signin');
+		expect(location.searchParams.get('next')).toBe('/parts?q=coil%20spring');
+	});
+
+	test('the channel switcher returns to the same section of the new channel, never off the site', async () => {
+		const editor = await signedIn(demo.editor); // on two crews
+		const me = await editor.api('/api/me');
+		const other = me.body.channels.find((c: { id: string }) => c.id !== me.body.channel.id);
+		for (const next of offSite) {
+			const answer = await editor.request('/channel?/switch', {
+				method: 'POST',
+				form: { channelId: other.id, next }
+			});
+			expect(answer.status, next).toBe(303);
+			expect(answer.headers.get('location'), next).toBe('/');
+		}
+		// A record of the old channel is not found in the new one: the switcher keeps only the section.
+		const answer = await editor.request('/channel?/switch', {
+			method: 'POST',
+			form: { channelId: me.body.channel.id, next: '/parts/1234?tab=links' }
+		});
+		expect(answer.headers.get('location')).toBe('/parts');
 	});
 });
 

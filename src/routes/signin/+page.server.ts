@@ -4,42 +4,36 @@ import { signIn } from '../../auth';
 import { signInSchema } from '$lib/schemas/people';
 import { fieldIssues } from '$lib/server/http/api';
 import { withFormBody } from '$lib/server/auth/form-body';
+import { safeRedirectPath } from '$lib/safe-redirect';
+import { waitInWords } from '$lib/wait-in-words';
 import type { Actions, PageServerLoad } from './$types';
 
-/**
- * Where to go after signing in: only a path on this site. The address is resolved the way a browser
- * would (WHATWG URL: "\\" counts as "/", so "/\\evil.example" is another host) and kept only when it
- * stays on our origin; then only its path and query are used.
- */
-const safeNext = (next: string | null) => {
-	if (!next || !next.startsWith('/')) return '/';
-	const base = 'http://wrenchroll.invalid';
-	let target: URL;
-	try {
-		target = new URL(next, base);
-	} catch {
-		return '/';
-	}
-	return target.origin === base ? target.pathname + target.search : '/';
-};
+const MISMATCH = "That e-mail and password don't match an active crew account.";
+
+/** What a throttled sign-in tells the person, by Auth.js's code: the address, or their network. */
+function throttledMessage(code: string | null, seconds: number | undefined) {
+	const wait = seconds ? `Try again in ${waitInWords(seconds)}` : 'Try again later';
+	return code === 'throttled-client'
+		? `Too many failed sign-ins from your network. ${wait}, or mail yourself an unlock link below.`
+		: `Too many tries for this address. ${wait}, or mail yourself an unlock link below.`;
+}
 
 export const load = (async ({ locals, url }) => {
-	if (locals.person) redirect(303, safeNext(url.searchParams.get('next')));
+	if (locals.person) redirect(303, safeRedirectPath(url.searchParams.get('next')));
 	const code = url.searchParams.get('code');
 	const error = url.searchParams.get('error');
+	const throttled = code === 'throttled' || code === 'throttled-client';
 	return {
-		notice:
-			code === 'throttled'
-				? 'Too many tries for this address. Wait 15 minutes, or reset the password by e-mail.'
-				: error
-					? "That e-mail and password don't match an active crew account."
-					: null,
+		notice: throttled ? throttledMessage(code, undefined) : error ? MISMATCH : null,
+		unlock: throttled,
 		success: url.searchParams.has('welcome')
 			? 'Password set. Sign in with it now.'
 			: url.searchParams.has('reset')
 				? 'New password saved. Sign in with it now.'
-				: null,
-		next: safeNext(url.searchParams.get('next'))
+				: url.searchParams.has('unlocked')
+					? 'Signing in is unlocked on this browser for the next hour. Sign in with your password.'
+					: null,
+		next: safeRedirectPath(url.searchParams.get('next'))
 	};
 }) satisfies PageServerLoad;
 
@@ -52,40 +46,44 @@ export const actions = {
 		};
 		const parsed = signInSchema.safeParse(values);
 		if (!parsed.success)
-			return fail(400, { errors: fieldIssues(parsed.error), values: { email: values.email } });
+			return fail(400, {
+				errors: fieldIssues(parsed.error),
+				values: { email: values.email },
+				unlock: false
+			});
 
 		// Hand the checked fields to Auth.js as the form post it expects.
 		const body = new FormData();
 		body.set('providerId', 'credentials');
 		body.set('email', parsed.data.email);
 		body.set('password', parsed.data.password);
-		body.set('redirectTo', safeNext(String(form.get('next') ?? '/')));
+		body.set('redirectTo', safeRedirectPath(form.get('next')));
 		const request = withFormBody(event.request, body);
-		const refuse = (throttled: boolean) =>
-			fail(throttled ? 429 : 400, {
+		const refuse = (code: string | null) => {
+			const throttled = code === 'throttled' || code === 'throttled-client';
+			return fail(throttled ? 429 : 400, {
 				errors: <Record<string, string[]>>{
-					form: [
-						throttled
-							? 'Too many tries for this address. Wait 15 minutes, or reset the password by e-mail.'
-							: "That e-mail and password don't match an active crew account."
-					]
+					form: [throttled ? throttledMessage(code, event.locals.retryAfter) : MISMATCH]
 				},
-				values: { email: values.email }
+				values: { email: values.email },
+				unlock: throttled
 			});
+		};
 		try {
 			await signIn({ ...event, request });
 		} catch (outcome) {
 			if (isRedirect(outcome)) {
 				const target = new URL(outcome.location, event.url);
-				if (target.searchParams.has('error'))
-					return refuse(target.searchParams.get('code') === 'throttled');
+				if (target.searchParams.has('error')) return refuse(target.searchParams.get('code'));
 				redirect(
 					303,
-					target.origin === event.url.origin ? safeNext(target.pathname + target.search) : '/'
+					target.origin === event.url.origin
+						? safeRedirectPath(target.pathname + target.search)
+						: '/'
 				);
 			}
 			// Auth.js throws its CredentialsSignin error (or our throttling subclass) for a refused sign-in.
-			if (outcome instanceof CredentialsSignin) return refuse(outcome.code === 'throttled');
+			if (outcome instanceof CredentialsSignin) return refuse(outcome.code);
 			throw outcome;
 		}
 		redirect(303, '/');

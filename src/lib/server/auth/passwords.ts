@@ -3,6 +3,7 @@
  * and a check against a list of known-breached passwords (Mozilla's fxa-common-password-list,
  * the top of a public breach corpus). Hashing is Argon2id from @node-rs/argon2.
  */
+import { randomBytes } from 'node:crypto';
 import { hash, verify } from '@node-rs/argon2';
 import commonPasswords from 'fxa-common-password-list';
 
@@ -24,13 +25,30 @@ export function hashPassword(password: string): Promise<string> {
 	return hash(password);
 }
 
+let standIn: Promise<string> | null = null;
+/**
+ * A hash of a random password, made like every real one (same algorithm and cost): sign-in verifies
+ * against it when the address has no usable hash, so an unknown address costs what a known one does.
+ */
+export function standInHash(): Promise<string> {
+	standIn ??= hash(randomBytes(32).toString('base64url'));
+	return standIn;
+}
+
+/**
+ * Whether the password matches the stored hash. Always runs exactly one Argon2 verification (against
+ * the stand-in hash when there is no real one), so the answer takes as long for an unknown address
+ * as for a known one. `verifyHash` is @node-rs/argon2's verify; tests pass one that counts calls.
+ */
 export async function checkPassword(
 	passwordHash: string | null,
-	password: string
+	password: string,
+	verifyHash: (hash: string, password: string) => Promise<boolean> = verify
 ): Promise<boolean> {
-	if (!passwordHash) return false;
+	const real = passwordHash?.startsWith('$argon2') ? passwordHash : null;
 	try {
-		return await verify(passwordHash, password);
+		const matches = await verifyHash(real ?? (await standInHash()), password);
+		return matches && real !== null;
 	} catch {
 		return false;
 	}

@@ -1,13 +1,14 @@
 /** The crew of a channel: invites, roles, disabling, and the one-time links for passwords. */
-import { sql } from 'kysely';
+import { sql, type Transaction } from 'kysely';
 import { db } from '../db';
-import type { Role } from '../db/types';
+import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { hashSecret, newSecret } from '../auth/secrets';
 import { queueMail } from '../mail/outbox';
 import { inviteMail, resetMail } from '../mail/messages';
 import { hashPassword, passwordProblem } from '../auth/passwords';
-import { closeAllSessions } from '../auth/sessions';
+import { clearCounter, mailCounters, takeAttempt } from '../auth/throttle';
+import { signInAddressCounter } from '../auth/sessions';
 import { isUuid } from '../auth/identity';
 
 const INVITE_DAYS = 7;
@@ -101,7 +102,10 @@ export async function invitePerson(
 	});
 }
 
-/** Changes roles or disables a member; the channel never loses its last active producer. */
+/**
+ * Changes roles or disables a member; the channel never loses its last active producer. Disabling
+ * revokes the person's API tokens for this channel, so enabling them again brings none back.
+ */
 export async function updateMember(
 	channelId: string,
 	actorId: string,
@@ -153,19 +157,38 @@ export async function updateMember(
 			.where('channelId', '=', channelId)
 			.where('personId', '=', personId)
 			.execute();
+		if (disabledAt && !member.disabledAt)
+			await trx
+				.updateTable('apiToken')
+				.set({ revokedAt: sql<Date>`now()` })
+				.where('personId', '=', personId)
+				.where('channelId', '=', channelId)
+				.where('revokedAt', 'is', null)
+				.execute();
 		return { id: personId, roles, disabledAt };
 	});
 }
 
-/** Always answers the same way, so the form never tells a stranger which addresses have accounts. */
-export async function requestPasswordReset(email: string, origin: string): Promise<void> {
+/**
+ * Always answers the same way for known and unknown addresses, so the form never tells a stranger
+ * which addresses have accounts. Limited per address asked for and per client asking (reset and
+ * unlock mail share the limits); a new link voids the person's older reset links.
+ */
+export async function requestPasswordReset(
+	email: string,
+	origin: string,
+	clientAddress: string
+): Promise<{ sent: true } | { sent: false; retryAfter: number }> {
+	const taken = await takeAttempt(mailCounters(email, clientAddress));
+	if (!taken.ok) return { sent: false, retryAfter: taken.retryAfter };
 	const person = await db
 		.selectFrom('person')
 		.select(['id', 'email'])
-		.where(sql`lower(email)`, '=', email.toLowerCase())
+		.where(sql`lower(email)`, '=', email.trim().toLowerCase())
 		.executeTakeFirst();
-	if (!person) return;
+	if (!person) return { sent: true };
 	await db.transaction().execute(async (trx) => {
+		await voidLinks(trx, person.id, ['reset']);
 		const secret = newSecret();
 		await trx
 			.insertInto('oneTimeLink')
@@ -178,6 +201,22 @@ export async function requestPasswordReset(email: string, origin: string): Promi
 			.execute();
 		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
 	});
+	return { sent: true };
+}
+
+/** Ends a person's live links of these purposes (unused ones, and opened unlock grants). */
+async function voidLinks(
+	trx: Transaction<Database>,
+	personId: string,
+	purposes: ('reset' | 'unlock')[]
+) {
+	await trx
+		.updateTable('oneTimeLink')
+		.set({ expiresAt: sql<Date>`now()` })
+		.where('personId', '=', personId)
+		.where('purpose', 'in', purposes)
+		.where('expiresAt', '>', sql<Date>`now()`)
+		.execute();
 }
 
 /** Looks up an unused, unexpired link (invite or reset). */
@@ -201,7 +240,11 @@ export async function findLink(secret: string, purpose: 'invite' | 'reset') {
 		.executeTakeFirst();
 }
 
-/** Sets the password through a link and uses the link up; a reset also ends every open session. */
+/**
+ * Sets the password through a link and uses the link up. A reset also ends everything the old
+ * password let in: every session, every API token, the other reset and unlock links; and it clears
+ * the address's count of failed sign-ins (whoever guessed, the guesses were at the old password).
+ */
 export async function setPasswordWithLink(
 	secret: string,
 	purpose: 'invite' | 'reset',
@@ -223,7 +266,16 @@ export async function setPasswordWithLink(
 		if (Number(used.numUpdatedRows) !== 1)
 			throw new DomainError(404, 'This link was already used. Ask for a new one.');
 		await trx.updateTable('person').set({ passwordHash }).where('id', '=', link.personId).execute();
+		if (purpose !== 'reset') return;
+		await trx.deleteFrom('personSession').where('personId', '=', link.personId).execute();
+		await trx
+			.updateTable('apiToken')
+			.set({ revokedAt: sql<Date>`now()` })
+			.where('personId', '=', link.personId)
+			.where('revokedAt', 'is', null)
+			.execute();
+		await voidLinks(trx, link.personId, ['reset', 'unlock']);
 	});
-	if (purpose === 'reset') await closeAllSessions(link.personId);
+	if (purpose === 'reset') await clearCounter(signInAddressCounter(link.email));
 	return { email: link.email };
 }

@@ -58,7 +58,8 @@ export interface OneTimeLinkTable {
 	id: Generated<string>;
 	personId: string;
 	channelId: string | null;
-	purpose: 'invite' | 'reset';
+	/** 'unlock': a mailed link that lets its owner's browser sign in past the throttle (see auth/unlock.ts). */
+	purpose: 'invite' | 'reset' | 'unlock';
 	tokenHash: string;
 	expiresAt: Timestamp;
 	usedAt: Timestamp | null;
@@ -77,10 +78,11 @@ export interface ApiTokenTable {
 	revokedAt: Timestamp | null;
 }
 
-export interface SignInFailureTable {
-	id: Generated<string>;
-	emailKey: string;
-	at: CreatedAt;
+/** One throttle key's attempts in its current fixed window (see auth/throttle.ts). */
+export interface ThrottleCounterTable {
+	key: string;
+	hits: number;
+	windowEndsAt: Timestamp;
 }
 
 export interface OutboxTable {
@@ -186,7 +188,7 @@ export interface Database
 	personSession: PersonSessionTable;
 	oneTimeLink: OneTimeLinkTable;
 	apiToken: ApiTokenTable;
-	signInFailure: SignInFailureTable;
+	throttleCounter: ThrottleCounterTable;
 	outbox: OutboxTable;
 }
 

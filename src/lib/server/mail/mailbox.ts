@@ -1,7 +1,11 @@
 /**
- * The dev-only mailbox: reads what the loopback fake mail server stored. It exists only when
- * DEV_MAILBOX_DIR is set, which the start command and the tests do when they run the fake, and it
- * answers only callers on this machine: the mail holds invite and password-reset links.
+ * The dev-only mailbox: reads what the loopback fake mail server stored. The mail holds live invite
+ * and password-reset links, so it exists only when asked for (DEV_MAILBOX=1, which the demo start
+ * command and the tests set, plus the DEV_MAILBOX_DIR they store mail in) and never behind a
+ * proxy (ADDRESS_HEADER set). It answers only a browser on this machine that reached the server
+ * directly: the connection comes from loopback, no forwarding header says a proxy relayed it
+ * (a same-host proxy connects from loopback for everyone), and the Host is a loopback name (a
+ * DNS-rebinding page would send its own).
  */
 import { BlockList, isIPv4 } from 'node:net';
 import { readdir, readFile } from 'node:fs/promises';
@@ -17,7 +21,44 @@ export interface StoredMail {
 	text: string;
 }
 
-export const mailboxEnabled = () => Boolean(env.DEV_MAILBOX_DIR);
+export const mailboxEnabled = () =>
+	env.DEV_MAILBOX === '1' && Boolean(env.DEV_MAILBOX_DIR) && !env.ADDRESS_HEADER;
+
+/**
+ * Headers a proxy adds when it relays a request: RFC 7239 Forwarded, the de-facto X-Forwarded-*
+ * and X-Real-IP family and the client-address headers of common proxies and CDNs, RFC 9110 Via.
+ */
+const FORWARDING_HEADERS = [
+	'forwarded',
+	'x-forwarded-for',
+	'x-forwarded-host',
+	'x-forwarded-proto',
+	'x-forwarded-port',
+	'x-forwarded-server',
+	'x-original-forwarded-for',
+	'x-real-ip',
+	'x-client-ip',
+	'x-cluster-client-ip',
+	'true-client-ip',
+	'cf-connecting-ip',
+	'fastly-client-ip',
+	'via'
+];
+
+/** The first forwarding header the request carries, or null for a request made directly. */
+export function forwardingHeaderIn(headers: Headers): string | null {
+	return FORWARDING_HEADERS.find((name) => headers.has(name)) ?? null;
+}
+
+/** A Host header naming this machine: localhost, an address of 127.0.0.0/8 or [::1], with or without a port. */
+export function isLoopbackHost(host: string | null): boolean {
+	if (!host) return false;
+	const name = /^(\[[^\]]*\]|[^:]*)(?::\d{1,5})?$/.exec(host.trim())?.[1]?.toLowerCase();
+	if (!name) return false;
+	if (name === 'localhost') return true;
+	if (name.startsWith('[')) return name === '[::1]';
+	return /^\d+\.\d+\.\d+\.\d+$/.test(name) && isLoopbackAddress(name);
+}
 
 // Loopback addresses: 127.0.0.0/8 (RFC 1122 §3.2.1.3) and ::1 (RFC 4291 §2.5.3), also written as an
 // IPv4-mapped IPv6 address (::ffff:127.x.y.z, RFC 4291 §2.5.5.2).
@@ -35,9 +76,11 @@ export function isLoopbackAddress(address: string): boolean {
 	}
 }
 
-/** The mailbox is on, and the caller is on this machine. */
-export function mailboxOpenTo(event: { getClientAddress(): string }): boolean {
+/** The mailbox is on, and the caller is a browser on this machine that connected directly. */
+export function mailboxOpenTo(event: { getClientAddress(): string; request: Request }): boolean {
 	if (!mailboxEnabled()) return false;
+	const { headers } = event.request;
+	if (forwardingHeaderIn(headers) || !isLoopbackHost(headers.get('host'))) return false;
 	try {
 		return isLoopbackAddress(event.getClientAddress());
 	} catch {

@@ -31,3 +31,17 @@ export function resetMail(input: { link: string }) {
 		].join('\n')
 	};
 }
+
+export function unlockMail(input: { link: string; minutes: number }) {
+	return {
+		subject: 'Unlock signing in to Wrenchroll',
+		text: [
+			'Signing in to Wrenchroll with this address was paused after too many wrong passwords.',
+			'',
+			`Open this link on the browser you sign in with and press its button (it works once, for ${input.minutes} minutes); then sign in with your password as usual:`,
+			input.link,
+			'',
+			'If you didn\'t ask for it, someone may be guessing your password: ignore this message, and consider choosing a new password through "Forgot your password?".'
+		].join('\n')
+	};
+}

@@ -6,6 +6,7 @@ import { attempt, parseForm } from '$lib/server/http/forms';
 import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
 import { storageInUse } from '$lib/server/footage/upload-limits';
 import { maxUploadBytes } from '$lib/server/footage/tus-server';
+import { safeRedirectPath } from '$lib/safe-redirect';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -48,6 +49,9 @@ export const actions = {
 			sameSite: 'lax',
 			maxAge: 365 * 24 * 3600
 		});
-		redirect(303, '/');
+		redirect(303, sectionOf(safeRedirectPath(form.get('next'))));
 	}
 } satisfies Actions;
+
+/** The section a page belongs to ("/parts/…" → "/parts"): a record of the old channel is not found in the new one. */
+const sectionOf = (path: string) => '/' + (path.split(/[/?#]/)[1] ?? '');

@@ -8,6 +8,7 @@ import { parseForm } from '$lib/server/http/forms';
 import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { episodeFormValues } from '../episode-form';
 import type { Actions, PageServerLoad } from './$types';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel, person, roles } = requireRole(event);
@@ -62,6 +63,9 @@ export const actions = {
 			moveStage(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin)
 		);
 		if (!result.ok) return result.failure;
-		redirect(303, `/episodes/${event.params.id}?moved=${result.value.episode.stage}`);
+		redirect(
+			303,
+			safeRedirectPath(`/episodes/${event.params.id}?moved=${result.value.episode.stage}`)
+		);
 	}
 } satisfies Actions;

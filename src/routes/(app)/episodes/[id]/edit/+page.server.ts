@@ -12,6 +12,7 @@ import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/
 import type { TimelineMark } from '$lib/components/timeline';
 import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 /**
  * The editor's timeline. Every crew member may look; the editor and the producer change the cut
@@ -54,7 +55,7 @@ export const actions = {
 			setCutDuration(channel.id, event.params.id, parsed.data)
 		);
 		if ('status' in result) return fail(result.status, { action: 'setCut', ...result.data });
-		redirect(303, event.url.pathname);
+		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	addChapter: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
@@ -66,7 +67,7 @@ export const actions = {
 			addChapter(channel.id, event.params.id, parsed.data)
 		);
 		if ('status' in result) return fail(result.status, { action: 'addChapter', ...result.data });
-		redirect(303, event.url.pathname);
+		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	saveChapter: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
@@ -85,7 +86,7 @@ export const actions = {
 		);
 		if ('status' in result)
 			return fail(result.status, { action: 'saveChapter', chapterId, ...result.data });
-		redirect(303, event.url.pathname);
+		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	removeChapter: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
@@ -100,6 +101,6 @@ export const actions = {
 		);
 		if ('status' in result)
 			return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });
-		redirect(303, event.url.pathname);
+		redirect(303, safeRedirectPath(event.url.pathname));
 	}
 } satisfies Actions;

@@ -13,6 +13,7 @@ import {
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import type { Actions, PageServerLoad } from './$types';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
@@ -90,7 +91,7 @@ export const actions = {
 		);
 		if ('status' in result)
 			return fail(result.status, { action: 'create' as const, ...result.data });
-		redirect(303, `${event.url.pathname}#note-${result.id}`);
+		redirect(303, safeRedirectPath(`${event.url.pathname}#note-${result.id}`));
 	},
 	place: (event) =>
 		change(event, 'place', ['editor', 'producer'], async (form) => ({

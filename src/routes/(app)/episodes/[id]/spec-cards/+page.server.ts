@@ -13,6 +13,7 @@ import {
 	specCardUpdateSchema
 } from '$lib/schemas/spec-cards';
 import type { Actions, PageServerLoad } from './$types';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 /**
  * The episode's spec cards. Every crew member may look; the editor and the producer add, change,
@@ -58,7 +59,7 @@ function requestFrom(values: Record<string, string>) {
 }
 
 const cardsPage = (episodeId: string, cardId?: string) =>
-	`/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`;
+	safeRedirectPath(`/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`);
 
 export const actions = {
 	/** Adds a card, or saves one being changed (the form carries its id and the version it read). */

@@ -22,6 +22,7 @@ import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { defaultDropFrame, formatTimecode } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
 import type { Actions, PageServerLoad } from './$types';
+import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
@@ -148,6 +149,6 @@ export const actions = {
 			deleteSegment(channel.id, event.params.segmentId, parsed.data.version)
 		);
 		if (!result.ok) return result.failure;
-		redirect(303, `/episodes/${event.params.id}/rundown`);
+		redirect(303, safeRedirectPath(`/episodes/${event.params.id}/rundown`));
 	}
 } satisfies Actions;
