@@ -16,7 +16,7 @@ import type { Actions, PageServerLoad } from './$types';
 
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
- * their program time, the merch team links parts, the producer may do all. With JavaScript the
+ * their program time, the merch team links parts (and may start a note), the producer may do all. With JavaScript the
  * part picker searches /api/parts as you type; every change is a form action underneath.
  */
 export const load = (async (event) => {
@@ -71,7 +71,7 @@ async function change(
 
 export const actions = {
 	create: async (event) => {
-		const caller = requireRole(event, 'camera', 'producer');
+		const caller = requireRole(event, 'camera', 'merch', 'producer');
 		const form = await event.request.formData();
 		const values = {
 			text: text(form, 'text'),
