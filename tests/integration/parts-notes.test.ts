@@ -1,8 +1,8 @@
 /**
  * Segment notes and the featured parts list over HTTP against the built server: who writes what
- * (camera: the note; editor: its program time; merch: its parts; producer: all; nobody else),
- * times typed as timecode or clock time, version checks, tracked links made on linking, the
- * featured parts in order of first appearance with their warnings, and the lock gate's reasons.
+ * (camera: the note; editor: its program time; merch: its parts, and starting a note; producer:
+ * all; nobody else), times typed as timecode or clock time, version checks, tracked links made on
+ * linking, the featured parts in order of first appearance with their warnings, and the lock gate's reasons.
  *
  * Outside sources for the checks:
  * - Timecode: SMPTE ST 12-1 drop-frame and non-drop counting (the spec is paywalled; frame counts
@@ -292,9 +292,44 @@ describe('who may change notes', () => {
 		});
 	});
 
-	test('only the camera operator and the producer write and remove notes', async () => {
+	test('the merch team starts a note on a segment with its parts; the take and source time stay the camera operator’s', async () => {
 		const episode = await newEpisode();
-		for (const who of ['editor', 'merch', 'host'] as const) {
+		const { id: partId } = await part('IBS-LB-300T');
+		const started = await visitors.merch.api(notesPath(episode.id), {
+			method: 'POST',
+			json: {
+				text: 'Lift block box on the bench',
+				segmentId: episode.segments[1],
+				partIds: [partId]
+			}
+		});
+		expect(started.status, JSON.stringify(started.body)).toBe(201);
+		expect(started.body.note).toMatchObject({
+			text: 'Lift block box on the bench',
+			parts: [expect.objectContaining({ sku: 'IBS-LB-300T' })]
+		});
+		expect((await noteRow(started.body.note.id)).segment_id).toBe(episode.segments[1]);
+		const withTake = await visitors.merch.api(notesPath(episode.id), {
+			method: 'POST',
+			json: { text: 'Not mine to time', takeId: episode.takes[0], sourceTime: '09:00:15:10' }
+		});
+		expect(withTake.status).toBe(403);
+		// The notes page form starts one too, without JavaScript.
+		const form = await visitors.merch.action(`/episodes/${episode.id}/notes?/create`, {
+			text: 'Decal kit on the tailgate',
+			segmentId: episode.segments[0]
+		});
+		expect(form.status).toBe(303);
+		expect(
+			await sql(`SELECT text FROM segment_note WHERE episode_id = $1 ORDER BY created_at`, [
+				episode.id
+			])
+		).toEqual([{ text: 'Lift block box on the bench' }, { text: 'Decal kit on the tailgate' }]);
+	});
+
+	test('only the camera operator, the merch team and the producer start notes; only the camera operator and the producer remove them', async () => {
+		const episode = await newEpisode();
+		for (const who of ['editor', 'host'] as const) {
 			expect(
 				(
 					await visitors[who].api(notesPath(episode.id), {

@@ -523,8 +523,8 @@ describe('the spec cards of one channel are not found from another', () => {
 /*
  * Featured parts (the catalogue, its import and export, segment notes, the featured parts list,
  * the publish kit, clicks, and their pages and actions). Everyone reads; the merch team changes
- * the catalogue and links parts to notes; the camera operator writes notes; the editor places
- * their program time; the producer may do all. Cases run on an episode and parts of their own.
+ * the catalogue, starts notes and links parts to them; the camera operator writes notes; the
+ * editor places their program time; the producer may do all. Cases run on an episode and parts of their own.
  */
 const partsIds: { episode?: string; segment?: string; note?: string; part?: string } = {};
 const partsPath = () => `/api/episodes/${partsIds.episode}`;
@@ -614,7 +614,7 @@ const partsCases: Case[] = [
 	},
 	{
 		name: 'POST /api/episodes/[id]/notes',
-		allowed: ['producer', 'camera'],
+		allowed: ['producer', 'camera', 'merch'],
 		call: async (v) =>
 			(
 				await v.api(`${partsPath()}/notes`, {
@@ -697,7 +697,7 @@ const partsActionCases: Case[] = [
 	},
 	{
 		name: 'action /episodes/[id]/notes?/create',
-		allowed: ['producer', 'camera'],
+		allowed: ['producer', 'camera', 'merch'],
 		call: (v) =>
 			actionStatus(v, `/episodes/${partsIds.episode}/notes?/create`, {
 				text: 'Form note',

@@ -237,6 +237,29 @@ describe('the call sheet', () => {
 		expect(html).toMatch(/licensed professional/i);
 	});
 
+	test('a new day’s call sheet names the episode’s assigned crew and says where to add cameras', async () => {
+		const created = await camera.action('/shoots?/create', {
+			episodeId,
+			shootDate: '2027-03-03',
+			locationName: 'Torquehaven Supply workshop',
+			callTime: '07:00',
+			wrapTime: '15:00'
+		});
+		const newDay = created.location!.split('/').pop()!;
+		const assigned = await sql(
+			`SELECT p.name FROM episode_assignment a JOIN person p ON p.id = a.person_id WHERE a.episode_id = $1`,
+			[episodeId]
+		);
+		expect(assigned.length).toBeGreaterThan(1);
+		const html = await (await camera.request(`/shoots/${newDay}/call-sheet`)).text();
+		const crew = html.slice(html.indexOf('Crew called'), html.indexOf('>Filming<'));
+		for (const person of assigned) expect(crew).toContain(person.name);
+		expect(crew).not.toMatch(/<li>\s*—\s*<\/li>/);
+		const cameras = html.slice(html.indexOf('Cameras and cards'), html.indexOf('>Gear<'));
+		expect(cameras).toContain(`href="/shoots/${newDay}#cams-heading"`);
+		expect(cameras).toMatch(/No cameras yet/);
+	});
+
 	test('another channel’s producer gets 404 for this shoot day', async () => {
 		const other = await signedIn(demo.otherProducer);
 		expect((await other.api(`/api/shoot-days/${dayId}`)).status).toBe(404);

@@ -10,6 +10,7 @@ import type { Role } from '../db/types';
 import type { WorkItem } from './worklist';
 import { gateSnapshotFor } from '../episodes/stage-moves';
 import { gateChecksFor } from '$lib/gates';
+import { counted } from '$lib/plural';
 import { countSpokenWords } from '$lib/script/timing';
 import { nextStage, STAGE_LABELS } from '$lib/stages';
 
@@ -89,14 +90,14 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 		else if (written < scripts.length)
 			items.push({
 				title: `Script to write: ${episode.title}`,
-				detail: `${written} of ${scripts.length} segments written.`,
+				detail: `${written} of ${counted(scripts.length, 'segment')} written.`,
 				href,
 				tone: 'todo'
 			});
 		else
 			items.push({
 				title: `Ready to send for approval: ${episode.title}`,
-				detail: `All ${scripts.length} segments have words. Send it to the producer from the script page.`,
+				detail: `${scripts.length === 1 ? 'The segment has' : `All ${scripts.length} segments have`} words. Send it to the producer from the script page.`,
 				href,
 				tone: 'todo'
 			});

@@ -1,8 +1,9 @@
 /**
  * Segment notes: a moment of the episode and what is on screen then. The camera operator writes
  * them while logging takes (the text, the segment, the take and its source timecode); the editor
- * places or corrects their program time in the cut; the merch team links the featured parts. The
- * producer may do all three; nobody else changes notes. Each change names the version it read.
+ * places or corrects their program time in the cut; the merch team links the featured parts, and
+ * may start a note (text, segment, parts) for a part it spots. The producer may do all three;
+ * nobody else changes notes. Each change names the version it read.
  *
  * Times: program time is a frame of the cut at the episode's rate, typed as timecode (read
  * drop-frame at 29.97 and 59.94, as the pages show it) or as a clock time (the first frame at or
@@ -41,6 +42,8 @@ export interface NoteRights {
 	place: boolean;
 	/** Link and unlink featured parts (merch). */
 	link: boolean;
+	/** Start a note with its text, segment and parts (camera or merch; the take stays camera's). */
+	start: boolean;
 }
 
 export function noteRightsFor(roles: readonly Role[]): NoteRights {
@@ -48,7 +51,8 @@ export function noteRightsFor(roles: readonly Role[]): NoteRights {
 	return {
 		write: producer || roles.includes('camera'),
 		place: producer || roles.includes('editor'),
-		link: producer || roles.includes('merch')
+		link: producer || roles.includes('merch'),
+		start: producer || roles.includes('camera') || roles.includes('merch')
 	};
 }
 
@@ -63,12 +67,20 @@ export function assertNoteRights(
 ): void {
 	const rights = noteRightsFor(roles);
 	const refusals: string[] = [];
-	const touchesWriting =
-		creating ||
-		['text', 'segmentId', 'takeId', 'sourceTime', 'sourceFrame'].some(
-			(field) => input[field as keyof NoteUpdate] !== undefined
-		);
-	if (touchesWriting && !rights.write)
+	// Whoever may start a note gives it its text and segment; the take and source time stay the
+	// camera operator's, and afterwards the text and segment are too.
+	const touchesWriting = (
+		creating
+			? ['takeId', 'sourceTime', 'sourceFrame']
+			: ['text', 'segmentId', 'takeId', 'sourceTime', 'sourceFrame']
+	).some(
+		(field) =>
+			input[field as keyof NoteUpdate] !== undefined &&
+			(!creating || input[field as keyof NoteUpdate] !== null)
+	);
+	if (creating && !rights.start)
+		refusals.push('the camera operator or the merch team starts notes');
+	else if (touchesWriting && !rights.write)
 		refusals.push('the camera operator writes notes (text, segment, take and source time)');
 	if ((input.programTime !== undefined || input.programFrame !== undefined) && !rights.place)
 		refusals.push('the editor places their program time');

@@ -17,7 +17,7 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
- * their program time, the merch team links parts, the producer may do all. With JavaScript the
+ * their program time, the merch team links parts (and may start a note), the producer may do all. With JavaScript the
  * part picker searches /api/parts as you type; every change is a form action underneath.
  */
 export const load = (async (event) => {
@@ -72,7 +72,7 @@ async function change<Action extends string>(
 
 export const actions = {
 	create: async (event) => {
-		const caller = requireRole(event, 'camera', 'producer');
+		const caller = requireRole(event, 'camera', 'merch', 'producer');
 		const form = await event.request.formData();
 		const values = {
 			text: text(form, 'text'),

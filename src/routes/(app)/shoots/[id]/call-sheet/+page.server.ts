@@ -1,6 +1,7 @@
 import { forPage } from '$lib/server/http/forms';
 import { requireRole } from '$lib/server/auth/guard';
 import { shootDayDetail } from '$lib/server/shoot/shoot-days';
+import { episodeCrewFor } from '$lib/server/shoot/call-sheet';
 import { db } from '$lib/server/db';
 import type { PageServerLoad } from './$types';
 
@@ -14,5 +15,9 @@ export const load = (async (event) => {
 			.where('id', '=', channel.id)
 			.executeTakeFirstOrThrow()
 	]);
-	return { ...detail, settings };
+	// Nobody called for the day yet: the sheet names the episode's crew instead of a dash.
+	const episodeCrew = detail.crew.length
+		? []
+		: await episodeCrewFor(channel.id, detail.day.episodeId);
+	return { ...detail, settings, episodeCrew };
 }) satisfies PageServerLoad;

@@ -11,9 +11,12 @@ export const GET: RequestHandler = api(async (event) => {
 	return json(await notesPageFor(channel.id, event.params.id));
 });
 
-/** The camera operator (or the producer) writes a note; the editor's and merch's fields need their roles. */
+/**
+ * The camera operator, the merch team or the producer starts a note; the take and source time need
+ * the camera operator, the program time the editor, the parts the merch team.
+ */
 export const POST: RequestHandler = api(async (event) => {
-	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
+	const { channel, person, roles } = requireRole(event, 'camera', 'merch', 'producer');
 	const input = await readJson(event, noteCreateSchema);
 	return json(
 		{
