@@ -10,7 +10,7 @@ import type { Role } from './db/types';
 import type { BenchItem } from './bench';
 import { gateSnapshotFor } from './stages';
 import { gateChecksFor } from '$lib/gates';
-import { countSpokenWords } from '$lib/script/timing';
+import { spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { nextStage, STAGE_LABELS } from '$lib/stages';
 
 async function episodesFor(
@@ -78,7 +78,9 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 			.select('segmentScript.body')
 			.where('segment.episodeId', '=', episode.id)
 			.execute();
-		const written = scripts.filter((script) => countSpokenWords(script.body) > 0).length;
+		const written = (await spokenWordsEach(scripts.map((script) => script.body))).filter(
+			(words) => words > 0
+		).length;
 		if (scripts.length === 0)
 			items.push({
 				title: `Rundown to plan: ${episode.title}`,

@@ -11,12 +11,8 @@ import { DomainError, notFound } from './api';
 import { isUuid } from './identity';
 import { queueMail } from './mail/outbox';
 import { assignmentMail } from './mail/episode-messages';
-import {
-	calibratePace,
-	countSpokenWords,
-	DEFAULT_WORDS_PER_MINUTE,
-	type CalibratedPace
-} from '$lib/script/timing';
+import { calibratePace, DEFAULT_WORDS_PER_MINUTE, type CalibratedPace } from '$lib/script/timing';
+import { spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { framesToSeconds, isFrameRate, type FrameRate } from '$lib/timecode';
 import { STAGES, type Stage } from '$lib/stages';
 import {
@@ -569,12 +565,12 @@ export async function hostPaceFor(
 		.where('episodeAssignment.personId', '=', host.id)
 		.where('segment.recordedFrames', 'is not', null)
 		.execute();
-	const samples = recorded
-		.filter((row) => isFrameRate(row.frameRate))
-		.map((row) => ({
-			words: countSpokenWords(row.body),
-			recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate as FrameRate)
-		}));
+	const usable = recorded.filter((row) => isFrameRate(row.frameRate));
+	const words = await spokenWordsEach(usable.map((row) => row.body));
+	const samples = usable.map((row, index) => ({
+		words: words[index],
+		recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate as FrameRate)
+	}));
 	return { ...calibratePace(samples), hostName: host.name };
 }
 

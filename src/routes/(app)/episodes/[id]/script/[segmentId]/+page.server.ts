@@ -1,7 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/guard';
 import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/segments';
-import { renderScriptMarkdown } from '$lib/server/markdown';
+import { scriptHtml } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/script-reviews';
 import { scriptSaveSchema } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/forms';
@@ -15,8 +15,12 @@ export const load = (async (event) => {
 	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
 	if (index === -1) error(404, 'That segment is not in this episode.');
 	const segment = rundown.segments[index];
+	const [reviews, previewHtml] = await Promise.all([
+		reviewsFor(channel.id, event.params.id),
+		scriptHtml(segment.script.body)
+	]);
 	// The producer's comments on this segment, so the host reads them where they write.
-	const comments = (await reviewsFor(channel.id, event.params.id)).filter(
+	const comments = reviews.filter(
 		(review) => review.segmentId === segment.id && review.body.trim()
 	);
 	return {
@@ -32,7 +36,7 @@ export const load = (async (event) => {
 			? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title }
 			: null,
 		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
-		previewHtml: renderScriptMarkdown(segment.script.body),
+		previewHtml,
 		canWrite: hasRole(event.locals, 'producer', 'host')
 	};
 }) satisfies PageServerLoad;
