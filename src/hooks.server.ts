@@ -13,10 +13,13 @@ import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/ser
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/uploads';
+import { startScriptReaders } from '$lib/server/episodes/script-reader';
 import { UPLOAD_PATH } from '$lib/uploads';
 
 export const init: ServerInit = async () => {
 	startMailSender();
+	// Start the script readers now, so the first script anybody opens does not wait for them.
+	void startScriptReaders();
 	// adapter-node emits this after it stops taking requests: stop the mail sender, then close the
 	// pool so the process can exit.
 	process.on('sveltekit:shutdown', () => void stopMailSender().then(() => db.destroy()));
