@@ -1,9 +1,9 @@
 import { error, fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/guard';
 import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/segments';
-import { scriptHtml } from '$lib/server/episodes/script-reader';
+import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/script-reviews';
-import { scriptSaveSchema } from '$lib/schemas/episodes';
+import { SCRIPT_CHARACTER_LIMIT, scriptSaveSchema } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/forms';
 import { attemptAction, found, text } from '$lib/server/episode-forms';
 import type { Actions, PageServerLoad } from './$types';
@@ -54,12 +54,21 @@ export const actions = {
 			body: text(form, 'body').replace(/\r\n?/g, '\n'),
 			version: text(form, 'version')
 		};
+		// Without JavaScript a refused save shows the typed text again, with its own word count.
+		const typed = async () => ({
+			...values,
+			words: values.body.length > SCRIPT_CHARACTER_LIMIT ? 0 : await spokenWords(values.body)
+		});
 		const parsed = parseForm(scriptSaveSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
+		if (!parsed.ok)
+			return fail(400, { action: 'save', errors: parsed.errors, values: await typed() });
 		const result = await attemptAction('save', values, () =>
 			saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data)
 		);
-		if (!result.ok) return result.failure;
+		if (!result.ok) {
+			result.failure.data.values = await typed();
+			return result.failure;
+		}
 		return { action: 'save', saved: result.value };
 	}
 } satisfies Actions;
