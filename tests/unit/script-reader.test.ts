@@ -231,7 +231,7 @@ describe('script reading is bounded', () => {
 				await readWithinBound(markdown);
 			}),
 			{
-				numRuns: 16,
+				numRuns: 12,
 				examples: WORST_CASES.map((markdown) => [markdown]),
 				// A failing case here takes seconds; report it as found rather than shrinking it.
 				endOnFailure: true

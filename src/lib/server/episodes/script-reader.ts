@@ -28,10 +28,14 @@ import type {
 export { SCRIPT_READ_LIMIT_MS };
 
 /**
- * Two readers at least, so a preview's HTML and word count run side by side (each within the
- * limit), and at most four; the main thread keeps a core of its own where there are more.
+ * How many reads run at once: two at least, so a preview's HTML and word count run side by side
+ * (each within the limit), and at most four; the main thread keeps a core of its own where there
+ * are more. One more reader is kept started and idle: when reads run over and their workers are
+ * replaced (a start takes about 0.3 s, more on a busy machine), the spare takes the next read at
+ * once instead of it waiting for a start.
  */
 export const SCRIPT_READER_COUNT = Math.max(2, Math.min(4, availableParallelism() - 1));
+const READERS_KEPT = SCRIPT_READER_COUNT + 1;
 
 /** How many texts' word counts (and which texts ran over the limit) are remembered. */
 const REMEMBERED_TEXTS = 2000;
@@ -57,27 +61,19 @@ const READER_HEAP_MB = 256;
 export const PLAIN_SCRIPT_NOTICE =
 	'<p><strong>Shown as plain text.</strong> The formatting of this script took too long to work out, so it is shown exactly as typed. Long runs of *, _, [, ` or &gt; usually cause this: break them up.</p>\n';
 
-const htmlEscapes: Record<string, string> = {
-	'&': '&amp;',
-	'<': '&lt;',
-	'>': '&gt;',
-	'"': '&quot;',
-	"'": '&#39;'
-};
-
 /** The fallback page for a script: every character kept, escaped, blank lines as paragraph breaks and single newlines as line breaks. */
 export function plainScriptHtml(markdown: string): string {
-	const paragraphs = markdown
+	const escaped = markdown
 		.replace(/\r\n?/g, '\n')
+		.replace(/&/g, '&amp;')
+		.replace(/</g, '&lt;')
+		.replace(/>/g, '&gt;')
+		.replace(/"/g, '&quot;')
+		.replace(/'/g, '&#39;');
+	const paragraphs = escaped
 		.split(/\n[ \t]*\n/)
 		.filter((paragraph) => paragraph.trim() !== '')
-		.map(
-			(paragraph) =>
-				`<p>${paragraph
-					.replace(/[&<>"']/g, (character) => htmlEscapes[character])
-					.split('\n')
-					.join('<br />\n')}</p>\n`
-		);
+		.map((paragraph) => `<p>${paragraph.split('\n').join('<br />\n')}</p>\n`);
 	return PLAIN_SCRIPT_NOTICE + paragraphs.join('');
 }
 
@@ -141,7 +137,10 @@ class ScriptReaderPool {
 	ready(): Promise<void> {
 		this.#fill();
 		if (this.#allReady()) return Promise.resolve();
-		return new Promise((resolve) => this.#readyWaiters.push(resolve));
+		return new Promise((resolve) => {
+			this.#readyWaiters.push(resolve);
+			this.#holdProcess();
+		});
 	}
 
 	#allReady(): boolean {
@@ -186,10 +185,10 @@ class ScriptReaderPool {
 		return Date.now() < this.#pausedUntil;
 	}
 
-	/** Keeps SCRIPT_READER_COUNT readers alive (started or starting). */
+	/** Keeps READERS_KEPT readers alive (started or starting). */
 	#fill(): void {
 		if (this.#paused()) return;
-		while (this.#readers.size < SCRIPT_READER_COUNT) this.#start();
+		while (this.#readers.size < READERS_KEPT) this.#start();
 	}
 
 	#start(): void {
@@ -214,14 +213,13 @@ class ScriptReaderPool {
 			workerData: { role },
 			resourceLimits: { maxOldGenerationSizeMb: READER_HEAP_MB }
 		});
-		// Readers never keep the process alive (tests, scripts, a server shutting down).
-		worker.unref();
 		reader.worker = worker;
 		reader.startTimer = setTimeout(() => void worker.terminate(), START_LIMIT_MS);
 		reader.startTimer.unref();
 		worker.on('message', (message: ScriptReaderMessage) => this.#heard(reader, message));
 		worker.on('error', (failure) => this.#lost(reader, failure));
 		worker.on('exit', (code) => this.#lost(reader, `exit code ${code}`));
+		this.#holdProcess();
 	}
 
 	#heard(reader: Reader, message: ScriptReaderMessage): void {
@@ -265,16 +263,35 @@ class ScriptReaderPool {
 			);
 			for (const job of this.#queue.splice(0)) job.settle({ type: 'unavailable' });
 			for (const resolve of this.#readyWaiters.splice(0)) resolve();
+			this.#holdProcess();
 			return;
 		}
 		this.#fill();
 		this.#pump();
 	}
 
-	#pump(): void {
+	/**
+	 * Readers keep the process alive only while there is work for them or someone waits for them to
+	 * start, so a script that reads one text exits when done, and so does a server shutting down.
+	 * (Called after the listeners are added: adding a 'message' listener refs a worker again.)
+	 */
+	#holdProcess(): void {
+		const wanted =
+			this.#queue.length > 0 ||
+			this.#readyWaiters.length > 0 ||
+			[...this.#readers].some((reader) => reader.running);
 		for (const reader of this.#readers) {
-			if (this.#queue.length === 0) return;
+			if (wanted) reader.worker?.ref();
+			else reader.worker?.unref();
+		}
+	}
+
+	#pump(): void {
+		let running = [...this.#readers].filter((reader) => reader.running).length;
+		for (const reader of this.#readers) {
+			if (this.#queue.length === 0 || running >= SCRIPT_READER_COUNT) break;
 			if (!reader.ready || reader.running || !reader.worker) continue;
+			running += 1;
 			const job = this.#queue.shift()!;
 			const id = this.#nextId++;
 			// The limit runs from the moment a started reader has the text, not while it waits in line.
@@ -282,6 +299,7 @@ class ScriptReaderPool {
 			reader.running = { id, job, timer };
 			reader.worker.postMessage({ id, kind: job.kind, markdown: job.markdown } satisfies ScriptJob);
 		}
+		this.#holdProcess();
 	}
 
 	/** A read ran over the limit: answer with the fallback now, end its worker, start another. */
@@ -296,6 +314,7 @@ class ScriptReaderPool {
 		// Ending the worker is the only way to stop a regular expression mid-run; its exit is then ignored.
 		void reader.worker?.terminate();
 		this.#fill();
+		this.#pump();
 	}
 }
 
