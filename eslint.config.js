@@ -53,6 +53,42 @@ export default ts.config(
 		rules: { '@typescript-eslint/no-explicit-any': 'off' }
 	},
 	{
+		// marked is quadratic on some scripts inside the length limit, so script Markdown is read only in
+		// workers with a time limit: src/lib/server/episodes/script-reader.ts on the server and the
+		// editor's live-word-count.ts in the browser (DEVELOPERS.md, "Script Markdown").
+		files: ['src/**/*.ts', 'src/**/*.svelte'],
+		ignores: [
+			'src/lib/server/markdown.ts',
+			'src/lib/script/timing.ts',
+			'src/lib/server/episodes/script-reader-worker.ts',
+			'src/**/spoken-words.worker.ts'
+		],
+		rules: {
+			'no-restricted-imports': [
+				'error',
+				{
+					paths: [
+						{
+							name: 'marked',
+							message: 'Read script Markdown through $lib/server/episodes/script-reader.'
+						},
+						{
+							name: '$lib/server/markdown',
+							message:
+								'Use scriptHtml() from $lib/server/episodes/script-reader (a worker with a time limit).'
+						},
+						{
+							name: '$lib/script/timing',
+							importNames: ['countSpokenWords'],
+							message:
+								'Use spokenWords() from $lib/server/episodes/script-reader, or LiveWordCount in the editor (workers with a time limit).'
+						}
+					]
+				}
+			]
+		}
+	},
+	{
 		files: ['**/*.svelte', '**/*.svelte.ts', '**/*.svelte.js'],
 		languageOptions: {
 			parserOptions: {

@@ -24,6 +24,7 @@ import {
 	databaseDownError,
 	databaseDownJson
 } from '$lib/server/http/outage';
+import { startScriptReaders } from '$lib/server/episodes/script-reader';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
@@ -31,6 +32,8 @@ import { standInHash } from '$lib/server/auth/passwords';
 export const init: ServerInit = async () => {
 	startMailSender();
 	startUploadSweep();
+	// Start the script readers now, so the first script anybody opens does not wait for them.
+	void startScriptReaders();
 	await standInHash(); // made now, so no sign-in pays for making it
 	// adapter-node emits this after it stops taking requests: stop the mail sender and the upload
 	// sweep, then close the pool so the process can exit.

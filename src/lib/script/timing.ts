@@ -186,6 +186,89 @@ export function countSpokenWords(markdown: string): number {
 	return spokenText.split(/[\s—]+/u).filter(isSpokenWord).length;
 }
 
+/**
+ * Our own limit on reading one script's Markdown (to HTML, or to a word count), in milliseconds.
+ * `marked` is quadratic on some inputs inside the script limit, so both the server
+ * (`$lib/server/episodes/script-reader`) and the editor (its word-count worker) read scripts off the
+ * main thread and stop a read that runs longer; the answer is then the rough count below (and the
+ * text as plain paragraphs). An ordinary script at the 100,000-character limit reads in about
+ * 60–100 ms on a 2-core server, so this leaves room for a busy machine while keeping a preview's
+ * answer under 200 ms.
+ */
+export const SCRIPT_READ_LIMIT_MS = 150;
+
+/**
+ * Same test as `isSpokenWord`, in one pass over the token with no backtracking, so a hostile
+ * 100,000-character token costs 100,000 steps. Tokens come from a whitespace split, so they hold no
+ * whitespace: an e-mail address is then exactly one "@" with something before it and a dot inside
+ * what follows; an address starts, after any of ( " ' < [, with a scheme and "://" or with "www.".
+ */
+function isSpokenWordInOnePass(token: string): boolean {
+	if (token === '&') return true;
+	if (!hasLetterOrDigit.test(token)) return false;
+	let start = 0;
+	while (start < token.length && '("\'<['.includes(token[start])) start += 1;
+	const rest = token.slice(start);
+	if (/^(?:[a-z][a-z0-9+.-]*:\/\/|www\.)/i.test(rest)) return false;
+	const at = token.indexOf('@');
+	if (at > 0 && token.indexOf('@', at + 1) === -1) {
+		const domain = token.slice(at + 1);
+		// A dot with at least one character on each side of it, inside the domain.
+		if (domain.lastIndexOf('.', domain.length - 2) >= 1) return false;
+	}
+	return true;
+}
+
+const blankLinePattern = /\n[ \t]*\n/g;
+
+/**
+ * Replaces `[[ … ]]` directions with a space exactly as `directionPattern` does, in linear time.
+ * (The pattern retries from every `[[` when none closes, which is quadratic on `[[[[…`.) A
+ * direction from `[[` at i is the text up to the first `]]` after i + 2, unless a blank line starts
+ * before that `]]`; then no direction can start before that blank line either, so the scan jumps
+ * past it.
+ */
+function withoutDirectionsInOnePass(text: string): string {
+	let out = '';
+	let copiedTo = 0;
+	let position = 0;
+	let nextClose = -1;
+	let nextBlank = -1;
+	for (;;) {
+		const open = text.indexOf('[[', position);
+		if (open === -1) break;
+		if (nextClose < open + 2) nextClose = text.indexOf(']]', open + 2);
+		if (nextClose === -1) break;
+		if (nextBlank !== Number.POSITIVE_INFINITY && nextBlank < open + 2) {
+			blankLinePattern.lastIndex = open + 2;
+			nextBlank = blankLinePattern.exec(text)?.index ?? Number.POSITIVE_INFINITY;
+		}
+		if (nextBlank < nextClose) {
+			position = nextBlank + 1;
+			continue;
+		}
+		out += text.slice(copiedTo, open) + ' ';
+		copiedTo = nextClose + 2;
+		position = copiedTo;
+	}
+	return out + text.slice(copiedTo);
+}
+
+/**
+ * A rough count of the spoken words, for a script whose Markdown cannot be read within
+ * SCRIPT_READ_LIMIT_MS: directions are left out as usual, then every whitespace-separated token
+ * that `countSpokenWords` would call a word counts, Markdown marks and code included. Linear in the
+ * text's length. On prose without Markdown it gives the same number as `countSpokenWords`.
+ */
+export function roughSpokenWords(markdown: string): number {
+	const text = withoutDirectionsInOnePass(markdown.replace(/\r\n?/g, '\n'));
+	let words = 0;
+	for (const token of decodeCharacterReferences(text).split(/[\s—]+/u)) {
+		if (isSpokenWordInOnePass(token)) words += 1;
+	}
+	return words;
+}
+
 function assertPositiveFinite(value: number, what: string): void {
 	if (!Number.isFinite(value) || value <= 0) {
 		throw new RangeError(`${what} must be a number above 0 (got ${value}).`);

@@ -11,12 +11,8 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { queueMail } from '../mail/outbox';
 import { assignmentMail } from '../mail/episode-messages';
-import {
-	calibratePace,
-	countSpokenWords,
-	DEFAULT_WORDS_PER_MINUTE,
-	type CalibratedPace
-} from '$lib/script/timing';
+import { calibratePace, DEFAULT_WORDS_PER_MINUTE, type CalibratedPace } from '$lib/script/timing';
+import { spokenWordsEach } from './script-reader';
 import { framesToSeconds } from '$lib/timecode';
 import { STAGES, type Stage } from '$lib/stages';
 import {
@@ -562,8 +558,9 @@ export async function hostPaceFor(
 		.where('episodeAssignment.personId', '=', host.id)
 		.where('segment.recordedFrames', 'is not', null)
 		.execute();
-	const samples = recorded.map((row) => ({
-		words: countSpokenWords(row.body),
+	const words = await spokenWordsEach(recorded.map((row) => row.body));
+	const samples = recorded.map((row, index) => ({
+		words: words[index],
 		recordedSeconds: framesToSeconds(row.recordedFrames!, row.frameRate)
 	}));
 	return { ...calibratePace(samples), hostName: host.name };

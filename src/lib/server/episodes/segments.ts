@@ -12,7 +12,8 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, hostPaceFor, type Actor, type Executor } from './episodes';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
-import { countSpokenWords, estimateSpokenSeconds } from '$lib/script/timing';
+import { estimateSpokenSeconds } from '$lib/script/timing';
+import { spokenWords, spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
 import {
 	defaultDropFrame,
@@ -212,9 +213,9 @@ function cautionView(
 	};
 }
 
-function toView(row: SegmentRow, wordsPerMinute: number): SegmentView {
+/** `words` is the script's spoken-word count, read beforehand through `script-reader`. */
+function toView(row: SegmentRow, wordsPerMinute: number, words: number): SegmentView {
 	const rate = row.frameRate;
-	const words = countSpokenWords(row.scriptBody);
 	const flagged = new Set(row.hazards);
 	return {
 		id: row.id,
@@ -266,7 +267,8 @@ export async function rundownFor(channelId: string, episodeId: string, executor:
 			.orderBy('segment.position')
 			.execute()
 	]);
-	const segments = rows.map((row) => toView(row, pace.wordsPerMinute));
+	const words = await spokenWordsEach(rows.map((row) => row.scriptBody));
+	const segments = rows.map((row, index) => toView(row, pace.wordsPerMinute, words[index]));
 	const totals = {
 		plannedSeconds: segments.reduce((sum, segment) => sum + segment.plannedSeconds, 0),
 		words: segments.reduce((sum, segment) => sum + segment.words, 0),
@@ -300,8 +302,11 @@ export async function segmentView(
 		.where('segment.id', '=', segmentId)
 		.executeTakeFirst();
 	if (!row) throw segmentNotFound();
-	const pace = await hostPaceFor(channelId, row.episodeId, executor);
-	return toView(row, pace.wordsPerMinute);
+	const [pace, words] = await Promise.all([
+		hostPaceFor(channelId, row.episodeId, executor),
+		spokenWords(row.scriptBody)
+	]);
+	return toView(row, pace.wordsPerMinute, words);
 }
 
 /** The segment row with its episode (checked against the channel), optionally locked. */
@@ -702,6 +707,8 @@ export async function saveScript(
 	segmentId: string,
 	input: { body: string; version: number }
 ): Promise<ScriptSaved> {
+	// Counted while the save runs, outside the transaction.
+	const wordsOfInput = spokenWords(input.body);
 	return db.transaction().execute(async (trx) => {
 		const segment = await segmentInChannel(trx, channelId, segmentId);
 		const updated = await trx
@@ -719,7 +726,7 @@ export async function saveScript(
 		const pace = await hostPaceFor(channelId, segment.episodeId, trx);
 		if (!updated) {
 			const current = await currentScript(trx, segmentId);
-			const words = countSpokenWords(current.body);
+			const words = await spokenWords(current.body);
 			throw new DomainError(
 				409,
 				`${current.updatedByName ?? 'Someone'} saved this segment’s script while you were writing. Both versions are shown: merge them, then save again.`,
@@ -737,7 +744,7 @@ export async function saveScript(
 				}
 			);
 		}
-		const words = countSpokenWords(input.body);
+		const words = await wordsOfInput;
 		return {
 			segmentId,
 			body: input.body,

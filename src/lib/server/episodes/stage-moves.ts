@@ -16,7 +16,7 @@ import { queueMail } from '../mail/outbox';
 import { stageArrivalMail } from '../mail/episode-messages';
 import { gateChecksFor, type GateReason, type GateSnapshot, type ScriptStatus } from '$lib/gates';
 import { isHazardId, type HazardId } from '$lib/cautions';
-import { countSpokenWords } from '$lib/script/timing';
+import { spokenWordsEach } from '$lib/server/episodes/script-reader';
 import {
 	mayMoveStage,
 	moveDirection,
@@ -106,6 +106,7 @@ export async function gateSnapshotFor(
 			chapterProblemsFor(trx, channelId, episodeId),
 			featuredPartProblemsFor(trx, channelId, episodeId)
 		]);
+	const words = await spokenWordsEach(segments.map((segment) => segment.body));
 	return {
 		stage: episode.stage,
 		frameRate: episode.frameRate,
@@ -117,12 +118,12 @@ export async function gateSnapshotFor(
 			approvedFingerprint: episode.scriptApprovedFingerprint,
 			currentFingerprint: scriptFingerprint(segments)
 		},
-		segments: segments.map((segment) => ({
+		segments: segments.map((segment, index) => ({
 			id: segment.id,
 			position: segment.position,
 			title: segment.title,
 			needsFootage: segment.needsFootage,
-			words: countSpokenWords(segment.body),
+			words: words[index],
 			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
 			shots: shots
 				.filter((shot) => shot.segmentId === segment.id)

@@ -11,7 +11,7 @@ import type { WorkItem } from './worklist';
 import { gateSnapshotFor } from '../episodes/stage-moves';
 import { gateChecksFor } from '$lib/gates';
 import { counted } from '$lib/plural';
-import { countSpokenWords } from '$lib/script/timing';
+import { spokenWordsEach } from '../episodes/script-reader';
 import { nextStage, STAGE_LABELS } from '$lib/stages';
 
 async function episodesFor(
@@ -79,7 +79,9 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 			.select('segmentScript.body')
 			.where('segment.episodeId', '=', episode.id)
 			.execute();
-		const written = scripts.filter((script) => countSpokenWords(script.body) > 0).length;
+		const written = (await spokenWordsEach(scripts.map((script) => script.body))).filter(
+			(words) => words > 0
+		).length;
 		if (scripts.length === 0)
 			items.push({
 				title: `Rundown to plan: ${episode.title}`,

@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { rundownFor } from '$lib/server/episodes/segments';
 import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/script-reviews';
-import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
+import { scriptHtml } from '$lib/server/episodes/script-reader';
 import { scriptReviewSchema } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/http/forms';
 import { attemptAction, found, text } from '$lib/server/http/episode-forms';
@@ -18,13 +18,13 @@ export const load = (async (event) => {
 			reviewsFor(channel.id, event.params.id)
 		])
 	);
+	const html = await Promise.all(
+		rundown.segments.map((segment) => scriptHtml(segment.script.body))
+	);
 	return {
 		rundown: {
 			...rundown,
-			segments: rundown.segments.map((segment) => ({
-				...segment,
-				html: renderScriptMarkdown(segment.script.body)
-			}))
+			segments: rundown.segments.map((segment, index) => ({ ...segment, html: html[index] }))
 		},
 		state,
 		reviews,

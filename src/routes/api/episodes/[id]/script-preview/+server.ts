@@ -3,23 +3,27 @@ import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { episodeInChannel, hostPaceFor } from '$lib/server/episodes/episodes';
 import { db } from '$lib/server/db';
-import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
-import { countSpokenWords, estimateSpokenSeconds } from '$lib/script/timing';
+import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
+import { estimateSpokenSeconds } from '$lib/script/timing';
 import { scriptPreviewSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 
 /**
  * The live preview: `{ markdown }` → sanitised HTML (marked, then sanitize-html), spoken words and
  * seconds at the episode host's pace. The browser cannot sanitise, so the editor posts here, debounced.
+ * Both reads run in the script-reader workers, each within its time limit.
  */
 export const POST: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const { markdown } = await readJson(event, scriptPreviewSchema);
 	const episode = await episodeInChannel(db, channel.id, event.params.id);
-	const pace = await hostPaceFor(channel.id, episode.id);
-	const words = countSpokenWords(markdown);
+	const [pace, html, words] = await Promise.all([
+		hostPaceFor(channel.id, episode.id),
+		scriptHtml(markdown),
+		spokenWords(markdown)
+	]);
 	return json({
-		html: renderScriptMarkdown(markdown),
+		html,
 		words,
 		spokenSeconds: estimateSpokenSeconds(words, pace.wordsPerMinute),
 		wordsPerMinute: pace.wordsPerMinute

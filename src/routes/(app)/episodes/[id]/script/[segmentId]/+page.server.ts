@@ -1,9 +1,9 @@
 import { error, fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/episodes/segments';
-import { renderScriptMarkdown } from '$lib/server/episodes/markdown';
+import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/episodes/script-reviews';
-import { scriptSaveSchema } from '$lib/schemas/episodes';
+import { SCRIPT_CHARACTER_LIMIT, scriptSaveSchema } from '$lib/schemas/episodes';
 import { parseForm } from '$lib/server/http/forms';
 import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import type { Actions, PageServerLoad } from './$types';
@@ -15,8 +15,12 @@ export const load = (async (event) => {
 	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
 	if (index === -1) error(404, 'That segment is not in this episode.');
 	const segment = rundown.segments[index];
+	const [reviews, previewHtml] = await Promise.all([
+		reviewsFor(channel.id, event.params.id),
+		scriptHtml(segment.script.body)
+	]);
 	// The producer's comments on this segment, so the host reads them where they write.
-	const comments = (await reviewsFor(channel.id, event.params.id)).filter(
+	const comments = reviews.filter(
 		(review) => review.segmentId === segment.id && review.body.trim()
 	);
 	return {
@@ -32,7 +36,7 @@ export const load = (async (event) => {
 			? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title }
 			: null,
 		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
-		previewHtml: renderScriptMarkdown(segment.script.body),
+		previewHtml,
 		canWrite: hasRole(event.locals, 'producer', 'host')
 	};
 }) satisfies PageServerLoad;
@@ -50,12 +54,21 @@ export const actions = {
 			body: text(form, 'body').replace(/\r\n?/g, '\n'),
 			version: text(form, 'version')
 		};
+		// Without JavaScript a refused save shows the typed text again, with its own word count.
+		const typed = async () => ({
+			...values,
+			words: values.body.length > SCRIPT_CHARACTER_LIMIT ? 0 : await spokenWords(values.body)
+		});
 		const parsed = parseForm(scriptSaveSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
+		if (!parsed.ok)
+			return fail(400, { action: 'save', errors: parsed.errors, values: await typed() });
 		const result = await attemptAction('save', values, () =>
 			saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data)
 		);
-		if (!result.ok) return result.failure;
+		if (!result.ok) {
+			result.failure.data.values = await typed();
+			return result.failure;
+		}
 		return { action: 'save', saved: result.value };
 	}
 } satisfies Actions;

@@ -1,0 +1,357 @@
+/**
+ * Reads scripts (Markdown → sanitised HTML, Markdown → spoken words) in a small pool of worker
+ * threads, each read stopped after SCRIPT_READ_LIMIT_MS.
+ *
+ * Why: `marked`'s lexer is quadratic on some inputs well inside the script limit (100,000
+ * characters of `_a_a…` hold a thread for half a minute; `> > > …` overflows its stack), and even an
+ * ordinary script at the limit takes around 100 ms per read. On the main thread that froze every
+ * user. Here the main thread only posts the text and waits; a read that runs over the limit is
+ * answered with a plain fallback (the text escaped as paragraphs, or the rough word count from
+ * `$lib/script/timing`), its worker is ended and a fresh one started. Texts that ran over are
+ * remembered (by hash) so reopening the same rundown does not pay the limit again.
+ *
+ * Everything on the server that reads a script's Markdown goes through here; ESLint refuses
+ * `countSpokenWords` and `$lib/server/markdown` anywhere else in `src/`.
+ */
+import { createHash } from 'node:crypto';
+import { availableParallelism } from 'node:os';
+import { Worker, type WorkerOptions } from 'node:worker_threads';
+import { SCRIPT_READ_LIMIT_MS, roughSpokenWords } from '$lib/script/timing';
+// Types only: the worker module itself is loaded by import() so that it stays a chunk of its own
+// in the build, which is what each worker runs.
+import type {
+	ScriptJob,
+	ScriptJobKind,
+	ScriptReaderMessage
+} from '$lib/server/episodes/script-reader-worker';
+
+export { SCRIPT_READ_LIMIT_MS };
+
+/**
+ * How many reads run at once: two at least, so a preview's HTML and word count run side by side
+ * (each within the limit), and at most four; the main thread keeps a core of its own where there
+ * are more. One more reader is kept started and idle: when reads run over and their workers are
+ * replaced (a start takes about 0.3 s, more on a busy machine), the spare takes the next read at
+ * once instead of it waiting for a start.
+ */
+export const SCRIPT_READER_COUNT = Math.max(2, Math.min(4, availableParallelism() - 1));
+const READERS_KEPT = SCRIPT_READER_COUNT + 1;
+
+/** How many texts' word counts (and which texts ran over the limit) are remembered. */
+const REMEMBERED_TEXTS = 2000;
+
+/**
+ * How long a fallback answer is remembered for its text: reopening a rundown with a hostile script
+ * then costs nothing, while a text that ran over only because the machine was busy is tried again
+ * a minute later.
+ */
+const FALLBACK_MEMORY_MS = 60_000;
+
+/** A reader not ready by then is ended and counts as a failed start (its module hangs, say). */
+const START_LIMIT_MS = 30_000;
+
+/** A worker that fails to start this many times in a row means something is broken: answer with fallbacks for a while. */
+const START_FAILURES_BEFORE_PAUSE = 3;
+const PAUSE_AFTER_START_FAILURES_MS = 10_000;
+
+/** Plenty for a 100,000-character script; a read that needs more is ended like a slow one. */
+const READER_HEAP_MB = 256;
+
+/** Shown above a script whose Markdown could not be read in time, so nobody wonders where the formatting went. */
+export const PLAIN_SCRIPT_NOTICE =
+	'<p><strong>Shown as plain text.</strong> The formatting of this script took too long to work out, so it is shown exactly as typed. Long runs of *, _, [, ` or &gt; usually cause this: break them up.</p>\n';
+
+/** The fallback page for a script: every character kept, escaped, blank lines as paragraph breaks and single newlines as line breaks. */
+export function plainScriptHtml(markdown: string): string {
+	const escaped = markdown
+		.replace(/\r\n?/g, '\n')
+		.replace(/&/g, '&amp;')
+		.replace(/</g, '&lt;')
+		.replace(/>/g, '&gt;')
+		.replace(/"/g, '&quot;')
+		.replace(/'/g, '&#39;');
+	const paragraphs = escaped
+		.split(/\n[ \t]*\n/)
+		.filter((paragraph) => paragraph.trim() !== '')
+		.map((paragraph) => `<p>${paragraph.split('\n').join('<br />\n')}</p>\n`);
+	return PLAIN_SCRIPT_NOTICE + paragraphs.join('');
+}
+
+/** How one read ended: its answer, or why there is none. */
+type Outcome =
+	| { type: 'done'; html?: string; words?: number }
+	/** The reader threw (say, a stack overflow on `> > > …`): the same text always will. */
+	| { type: 'failed' }
+	/** It ran over SCRIPT_READ_LIMIT_MS. */
+	| { type: 'over-limit' }
+	/** No reader could take it (crashed, or readers failing to start). */
+	| { type: 'unavailable' };
+
+interface Job {
+	kind: ScriptJobKind;
+	markdown: string;
+	settle(outcome: Outcome): void;
+}
+
+interface Reader {
+	worker: Worker | null;
+	ready: boolean;
+	startTimer?: ReturnType<typeof setTimeout>;
+	running: { id: number; job: Job; timer: ReturnType<typeof setTimeout> } | null;
+}
+
+/** A small least-recently-used memory; an entry may carry an expiry time. */
+class Remembered<T> {
+	#entries = new Map<string, { value: T; until: number }>();
+	get(key: string): T | undefined {
+		const entry = this.#entries.get(key);
+		if (!entry) return undefined;
+		this.#entries.delete(key);
+		if (entry.until < Date.now()) return undefined;
+		this.#entries.set(key, entry);
+		return entry.value;
+	}
+	set(key: string, value: T, forMilliseconds = Number.POSITIVE_INFINITY): void {
+		this.#entries.delete(key);
+		this.#entries.set(key, { value, until: Date.now() + forMilliseconds });
+		if (this.#entries.size > REMEMBERED_TEXTS) {
+			this.#entries.delete(this.#entries.keys().next().value as string);
+		}
+	}
+}
+
+class ScriptReaderPool {
+	#readers = new Set<Reader>();
+	#queue: Job[] = [];
+	#nextId = 1;
+	#startFailures = 0;
+	#pausedUntil = 0;
+	#workerModule: Promise<{ url: string; role: string }> | null = null;
+	#readyWaiters: (() => void)[] = [];
+	/** Word counts by text: exact ones for good, rough ones until FALLBACK_MEMORY_MS has passed. */
+	#words = new Remembered<number>();
+	/** Texts whose HTML could not be made in time (or at all), for FALLBACK_MEMORY_MS. */
+	#plainOnly = new Remembered<true>();
+
+	/** Starts the readers (if they are not running) and resolves once all of them can take work. */
+	ready(): Promise<void> {
+		this.#fill();
+		if (this.#allReady()) return Promise.resolve();
+		return new Promise((resolve) => {
+			this.#readyWaiters.push(resolve);
+			this.#holdProcess();
+		});
+	}
+
+	#allReady(): boolean {
+		return this.#paused() || [...this.#readers].every((reader) => reader.ready);
+	}
+
+	async html(markdown: string): Promise<string> {
+		if (markdown === '') return '';
+		const key = digest(markdown);
+		if (this.#plainOnly.get(key)) return plainScriptHtml(markdown);
+		const outcome = await this.#read('html', markdown);
+		if (outcome.type === 'done' && typeof outcome.html === 'string') return outcome.html;
+		if (outcome.type !== 'unavailable') this.#plainOnly.set(key, true, FALLBACK_MEMORY_MS);
+		return plainScriptHtml(markdown);
+	}
+
+	async words(markdown: string): Promise<number> {
+		if (markdown.trim() === '') return 0;
+		const key = digest(markdown);
+		const known = this.#words.get(key);
+		if (known !== undefined) return known;
+		const outcome = await this.#read('words', markdown);
+		if (outcome.type === 'done' && typeof outcome.words === 'number') {
+			this.#words.set(key, outcome.words);
+			return outcome.words;
+		}
+		const rough = roughSpokenWords(markdown);
+		if (outcome.type !== 'unavailable') this.#words.set(key, rough, FALLBACK_MEMORY_MS);
+		return rough;
+	}
+
+	#read(kind: ScriptJobKind, markdown: string): Promise<Outcome> {
+		if (this.#paused()) return Promise.resolve({ type: 'unavailable' });
+		return new Promise((settle) => {
+			this.#queue.push({ kind, markdown, settle });
+			this.#fill();
+			this.#pump();
+		});
+	}
+
+	#paused(): boolean {
+		return Date.now() < this.#pausedUntil;
+	}
+
+	/** Keeps READERS_KEPT readers alive (started or starting). */
+	#fill(): void {
+		if (this.#paused()) return;
+		while (this.#readers.size < READERS_KEPT) this.#start();
+	}
+
+	#start(): void {
+		this.#workerModule ??= import('$lib/server/episodes/script-reader-worker').then((module) => ({
+			url: module.scriptReaderWorkerUrl,
+			role: module.SCRIPT_READER_ROLE
+		}));
+		const reader: Reader = { worker: null, ready: false, running: null };
+		this.#readers.add(reader);
+		this.#workerModule.then(
+			(module) => this.#spawn(reader, module),
+			(failure) => {
+				this.#workerModule = null;
+				this.#lost(reader, failure);
+			}
+		);
+	}
+
+	#spawn(reader: Reader, { url, role }: { url: string; role: string }): void {
+		if (!this.#readers.has(reader)) return;
+		const worker = startWorker(url, {
+			workerData: { role },
+			resourceLimits: { maxOldGenerationSizeMb: READER_HEAP_MB }
+		});
+		reader.worker = worker;
+		reader.startTimer = setTimeout(() => void worker.terminate(), START_LIMIT_MS);
+		reader.startTimer.unref();
+		worker.on('message', (message: ScriptReaderMessage) => this.#heard(reader, message));
+		worker.on('error', (failure) => this.#lost(reader, failure));
+		worker.on('exit', (code) => this.#lost(reader, `exit code ${code}`));
+		this.#holdProcess();
+	}
+
+	#heard(reader: Reader, message: ScriptReaderMessage): void {
+		if (message.type === 'ready') {
+			clearTimeout(reader.startTimer);
+			reader.ready = true;
+			this.#startFailures = 0;
+			if (this.#allReady()) for (const resolve of this.#readyWaiters.splice(0)) resolve();
+			this.#pump();
+			return;
+		}
+		const running = reader.running;
+		if (!running || running.id !== message.id) return;
+		clearTimeout(running.timer);
+		reader.running = null;
+		running.job.settle(
+			message.type === 'done'
+				? { type: 'done', html: message.html, words: message.words }
+				: { type: 'failed' }
+		);
+		this.#pump();
+	}
+
+	/** A reader stopped by itself: a crash (out of memory, say), or it never started. */
+	#lost(reader: Reader, failure: unknown): void {
+		clearTimeout(reader.startTimer);
+		if (!this.#readers.delete(reader)) return;
+		if (reader.running) {
+			clearTimeout(reader.running.timer);
+			// Dying on a text (out of memory) says as much about the text as a thrown error.
+			reader.running.job.settle({ type: 'failed' });
+			reader.running = null;
+		}
+		console.error('A script reader stopped:', failure);
+		if (!reader.ready) this.#startFailures += 1;
+		if (this.#startFailures >= START_FAILURES_BEFORE_PAUSE) {
+			this.#startFailures = 0;
+			this.#pausedUntil = Date.now() + PAUSE_AFTER_START_FAILURES_MS;
+			console.error(
+				`Script readers failed to start ${START_FAILURES_BEFORE_PAUSE} times in a row; scripts are shown as plain text for ${PAUSE_AFTER_START_FAILURES_MS / 1000} s.`
+			);
+			for (const job of this.#queue.splice(0)) job.settle({ type: 'unavailable' });
+			for (const resolve of this.#readyWaiters.splice(0)) resolve();
+			this.#holdProcess();
+			return;
+		}
+		this.#fill();
+		this.#pump();
+	}
+
+	/**
+	 * Readers keep the process alive only while there is work for them or someone waits for them to
+	 * start, so a script that reads one text exits when done, and so does a server shutting down.
+	 * (Called after the listeners are added: adding a 'message' listener refs a worker again.)
+	 */
+	#holdProcess(): void {
+		const wanted =
+			this.#queue.length > 0 ||
+			this.#readyWaiters.length > 0 ||
+			[...this.#readers].some((reader) => reader.running);
+		for (const reader of this.#readers) {
+			if (wanted) reader.worker?.ref();
+			else reader.worker?.unref();
+		}
+	}
+
+	#pump(): void {
+		let running = [...this.#readers].filter((reader) => reader.running).length;
+		for (const reader of this.#readers) {
+			if (this.#queue.length === 0 || running >= SCRIPT_READER_COUNT) break;
+			if (!reader.ready || reader.running || !reader.worker) continue;
+			running += 1;
+			const job = this.#queue.shift()!;
+			const id = this.#nextId++;
+			// The limit runs from the moment a started reader has the text, not while it waits in line.
+			const timer = setTimeout(() => this.#overrun(reader), SCRIPT_READ_LIMIT_MS);
+			reader.running = { id, job, timer };
+			reader.worker.postMessage({ id, kind: job.kind, markdown: job.markdown } satisfies ScriptJob);
+		}
+		this.#holdProcess();
+	}
+
+	/** A read ran over the limit: answer with the fallback now, end its worker, start another. */
+	#overrun(reader: Reader): void {
+		const running = reader.running;
+		if (!running || !this.#readers.delete(reader)) return;
+		reader.running = null;
+		console.warn(
+			`A script read (${running.job.kind}, ${running.job.markdown.length.toLocaleString('en')} characters) ran over ${SCRIPT_READ_LIMIT_MS} ms: answered with the fallback.`
+		);
+		running.job.settle({ type: 'over-limit' });
+		// Ending the worker is the only way to stop a regular expression mid-run; its exit is then ignored.
+		void reader.worker?.terminate();
+		this.#fill();
+		this.#pump();
+	}
+}
+
+/**
+ * Starts a reader's worker. A build's chunk is plain JavaScript; the source (in tests and
+ * `vite dev`) is TypeScript, so there a one-line script registers tsx's loader in the worker first
+ * (tsx is a devDependency, found from the working directory; this branch never runs in a build).
+ */
+function startWorker(url: string, options: WorkerOptions): Worker {
+	if (!url.endsWith('.ts')) return new Worker(new URL(url), options);
+	const boot = `import('tsx/esm/api').then(({ register }) => { register(); return import(${JSON.stringify(url)}); });`;
+	return new Worker(boot, { ...options, eval: true });
+}
+
+function digest(text: string): string {
+	return createHash('sha256').update(text).digest('base64');
+}
+
+let pool: ScriptReaderPool | null = null;
+const thePool = () => (pool ??= new ScriptReaderPool());
+
+/** Starts the readers ahead of the first request; resolves once all of them are ready. */
+export function startScriptReaders(): Promise<void> {
+	return thePool().ready();
+}
+
+/** A script's Markdown as sanitised HTML, or the escaped plain text with a notice when it cannot be read within the limit. */
+export function scriptHtml(markdown: string): Promise<string> {
+	return thePool().html(markdown);
+}
+
+/** The spoken words of a script (rules in `$lib/script/timing`), or the rough count when it cannot be read within the limit. */
+export function spokenWords(markdown: string): Promise<number> {
+	return thePool().words(markdown);
+}
+
+/** Spoken words of several scripts, in order. */
+export function spokenWordsEach(markdowns: readonly string[]): Promise<number[]> {
+	return Promise.all(markdowns.map((markdown) => thePool().words(markdown)));
+}
