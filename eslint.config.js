@@ -58,7 +58,7 @@ export default ts.config(
 		// editor's live-word-count.ts in the browser (DEVELOPERS.md, "Script Markdown").
 		files: ['src/**/*.ts', 'src/**/*.svelte'],
 		ignores: [
-			'src/lib/server/markdown.ts',
+			'src/lib/server/episodes/markdown.ts',
 			'src/lib/script/timing.ts',
 			'src/lib/server/episodes/script-reader-worker.ts',
 			'src/**/spoken-words.worker.ts'
@@ -73,7 +73,7 @@ export default ts.config(
 							message: 'Read script Markdown through $lib/server/episodes/script-reader.'
 						},
 						{
-							name: '$lib/server/markdown',
+							name: '$lib/server/episodes/markdown',
 							message:
 								'Use scriptHtml() from $lib/server/episodes/script-reader (a worker with a time limit).'
 						},

@@ -24,7 +24,10 @@ import {
 	spokenWords,
 	startScriptReaders
 } from '../../src/lib/server/episodes/script-reader.ts';
-import { MAX_SCRIPT_CHARACTERS, renderScriptMarkdown } from '../../src/lib/server/markdown.ts';
+import {
+	MAX_SCRIPT_CHARACTERS,
+	renderScriptMarkdown
+} from '../../src/lib/server/episodes/markdown.ts';
 import { countSpokenWords, roughSpokenWords } from '../../src/lib/script/timing.ts';
 
 const READ_BOUND_MS = 1_000;

@@ -6,7 +6,7 @@
  * exports its own address and serves jobs only when it is running as a script reader.
  */
 import { isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { renderScriptMarkdown } from '$lib/server/markdown';
+import { renderScriptMarkdown } from './markdown';
 import { countSpokenWords } from '$lib/script/timing';
 
 /** Where this module's code is: the `.ts` source in tests and `vite dev`, a built chunk in production. */

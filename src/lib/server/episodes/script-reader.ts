@@ -11,7 +11,7 @@
  * remembered (by hash) so reopening the same rundown does not pay the limit again.
  *
  * Everything on the server that reads a script's Markdown goes through here; ESLint refuses
- * `countSpokenWords` and `$lib/server/markdown` anywhere else in `src/`.
+ * `countSpokenWords` and `$lib/server/episodes/markdown` anywhere else in `src/`.
  */
 import { createHash } from 'node:crypto';
 import { availableParallelism } from 'node:os';
