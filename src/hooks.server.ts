@@ -134,8 +134,20 @@ const PUBLIC_PATHS = [
 ];
 
 /** Everything but the public pages needs a signed-in crew member; roles are checked again in each route. */
+/** The first `?/name` of a page action request, as SvelteKit reads it. */
+const actionName = (url: URL) =>
+	[...url.searchParams.keys()].find((key) => key.startsWith('/'))?.slice(1);
+
 const guardHandle: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
+	// SvelteKit throws a plain Error (a 500) for the reserved action name; it is input, so a 404.
+	if (event.request.method === 'POST' && actionName(event.url) === 'default') {
+		const message = 'There is no such form action on this page.';
+		// use:enhance reads { type: 'error', error } (SvelteKit's action answer); a plain post, JSON.
+		return event.request.headers.get('x-sveltekit-action') === 'true'
+			? json({ type: 'error', error: { message } }, { status: 404 })
+			: json({ error: message }, { status: 404 });
+	}
 	if (PUBLIC_PATHS.some((pattern) => pattern.test(path))) return resolve(event);
 	if (!event.locals.person && !event.locals.databaseDown) {
 		if (path.startsWith('/api/'))
