@@ -4,7 +4,10 @@
  * positive decimal with up to three places, or null.
  */
 import { describe, expect, test } from 'vitest';
-import { frameRateLabel } from '$lib/server/footage/probe';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { frameRateLabel, probeMedia } from '$lib/server/footage/probe';
 
 /** The pattern of the footage_frame_rate_measured check, copied from the migration. */
 const MEASURED_RATE = /^[0-9]+(\.[0-9]{1,3})?$/;
@@ -36,4 +39,27 @@ describe('frameRateLabel', () => {
 		for (const ratio of ['24000/1001', '30000/1001', '50/1', '120/1', '1/3', '2147483647/1'])
 			expect(frameRateLabel(ratio)).toMatch(MEASURED_RATE);
 	});
+});
+
+describe('probeMedia on a file ffprobe opens but that holds no picture or sound', () => {
+	// Found when 50 MB of random bytes sometimes passed ffprobe as some container with no usable
+	// stream: duration stayed empty and no note said why. A WebVTT file (W3C WebVTT, via
+	// REFERENCES.md) is a deterministic stand-in: ffprobe reads it as one subtitle stream.
+	test.skipIf(!existsSync('/usr/bin/ffprobe'))(
+		'leaves the fields empty and says why in the note',
+		async () => {
+			const dir = mkdtempSync(path.join(tmpdir(), 'probe-'));
+			const file = path.join(dir, 'captions.vtt');
+			writeFileSync(file, 'WEBVTT\n\n00:00.000 --> 00:01.000\nLower the jack slowly.\n');
+			try {
+				const probe = await probeMedia(file);
+				expect(probe.durationSeconds).toBeNull();
+				expect(probe.frameRate).toBeNull();
+				expect(probe.videoCodec).toBeNull();
+				expect(probe.note).toMatch(/ffprobe found no video or audio/);
+			} finally {
+				rmSync(dir, { recursive: true, force: true });
+			}
+		}
+	);
 });

@@ -43,6 +43,14 @@ export async function probeMedia(file: string): Promise<ProbeResult> {
 		};
 		const video = info.streams?.find((s) => s.codec_type === 'video');
 		const audio = info.streams?.find((s) => s.codec_type === 'audio');
+		if (!video && !audio) {
+			return {
+				durationSeconds: null,
+				frameRate: null,
+				videoCodec: null,
+				note: 'ffprobe found no video or audio in this file, so duration, frame rate and codec are empty.'
+			};
+		}
 		const duration = Number(info.format?.duration ?? video?.duration ?? audio?.duration);
 		return {
 			durationSeconds: Number.isFinite(duration) ? duration : null,
@@ -54,7 +62,7 @@ export async function probeMedia(file: string): Promise<ProbeResult> {
 					)
 				: null,
 			videoCodec: video?.codec_name ?? audio?.codec_name ?? null,
-			note: null
+			note: Number.isFinite(duration) ? null : 'ffprobe found no duration in this file.'
 		};
 	} catch (failure) {
 		return {
