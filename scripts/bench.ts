@@ -4,8 +4,9 @@
  *
  * It starts its own throwaway PostgreSQL (with pg_stat_statements, to count queries), runs the real
  * migrate and seed scripts, starts the built server (WRENCHROLL_BUILD_DIR or build/) on loopback,
- * signs in as the demo producer and runs every bench in BENCHES. Add a bench by writing a
- * function that takes the BenchContext and returns BenchResult, and listing it in BENCHES.
+ * signs in as the demo producer and runs every bench in BENCHES (or only those named on the command
+ * line: `tsx scripts/bench.ts "script reading"`). Add a bench by writing a function that takes the
+ * BenchContext and returns BenchResult, and listing it in BENCHES.
  */
 import path from 'node:path';
 import { projectRoot } from './lib/config.ts';
@@ -15,6 +16,8 @@ import {
 	type BenchSession as Session
 } from './lib/bench-world.ts';
 import { secondsToFrames } from '../src/lib/timecode.ts';
+import { renderScriptMarkdown } from '../src/lib/server/episodes/markdown.ts';
+import { countSpokenWords } from '../src/lib/script/timing.ts';
 
 // ---------------------------------------------------------------- the framework
 
@@ -181,7 +184,177 @@ const chapterExportBench: Bench = {
 	}
 };
 
-const BENCHES: Bench[] = [chapterExportBench];
+// ---------------------------------------------------------------- script reading
+
+const SCRIPT_READ_TARGET_MS = 200;
+const HEALTH_TARGET_MS = 100;
+const ORDINARY_PREVIEWS = 40;
+const HOSTILE_PREVIEWS = 5;
+const SETTLE_MS = 3_000;
+
+/** Script Markdown of the kind the editor offers (headings, emphasis, links, lists, a table, a direction), cut to a length. */
+function ordinaryScript(characters: number): string {
+	const block = [
+		'## Rear shocks',
+		'',
+		'**Loosen** the upper mount first, then the _lower_ bolt. Torque to 95 ft-lbs with the `WX-2210` socket and check [the kit](https://parts.example/kit "Lift kit"). [[B-roll: wrench close-up]]',
+		'',
+		'- chock the wheels',
+		'- stands under the frame rails',
+		'',
+		'| Part | Torque |',
+		'|:--|--:|',
+		'| lug nut | 95 ft-lbs |',
+		'',
+		'> Say it slowly: never work under a vehicle held only by a jack.',
+		'',
+		''
+	].join('\n');
+	return block.repeat(Math.ceil(characters / block.length)).slice(0, characters);
+}
+
+/** The same text with its last characters replaced by a number, so the server cannot answer from memory. */
+const variant = (markdown: string, index: number) =>
+	markdown.slice(0, -8) + String(index).padStart(8, '0');
+
+/** Keeps asking /healthz, one request after another, until `work` settles; each answer's time. */
+async function healthWhile(baseUrl: string, work: Promise<unknown>): Promise<number[]> {
+	let settled = false;
+	const done = () => (settled = true);
+	void work.then(done, done);
+	const times: number[] = [];
+	do {
+		const started = performance.now();
+		await (await fetch(`${baseUrl}/healthz`)).text();
+		times.push(performance.now() - started);
+	} while (!settled);
+	return times;
+}
+
+/**
+ * The live preview (POST /api/episodes/[id]/script-preview: HTML and word count, each read in a
+ * script-reader worker with a time limit) for an ordinary 10-minute script, an ordinary script at
+ * the 100,000-character limit, and 100,000 characters of `_a_a…` (on which marked is quadratic),
+ * while /healthz is asked over and over. The bare baseline is the same render and count called
+ * directly in this process, with no HTTP and no worker: what every preview cost the server's one
+ * thread before.
+ */
+const scriptReadingBench: Bench = {
+	name: 'script reading',
+	async run(context) {
+		const [episode] = await context.sql<{ id: string }>(
+			`SELECT episode.id FROM episode JOIN channel ON channel.id = episode.channel_id
+			 WHERE channel.name = 'Torquehaven Garage' ORDER BY episode.created_at LIMIT 1`
+		);
+		const session = await context.signIn('dana@torquehaven.test');
+		const previewPath = `/api/episodes/${episode.id}/script-preview`;
+		const hostile = '_a'.repeat(50_000);
+		// `apart`: each preview waits SETTLE_MS after the last, so readers replaced after an overrun
+		// have started (one preview on a settled server); otherwise they follow back to back.
+		const cases = [
+			{
+				label: 'ordinary, 9,000 characters',
+				markdown: ordinaryScript(9_000),
+				requests: ORDINARY_PREVIEWS,
+				apart: false
+			},
+			{
+				label: 'ordinary, 30,000 characters',
+				markdown: ordinaryScript(30_000),
+				requests: ORDINARY_PREVIEWS,
+				apart: false
+			},
+			{
+				label: 'ordinary, 100,000 characters, apart',
+				markdown: ordinaryScript(100_000),
+				requests: HOSTILE_PREVIEWS,
+				apart: true
+			},
+			{
+				label: 'hostile _a_a…, 100,000 characters, apart',
+				markdown: hostile,
+				requests: HOSTILE_PREVIEWS,
+				apart: true
+			},
+			{
+				label: 'hostile _a_a…, 100,000 characters, back to back',
+				markdown: hostile,
+				requests: HOSTILE_PREVIEWS,
+				apart: false
+			}
+		];
+		const measured: {
+			label: string;
+			markdown: string;
+			preview: number[];
+			health: number[];
+			plain: number;
+		}[] = [];
+		let variantNumber = 0;
+		for (const { label, markdown, requests, apart } of cases) {
+			const row = { label, markdown, preview: [] as number[], health: [] as number[], plain: 0 };
+			for (let index = 0; index < requests; index++) {
+				if (apart) await new Promise((resolve) => setTimeout(resolve, SETTLE_MS));
+				const answer = session.post(previewPath, { markdown: variant(markdown, variantNumber++) });
+				row.health.push(...(await healthWhile(context.baseUrl, answer)));
+				const { status, body, wallMilliseconds } = await answer;
+				if (status !== 200)
+					throw new Error(`the preview answered ${status}: ${body.slice(0, 300)}`);
+				if (
+					(JSON.parse(body) as { html: string }).html.startsWith('<p><strong>Shown as plain text.')
+				)
+					row.plain += 1;
+				row.preview.push(wallMilliseconds);
+			}
+			measured.push(row);
+		}
+		// The bare baseline, in this process, after all requests (it blocks this process, a minute for
+		// the hostile text): ten runs of each ordinary text, one of the hostile one.
+		const bareTimes = new Map<string, number[]>();
+		for (const { markdown } of cases) {
+			if (bareTimes.has(markdown)) continue;
+			const bare: number[] = [];
+			for (let run = 0; run < (markdown === hostile ? 1 : 10); run++) {
+				const started = performance.now();
+				renderScriptMarkdown(variant(markdown, run));
+				countSpokenWords(variant(markdown, run));
+				bare.push(performance.now() - started);
+			}
+			bareTimes.set(markdown, bare);
+		}
+		const rows: BenchRow[] = measured.map(({ label, markdown, preview, health, plain }) => {
+			const ok =
+				percentile(preview, 0.95) < SCRIPT_READ_TARGET_MS && Math.max(...health) < HEALTH_TARGET_MS;
+			return {
+				label,
+				ok,
+				cells: {
+					requests: String(preview.length),
+					'preview median': ms(percentile(preview, 0.5)),
+					'preview p95': ms(percentile(preview, 0.95)),
+					'/healthz max': ms(Math.max(...health)),
+					'bare median': ms(percentile(bareTimes.get(markdown)!, 0.5)),
+					'shown as plain': `${plain} of ${preview.length}`,
+					target: ok ? 'met' : 'MISSED'
+				}
+			};
+		});
+		return {
+			title:
+				'Script preview (HTML and word count) over loopback, every text different, /healthz asked throughout',
+			target: `preview p95 under ${SCRIPT_READ_TARGET_MS} ms and every /healthz under ${HEALTH_TARGET_MS} ms`,
+			rows,
+			notes: [
+				'"bare median" is renderScriptMarkdown + countSpokenWords called directly in this process (no HTTP, no worker): what each preview held the server\'s only thread for before the script readers.',
+				'A read that runs over the readers\' time limit answers with the text as plain paragraphs and a rough count ("shown as plain"); its worker is replaced, which takes about 0.3 s (more on a busy machine). One started spare takes the next read meanwhile; back to back, hostile previews wait for those starts ("back to back" row).',
+				`"apart" rows wait ${SETTLE_MS / 1000} s before each preview, so every preview meets started readers.`
+			],
+			ok: rows.every((row) => row.ok)
+		};
+	}
+};
+
+const BENCHES: Bench[] = [chapterExportBench, scriptReadingBench];
 
 // ---------------------------------------------------------------- printing
 
@@ -221,7 +394,10 @@ async function main() {
 		console.log(
 			`Wrenchroll benches on ${process.platform} ${process.arch}, Node ${process.version}, built server ${path.relative(projectRoot, buildDir).startsWith('..') ? buildDir : path.relative(projectRoot, buildDir)}`
 		);
-		for (const bench of BENCHES) {
+		const named = process.argv.slice(2);
+		const unknown = named.filter((name) => !BENCHES.some((bench) => bench.name === name));
+		if (unknown.length) throw new Error(`no bench named ${unknown.join(', ')}`);
+		for (const bench of BENCHES.filter((bench) => !named.length || named.includes(bench.name))) {
 			const result = await bench.run(context);
 			printResult(result);
 			ok &&= result.ok;

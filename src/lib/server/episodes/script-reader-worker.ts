@@ -3,11 +3,11 @@
  * `marked` does for the server happens here and never on the main thread: its lexer is quadratic
  * on some inputs (a script of `_a_a_a…` takes half a minute), and a worker is the one place such a
  * read can be stopped. The pool starts this very module as the worker's code, so the module
- * exports its own address and serves jobs only when it is running as a script reader.
+ * exports its own address and serves jobs only when it is running as a script reader. The pool
+ * imports it too (for that address), so the renderer and counter are imported only inside a
+ * worker: the main thread never loads sanitize-html.
  */
 import { isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { renderScriptMarkdown } from './markdown';
-import { countSpokenWords } from '$lib/script/timing';
 
 /** Where this module's code is: the `.ts` source in tests and `vite dev`, a built chunk in production. */
 export const scriptReaderWorkerUrl = import.meta.url;
@@ -28,7 +28,15 @@ export type ScriptReaderMessage =
 	| { type: 'done'; id: number; html?: string; words?: number }
 	| { type: 'failed'; id: number; reason: string };
 
-function answer(job: ScriptJob): ScriptReaderMessage {
+type Readers = {
+	renderScriptMarkdown(markdown: string): string;
+	countSpokenWords(markdown: string): number;
+};
+
+function answer(
+	{ renderScriptMarkdown, countSpokenWords }: Readers,
+	job: ScriptJob
+): ScriptReaderMessage {
 	try {
 		return job.kind === 'html'
 			? { type: 'done', id: job.id, html: renderScriptMarkdown(job.markdown) }
@@ -41,9 +49,9 @@ function answer(job: ScriptJob): ScriptReaderMessage {
 }
 
 /**
- * A short script using every construct the editor offers. Reading it a few times before saying
- * "ready" compiles marked's and sanitize-html's code paths, so a reader's first real script is not
- * slowed by that (a cold first read of two words takes longer than the time limit).
+ * A short script using every construct the editor offers. Reading it before saying "ready"
+ * compiles marked's and sanitize-html's code paths, so a reader's first real script is not slowed
+ * by that (a cold first read of two words takes longer than the time limit).
  */
 const WARM_UP_SCRIPT = [
 	'# Rear axle',
@@ -77,10 +85,22 @@ const WARM_UP_SCRIPT = [
 
 if (!isMainThread && parentPort && workerData?.role === SCRIPT_READER_ROLE) {
 	const port = parentPort;
+	const [{ renderScriptMarkdown }, { countSpokenWords }] = await Promise.all([
+		import('./markdown'),
+		import('$lib/script/timing')
+	]);
+	const readers: Readers = { renderScriptMarkdown, countSpokenWords };
 	for (let round = 0; round < 10; round++) {
 		renderScriptMarkdown(WARM_UP_SCRIPT);
 		countSpokenWords(WARM_UP_SCRIPT);
 	}
-	port.on('message', (job: ScriptJob) => port.postMessage(answer(job)));
+	// And a couple of longer reads: a fresh thread's first large script is otherwise two to three
+	// times slower than later ones (measured on 100,000 characters), which is over the limit.
+	for (let round = 0; round < 2; round++) {
+		const longer = `${WARM_UP_SCRIPT}\n\n`.repeat(25) + round;
+		renderScriptMarkdown(longer);
+		countSpokenWords(longer);
+	}
+	port.on('message', (job: ScriptJob) => port.postMessage(answer(readers, job)));
 	port.postMessage({ type: 'ready' } satisfies ScriptReaderMessage);
 }
