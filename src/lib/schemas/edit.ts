@@ -6,7 +6,7 @@
  */
 import { z } from 'zod';
 import { CHAPTER_FORMATS, type ChapterFormat } from '$lib/chapters';
-import { INT_MAX, MAX_FRAMES, text, versionNumber, wholeNumber } from './fields';
+import { INT_MAX, MAX_FRAMES, text, recordVersion, wholeNumber } from './fields';
 
 /** Longest title accepted at all; the chapter rules ask for 100 or fewer and say so per chapter. */
 export const CHAPTER_TITLE_HARD_LIMIT = 500;
@@ -41,8 +41,6 @@ const urlSchema = text('The link is a web address.')
 	.transform((text) => (text === '' ? null : text))
 	.nullable();
 
-const versionSchema = versionNumber('Send the version of the chapter you read.');
-
 export const cutUpdateSchema = z
 	.object({
 		duration: timeTextSchema,
@@ -74,7 +72,7 @@ export const chapterCreateSchema = z
 
 export const chapterUpdateSchema = z
 	.object({
-		version: versionSchema,
+		version: recordVersion,
 		start: timeTextSchema.optional(),
 		startFrame: startFrameSchema.optional(),
 		title: titleSchema.optional(),

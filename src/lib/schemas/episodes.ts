@@ -10,7 +10,7 @@ import { SUSPENSION_TYPES, LIFT_METHODS, MAX_LIFT_IN } from '$lib/specs/lift';
 import { parseTyreSize } from '$lib/specs/tyres';
 import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
-import { MAX_FRAMES, calendarDate, text, versionNumber, wholeNumber } from './fields';
+import { MAX_FRAMES, calendarDate, text, recordVersion, wholeNumber } from './fields';
 
 /**
  * One segment's script limit; the same number as MAX_SCRIPT_CHARACTERS in src/lib/server/episodes/markdown.ts
@@ -116,7 +116,7 @@ export type EpisodeCreate = z.infer<typeof episodeCreateSchema>;
 export const episodeUpdateSchema = z
 	.object({
 		...episodeFields,
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.partial({ title: true, targetRuntimeSeconds: true, frameRate: true })
 	.strict();
@@ -178,15 +178,13 @@ export const segmentUpdateSchema = z
 		})
 			.nullable()
 			.optional(),
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.partial({ kind: true, title: true, plannedSeconds: true })
 	.strict();
 export type SegmentUpdate = z.infer<typeof segmentUpdateSchema>;
 
-export const segmentDeleteSchema = z
-	.object({ version: versionNumber('The version is missing: reload the page.', { coerce: true }) })
-	.strict();
+export const segmentDeleteSchema = z.object({ version: recordVersion }).strict();
 
 export const reorderSchema = z
 	.object({
@@ -213,7 +211,7 @@ const scriptBody = text('Send the script as text.').max(
 export const scriptSaveSchema = z
 	.object({
 		body: scriptBody,
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.strict();
 export const scriptPreviewSchema = z.object({ markdown: scriptBody }).strict();
@@ -239,7 +237,7 @@ export const cautionUpdateSchema = z
 		})
 			.nullable()
 			.optional(),
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.strict();
 export type CautionUpdate = z.infer<typeof cautionUpdateSchema>;
@@ -340,7 +338,7 @@ export const buildSchema = z
 				}
 			}),
 		notes: text().trim().max(2000, 'Keep the notes under 2,000 characters.').default(''),
-		version: versionNumber('The version is missing: reload the page.', { coerce: true }).optional()
+		version: recordVersion.optional()
 	})
 	.strict();
 export type BuildInput = z.infer<typeof buildSchema>;

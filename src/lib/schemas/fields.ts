@@ -80,19 +80,20 @@ export function wholeNumber(rules: WholeNumberRules) {
 		.max(max, rules.tooBig ?? `That is more than ${max.toLocaleString('en')}: check the number.`);
 }
 
-/** The version of a record the person read (for the optimistic lock): a whole number from 1. */
-export function versionNumber(
-	error = 'The version is missing: reload the page.',
-	{ coerce = false }: { coerce?: boolean } = {}
-) {
-	return wholeNumber({
-		error,
-		coerce,
+/**
+ * The version of a record the person read, for the optimistic lock: a whole number from 1. The one
+ * version schema of every form and API body. A form sends it as text ("3"), JSON as a number; an
+ * empty, missing or non-number value is "missing" (no coercion of `true` or `null` into a number).
+ */
+export const recordVersion = z.preprocess(
+	(value) => (typeof value === 'string' && value.trim() !== '' ? Number(value) : value),
+	wholeNumber({
+		error: 'The version is missing. Reload the page and try again.',
 		min: 1,
-		tooSmall: error,
-		tooBig: 'That is not a version this record ever had: reload the page.'
-	});
-}
+		tooSmall: 'The version is missing. Reload the page and try again.',
+		tooBig: 'That is not a version this record ever had: reload the page and try again.'
+	})
+);
 
 const DAY_PATTERN = /^(\d{4})-(\d{2})-(\d{2})$/;
 const MONTHS = [
@@ -152,3 +153,6 @@ export function calendarDate(
 			if (problem) context.issues.push({ code: 'custom', message: problem, input: context.value });
 		});
 }
+
+/** A form or body that carries only the version it read (a removal, an approval). */
+export const versionOnlySchema = z.object({ version: recordVersion });

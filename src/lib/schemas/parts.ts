@@ -10,7 +10,7 @@ import {
 	normaliseNewlines,
 	text,
 	textProblem,
-	versionNumber,
+	recordVersion,
 	wholeNumber
 } from './fields';
 
@@ -203,7 +203,7 @@ export const partCreateSchema = z
 
 export const partUpdateSchema = z
 	.object({
-		version: versionNumber('Send the version of the part you read.'),
+		version: recordVersion,
 		sku: partFields.sku.optional(),
 		name: partFields.name.optional(),
 		category: partFields.category.optional(),
@@ -364,7 +364,7 @@ export const noteCreateSchema = z
 
 export const noteUpdateSchema = noteCreateSchema
 	.extend({
-		version: versionNumber('Send the version of the note you read.'),
+		version: recordVersion,
 		text: noteText.optional()
 	})
 	.strict();

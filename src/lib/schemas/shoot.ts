@@ -1,6 +1,6 @@
 /** Shapes of shoot-day input: shared by the forms, the API and the client. */
 import { z } from 'zod';
-import { calendarDate, text, versionNumber, wholeNumber } from './fields';
+import { calendarDate, text, recordVersion, wholeNumber } from './fields';
 
 const time = z
 	.string({ error: 'Use a 24-hour time like 07:30.' })
@@ -70,7 +70,7 @@ export const shootDayUpdateSchema = z
 		callTime: time,
 		wrapTime: time,
 		notes: text().trim().max(2000, 'Keep the notes under 2,000 characters.'),
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.refine((d) => d.wrapTime > d.callTime, {
 		path: ['wrapTime'],
@@ -137,7 +137,7 @@ export const pullItemSchema = z
 
 export const onHandSchema = z.object({
 	onHand: z.boolean({ error: 'onHand is true or false.' }),
-	version: versionNumber('The version is missing: reload the page.', { coerce: true })
+	version: recordVersion
 });
 
 export const profileSchema = z.object({

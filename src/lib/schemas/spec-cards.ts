@@ -15,7 +15,7 @@ import {
 	type SpecCardInput,
 	type SpecCardKind
 } from '../specs';
-import { MAX_FRAMES, text, versionNumber, wholeNumber } from './fields';
+import { MAX_FRAMES, text, recordVersion, wholeNumber } from './fields';
 
 export const SPEC_CARD_KINDS = [
 	'tyre-change',
@@ -79,8 +79,6 @@ const onScreenSecondsSchema = z
 		`Keep a card on screen for ${ON_SCREEN_SECONDS_LIMITS.max} s or less; split it if there is more to say.`
 	);
 
-const versionSchema = versionNumber('Send the version of the card you read.');
-
 const placement = {
 	segmentId: segmentIdSchema.optional(),
 	/** Program time as typed; null takes the card off the cut. */
@@ -103,7 +101,7 @@ export const specCardCreateSchema = z
 	.refine(oneWayToPlace, oneWayMessage);
 
 export const specCardUpdateSchema = z
-	.object({ version: versionSchema, input: specCardInputSchema.optional(), ...placement })
+	.object({ version: recordVersion, input: specCardInputSchema.optional(), ...placement })
 	.strict()
 	.refine(oneWayToPlace, oneWayMessage);
 

@@ -1,6 +1,6 @@
 /** Takes logged against shots: typed source timecode, good or no good, and the clip it is in. */
 import { z } from 'zod';
-import { text, versionNumber } from './fields';
+import { text, recordVersion } from './fields';
 
 const timecodeText = (label: string) =>
 	text(`Type the source ${label} timecode.`)
@@ -32,7 +32,7 @@ export const takeUpdateSchema = z
 			.nullable()
 			.optional()
 			.transform((v) => (v === undefined ? undefined : v || null)),
-		version: versionNumber('The version is missing: reload the page.', { coerce: true })
+		version: recordVersion
 	})
 	.strict();
 

@@ -4,7 +4,7 @@ import { notFound } from '../http/api';
 import { hashSecret, newSecret } from './secrets';
 import { isUuid } from './identity';
 
-export async function listTokens(personId: string, channelId: string) {
+export async function listTokens(channelId: string, personId: string) {
 	return db
 		.selectFrom('apiToken')
 		.select(['id', 'label', 'tokenHint', 'createdAt', 'lastUsedAt', 'revokedAt'])
@@ -14,7 +14,7 @@ export async function listTokens(personId: string, channelId: string) {
 		.execute();
 }
 
-export async function createToken(personId: string, channelId: string, label: string) {
+export async function createToken(channelId: string, personId: string, label: string) {
 	const secret = newSecret('wr_');
 	const row = await db
 		.insertInto('apiToken')
@@ -31,7 +31,7 @@ export async function createToken(personId: string, channelId: string, label: st
 }
 
 /** Revokes one of the person's tokens for the channel they are working in (the list shows no others). */
-export async function revokeToken(personId: string, channelId: string, tokenId: string) {
+export async function revokeToken(channelId: string, personId: string, tokenId: string) {
 	if (!isUuid(tokenId)) throw notFound('That token');
 	const result = await db
 		.updateTable('apiToken')

@@ -33,7 +33,8 @@ export interface Actor {
 	roles: readonly Role[];
 }
 
-export const episodeNotFound = () => notFound('That episode');
+export const episodeNotFound = () =>
+	notFound('That episode', 'If it belongs to another channel, switch channel first.');
 
 /** The episode row of this channel, optionally locked for the rest of the transaction; 404 otherwise. */
 export async function episodeInChannel(

@@ -10,7 +10,7 @@ import { databaseDownJson } from './outage';
 
 export class DomainError extends Error {
 	constructor(
-		public status: 400 | 404 | 409 | 413 | 422,
+		public status: 400 | 404 | 409 | 413 | 422 | 429,
 		message: string,
 		public issues?: Record<string, string[]>,
 		public extra?: Record<string, unknown>
@@ -19,8 +19,9 @@ export class DomainError extends Error {
 	}
 }
 
-export const notFound = (what = 'That record') =>
-	new DomainError(404, `${what} was not found in this channel.`);
+/** The one "not found" a domain function throws: a record of another channel is not found either. */
+export const notFound = (what = 'That record', hint?: string) =>
+	new DomainError(404, `${what} was not found in this channel.${hint ? ` ${hint}` : ''}`);
 
 /** zod issues as { field: [messages] }, field names dotted. */
 export function fieldIssues(zodError: z.ZodError): Record<string, string[]> {

@@ -1,13 +1,12 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { createToken, listTokens, revokeToken } from '$lib/server/auth/tokens';
 import { tokenCreateSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/http/forms';
+import { attempt, runForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { person, channel } = requireRole(event);
-	return { tokens: await listTokens(person.id, channel.id) };
+	return { tokens: await listTokens(channel.id, person.id) };
 }) satisfies PageServerLoad;
 
 export const actions = {
@@ -15,18 +14,21 @@ export const actions = {
 		const { person, channel } = requireRole(event);
 		const form = await event.request.formData();
 		const values = { label: String(form.get('label') ?? '') };
-		const parsed = parseForm(tokenCreateSchema, values);
-		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
-		const created = await createToken(person.id, channel.id, parsed.data.label);
-		return { created: { label: created.label, token: created.token } };
+		const result = await runForm('createToken', tokenCreateSchema, values, (data) =>
+			createToken(channel.id, person.id, data.label)
+		);
+		if (!result.ok) return result.failure;
+		const created = result.value;
+		return { action: 'createToken', created: { label: created.label, token: created.token } };
 	},
 	revokeToken: async (event) => {
 		const { person, channel } = requireRole(event);
 		const form = await event.request.formData();
 		const id = String(form.get('id') ?? '');
-		const result = await attempt({ id }, () => revokeToken(person.id, channel.id, id));
-		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, result.data);
-		return { revoked: true };
+		const result = await attempt('revokeToken', { id }, () =>
+			revokeToken(channel.id, person.id, id)
+		);
+		if (!result.ok) return result.failure;
+		return { action: 'revokeToken', revoked: true };
 	}
 } satisfies Actions;

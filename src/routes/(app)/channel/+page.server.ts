@@ -2,7 +2,7 @@ import { fail, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { channelSettings, updateChannelSettings } from '$lib/server/channel/channels';
 import { channelSettingsSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/http/forms';
+import { runForm } from '$lib/server/http/forms';
 import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
 import { storageInUse } from '$lib/server/footage/upload-limits';
 import { maxUploadBytes } from '$lib/server/footage/tus-server';
@@ -30,11 +30,11 @@ export const actions = {
 		);
 		// A form without the quota field (an older page) keeps the channel's quota.
 		if (form.has('storageQuotaGb')) values.storageQuotaGb = String(form.get('storageQuotaGb'));
-		const parsed = parseForm(channelSettingsSchema, values);
-		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
-		const result = await attempt(values, () => updateChannelSettings(channel.id, parsed.data));
-		if ('status' in result) return fail(result.status, result.data);
-		return { saved: true };
+		const result = await runForm('save', channelSettingsSchema, values, (data) =>
+			updateChannelSettings(channel.id, data)
+		);
+		if (!result.ok) return result.failure;
+		return { action: 'save', saved: true };
 	},
 	/** Any crew member may switch to another channel they belong to. */
 	switch: async (event) => {

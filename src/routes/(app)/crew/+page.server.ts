@@ -1,8 +1,7 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { invitePerson, listCrew, updateMember } from '$lib/server/channel/crew';
 import { inviteSchema, crewUpdateSchema } from '$lib/schemas/people';
-import { attempt, parseForm } from '$lib/server/http/forms';
+import { runForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -19,14 +18,11 @@ export const actions = {
 			name: String(form.get('name') ?? ''),
 			roles: form.getAll('roles').map(String)
 		};
-		const parsed = parseForm(inviteSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'invite' as const, errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			invitePerson(channel.id, person, parsed.data, event.url.origin)
+		const result = await runForm('invite', inviteSchema, values, (data) =>
+			invitePerson(channel.id, person, data, event.url.origin)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'invite' as const, ...result.data });
-		return { action: 'invite' as const, invited: result.email };
+		if (!result.ok) return result.failure;
+		return { action: 'invite' as const, invited: result.value.email };
 	},
 	update: async (event) => {
 		const { channel, person } = requireRole(event, 'producer');
@@ -37,14 +33,10 @@ export const actions = {
 			roles: form.has('roles-present') ? form.getAll('roles').map(String) : undefined,
 			disabled: disabled === null ? undefined : disabled === 'true'
 		};
-		const parsed = parseForm(crewUpdateSchema, values);
-		if (!parsed.ok)
-			return fail(400, { action: 'update' as const, personId, errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			updateMember(channel.id, person.id, personId, parsed.data)
+		const result = await runForm({ action: 'update', personId }, crewUpdateSchema, values, (data) =>
+			updateMember(channel.id, person.id, personId, data)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'update' as const, personId, ...result.data });
+		if (!result.ok) return result.failure;
 		return { action: 'update' as const, personId, saved: true };
 	}
 } satisfies Actions;

@@ -7,7 +7,7 @@ import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = api(async (event) => {
 	const { person, channel } = requireRole(event);
-	return json({ tokens: await listTokens(person.id, channel.id) });
+	return json({ tokens: await listTokens(channel.id, person.id) });
 });
 
 /**
@@ -19,5 +19,5 @@ export const POST: RequestHandler = api(async (event) => {
 	if (event.locals.via === 'token')
 		error(403, 'Make new tokens while signed in, under Account; an API token cannot make another.');
 	const { label } = await readJson(event, tokenCreateSchema);
-	return json({ token: await createToken(person.id, channel.id, label) }, { status: 201 });
+	return json({ token: await createToken(channel.id, person.id, label) }, { status: 201 });
 });

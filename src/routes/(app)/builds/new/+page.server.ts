@@ -1,9 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { createBuild } from '$lib/server/episodes/builds';
 import { buildSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction } from '$lib/server/http/episode-forms';
+import { runForm } from '$lib/server/http/forms';
 import { buildFormValues } from '../build-form';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -16,10 +15,8 @@ export const actions = {
 	create: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'host');
 		const values = buildFormValues(await event.request.formData());
-		const parsed = parseForm(buildSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
-		const result = await attemptAction('create', values, () =>
-			createBuild(channel.id, parsed.data)
+		const result = await runForm('create', buildSchema, values, (data) =>
+			createBuild(channel.id, data)
 		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/builds/${result.value.build.id}`);

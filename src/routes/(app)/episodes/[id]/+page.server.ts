@@ -1,11 +1,10 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { episodeDetail, episodeFormOptions, updateEpisode } from '$lib/server/episodes/episodes';
 import { moveStage, stageHistory, stageReportFor } from '$lib/server/episodes/stage-moves';
 import { scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { episodeUpdateSchema, stageMoveSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction, found, text } from '$lib/server/http/episode-forms';
+import { forPage, runForm, text } from '$lib/server/http/forms';
 import { episodeFormValues } from '../episode-form';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
@@ -13,7 +12,7 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel, person, roles } = requireRole(event);
 	const id = event.params.id;
-	const [episode, stage, history, script, options] = await found(
+	const [episode, stage, history, script, options] = await forPage(
 		Promise.all([
 			episodeDetail(channel.id, id),
 			stageReportFor(channel.id, id, { id: person.id, roles }),
@@ -38,16 +37,8 @@ export const actions = {
 		const { channel, person, roles } = requireRole(event, 'producer');
 		const form = await event.request.formData();
 		const values = { ...episodeFormValues(form), version: text(form, 'version') };
-		const parsed = parseForm(episodeUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attemptAction('save', values, () =>
-			updateEpisode(
-				channel.id,
-				{ ...person, roles },
-				event.params.id,
-				parsed.data,
-				event.url.origin
-			)
+		const result = await runForm('save', episodeUpdateSchema, values, (data) =>
+			updateEpisode(channel.id, { ...person, roles }, event.params.id, data, event.url.origin)
 		);
 		if (!result.ok) return result.failure;
 		return { action: 'save', saved: true };
@@ -57,10 +48,8 @@ export const actions = {
 		const { channel, person, roles } = requireRole(event);
 		const form = await event.request.formData();
 		const values = { to: text(form, 'to'), from: text(form, 'from'), note: text(form, 'note') };
-		const parsed = parseForm(stageMoveSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'move', errors: parsed.errors, values });
-		const result = await attemptAction('move', values, () =>
-			moveStage(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin)
+		const result = await runForm('move', stageMoveSchema, values, (data) =>
+			moveStage(channel.id, { ...person, roles }, event.params.id, data, event.url.origin)
 		);
 		if (!result.ok) return result.failure;
 		redirect(

@@ -1,9 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { createEpisode, episodeFormOptions } from '$lib/server/episodes/episodes';
 import { episodeCreateSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction } from '$lib/server/http/episode-forms';
+import { runForm } from '$lib/server/http/forms';
 import { episodeFormValues } from '../episode-form';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -16,10 +15,8 @@ export const actions = {
 	create: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer');
 		const values = episodeFormValues(await event.request.formData());
-		const parsed = parseForm(episodeCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'create', errors: parsed.errors, values });
-		const result = await attemptAction('create', values, () =>
-			createEpisode(channel.id, { ...person, roles }, parsed.data, event.url.origin)
+		const result = await runForm('create', episodeCreateSchema, values, (data) =>
+			createEpisode(channel.id, { ...person, roles }, data, event.url.origin)
 		);
 		if (!result.ok) return result.failure;
 		redirect(303, `/episodes/${result.value.id}/rundown?created=1`);

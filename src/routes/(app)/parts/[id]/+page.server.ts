@@ -1,9 +1,10 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/auth/guard';
-import { attempt, forPage, parseForm, readVersion } from '$lib/server/http/forms';
+import { forPage, runForm, text } from '$lib/server/http/forms';
 import { partDetail, priceText, removePart, updatePart } from '$lib/server/merch/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
 import { partFormValues } from '../part-form';
+import { versionOnlySchema } from '$lib/schemas/fields';
 import type { Actions, PageServerLoad } from './$types';
 
 /** One part: everyone reads; the merch team and the producer change, retire or remove it. */
@@ -17,41 +18,33 @@ export const load = (async (event) => {
 	};
 }) satisfies PageServerLoad;
 
-const versionOf = (form: FormData) => Number(form.get('version') ?? Number.NaN);
-
 export const actions = {
 	save: async (event) => {
 		const { channel } = requireRole(event, 'merch', 'producer');
 		const form = await event.request.formData();
-		const values = { ...partFormValues(form), version: versionOf(form) };
-		const parsed = parseForm(partUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attempt(values, async () => ({
-			part: await updatePart(channel.id, event.params.id, parsed.data)
-		}));
-		if (!('part' in result)) return fail(result.status, { action: 'save', ...result.data });
+		const values = { ...partFormValues(form), version: text(form, 'version') };
+		const result = await runForm('save', partUpdateSchema, values, (data) =>
+			updatePart(channel.id, event.params.id, data)
+		);
+		if (!result.ok) return result.failure;
 		return { action: 'save', saved: true };
 	},
 	retire: async (event) => {
 		const { channel } = requireRole(event, 'merch', 'producer');
-		const read = readVersion(await event.request.formData());
-		if (!read.ok) return fail(400, { action: 'retire', errors: read.errors, values: {} });
-		const values = { version: read.version, status: 'discontinued' as const };
-		const result = await attempt(values, async () => ({
-			part: await updatePart(channel.id, event.params.id, values)
-		}));
-		if (!('part' in result)) return fail(result.status, { action: 'retire', ...result.data });
+		const values = { version: text(await event.request.formData(), 'version') };
+		const result = await runForm('retire', versionOnlySchema, values, ({ version }) =>
+			updatePart(channel.id, event.params.id, { version, status: 'discontinued' })
+		);
+		if (!result.ok) return result.failure;
 		return { action: 'retire', saved: true };
 	},
 	remove: async (event) => {
 		const { channel } = requireRole(event, 'merch', 'producer');
-		const read = readVersion(await event.request.formData());
-		if (!read.ok) return fail(400, { action: 'remove', errors: read.errors, values: {} });
-		const values = { version: read.version };
-		const result = await attempt(values, async () => ({
-			part: await removePart(channel.id, event.params.id, values.version)
-		}));
-		if (!('part' in result)) return fail(result.status, { action: 'remove', ...result.data });
+		const values = { version: text(await event.request.formData(), 'version') };
+		const result = await runForm('remove', versionOnlySchema, values, ({ version }) =>
+			removePart(channel.id, event.params.id, version)
+		);
+		if (!result.ok) return result.failure;
 		redirect(303, '/parts');
 	}
 } satisfies Actions;

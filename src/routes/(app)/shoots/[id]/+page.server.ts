@@ -1,4 +1,4 @@
-import { fail, redirect, type ActionFailure } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import * as days from '$lib/server/shoot/shoot-days';
@@ -11,7 +11,7 @@ import {
 	pullItemSchema,
 	shootDayUpdateSchema
 } from '$lib/schemas/shoot';
-import { attempt, parseForm, forPage, type FormFailure } from '$lib/server/http/forms';
+import { attempt, formFields, forPage, invalid, parseForm } from '$lib/server/http/forms';
 import { assertOnShootDay } from '$lib/server/http/ownership';
 import { searchPartsForPicker } from '$lib/server/merch/parts-picker';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
@@ -29,31 +29,21 @@ export const load = (async (event) => {
 	};
 }) satisfies PageServerLoad;
 
-type Values = Record<string, string | string[]>;
-
 /** Reads the form, validates it and runs the domain call; every failure keeps what was typed. */
-async function run<Action extends string, T extends z.ZodType>(
+async function run<const Action extends string, T extends z.ZodType>(
 	event: RequestEvent,
 	action: Action,
 	schema: T,
-	work: (data: z.infer<T>, values: Values) => Promise<unknown>,
+	work: (data: z.infer<T>) => Promise<unknown>,
 	read?: (form: FormData) => unknown
-): Promise<
-	ActionFailure<{ action: Action } & FormFailure<Values>> | { action: Action; saved: true }
-> {
+) {
 	const form = await event.request.formData();
-	const values = Object.fromEntries(
-		[...form.keys()].map((key) => [
-			key,
-			form.getAll(key).length > 1 ? form.getAll(key).map(String) : String(form.get(key))
-		])
-	) as Values;
+	const values = formFields(form);
 	const parsed = parseForm(schema, read ? read(form) : values);
-	if (!parsed.ok) return fail(400, { action, errors: parsed.errors, values });
-	const result = await attempt(values, () => work(parsed.data, values));
-	if (result && typeof result === 'object' && 'status' in result && 'data' in result)
-		return fail(result.status as number, { action, ...(result.data as FormFailure<Values>) });
-	return { action, saved: true };
+	if (!parsed.ok) return invalid(action, parsed.errors, values);
+	const result = await attempt(action, values, () => work(parsed.data));
+	if (!result.ok) return result.failure;
+	return { action, saved: true as const };
 }
 
 export const actions = {
@@ -116,13 +106,11 @@ export const actions = {
 	},
 	pullFromSegments: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
-		const result = await attempt({}, () => days.pullPartsFromSegments(channel.id, event.params.id));
-		if ('status' in result && 'data' in result)
-			return fail(result.status as number, {
-				action: 'pullFromSegments' as const,
-				...result.data
-			});
-		return { action: 'pullFromSegments' as const, added: (result as { added: number }).added };
+		const result = await attempt('pullFromSegments', {}, () =>
+			days.pullPartsFromSegments(channel.id, event.params.id)
+		);
+		if (!result.ok) return result.failure;
+		return { action: 'pullFromSegments' as const, added: result.value.added };
 	},
 	removeItem: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
@@ -145,9 +133,10 @@ export const actions = {
 	},
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer');
-		const result = await attempt({}, () => days.deleteShootDay(channel.id, event.params.id));
-		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, { action: 'delete' as const, ...result.data });
+		const result = await attempt('delete', {}, () =>
+			days.deleteShootDay(channel.id, event.params.id)
+		);
+		if (!result.ok) return result.failure;
 		redirect(303, '/shoots');
 	}
 } satisfies Actions;

@@ -1,8 +1,7 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { createProfile, deleteProfile, listProfiles } from '$lib/server/shoot/shoot-days';
 import { profileSchema } from '$lib/schemas/shoot';
-import { attempt, parseForm } from '$lib/server/http/forms';
+import { attempt, formFields, runForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -16,18 +15,18 @@ export const load = (async (event) => {
 export const actions = {
 	create: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
-		const values = Object.fromEntries(await event.request.formData()) as Record<string, string>;
-		const parsed = parseForm(profileSchema, values);
-		if (!parsed.ok) return fail(400, { errors: parsed.errors, values });
-		await createProfile(channel.id, parsed.data);
-		return { created: true };
+		const values = formFields(await event.request.formData());
+		const result = await runForm('create', profileSchema, values, (data) =>
+			createProfile(channel.id, data)
+		);
+		if (!result.ok) return result.failure;
+		return { action: 'create', created: true };
 	},
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		const id = String((await event.request.formData()).get('id') ?? '');
-		const result = await attempt({ id }, () => deleteProfile(channel.id, id));
-		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, result.data);
-		return { deleted: true };
+		const result = await attempt('delete', { id }, () => deleteProfile(channel.id, id));
+		if (!result.ok) return result.failure;
+		return { action: 'delete', deleted: true };
 	}
 } satisfies Actions;

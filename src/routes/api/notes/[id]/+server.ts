@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/http/api';
+import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { deleteNote, updateNote } from '$lib/server/merch/notes';
 import { noteUpdateSchema } from '$lib/schemas/parts';
-import { versionNumber } from '$lib/schemas/fields';
+import { deleteWithVersion } from '$lib/server/http/delete-route';
 import type { RequestHandler } from './$types';
 
 /**
@@ -24,20 +24,15 @@ export const PATCH: RequestHandler = api(async (event) => {
 	});
 });
 
-const versionParam = versionNumber('version is a whole number from 1.', {
-	coerce: true
-}).optional();
-
 /** The camera operator (or the producer) removes a note; `?version=` makes it conditional. */
-export const DELETE: RequestHandler = api(async (event) => {
-	const { channel, person, roles } = requireRole(event, 'camera', 'producer');
-	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
-	return json({
+export const DELETE: RequestHandler = deleteWithVersion(
+	['camera', 'producer'],
+	async (event, { channel, person, roles }, version) => ({
 		removed: await deleteNote(
 			channel.id,
 			{ id: person.id, name: person.name, roles },
 			event.params.id,
 			version
 		)
-	});
-});
+	})
+);

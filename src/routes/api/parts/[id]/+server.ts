@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/http/api';
+import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { partDetail, removePart, updatePart } from '$lib/server/merch/parts';
 import { partUpdateSchema } from '$lib/schemas/parts';
-import { versionNumber } from '$lib/schemas/fields';
+import { deleteWithVersion } from '$lib/server/http/delete-route';
 import type { RequestHandler } from './$types';
 
 /** Any crew member reads a part, with how many notes and tracked links feature it. */
@@ -19,13 +19,10 @@ export const PATCH: RequestHandler = api(async (event) => {
 	return json({ part: await updatePart(channel.id, event.params.id, input) });
 });
 
-const versionParam = versionNumber('version is a whole number from 1.', {
-	coerce: true
-}).optional();
-
 /** Removes a part no note or tracked link uses; a featured one answers 409 (retire it instead). */
-export const DELETE: RequestHandler = api(async (event) => {
-	const { channel } = requireRole(event, 'merch', 'producer');
-	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
-	return json({ removed: await removePart(channel.id, event.params.id, version) });
-});
+export const DELETE: RequestHandler = deleteWithVersion(
+	['merch', 'producer'],
+	async (event, { channel }, version) => ({
+		removed: await removePart(channel.id, event.params.id, version)
+	})
+);

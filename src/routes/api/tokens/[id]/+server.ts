@@ -5,6 +5,6 @@ import type { RequestHandler } from './$types';
 
 export const DELETE: RequestHandler = api(async (event) => {
 	const { person, channel } = requireRole(event);
-	await revokeToken(person.id, channel.id, event.params.id);
+	await revokeToken(channel.id, person.id, event.params.id);
 	return new Response(null, { status: 204 });
 });

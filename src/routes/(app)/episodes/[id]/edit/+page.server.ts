@@ -1,13 +1,14 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/auth/guard';
 import {
 	addChapter,
 	deleteChapter,
-	findEditState,
+	editStateFor,
 	setCutDuration,
 	updateChapter
 } from '$lib/server/edit/edit';
-import { attempt, parseForm, readVersion } from '$lib/server/http/forms';
+import { forPage, runForm, text } from '$lib/server/http/forms';
+import { versionOnlySchema } from '$lib/schemas/fields';
 import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
 import type { TimelineMark } from '$lib/components/timeline';
 import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
@@ -21,12 +22,7 @@ import { safeRedirectPath } from '$lib/safe-redirect';
  */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const state = await findEditState(channel.id, event.params.id);
-	if (!state)
-		error(
-			404,
-			'That episode was not found in this channel. If it belongs to another channel, switch channel first.'
-		);
+	const state = await forPage(editStateFor(channel.id, event.params.id));
 	const [cutVideoUrl, marks] = await Promise.all([
 		cutVideoUrlFor(channel.id, event.params.id),
 		timelineMarksFor(channel.id, event.params.id)
@@ -41,32 +37,25 @@ export const load = (async (event) => {
 	};
 }) satisfies PageServerLoad;
 
-const text = (form: FormData, name: string) => String(form.get(name) ?? '');
-const number = (form: FormData, name: string) => Number(form.get(name) ?? Number.NaN);
-
 export const actions = {
 	setCut: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const form = await event.request.formData();
 		const values = { duration: text(form, 'duration') };
-		const parsed = parseForm(cutUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'setCut', errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			setCutDuration(channel.id, event.params.id, parsed.data)
+		const result = await runForm('setCut', cutUpdateSchema, values, (data) =>
+			setCutDuration(channel.id, event.params.id, data)
 		);
-		if ('status' in result) return fail(result.status, { action: 'setCut', ...result.data });
+		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	addChapter: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const form = await event.request.formData();
 		const values = { start: text(form, 'start'), title: text(form, 'title') };
-		const parsed = parseForm(chapterCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'addChapter', errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			addChapter(channel.id, event.params.id, parsed.data)
+		const result = await runForm('addChapter', chapterCreateSchema, values, (data) =>
+			addChapter(channel.id, event.params.id, data)
 		);
-		if ('status' in result) return fail(result.status, { action: 'addChapter', ...result.data });
+		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	saveChapter: async (event) => {
@@ -74,33 +63,27 @@ export const actions = {
 		const form = await event.request.formData();
 		const chapterId = text(form, 'chapterId');
 		const values = {
-			version: number(form, 'version'),
+			version: text(form, 'version'),
 			start: text(form, 'start'),
 			title: text(form, 'title')
 		};
-		const parsed = parseForm(chapterUpdateSchema, values);
-		if (!parsed.ok)
-			return fail(400, { action: 'saveChapter', chapterId, errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			updateChapter(channel.id, event.params.id, chapterId, parsed.data)
+		const tag = { action: 'saveChapter' as const, chapterId };
+		const result = await runForm(tag, chapterUpdateSchema, values, (data) =>
+			updateChapter(channel.id, event.params.id, chapterId, data)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'saveChapter', chapterId, ...result.data });
+		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(event.url.pathname));
 	},
 	removeChapter: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const form = await event.request.formData();
 		const chapterId = text(form, 'chapterId');
-		const values = { version: number(form, 'version') };
-		const read = readVersion(form);
-		if (!read.ok)
-			return fail(400, { action: 'removeChapter', chapterId, errors: read.errors, values });
-		const result = await attempt(values, () =>
-			deleteChapter(channel.id, event.params.id, chapterId, read.version)
+		const values = { version: text(form, 'version') };
+		const tag = { action: 'removeChapter' as const, chapterId };
+		const result = await runForm(tag, versionOnlySchema, values, ({ version }) =>
+			deleteChapter(channel.id, event.params.id, chapterId, version)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'removeChapter', chapterId, ...result.data });
+		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(event.url.pathname));
 	}
 } satisfies Actions;

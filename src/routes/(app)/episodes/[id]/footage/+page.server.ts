@@ -1,4 +1,3 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { deleteFootage, listFootage } from '$lib/server/footage/footage';
 import { shootDayOptions } from '$lib/server/shoot/shoot-days';
@@ -29,12 +28,11 @@ export const actions = {
 		const { channel } = requireRole(event, 'producer');
 		const form = await event.request.formData();
 		const id = String(form.get('id') ?? '');
-		const result = await attempt({ id }, async () => {
+		const result = await attempt('delete', { id }, async () => {
 			await assertInEpisode(channel.id, event.params.id, 'footage', id);
 			return deleteFootage(channel.id, id);
 		});
-		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, result.data);
-		return { deleted: id };
+		if (!result.ok) return result.failure;
+		return { action: 'delete', deleted: id };
 	}
 } satisfies Actions;

@@ -1,7 +1,6 @@
-import { fail, redirect } from '@sveltejs/kit';
-import { DomainError } from '$lib/server/http/api';
+import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
-import { attempt, forPage, parseForm, readVersion } from '$lib/server/http/forms';
+import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
 import {
 	createNote,
@@ -12,6 +11,7 @@ import {
 } from '$lib/server/merch/notes';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
+import { versionOnlySchema } from '$lib/schemas/fields';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -28,17 +28,17 @@ export const load = (async (event) => {
 	};
 }) satisfies PageServerLoad;
 
-const text = (form: FormData, name: string) => String(form.get(name) ?? '').trim();
+/** A note's fields are read trimmed. */
+const field = (form: FormData, name: string) => text(form, name).trim();
 /** '' from an empty field means "none" (null) for the optional fields of a note. */
 const orNull = (value: string) => (value === '' ? null : value);
-const version = (form: FormData) => Number(form.get('version') ?? Number.NaN);
 const actorOf = (caller: ReturnType<typeof requireRole>) => ({
 	id: caller.person.id,
 	name: caller.person.name,
 	roles: caller.roles
 });
 
-async function change<Action extends string>(
+async function change<const Action extends string>(
 	event: Parameters<Actions[string]>[0],
 	action: Action,
 	roles: Parameters<typeof requireRole>[1][],
@@ -46,27 +46,16 @@ async function change<Action extends string>(
 ) {
 	const caller = requireRole(event, ...roles);
 	const form = await event.request.formData();
-	const noteId = text(form, 'noteId');
-	let values: Record<string, unknown>;
-	try {
-		values = { version: version(form), ...(await build(form, caller.channel.id)) };
-	} catch (failure) {
-		if (failure instanceof DomainError)
-			return fail(failure.status, {
-				action,
-				noteId,
-				errors: failure.issues ?? { form: [failure.message] },
-				values: {}
-			});
-		throw failure;
-	}
-	const parsed = parseForm(noteUpdateSchema, values);
-	if (!parsed.ok) return fail(400, { action, noteId, errors: parsed.errors, values });
-	const result = await attempt(values, async () => {
+	const noteId = field(form, 'noteId');
+	const tag = { action, noteId };
+	const built = await attempt(tag, {}, () => build(form, caller.channel.id));
+	if (!built.ok) return built.failure;
+	const values: Record<string, unknown> = { version: field(form, 'version'), ...built.value };
+	const result = await runForm(tag, noteUpdateSchema, values, async (data) => {
 		await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
-		return updateNote(caller.channel.id, actorOf(caller), noteId, parsed.data);
+		return updateNote(caller.channel.id, actorOf(caller), noteId, data);
 	});
-	if ('status' in result) return fail(result.status, { action, noteId, ...result.data });
+	if (!result.ok) return result.failure;
 	return { action, noteId, saved: true };
 }
 
@@ -75,44 +64,41 @@ export const actions = {
 		const caller = requireRole(event, 'camera', 'merch', 'producer');
 		const form = await event.request.formData();
 		const values = {
-			text: text(form, 'text'),
-			segmentId: orNull(text(form, 'segmentId')),
-			takeId: orNull(text(form, 'takeId')),
-			sourceTime: orNull(text(form, 'sourceTime')),
+			text: field(form, 'text'),
+			segmentId: orNull(field(form, 'segmentId')),
+			takeId: orNull(field(form, 'takeId')),
+			sourceTime: orNull(field(form, 'sourceTime')),
 			// Only the editor's and the producer's forms carry a program time.
-			...(form.has('programTime') && text(form, 'programTime') !== ''
-				? { programTime: text(form, 'programTime') }
+			...(form.has('programTime') && field(form, 'programTime') !== ''
+				? { programTime: field(form, 'programTime') }
 				: {})
 		};
-		const parsed = parseForm(noteCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'create' as const, errors: parsed.errors, values });
-		const result = await attempt(values, () =>
-			createNote(caller.channel.id, actorOf(caller), event.params.id, parsed.data)
+		const result = await runForm('create', noteCreateSchema, values, (data) =>
+			createNote(caller.channel.id, actorOf(caller), event.params.id, data)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'create' as const, ...result.data });
-		redirect(303, safeRedirectPath(`${event.url.pathname}#note-${result.id}`));
+		if (!result.ok) return result.failure;
+		redirect(303, safeRedirectPath(`${event.url.pathname}#note-${result.value.id}`));
 	},
 	place: (event) =>
 		change(event, 'place', ['editor', 'producer'], async (form) => ({
-			programTime: orNull(text(form, 'programTime'))
+			programTime: orNull(field(form, 'programTime'))
 		})),
 	write: (event) =>
 		change(event, 'write', ['camera', 'producer'], async (form) => ({
-			text: text(form, 'text'),
-			takeId: orNull(text(form, 'takeId')),
-			sourceTime: orNull(text(form, 'sourceTime'))
+			text: field(form, 'text'),
+			takeId: orNull(field(form, 'takeId')),
+			sourceTime: orNull(field(form, 'sourceTime'))
 		})),
 	link: (event) =>
 		change(event, 'link', ['merch', 'producer'], async (form, channelId) => {
 			const current = form.getAll('partIds').map(String);
 			// Without JavaScript the picker is a plain SKU field; with it, the picked part's id.
-			const added = text(form, 'partId') || (await partIdBySku(channelId, text(form, 'sku')));
+			const added = field(form, 'partId') || (await partIdBySku(channelId, field(form, 'sku')));
 			return { partIds: [...new Set([...current, added])] };
 		}),
 	unlink: (event) =>
 		change(event, 'unlink', ['merch', 'producer'], async (form) => {
-			const removed = text(form, 'partId');
+			const removed = field(form, 'partId');
 			return {
 				partIds: form
 					.getAll('partIds')
@@ -123,16 +109,14 @@ export const actions = {
 	remove: async (event) => {
 		const caller = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
-		const noteId = text(form, 'noteId');
-		const read = readVersion(form);
-		if (!read.ok)
-			return fail(400, { action: 'remove' as const, noteId, errors: read.errors, values: {} });
-		const result = await attempt({}, async () => {
+		const noteId = field(form, 'noteId');
+		const values = { version: field(form, 'version') };
+		const tag = { action: 'remove' as const, noteId };
+		const result = await runForm(tag, versionOnlySchema, values, async ({ version }) => {
 			await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
-			return deleteNote(caller.channel.id, actorOf(caller), noteId, read.version);
+			return deleteNote(caller.channel.id, actorOf(caller), noteId, version);
 		});
-		if ('status' in result)
-			return fail(result.status, { action: 'remove' as const, noteId, ...result.data });
+		if (!result.ok) return result.failure;
 		return { action: 'remove' as const, noteId, saved: true };
 	}
 } satisfies Actions;

@@ -1,16 +1,14 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { createSegment, moveSegment, rundownFor } from '$lib/server/episodes/segments';
 import { episodeFormOptions } from '$lib/server/episodes/episodes';
 import { segmentCreateSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction, found, text } from '$lib/server/http/episode-forms';
+import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { segmentFormValues } from './segment-form';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [rundown, options] = await found(
+	const [rundown, options] = await forPage(
 		Promise.all([rundownFor(channel.id, event.params.id), episodeFormOptions(channel.id)])
 	);
 	return {
@@ -27,10 +25,8 @@ export const actions = {
 	add: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'host');
 		const values = segmentFormValues(await event.request.formData());
-		const parsed = parseForm(segmentCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'add', errors: parsed.errors, values });
-		const result = await attemptAction('add', values, () =>
-			createSegment(channel.id, event.params.id, parsed.data)
+		const result = await runForm('add', segmentCreateSchema, values, (data) =>
+			createSegment(channel.id, event.params.id, data)
 		);
 		if (!result.ok) return result.failure;
 		return { action: 'add', added: result.value.id, title: result.value.title };
@@ -41,7 +37,7 @@ export const actions = {
 		const form = await event.request.formData();
 		const direction = text(form, 'direction') === 'up' ? 'up' : 'down';
 		const values = { segmentId: text(form, 'segmentId'), direction };
-		const result = await attemptAction('move', values, () =>
+		const result = await attempt('move', values, () =>
 			moveSegment(channel.id, event.params.id, values.segmentId, direction)
 		);
 		if (!result.ok) return result.failure;

@@ -1,17 +1,15 @@
-import { fail } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { rundownFor } from '$lib/server/episodes/segments';
 import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { scriptHtml } from '$lib/server/episodes/script-reader';
 import { scriptReviewSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction, found, text } from '$lib/server/http/episode-forms';
+import { forPage, runForm, text } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The whole script to read, with its approval state and review trail; the producer approves here. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [rundown, state, reviews] = await found(
+	const [rundown, state, reviews] = await forPage(
 		Promise.all([
 			rundownFor(channel.id, event.params.id),
 			scriptStateFor(channel.id, event.params.id),
@@ -47,12 +45,11 @@ export const actions = {
 			fingerprint: text(form, 'fingerprint') || undefined,
 			segmentId: text(form, 'segmentId') || null
 		};
-		const parsed = parseForm(scriptReviewSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'review', errors: parsed.errors, values });
-		const result = await attemptAction('review', values, () =>
-			reviewScript(channel.id, { ...person, roles }, event.params.id, parsed.data, event.url.origin)
-		);
+		const result = await runForm('review', scriptReviewSchema, values, async (data) => {
+			await reviewScript(channel.id, { ...person, roles }, event.params.id, data, event.url.origin);
+			return data.action;
+		});
 		if (!result.ok) return result.failure;
-		return { action: 'review', done: parsed.data.action };
+		return { action: 'review', done: result.value };
 	}
 } satisfies Actions;

@@ -1,11 +1,10 @@
-import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { deleteTake, logTake, shotListFor, updateTake } from '$lib/server/shoot/takes';
 import { addShot } from '$lib/server/episodes/segments';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
-import { attempt, forPage, parseForm } from '$lib/server/http/forms';
+import { forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -16,8 +15,6 @@ export const load = (async (event) => {
 		canLog: hasRole(event.locals, 'camera', 'producer')
 	};
 }) satisfies PageServerLoad;
-
-const text = (form: FormData, key: string) => String(form.get(key) ?? '');
 
 export const actions = {
 	addShot: async (event) => {
@@ -31,15 +28,12 @@ export const actions = {
 			camera: text(form, 'camera'),
 			notes: text(form, 'notes')
 		};
-		const parsed = parseForm(shotCreateSchema, values);
-		if (!parsed.ok)
-			return fail(400, { action: 'addShot', segmentId, errors: parsed.errors, values });
-		const result = await attempt(values, async () => {
+		const tag = { action: 'addShot' as const, segmentId };
+		const result = await runForm(tag, shotCreateSchema, values, async (data) => {
 			await assertInEpisode(channel.id, event.params.id, 'segment', segmentId);
-			return addShot(channel.id, segmentId, parsed.data);
+			return addShot(channel.id, segmentId, data);
 		});
-		if ('status' in result && 'data' in result)
-			return fail(result.status, { action: 'addShot', segmentId, ...result.data });
+		if (!result.ok) return result.failure;
 		return { action: 'addShot', segmentId, saved: true };
 	},
 	logTake: async (event) => {
@@ -54,18 +48,12 @@ export const actions = {
 			note: text(form, 'note'),
 			footageId: text(form, 'footageId')
 		};
-		const parsed = parseForm(takeCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'logTake', shotId, errors: parsed.errors, values });
-		const result = await attempt(values, async () => {
+		const tag = { action: 'logTake' as const, shotId };
+		const result = await runForm(tag, takeCreateSchema, values, async (data) => {
 			await assertInEpisode(channel.id, event.params.id, 'shot', shotId);
-			return logTake(channel.id, shotId, parsed.data);
+			return logTake(channel.id, shotId, data);
 		});
-		if ('status' in result && 'data' in result)
-			return fail(result.status as number, {
-				action: 'logTake',
-				shotId,
-				...(result.data as object)
-			});
+		if (!result.ok) return result.failure;
 		return { action: 'logTake', shotId, saved: true };
 	},
 	updateTake: async (event) => {
@@ -77,31 +65,28 @@ export const actions = {
 			...(form.has('good') ? { good: form.get('good') === 'true' } : {}),
 			...(form.has('footageId') ? { footageId: text(form, 'footageId') } : {})
 		};
-		const parsed = parseForm(takeUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'updateTake', takeId, errors: parsed.errors });
-		const result = await attempt(values, async () => {
+		const tag = { action: 'updateTake' as const, takeId };
+		const result = await runForm(tag, takeUpdateSchema, values, async (data) => {
 			await assertInEpisode(channel.id, event.params.id, 'take', takeId);
-			return updateTake(channel.id, takeId, parsed.data);
+			return updateTake(channel.id, takeId, data);
 		});
-		if ('status' in result && 'data' in result)
-			return fail(result.status as number, {
-				action: 'updateTake',
-				takeId,
-				...(result.data as object)
-			});
+		if (!result.ok) return result.failure;
 		return { action: 'updateTake', takeId, saved: true };
 	},
 	deleteTake: async (event) => {
 		const { channel } = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
-		const parsed = parseForm(z.object({ takeId: z.string() }), { takeId: text(form, 'takeId') });
-		if (!parsed.ok) return fail(400, { action: 'deleteTake', errors: parsed.errors });
-		const result = await attempt({}, async () => {
-			await assertInEpisode(channel.id, event.params.id, 'take', parsed.data.takeId);
-			return deleteTake(channel.id, parsed.data.takeId);
-		});
-		if (result && typeof result === 'object' && 'status' in result)
-			return fail(result.status, { action: 'deleteTake', ...result.data });
+		const values = { takeId: text(form, 'takeId') };
+		const result = await runForm(
+			'deleteTake',
+			z.object({ takeId: z.string() }),
+			values,
+			async (data) => {
+				await assertInEpisode(channel.id, event.params.id, 'take', data.takeId);
+				return deleteTake(channel.id, data.takeId);
+			}
+		);
+		if (!result.ok) return result.failure;
 		return { action: 'deleteTake', saved: true };
 	}
 } satisfies Actions;

@@ -1,6 +1,13 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/auth/guard';
-import { attempt, forPage, parseForm, readVersion, type FormErrors } from '$lib/server/http/forms';
+import {
+	attempt,
+	forPage,
+	invalid,
+	parseForm,
+	readVersion,
+	type FormErrors
+} from '$lib/server/http/forms';
 import {
 	createSpecCard,
 	deleteSpecCard,
@@ -61,6 +68,12 @@ function requestFrom(values: Record<string, string>) {
 const cardsPage = (episodeId: string, cardId?: string) =>
 	safeRedirectPath(`/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`);
 
+/** The card's own errors are keyed as the form's fields are (see formErrors). */
+function withFieldNames<F extends { data: { errors: FormErrors } }>(failure: F): F {
+	failure.data.errors = formErrors(failure.data.errors);
+	return failure;
+}
+
 export const actions = {
 	/** Adds a card, or saves one being changed (the form carries its id and the version it read). */
 	save: async (event) => {
@@ -70,50 +83,38 @@ export const actions = {
 		const request = requestFrom(values);
 		if (cardId === '') {
 			const parsed = parseForm(specCardCreateSchema, request);
-			if (!parsed.ok)
-				return fail(400, { action: 'save', errors: formErrors(parsed.errors), values });
-			const result = await attempt(values, () =>
+			if (!parsed.ok) return invalid('save', formErrors(parsed.errors), values);
+			const result = await attempt('save', values, () =>
 				createSpecCard(channel.id, person, event.params.id, parsed.data)
 			);
-			if ('status' in result)
-				return fail(result.status, {
-					action: 'save',
-					...result.data,
-					errors: formErrors(result.data.errors)
-				});
-			redirect(303, cardsPage(event.params.id, result.id));
+			if (!result.ok) return withFieldNames(result.failure);
+			redirect(303, cardsPage(event.params.id, result.value.id));
 		}
-		const parsed = parseForm(specCardUpdateSchema, { ...request, version: Number(values.version) });
-		if (!parsed.ok) return fail(400, { action: 'save', errors: formErrors(parsed.errors), values });
-		const result = await attempt(values, () =>
+		const parsed = parseForm(specCardUpdateSchema, { ...request, version: values.version });
+		if (!parsed.ok) return invalid('save', formErrors(parsed.errors), values);
+		const result = await attempt('save', values, () =>
 			updateSpecCard(channel.id, event.params.id, cardId, parsed.data)
 		);
-		if ('status' in result)
-			return fail(result.status, {
-				action: 'save',
-				...result.data,
-				errors: formErrors(result.data.errors)
-			});
-		redirect(303, cardsPage(event.params.id, result.id));
+		if (!result.ok) return withFieldNames(result.failure);
+		redirect(303, cardsPage(event.params.id, result.value.id));
 	},
 	/** Removes a card, if nobody changed it since the page was loaded. */
 	remove: async (event) => {
 		const { channel } = requireRole(event, 'editor', 'producer');
 		const form = await event.request.formData();
 		const values = formValues(form);
+		const tag = { action: 'remove' as const, cardId: values.cardId };
 		const read = readVersion(form);
 		if (!read.ok)
-			return fail(400, {
-				action: 'remove',
-				cardId: values.cardId,
-				errors: { form: read.errors.version ?? ['Reload the page and try again.'] },
+			return invalid(
+				tag,
+				{ form: read.errors.version ?? ['Reload the page and try again.'] },
 				values
-			});
-		const result = await attempt(values, () =>
+			);
+		const result = await attempt(tag, values, () =>
 			deleteSpecCard(channel.id, event.params.id, values.cardId ?? '', read.version)
 		);
-		if ('status' in result)
-			return fail(result.status, { action: 'remove', cardId: values.cardId, ...result.data });
+		if (!result.ok) return result.failure;
 		redirect(303, cardsPage(event.params.id));
 	}
 } satisfies Actions;

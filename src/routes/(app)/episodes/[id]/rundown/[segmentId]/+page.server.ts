@@ -1,4 +1,4 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error, redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import {
 	addShot,
@@ -17,8 +17,7 @@ import {
 	segmentUpdateSchema,
 	shotCreateSchema
 } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction, found, text } from '$lib/server/http/episode-forms';
+import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { defaultDropFrame, formatTimecode } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
 import type { Actions, PageServerLoad } from './$types';
@@ -26,7 +25,7 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [segment, episode, options] = await found(
+	const [segment, episode, options] = await forPage(
 		Promise.all([
 			segmentView(channel.id, event.params.segmentId),
 			episodeInChannel(db, channel.id, event.params.id),
@@ -61,16 +60,14 @@ export const actions = {
 	save: async (event) => {
 		const { channel, roles } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () =>
+		const owned = await attempt('segment', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
 		const values = { ...segmentFormValues(form), version: text(form, 'version') };
-		const parsed = parseForm(segmentUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'save', errors: parsed.errors, values });
-		const result = await attemptAction('save', values, async () => {
-			checkSegmentChangeRoles(roles, parsed.data);
-			return updateSegment(channel.id, event.params.segmentId, parsed.data);
+		const result = await runForm('save', segmentUpdateSchema, values, async (data) => {
+			checkSegmentChangeRoles(roles, data);
+			return updateSegment(channel.id, event.params.segmentId, data);
 		});
 		if (!result.ok) return result.failure;
 		return { action: 'save', saved: true };
@@ -79,16 +76,14 @@ export const actions = {
 	recorded: async (event) => {
 		const { channel, roles } = requireRole(event, 'producer', 'editor');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () =>
+		const owned = await attempt('segment', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
 		const values = { recorded: text(form, 'recorded'), version: text(form, 'version') };
-		const parsed = parseForm(segmentUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'recorded', errors: parsed.errors, values });
-		const result = await attemptAction('recorded', values, async () => {
-			checkSegmentChangeRoles(roles, parsed.data);
-			return updateSegment(channel.id, event.params.segmentId, parsed.data);
+		const result = await runForm('recorded', segmentUpdateSchema, values, async (data) => {
+			checkSegmentChangeRoles(roles, data);
+			return updateSegment(channel.id, event.params.segmentId, data);
 		});
 		if (!result.ok) return result.failure;
 		return { action: 'recorded', saved: true };
@@ -97,7 +92,7 @@ export const actions = {
 	caution: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer', 'host', 'editor');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () =>
+		const owned = await attempt('segment', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
@@ -105,18 +100,20 @@ export const actions = {
 		const values: Record<string, string> = { version: text(form, 'version') };
 		if (form.has('text')) values.text = text(form, 'text');
 		if (form.has('at')) values.at = text(form, 'at');
-		const parsed = parseForm(cautionUpdateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'caution', hazard, errors: parsed.errors, values });
-		const result = await attemptAction('caution', values, () =>
-			updateCaution(channel.id, { ...person, roles }, event.params.segmentId, hazard, parsed.data)
+		const result = await runForm(
+			{ action: 'caution', hazard },
+			cautionUpdateSchema,
+			values,
+			(data) =>
+				updateCaution(channel.id, { ...person, roles }, event.params.segmentId, hazard, data)
 		);
-		if (!result.ok) return fail(result.failure.status, { ...result.failure.data, hazard });
+		if (!result.ok) return result.failure;
 		return { action: 'caution', hazard, saved: true };
 	},
 	addShot: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () =>
+		const owned = await attempt('segment', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
@@ -127,10 +124,8 @@ export const actions = {
 			camera: text(form, 'camera'),
 			notes: text(form, 'notes')
 		};
-		const parsed = parseForm(shotCreateSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'addShot', errors: parsed.errors, values });
-		const result = await attemptAction('addShot', values, () =>
-			addShot(channel.id, event.params.segmentId, parsed.data)
+		const result = await runForm('addShot', shotCreateSchema, values, (data) =>
+			addShot(channel.id, event.params.segmentId, data)
 		);
 		if (!result.ok) return result.failure;
 		return { action: 'addShot', added: result.value.what };
@@ -138,15 +133,13 @@ export const actions = {
 	delete: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('segment', {}, () =>
+		const owned = await attempt('segment', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
 		const values = { version: text(form, 'version') };
-		const parsed = parseForm(segmentDeleteSchema, values);
-		if (!parsed.ok) return fail(400, { action: 'delete', errors: parsed.errors, values });
-		const result = await attemptAction('delete', values, () =>
-			deleteSegment(channel.id, event.params.segmentId, parsed.data.version)
+		const result = await runForm('delete', segmentDeleteSchema, values, (data) =>
+			deleteSegment(channel.id, event.params.segmentId, data.version)
 		);
 		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(`/episodes/${event.params.id}/rundown`));

@@ -1,17 +1,16 @@
-import { error, fail } from '@sveltejs/kit';
+import { error } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/episodes/segments';
 import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/episodes/script-reviews';
 import { SCRIPT_CHARACTER_LIMIT, scriptSaveSchema } from '$lib/schemas/episodes';
-import { parseForm } from '$lib/server/http/forms';
-import { attemptAction, found, text } from '$lib/server/http/episode-forms';
+import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
 /** One segment's script editor, with what the live timing needs: the pace and the rest of the episode's spoken time. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const rundown = await found(rundownFor(channel.id, event.params.id));
+	const rundown = await forPage(rundownFor(channel.id, event.params.id));
 	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
 	if (index === -1) error(404, 'That segment is not in this episode.');
 	const segment = rundown.segments[index];
@@ -46,27 +45,22 @@ export const actions = {
 	save: async (event) => {
 		const { channel, person, roles } = requireRole(event, 'producer', 'host');
 		const form = await event.request.formData();
-		const owned = await attemptAction('save', {}, () =>
+		const owned = await attempt('save', {}, () =>
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
-		const values = {
+		const values: { body: string; version: string; words?: number } = {
 			body: text(form, 'body').replace(/\r\n?/g, '\n'),
 			version: text(form, 'version')
 		};
-		// Without JavaScript a refused save shows the typed text again, with its own word count.
-		const typed = async () => ({
-			...values,
-			words: values.body.length > SCRIPT_CHARACTER_LIMIT ? 0 : await spokenWords(values.body)
-		});
-		const parsed = parseForm(scriptSaveSchema, values);
-		if (!parsed.ok)
-			return fail(400, { action: 'save', errors: parsed.errors, values: await typed() });
-		const result = await attemptAction('save', values, () =>
-			saveScript(channel.id, { ...person, roles }, event.params.segmentId, parsed.data)
+		const result = await runForm('save', scriptSaveSchema, values, (data) =>
+			saveScript(channel.id, { ...person, roles }, event.params.segmentId, data)
 		);
 		if (!result.ok) {
-			result.failure.data.values = await typed();
+			// Without JavaScript a refused save shows the typed text again, with its own word count
+			// (the failure carries this same `values` object).
+			values.words =
+				values.body.length > SCRIPT_CHARACTER_LIMIT ? 0 : await spokenWords(values.body);
 			return result.failure;
 		}
 		return { action: 'save', saved: result.value };

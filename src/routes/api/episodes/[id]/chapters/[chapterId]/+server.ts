@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { api, parseWith, readJson } from '$lib/server/http/api';
+import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { deleteChapter, updateChapter } from '$lib/server/edit/edit';
 import { chapterUpdateSchema } from '$lib/schemas/edit';
-import { versionNumber } from '$lib/schemas/fields';
+import { deleteWithVersion } from '$lib/server/http/delete-route';
 import type { RequestHandler } from './$types';
 
 /** Moves, renames or relinks a chapter; the body names the version it read (409 when stale). */
@@ -13,13 +13,9 @@ export const PATCH: RequestHandler = api(async (event) => {
 	return json(await updateChapter(channel.id, event.params.id, event.params.chapterId, input));
 });
 
-const versionParam = versionNumber('version is a whole number from 1.', {
-	coerce: true
-}).optional();
-
 /** Removes a chapter; `?version=` makes it conditional on nobody having changed it since. */
-export const DELETE: RequestHandler = api(async (event) => {
-	const { channel } = requireRole(event, 'editor', 'producer');
-	const version = parseWith(versionParam, event.url.searchParams.get('version') ?? undefined);
-	return json(await deleteChapter(channel.id, event.params.id, event.params.chapterId, version));
-});
+export const DELETE: RequestHandler = deleteWithVersion(
+	['editor', 'producer'],
+	(event, { channel }, version) =>
+		deleteChapter(channel.id, event.params.id, event.params.chapterId, version)
+);
