@@ -168,6 +168,7 @@ function objectFields(): { where: string; key: string; schema: z.ZodType }[] {
 /** Fields that take any character on purpose. */
 const ANY_CHARACTER: Record<string, string> = {
 	password: 'passwords are hashed, never stored as text',
+	currentPassword: 'passwords are only compared with their hash, never stored',
 	confirm: 'passwords are hashed, never stored as text',
 	csv: 'the file is read cell by cell, and every stored cell is checked as text'
 };

@@ -2,7 +2,7 @@
 import { z } from 'zod';
 
 import { ROLES } from '$lib/roles';
-import { text, versionNumber, wholeNumber } from './fields';
+import { text, recordVersion, wholeNumber } from './fields';
 
 export const roleSchema = z.enum(ROLES, {
 	error: 'Pick one of: producer, host, camera, editor, merch.'
@@ -64,6 +64,24 @@ export const setPasswordSchema = z
 
 export const forgotSchema = z.object({ email });
 
+/** Account: the name the crew sees. */
+export const renameSchema = z.object({ name: personName });
+
+/** Account: a new password, with the current one first (rules in server/auth/passwords.ts). */
+export const passwordChangeSchema = z
+	.object({
+		currentPassword: z
+			.string({ error: 'Enter your current password.' })
+			.min(1, 'Enter your current password.')
+			.max(1024, 'That password is too long.'),
+		password: z.string({ error: 'Choose a password.' }).max(1024, 'That password is too long.'),
+		confirm: z.string({ error: 'Type the new password again.' })
+	})
+	.refine((value) => value.password === value.confirm, {
+		path: ['confirm'],
+		message: 'The two new passwords differ.'
+	});
+
 export const FRAME_RATE_VALUES = [
 	'23.976',
 	'24',
@@ -102,7 +120,7 @@ export const channelSettingsSchema = z.object({
 		tooSmall: 'At least 1 GB.',
 		tooBig: 'At most 1,000,000 GB (1 PB).'
 	}).optional(),
-	version: versionNumber('The version is missing: reload the page.', { coerce: true })
+	version: recordVersion
 });
 
 export const tokenCreateSchema = z.object({

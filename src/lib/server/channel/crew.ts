@@ -205,7 +205,7 @@ export async function requestPasswordReset(
 }
 
 /** Ends a person's live links of these purposes (unused ones, and opened unlock grants). */
-async function voidLinks(
+export async function voidLinks(
 	trx: Transaction<Database>,
 	personId: string,
 	purposes: ('reset' | 'unlock')[]
