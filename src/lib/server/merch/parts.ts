@@ -209,42 +209,12 @@ export async function createPart(
 				fitmentNote: input.fitmentNote ?? '',
 				status: input.status ?? 'active'
 			})
-			.returningAll()
-			.executeTakeFirstOrThrow()
-			.then(pickPart);
+			.returning(partColumns)
+			.executeTakeFirstOrThrow();
 	} catch (failure) {
 		if (isUniqueViolation(failure)) throw skuTaken(input.sku);
 		throw failure;
 	}
-}
-
-function pickPart(row: Selectable<PartTable>): CatalogPart {
-	const {
-		id,
-		sku,
-		name,
-		category,
-		brand,
-		priceCents,
-		currency,
-		storeUrl,
-		fitmentNote,
-		status,
-		version
-	} = row;
-	return {
-		id,
-		sku,
-		name,
-		category,
-		brand,
-		priceCents,
-		currency,
-		storeUrl,
-		fitmentNote,
-		status,
-		version
-	};
 }
 
 async function staleOrMissing(
@@ -284,10 +254,10 @@ export async function updatePart(
 			.where('id', '=', partId)
 			.where('channelId', '=', channelId)
 			.where('version', '=', version)
-			.returningAll()
+			.returning(partColumns)
 			.executeTakeFirst();
 		if (!row) return await staleOrMissing(executor, channelId, partId);
-		return pickPart(row);
+		return row;
 	} catch (failure) {
 		if (isUniqueViolation(failure)) throw skuTaken(input.sku ?? '');
 		throw failure;
