@@ -484,14 +484,14 @@ describe('the featured parts list', () => {
 		});
 		try {
 			const episode = await newEpisode();
-			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
+			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
 			const [old, stands] = [await part('IBS-BL-OLD'), await part('IBS-BS-6T')];
 			const note = await writeNote(episode, { text: 'Old kit' });
 			const linked = await patch(visitors.merch, note.id, {
 				version: note.version,
 				partIds: [old.id]
 			});
-			const problems = await featuredPartProblemsFor(executor, channelId, episode.id);
+			const problems = await featuredPartProblemsFor(channelId, episode.id, executor);
 			expect(problems).toHaveLength(2);
 			expect(problems[0].message).toMatch(
 				/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/
@@ -509,10 +509,10 @@ describe('the featured parts list', () => {
 				version: relinked.body.note.version,
 				programTime: '1:00'
 			});
-			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
+			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
 			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
 			await expect(
-				featuredPartProblemsFor(executor, dunewagon.id, episode.id)
+				featuredPartProblemsFor(dunewagon.id, episode.id, executor)
 			).rejects.toMatchObject({ status: 404 });
 		} finally {
 			await executor.destroy();

@@ -282,9 +282,9 @@ export async function featuredPartsFor(
  * time. 404 for an episode of another channel.
  */
 export async function featuredPartProblemsFor(
-	executor: Executor,
 	channelId: string,
-	episodeId: string
+	episodeId: string,
+	executor: Executor = db
 ): Promise<{ message: string; fixedBy: Role }[]> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const parts = groupFeatured(await featuredRows(executor, episode.id), episode.frameRate);

@@ -436,6 +436,7 @@ async function checkParts(
 
 async function replaceParts(
 	trx: Executor,
+	channelId: string,
 	episodeId: string,
 	noteId: string,
 	partIds: string[]
@@ -450,7 +451,7 @@ async function replaceParts(
 		.onConflict((conflict) => conflict.columns(['noteId', 'partId']).doNothing())
 		.execute();
 	// Each featured part gets its tracked link now, so the publish kit only reads.
-	await ensureTrackedLinks(trx, episodeId, partIds);
+	await ensureTrackedLinks(channelId, episodeId, partIds, trx);
 }
 
 async function viewOf(
@@ -494,7 +495,7 @@ export async function createNote(
 			})
 			.returning('id')
 			.executeTakeFirstOrThrow();
-		await replaceParts(trx, episode.id, note.id, partIds);
+		await replaceParts(trx, channelId, episode.id, note.id, partIds);
 		return viewOf(trx, episode.id, note.id, rate);
 	});
 }
@@ -574,6 +575,7 @@ export async function updateNote(
 		if (input.partIds !== undefined)
 			await replaceParts(
 				trx,
+				channelId,
 				note.episodeId,
 				note.id,
 				await checkParts(trx, channelId, input.partIds)

@@ -311,7 +311,7 @@ export async function publishKitFor(
 		.filter((feature) => feature.linkCode === null)
 		.map((feature) => feature.partId);
 	if (unlinked.length > 0) {
-		await ensureTrackedLinks(executor, row.id, unlinked);
+		await ensureTrackedLinks(channelId, row.id, unlinked, executor);
 		row = (await kitQuery(executor, channelId, episodeId))!;
 	}
 	return assemble(row, options.origin);
