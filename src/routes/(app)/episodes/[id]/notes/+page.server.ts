@@ -3,13 +3,8 @@ import { DomainError } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { attempt, forPage, parseForm, readVersion } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
-import {
-	createNote,
-	deleteNote,
-	notesPageFor,
-	noteRightsFor,
-	updateNote
-} from '$lib/server/merch/notes';
+import { createNote, deleteNote, noteRightsFor, updateNote } from '$lib/server/merch/notes';
+import { notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import type { Actions, PageServerLoad } from './$types';
