@@ -17,6 +17,7 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
 import { featuredPartProblemsFor } from '$lib/server/merch/featured-parts';
+import { ensureTrackedLinks } from '$lib/server/merch/tracked-links';
 import type { Database } from '$lib/server/db/types';
 
 const require = createRequire(import.meta.url);
@@ -514,6 +515,34 @@ describe('the featured parts list', () => {
 			await expect(
 				featuredPartProblemsFor(dunewagon.id, episode.id, executor)
 			).rejects.toMatchObject({ status: 404 });
+		} finally {
+			await executor.destroy();
+		}
+	});
+
+	test('ensureTrackedLinks links an episode only to parts of its own channel, one link per part', async () => {
+		const executor = new Kysely<Database>({
+			dialect: new PostgresDialect({
+				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
+			}),
+			plugins: [new CamelCasePlugin()]
+		});
+		const links = (episodeId: string) =>
+			sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [episodeId]);
+		try {
+			const episode = await newEpisode();
+			const stands = await part('IBS-BS-6T');
+			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
+			// OWASP ASVS 4.0 V4: another channel's records are "not found", and nothing is written.
+			await expect(
+				ensureTrackedLinks(dunewagon.id, episode.id, [stands.id], executor)
+			).rejects.toMatchObject({ status: 404 });
+			expect(await links(episode.id)).toEqual([]);
+			await ensureTrackedLinks(channelId, episode.id, [stands.id, stands.id], executor);
+			const [made] = await links(episode.id);
+			expect(made.part_id).toBe(stands.id);
+			await ensureTrackedLinks(channelId, episode.id, [stands.id], executor);
+			expect(await links(episode.id)).toEqual([made]);
 		} finally {
 			await executor.destroy();
 		}
