@@ -50,20 +50,23 @@ export interface ImportPreview {
 const MAX_REPORTED_ERRORS = 500;
 const SAMPLE_ROWS = 20;
 
+/** The fields of a part a row of the file sets (all but the SKU, which names the part). */
+interface PartFields {
+	name: string;
+	category: string;
+	brand: string;
+	priceCents: number;
+	currency: string;
+	storeUrl: string;
+	fitmentNote: string;
+	status: PartStatusValue;
+}
+
 export interface ReadRow {
 	row: number;
 	sku: string;
 	values: Partial<Record<ImportField, string>>;
-	part: Partial<{
-		name: string;
-		category: string;
-		brand: string;
-		priceCents: number;
-		currency: string;
-		storeUrl: string;
-		fitmentNote: string;
-		status: PartStatusValue;
-	}>;
+	part: Partial<PartFields>;
 }
 
 interface Analysis {
@@ -132,20 +135,7 @@ export async function analyseImport(
 		columnOf.sku < 0
 			? []
 			: records.map((record) => (record.cells[columnOf.sku] ?? '').trim()).filter(Boolean);
-	const existing = new Map<
-		string,
-		{
-			id: string;
-			name: string;
-			category: string;
-			brand: string;
-			priceCents: number;
-			currency: string;
-			storeUrl: string;
-			fitmentNote: string;
-			status: PartStatusValue;
-		}
-	>();
+	const existing = new Map<string, PartFields & { id: string }>();
 	for (let start = 0; start < skus.length; start += 10_000) {
 		const rows = await executor
 			.selectFrom('part')
