@@ -78,6 +78,15 @@ async function newEpisode(script = ''): Promise<TestEpisode> {
 	return { id: episode.id, segments, takes };
 }
 
+/** A database connection of the test's own, for calling the domain functions directly. */
+const directExecutor = () =>
+	new Kysely<Database>({
+		dialect: new PostgresDialect({
+			pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
+		}),
+		plugins: [new CamelCasePlugin()]
+	});
+
 const notesPath = (episodeId: string) => `/api/episodes/${episodeId}/notes`;
 
 async function writeNote(episode: TestEpisode, body: Record<string, unknown> = {}) {
@@ -477,12 +486,7 @@ describe('the featured parts list', () => {
 	});
 
 	test('featuredPartProblemsFor (for the lock gate): the blocking reasons, then [] once fixed; 404 elsewhere', async () => {
-		const executor = new Kysely<Database>({
-			dialect: new PostgresDialect({
-				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
-			}),
-			plugins: [new CamelCasePlugin()]
-		});
+		const executor = directExecutor();
 		try {
 			const episode = await newEpisode();
 			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
@@ -521,12 +525,7 @@ describe('the featured parts list', () => {
 	});
 
 	test('ensureTrackedLinks links an episode only to parts of its own channel, one link per part', async () => {
-		const executor = new Kysely<Database>({
-			dialect: new PostgresDialect({
-				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
-			}),
-			plugins: [new CamelCasePlugin()]
-		});
+		const executor = directExecutor();
 		const links = (episodeId: string) =>
 			sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [episodeId]);
 		try {
