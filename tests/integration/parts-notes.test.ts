@@ -17,6 +17,7 @@ import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
 import { featuredPartProblemsFor } from '$lib/server/merch/featured-parts';
+import { ensureTrackedLinks } from '$lib/server/merch/tracked-links';
 import type { Database } from '$lib/server/db/types';
 
 const require = createRequire(import.meta.url);
@@ -76,6 +77,15 @@ async function newEpisode(script = ''): Promise<TestEpisode> {
 	}
 	return { id: episode.id, segments, takes };
 }
+
+/** A database connection of the test's own, for calling the domain functions directly. */
+const directExecutor = () =>
+	new Kysely<Database>({
+		dialect: new PostgresDialect({
+			pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
+		}),
+		plugins: [new CamelCasePlugin()]
+	});
 
 const notesPath = (episodeId: string) => `/api/episodes/${episodeId}/notes`;
 
@@ -476,22 +486,17 @@ describe('the featured parts list', () => {
 	});
 
 	test('featuredPartProblemsFor (for the lock gate): the blocking reasons, then [] once fixed; 404 elsewhere', async () => {
-		const executor = new Kysely<Database>({
-			dialect: new PostgresDialect({
-				pool: new pg.Pool({ connectionString: inject('databaseUrl'), max: 1 })
-			}),
-			plugins: [new CamelCasePlugin()]
-		});
+		const executor = directExecutor();
 		try {
 			const episode = await newEpisode();
-			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
+			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
 			const [old, stands] = [await part('IBS-BL-OLD'), await part('IBS-BS-6T')];
 			const note = await writeNote(episode, { text: 'Old kit' });
 			const linked = await patch(visitors.merch, note.id, {
 				version: note.version,
 				partIds: [old.id]
 			});
-			const problems = await featuredPartProblemsFor(executor, channelId, episode.id);
+			const problems = await featuredPartProblemsFor(channelId, episode.id, executor);
 			expect(problems).toHaveLength(2);
 			expect(problems[0].message).toMatch(
 				/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/
@@ -509,11 +514,34 @@ describe('the featured parts list', () => {
 				version: relinked.body.note.version,
 				programTime: '1:00'
 			});
-			expect(await featuredPartProblemsFor(executor, channelId, episode.id)).toEqual([]);
+			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
 			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
 			await expect(
-				featuredPartProblemsFor(executor, dunewagon.id, episode.id)
+				featuredPartProblemsFor(dunewagon.id, episode.id, executor)
 			).rejects.toMatchObject({ status: 404 });
+		} finally {
+			await executor.destroy();
+		}
+	});
+
+	test('ensureTrackedLinks links an episode only to parts of its own channel, one link per part', async () => {
+		const executor = directExecutor();
+		const links = (episodeId: string) =>
+			sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [episodeId]);
+		try {
+			const episode = await newEpisode();
+			const stands = await part('IBS-BS-6T');
+			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
+			// OWASP ASVS 4.0 V4: another channel's records are "not found", and nothing is written.
+			await expect(
+				ensureTrackedLinks(dunewagon.id, episode.id, [stands.id], executor)
+			).rejects.toMatchObject({ status: 404 });
+			expect(await links(episode.id)).toEqual([]);
+			await ensureTrackedLinks(channelId, episode.id, [stands.id, stands.id], executor);
+			const [made] = await links(episode.id);
+			expect(made.part_id).toBe(stands.id);
+			await ensureTrackedLinks(channelId, episode.id, [stands.id], executor);
+			expect(await links(episode.id)).toEqual([made]);
 		} finally {
 			await executor.destroy();
 		}

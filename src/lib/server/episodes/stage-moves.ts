@@ -104,7 +104,7 @@ export async function gateSnapshotFor(
 				.orderBy('take.createdAt')
 				.execute(),
 			chapterProblemsFor(trx, channelId, episodeId),
-			featuredPartProblemsFor(trx, channelId, episodeId)
+			featuredPartProblemsFor(channelId, episodeId, trx)
 		]);
 	const words = await spokenWordsEach(segments.map((segment) => segment.body));
 	return {

@@ -7,7 +7,7 @@
  * - a part named in the script (its SKU, or its exact name, as whole words, ignoring case and
  *   the punctuation around them) but never linked on a note (a list only; it doesn't hold up the lock).
  */
-import { sql } from 'kysely';
+import { sql, type Expression } from 'kysely';
 import { db } from '../db';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
@@ -57,8 +57,8 @@ export interface FeaturedParts {
 	warnings: FeaturedWarning[];
 }
 
-/** The columns of a featured-part row (a note's part link, the part, its tracked link); the publish kit reads the same. */
-export const FEATURED_COLUMNS = [
+/** The columns of a featured-part row (a note's part link, the part, its tracked link). */
+const FEATURED_COLUMNS = [
 	'part.id as partId',
 	'part.sku',
 	'part.name',
@@ -74,8 +74,11 @@ export const FEATURED_COLUMNS = [
 	'trackedLink.code as linkCode'
 ] as const;
 
-/** One row per (note, part) link of the episode, with the part and its tracked link. */
-function featuredRows(executor: Executor, episodeId: string) {
+/**
+ * Every (note, part) link of an episode with the part and its tracked link, in no order. The
+ * publish kit reads it as a subquery, naming the episode by a reference to its own row.
+ */
+export function featuredLinks(executor: Executor, episodeId: string | Expression<string>) {
 	return executor
 		.selectFrom('segmentNotePart')
 		.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
@@ -86,7 +89,12 @@ function featuredRows(executor: Executor, episodeId: string) {
 				.onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId')
 		)
 		.select(FEATURED_COLUMNS)
-		.where('segmentNote.episodeId', '=', episodeId)
+		.where('segmentNote.episodeId', '=', episodeId);
+}
+
+/** One row per (note, part) link of the episode, in program-time order. */
+function featuredRows(executor: Executor, episodeId: string) {
+	return featuredLinks(executor, episodeId)
 		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
 		.orderBy('segmentNote.createdAt')
 		.execute();
@@ -274,9 +282,9 @@ export async function featuredPartsFor(
  * time. 404 for an episode of another channel.
  */
 export async function featuredPartProblemsFor(
-	executor: Executor,
 	channelId: string,
-	episodeId: string
+	episodeId: string,
+	executor: Executor = db
 ): Promise<{ message: string; fixedBy: Role }[]> {
 	const episode = await episodeInChannel(executor, channelId, episodeId);
 	const parts = groupFeatured(await featuredRows(executor, episode.id), episode.frameRate);

@@ -20,7 +20,7 @@ import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { episodeNotFound, type Executor } from '../episodes/episodes';
 import { isUuid } from '../auth/identity';
-import { FEATURED_COLUMNS, groupFeatured, type FeaturedPart } from './featured-parts';
+import { featuredLinks, groupFeatured, type FeaturedPart } from './featured-parts';
 import { ensureTrackedLinks, linkAddress } from './tracked-links';
 import { ChapterExportError, exportChapters, validateChapters } from '$lib/chapters';
 import { GENERAL_SAFETY_NOTE, LIFT_LAW_NOTE } from '$lib/cautions';
@@ -108,19 +108,7 @@ function kitQuery(executor: Executor, channelId: string, episodeId: string) {
 					.orderBy('segment.position')
 					.orderBy('caution.hazard')
 			).as('cautions'),
-			jsonArrayFrom(
-				eb
-					.selectFrom('segmentNotePart')
-					.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
-					.innerJoin('part', 'part.id', 'segmentNotePart.partId')
-					.leftJoin('trackedLink', (join) =>
-						join
-							.onRef('trackedLink.partId', '=', 'part.id')
-							.onRef('trackedLink.episodeId', '=', 'segmentNote.episodeId')
-					)
-					.select(FEATURED_COLUMNS)
-					.whereRef('segmentNote.episodeId', '=', 'episode.id')
-			).as('featured'),
+			jsonArrayFrom(featuredLinks(executor, eb.ref('episode.id'))).as('featured'),
 			// Lift and tyre episodes carry the road-legality note too.
 			sql<boolean>`(EXISTS (SELECT 1 FROM episode_build JOIN build ON build.id = episode_build.build_id WHERE episode_build.episode_id = episode.id AND (build.front_lift_in > 0 OR build.rear_lift_in > 0))
 				OR EXISTS (SELECT 1 FROM segment WHERE segment.episode_id = episode.id AND segment.kind = 'wheels-tyres'))`.as(
@@ -323,7 +311,7 @@ export async function publishKitFor(
 		.filter((feature) => feature.linkCode === null)
 		.map((feature) => feature.partId);
 	if (unlinked.length > 0) {
-		await ensureTrackedLinks(executor, row.id, unlinked);
+		await ensureTrackedLinks(channelId, row.id, unlinked, executor);
 		row = (await kitQuery(executor, channelId, episodeId))!;
 	}
 	return assemble(row, options.origin);

@@ -15,6 +15,7 @@
 import { randomBytes } from 'node:crypto';
 import { sql } from 'kysely';
 import { db } from '../db';
+import { notFound } from '../http/api';
 import type { Executor } from '../episodes/episodes';
 
 export const UTM_MEDIUM = 'video';
@@ -95,14 +96,26 @@ export const linkAddress = (origin: string, code: string) =>
 
 /**
  * Makes sure each (episode, part) pair has its tracked link; existing links keep their code (and
- * their clicks). Runs inside the caller's transaction when given one.
+ * their clicks). Runs inside the caller's transaction when given one. The episode and the parts
+ * must be the channel's (404 otherwise), so a link never joins two channels.
  */
 export async function ensureTrackedLinks(
-	executor: Executor,
+	channelId: string,
 	episodeId: string,
-	partIds: readonly string[]
+	partIds: readonly string[],
+	executor: Executor = db
 ): Promise<void> {
 	let missing = [...new Set(partIds)];
+	if (missing.length === 0) return;
+	const inChannel = await executor
+		.selectFrom('part')
+		.innerJoin('episode', 'episode.channelId', 'part.channelId')
+		.select('part.id')
+		.where('episode.id', '=', episodeId)
+		.where('part.channelId', '=', channelId)
+		.where('part.id', 'in', missing)
+		.execute();
+	if (inChannel.length !== missing.length) throw notFound('That episode or part');
 	for (let attempt = 0; attempt < 5 && missing.length > 0; attempt++) {
 		// DO NOTHING covers both "this pair has a link" and the rare clash of a random code.
 		await executor

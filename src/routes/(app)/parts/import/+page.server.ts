@@ -2,7 +2,8 @@ import { fail } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { DomainError } from '$lib/server/http/api';
 import { parseForm } from '$lib/server/http/forms';
-import { commitPartImport, previewPartImport, type ImportPreview } from '$lib/server/merch/parts';
+import { commitPartImport } from '$lib/server/merch/parts-import';
+import { previewPartImport, type ImportPreview } from '$lib/server/merch/parts-import-preview';
 import { importRequestSchema } from '$lib/schemas/parts';
 import type { Actions, PageServerLoad } from './$types';
 

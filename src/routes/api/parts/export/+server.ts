@@ -1,6 +1,6 @@
 import { api } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { exportPartsCsv } from '$lib/server/merch/parts';
+import { exportPartsCsv } from '$lib/server/merch/parts-csv';
 import type { RequestHandler } from './$types';
 
 /** Any crew member downloads the catalogue as CSV (the same columns the import reads). */

@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, parseWith, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { commitPartImport, previewPartImport } from '$lib/server/merch/parts';
+import { commitPartImport } from '$lib/server/merch/parts-import';
+import { previewPartImport } from '$lib/server/merch/parts-import-preview';
 import { importRequestSchema, type ImportRequest } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

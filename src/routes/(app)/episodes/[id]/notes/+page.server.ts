@@ -2,13 +2,8 @@ import { redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/auth/guard';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
-import {
-	createNote,
-	deleteNote,
-	notesPageFor,
-	noteRightsFor,
-	updateNote
-} from '$lib/server/merch/notes';
+import { createNote, deleteNote, noteRightsFor, updateNote } from '$lib/server/merch/notes';
+import { notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import { versionOnlySchema } from '$lib/schemas/fields';

@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { createNote, notesPageFor } from '$lib/server/merch/notes';
+import { createNote } from '$lib/server/merch/notes';
+import { notesPageFor } from '$lib/server/merch/notes-page';
 import { noteCreateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 

@@ -1,0 +1,197 @@
+/**
+ * The notes page's read model: an episode's notes with their parts, in program-time order, and
+ * the segments and takes a note can be put in; times shown at the episode's rate.
+ */
+import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import { db } from '../db';
+import { episodeInChannel, type Executor } from '../episodes/episodes';
+import {
+	defaultDropFrame,
+	formatClock,
+	formatTimecode,
+	framesToSeconds,
+	type FrameRate
+} from '$lib/timecode';
+
+export interface NotePart {
+	id: string;
+	sku: string;
+	name: string;
+	brand: string;
+	status: string;
+}
+
+export interface NoteView {
+	id: string;
+	segmentId: string | null;
+	segmentTitle: string | null;
+	segmentPosition: number | null;
+	programFrame: number | null;
+	/** Timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	programTimecode: string | null;
+	/** M:SS as a description shows it. */
+	programClock: string | null;
+	takeId: string | null;
+	takeClip: string | null;
+	sourceFrame: number | null;
+	/** The source frame as the take's camera showed it (drop-frame when the take was logged so). */
+	sourceTimecode: string | null;
+	text: string;
+	authorName: string | null;
+	parts: NotePart[];
+	version: number;
+}
+
+export interface NotesPage {
+	episode: {
+		id: string;
+		title: string;
+		slug: string;
+		stage: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+		cutDurationFrames: number | null;
+		cutTimecode: string | null;
+	};
+	segments: { id: string; position: number; title: string }[];
+	takes: {
+		id: string;
+		clipName: string;
+		segmentId: string;
+		shot: string;
+		good: boolean;
+		sourceIn: string;
+		sourceOut: string;
+	}[];
+	notes: NoteView[];
+}
+
+/** The notes of one episode, with their parts, in program-time order (unplaced ones last). */
+function notesQuery(executor: Executor, episodeId: string) {
+	return executor
+		.selectFrom('segmentNote')
+		.leftJoin('segment', 'segment.id', 'segmentNote.segmentId')
+		.leftJoin('take', 'take.id', 'segmentNote.takeId')
+		.leftJoin('person', 'person.id', 'segmentNote.authorId')
+		.select((eb) => [
+			'segmentNote.id',
+			'segmentNote.segmentId',
+			'segment.title as segmentTitle',
+			'segment.position as segmentPosition',
+			'segmentNote.programFrame',
+			'segmentNote.takeId',
+			'take.clipName as takeClip',
+			'take.sourceDropFrame',
+			'segmentNote.sourceFrame',
+			'segmentNote.text',
+			'person.name as authorName',
+			'segmentNote.version',
+			jsonArrayFrom(
+				eb
+					.selectFrom('segmentNotePart')
+					.innerJoin('part', 'part.id', 'segmentNotePart.partId')
+					.select(['part.id', 'part.sku', 'part.name', 'part.brand', 'part.status'])
+					.whereRef('segmentNotePart.noteId', '=', 'segmentNote.id')
+					.orderBy('segmentNotePart.createdAt')
+					.orderBy('part.sku')
+			).as('parts')
+		])
+		.where('segmentNote.episodeId', '=', episodeId)
+		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
+		.orderBy(sql`segment.position ASC NULLS LAST`)
+		.orderBy('segmentNote.createdAt')
+		.orderBy('segmentNote.id');
+}
+
+type NoteRow = Awaited<ReturnType<ReturnType<typeof notesQuery>['execute']>>[number];
+
+function toView(row: NoteRow, rate: FrameRate): NoteView {
+	const { sourceDropFrame, ...note } = row;
+	return {
+		...note,
+		programTimecode: row.programFrame === null ? null : formatTimecode(row.programFrame, rate),
+		programClock:
+			row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
+		sourceTimecode:
+			row.sourceFrame === null
+				? null
+				: formatTimecode(row.sourceFrame, rate, { dropFrame: sourceDropFrame ?? false }),
+		parts: row.parts as NotePart[]
+	};
+}
+
+/** Everything the notes page shows: the episode, its segments and takes to pick from, and its notes. */
+export async function notesPageFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<NotesPage> {
+	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const rate = episode.frameRate;
+	const [segments, takes, notes] = await Promise.all([
+		executor
+			.selectFrom('segment')
+			.select(['id', 'position', 'title'])
+			.where('episodeId', '=', episode.id)
+			.orderBy('position')
+			.execute(),
+		executor
+			.selectFrom('take')
+			.innerJoin('shot', 'shot.id', 'take.shotId')
+			.innerJoin('segment', 'segment.id', 'shot.segmentId')
+			.select([
+				'take.id',
+				'take.clipName',
+				'take.good',
+				'take.sourceInFrames',
+				'take.sourceOutFrames',
+				'take.sourceDropFrame',
+				'shot.what',
+				'shot.segmentId'
+			])
+			.where('segment.episodeId', '=', episode.id)
+			.orderBy('segment.position')
+			.orderBy('shot.position')
+			.orderBy('take.clipName')
+			.execute(),
+		notesQuery(executor, episode.id).execute()
+	]);
+	return {
+		episode: {
+			id: episode.id,
+			title: episode.title,
+			slug: episode.slug,
+			stage: episode.stage,
+			frameRate: rate,
+			dropFrame: defaultDropFrame(rate),
+			cutDurationFrames: episode.cutDurationFrames,
+			cutTimecode:
+				episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+		},
+		segments,
+		takes: takes.map((take) => ({
+			id: take.id,
+			clipName: take.clipName,
+			segmentId: take.segmentId,
+			shot: take.what,
+			good: take.good,
+			sourceIn: formatTimecode(take.sourceInFrames, rate, { dropFrame: take.sourceDropFrame }),
+			sourceOut: formatTimecode(take.sourceOutFrames, rate, { dropFrame: take.sourceDropFrame })
+		})),
+		notes: notes.map((row) => toView(row, rate))
+	};
+}
+
+/** One note as the page shows it (a write answers with it). */
+export async function viewOf(
+	executor: Executor,
+	episodeId: string,
+	noteId: string,
+	rate: FrameRate
+): Promise<NoteView> {
+	const row = await notesQuery(executor, episodeId)
+		.where('segmentNote.id', '=', noteId)
+		.executeTakeFirstOrThrow();
+	return toView(row, rate);
+}

@@ -1,0 +1,7 @@
+/** A UTC day ("2026-12-03") as the clicks panel shows it: "Dec 3". */
+export const shortDate = (day: string) =>
+	new Date(`${day}T00:00:00Z`).toLocaleDateString('en', {
+		month: 'short',
+		day: 'numeric',
+		timeZone: 'UTC'
+	});
