@@ -13,7 +13,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
-import { framesFromText } from '../episodes/segments';
+import { frameFromTyped } from './typed-time';
 import type { SpecCardInput } from '$lib/specs';
 import type { SpecCardBoard, SpecCardSegment, SpecCardView } from '$lib/specs/board';
 import {
@@ -26,6 +26,7 @@ import {
 	defaultDropFrame,
 	formatTimecode,
 	framesToMilliseconds,
+	parseTypedTime,
 	secondsToFrames,
 	type FrameRate
 } from '$lib/timecode';
@@ -210,7 +211,7 @@ function placedFrame(
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
 	else if (input.at !== undefined)
-		frame = input.at === null ? null : framesFromText(input.at, rate, 'at');
+		frame = input.at === null ? null : frameFromTyped('at', () => parseTypedTime(input.at!, rate));
 	if (
 		frame !== null &&
 		frame !== undefined &&

@@ -20,6 +20,7 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Actor, type Executor } from '../episodes/episodes';
 import { ensureTrackedLinks } from './tracked-links';
+import { frameFromTyped } from '../edit/typed-time';
 import { chapterStartFromText } from '$lib/chapters';
 import {
 	TimecodeError,
@@ -261,13 +262,7 @@ export async function notesPageFor(
 
 /** Runs a parse of typed time; a typing mistake is a 400 in plain words on that field. */
 function readTyped(field: string, parse: () => number): number {
-	try {
-		return parse();
-	} catch (failure) {
-		if (failure instanceof TimecodeError)
-			throw new DomainError(400, failure.message, { [field]: [failure.message] });
-		throw failure;
-	}
+	return frameFromTyped(field, parse);
 }
 
 /** The program frame the input names: undefined = unchanged, null = cleared. */
