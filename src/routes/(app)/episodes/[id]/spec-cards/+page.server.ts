@@ -1,6 +1,13 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { fail, redirect, type ActionFailure } from '@sveltejs/kit';
 import { hasRole, requireRole } from '$lib/server/auth/guard';
-import { attempt, forPage, parseForm, readVersion, type FormErrors } from '$lib/server/http/forms';
+import {
+	attempt,
+	forPage,
+	parseForm,
+	readVersion,
+	type FormErrors,
+	type FormFailure
+} from '$lib/server/http/forms';
 import {
 	createSpecCard,
 	deleteSpecCard,
@@ -58,6 +65,10 @@ function requestFrom(values: Record<string, string>) {
 	};
 }
 
+/** A save the domain refused: the form keeps what was typed, with the issues on its own field names. */
+const refusedSave = (result: ActionFailure<FormFailure<Record<string, string>>>) =>
+	fail(result.status, { action: 'save', ...result.data, errors: formErrors(result.data.errors) });
+
 const cardsPage = (episodeId: string, cardId?: string) =>
 	safeRedirectPath(`/episodes/${episodeId}/spec-cards${cardId ? `#card-${cardId}` : ''}`);
 
@@ -75,12 +86,7 @@ export const actions = {
 			const result = await attempt(values, () =>
 				createSpecCard(channel.id, person, event.params.id, parsed.data)
 			);
-			if ('status' in result)
-				return fail(result.status, {
-					action: 'save',
-					...result.data,
-					errors: formErrors(result.data.errors)
-				});
+			if ('status' in result) return refusedSave(result);
 			redirect(303, cardsPage(event.params.id, result.id));
 		}
 		const parsed = parseForm(specCardUpdateSchema, { ...request, version: Number(values.version) });
@@ -88,12 +94,7 @@ export const actions = {
 		const result = await attempt(values, () =>
 			updateSpecCard(channel.id, event.params.id, cardId, parsed.data)
 		);
-		if ('status' in result)
-			return fail(result.status, {
-				action: 'save',
-				...result.data,
-				errors: formErrors(result.data.errors)
-			});
+		if ('status' in result) return refusedSave(result);
 		redirect(303, cardsPage(event.params.id, result.id));
 	},
 	/** Removes a card, if nobody changed it since the page was loaded. */
