@@ -303,6 +303,31 @@ export function parseTimecode(
 }
 
 /**
+ * Frame count for time a person types on a page: timecode or clock text, read the way the pages
+ * show it (drop-frame at 29.97 and 59.94, so `00:10:00:00` there means `00:10:00;00`).
+ */
+export function parseTypedTime(text: string, rate: FrameRate): number {
+	return parseTimecode(text, rate, { dropFrame: defaultDropFrame(rate) });
+}
+
+/** A read of typed time: the frame, or the typing mistake in plain words and the field it was typed in. */
+export type TypedTime = { ok: true; frame: number } | { ok: false; field: string; message: string };
+
+/**
+ * Runs a read of typed time (parseTypedTime, chapterStartFromText, …). A TimecodeError is a typing
+ * mistake the person can correct, so it comes back tied to `field`; any other failure is a bug and
+ * is thrown on.
+ */
+export function readTypedTime(field: string, read: () => number): TypedTime {
+	try {
+		return { ok: true, frame: read() };
+	} catch (failure) {
+		if (failure instanceof TimecodeError) return { ok: false, field, message: failure.message };
+		throw failure;
+	}
+}
+
+/**
  * Frame count for timecode typed against a source of known form (a take logged drop-frame or
  * not): the labels are read in that form whichever of ':' or ';' separates the frames, since the
  * digits mean one frame either way; clock times read as in {@link parseTimecode}.

@@ -523,18 +523,18 @@ describe('chapters', () => {
 		});
 		try {
 			const { id } = await newEpisode({ cut: 20000 });
-			expect(await chapterProblemsFor(executor, torquehavenId, id)).toBeNull();
+			expect(await chapterProblemsFor(torquehavenId, id, executor)).toBeNull();
 			await addChapters(id, [{ startFrame: 0, title: 'Cold open' }]);
-			expect(await chapterProblemsFor(executor, torquehavenId, id)).toEqual([
+			expect(await chapterProblemsFor(torquehavenId, id, executor)).toEqual([
 				'A chapter list needs at least 3 chapters; this one has 1.'
 			]);
 			await addChapters(id, [
 				{ startFrame: 3000, title: 'Lift' },
 				{ startFrame: 6000, title: 'Lower' }
 			]);
-			expect(await chapterProblemsFor(executor, torquehavenId, id)).toEqual([]);
+			expect(await chapterProblemsFor(torquehavenId, id, executor)).toEqual([]);
 			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
-			await expect(chapterProblemsFor(executor, dunewagon.id, id)).rejects.toMatchObject({
+			await expect(chapterProblemsFor(dunewagon.id, id, executor)).rejects.toMatchObject({
 				status: 404
 			});
 		} finally {

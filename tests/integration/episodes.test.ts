@@ -850,9 +850,9 @@ describe('what the stage module offers the edit work', () => {
 			});
 			expect(marks.some((mark) => mark.label.startsWith('Brakes'))).toBe(false);
 			// The demo edit has a valid chapter list (seeded by the edit work), so nothing to report.
-			expect(await chapterProblemsFor(executor, mule.channel_id, mule.id)).toEqual([]);
+			expect(await chapterProblemsFor(mule.channel_id, mule.id, executor)).toEqual([]);
 			const episode = await newEpisode();
-			expect(await chapterProblemsFor(executor, mule.channel_id, episode.id)).toBeNull();
+			expect(await chapterProblemsFor(mule.channel_id, episode.id, executor)).toBeNull();
 		} finally {
 			await executor.destroy();
 		}

@@ -1,5 +1,6 @@
 import { SpecError } from './errors';
 import { MILLIMETRES_PER_INCH } from './units';
+import { withGeometry } from './tyre-geometry';
 
 export type TyreSizeKind = 'metric' | 'flotation';
 /** P = passenger, LT = light truck, as moulded on the sidewall. */
@@ -55,10 +56,6 @@ export const TYRE_LIMITS = {
 export const TYRE_GEOMETRY_NOTE =
 	'Worked out from the size code. Makers measure their published figures mounted and under load, so those differ slightly.';
 
-/** Inches in a mile: 5280 ft × 12 in. */
-const INCHES_PER_MILE = 63_360;
-/** Millimetres in a kilometre. */
-const MILLIMETRES_PER_KILOMETRE = 1_000_000;
 /** Longer than any size with a service description; keeps the parser's work bounded. */
 const MAX_CODE_LENGTH = 40;
 
@@ -88,7 +85,7 @@ const FLOTATION_WITH_PREFIX = /^(P|LT) ?\d+(?:\.\d+)? ?X/;
 const RIM_WITHOUT_WIDTH = new RegExp(`^(P|LT)? ?${CONSTRUCTION} ?\\d`);
 const NUMBER_ONLY = /^(P|LT)? ?\d+(?:\.\d+)?$/;
 
-type ParsedTail = {
+export type ParsedTail = {
 	construction: TyreConstruction | null;
 	rimIn: number;
 	rimText: string;
@@ -369,53 +366,4 @@ function formatFlotationWidth(widthIn: number, asTyped: string): string {
 	if (Number.isInteger(widthIn)) return String(widthIn);
 	const decimals = asTyped.split('.')[1]?.replace(/0+$/, '').length ?? 0;
 	return decimals <= 2 ? widthIn.toFixed(2) : String(widthIn);
-}
-
-/** A parsed size before its circumference and revolutions are worked out; the tail carries load index and speed rating. */
-type SizeWithoutGeometry = Omit<
-	TyreSize,
-	| 'circumferenceIn'
-	| 'circumferenceMm'
-	| 'revsPerMile'
-	| 'revsPerKm'
-	| 'loadIndex'
-	| 'dualLoadIndex'
-	| 'speedRating'
-	| 'commercial'
-	| 'runFlat'
-	| 'diameterNominal'
-> & {
-	tail: ParsedTail;
-};
-
-/** Circumference = π × diameter; revolutions per mile = 63,360 / circumference in inches; per km = 10⁶ / circumference in mm. */
-function withGeometry(size: SizeWithoutGeometry): TyreSize {
-	const { diameterIn } = size;
-	const circumferenceIn = Math.PI * diameterIn;
-	const circumferenceMm = Math.PI * size.diameterMm;
-	const result: TyreSize = {
-		kind: size.kind,
-		code: size.code,
-		serviceType: size.serviceType,
-		construction: size.construction,
-		sectionWidthMm: size.sectionWidthMm,
-		sectionWidthIn: size.sectionWidthIn,
-		aspectRatio: size.aspectRatio,
-		rimIn: size.rimIn,
-		sidewallMm: size.sidewallMm,
-		sidewallIn: size.sidewallIn,
-		diameterIn,
-		diameterMm: size.diameterMm,
-		circumferenceIn,
-		circumferenceMm,
-		revsPerMile: INCHES_PER_MILE / circumferenceIn,
-		revsPerKm: MILLIMETRES_PER_KILOMETRE / circumferenceMm,
-		commercial: size.tail.commercial,
-		runFlat: size.tail.runFlat,
-		diameterNominal: size.kind === 'flotation'
-	};
-	if (size.tail.loadIndex !== undefined) result.loadIndex = size.tail.loadIndex;
-	if (size.tail.dualLoadIndex !== undefined) result.dualLoadIndex = size.tail.dualLoadIndex;
-	if (size.tail.speedRating !== undefined) result.speedRating = size.tail.speedRating;
-	return result;
 }

@@ -1,38 +1,22 @@
 /**
- * The edit: an episode's cut length and its chapter markers, their rules and their exports.
+ * The edit: an episode's cut length and its chapter markers with their rules (files: chapter-download.ts).
  *
  * Every function takes the channel id and filters by it: an episode of another channel is "not
  * found". Chapter rules (src/lib/chapters/rules.ts) are reported, never refused, so the editor can
  * work through a half-finished list; only the exports refuse (422) a list that breaks them.
  * Chapters carry a version; a change that names a stale one answers 409 with the current row.
  */
-import type { Kysely } from 'kysely';
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
-import type { Database } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import {
-	ChapterExportError,
-	chapterStartFromText,
-	exportChapters,
-	validateChapters,
-	type ChapterFormat,
-	type ChapterProblem
-} from '$lib/chapters';
-import {
-	TimecodeError,
-	defaultDropFrame,
-	formatTimecode,
-	parseTimecode,
-	type FrameRate
-} from '$lib/timecode';
+import { episodeNotFound, type Executor } from '../episodes/episodes';
+import { frameFromTyped } from './typed-time';
+import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
+import { defaultDropFrame, formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
 import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
 import { editLocks, type Stage } from '$lib/stages';
-
-/** The shared instance or an open transaction (a Transaction is a Kysely). */
-export type Executor = Kysely<Database>;
 
 export interface EditChapter {
 	id: string;
@@ -69,14 +53,13 @@ export interface EditState {
 	locks: { cut: string | null; chapters: string | null };
 }
 
-const episodeNotFound = () => notFound('That episode');
 const chapterNotFound = () => notFound('That chapter');
 
 /**
  * One round trip: the episode and its chapters (in start order) as a JSON aggregate.
  * The export relies on this being a single query (see scripts/bench.ts).
  */
-function episodeWithChapters(executor: Executor, channelId: string, episodeId: string) {
+export function episodeWithChapters(channelId: string, episodeId: string, executor: Executor = db) {
 	return executor
 		.selectFrom('episode')
 		.select((eb) => [
@@ -134,7 +117,7 @@ function toEditChapter(
 }
 
 /** validateChapters on the list in start order, with each problem tied to its chapter's id. */
-function problemsOf(
+export function problemsOf(
 	chapters: readonly { id: string; startFrame: number; title: string; url: string | null }[],
 	cutDurationFrames: number | null,
 	rate: FrameRate
@@ -175,7 +158,7 @@ export async function findEditState(
 	executor: Executor = db
 ): Promise<EditState | null> {
 	if (!isUuid(episodeId)) return null;
-	const row = await episodeWithChapters(executor, channelId, episodeId);
+	const row = await episodeWithChapters(channelId, episodeId, executor);
 	return row ? stateOf(row) : null;
 }
 
@@ -195,29 +178,18 @@ export async function editStateFor(
  * otherwise validateChapters' messages ([] when the list is ready). 404 for another channel's episode.
  */
 export async function chapterProblemsFor(
-	executor: Executor,
 	channelId: string,
-	episodeId: string
+	episodeId: string,
+	executor: Executor = db
 ): Promise<string[] | null> {
 	const state = await editStateFor(channelId, episodeId, executor);
 	if (state.chapters.length === 0) return null;
 	return state.problems.map((problem) => problem.message);
 }
 
-/** Runs a parse of typed time; a person's typing mistake is a 400 in plain words on that field. */
-function readTyped(field: string, parse: () => number): number {
-	try {
-		return parse();
-	} catch (failure) {
-		if (failure instanceof TimecodeError)
-			throw new DomainError(400, failure.message, { [field]: [failure.message] });
-		throw failure;
-	}
-}
-
-async function scopedEpisode(executor: Executor, channelId: string, episodeId: string) {
+async function scopedEpisode(channelId: string, episodeId: string) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
-	const episode = await executor
+	const episode = await db
 		.selectFrom('episode')
 		.select(['id', 'frameRate', 'cutDurationFrames', 'stage'])
 		.where('id', '=', episodeId)
@@ -238,7 +210,7 @@ function startFrameOf(
 ): number | undefined {
 	if (input.startFrame !== undefined) return input.startFrame;
 	if (input.start !== undefined)
-		return readTyped('start', () => chapterStartFromText(input.start!, rate));
+		return frameFromTyped('start', () => chapterStartFromText(input.start!, rate));
 	return undefined;
 }
 
@@ -248,12 +220,10 @@ export async function setCutDuration(
 	episodeId: string,
 	input: CutUpdate
 ): Promise<EditState> {
-	const episode = await scopedEpisode(db, channelId, episodeId);
+	const episode = await scopedEpisode(channelId, episodeId);
 	refuseLocked(episode.locks.cut);
 	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
-	const frames = readTyped('duration', () =>
-		parseTimecode(input.duration, episode.rate, { dropFrame: defaultDropFrame(episode.rate) })
-	);
+	const frames = frameFromTyped('duration', () => parseTypedTime(input.duration, episode.rate));
 	if (frames <= 0) {
 		const message =
 			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
@@ -309,7 +279,7 @@ export async function addChapter(
 	episodeId: string,
 	input: ChapterCreate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(db, channelId, episodeId);
+	const episode = await scopedEpisode(channelId, episodeId);
 	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.rate)!;
@@ -362,7 +332,7 @@ export async function updateChapter(
 	chapterId: string,
 	input: ChapterUpdate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(db, channelId, episodeId);
+	const episode = await scopedEpisode(channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
@@ -395,7 +365,7 @@ export async function deleteChapter(
 	chapterId: string,
 	version?: number
 ): Promise<{ removed: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(db, channelId, episodeId);
+	const episode = await scopedEpisode(channelId, episodeId);
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	refuseLocked(episode.locks.chapters);
 	let removal = db
@@ -411,66 +381,4 @@ export async function deleteChapter(
 		removed: toEditChapter(row, episode.rate),
 		state: await editStateFor(channelId, episodeId)
 	};
-}
-
-export interface ChapterDownload {
-	body: string;
-	contentType: string;
-	filename: string;
-	/** Where the server's time went, for the Server-Timing header. */
-	timing: { queryMilliseconds: number; renderMilliseconds: number };
-}
-
-/** A file name from the slug, kept to characters every download dialog and header accepts. */
-function downloadName(slug: string, extension: string): string {
-	const safe = slug.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'episode';
-	return `${safe}-chapters.${extension}`;
-}
-
-/**
- * The chapters in one export format, read with a single query. 422 with the problems (per chapter)
- * when the list breaks a chapter rule, since a half-finished list must not reach a description.
- */
-export async function chapterDownloadFor(
-	channelId: string,
-	episodeId: string,
-	format: ChapterFormat
-): Promise<ChapterDownload> {
-	if (!isUuid(episodeId)) throw episodeNotFound();
-	const started = performance.now();
-	const row = await episodeWithChapters(db, channelId, episodeId);
-	const queried = performance.now();
-	if (!row) throw episodeNotFound();
-	const rate = row.frameRate;
-	const problems = problemsOf(row.chapters, row.cutDurationFrames, rate);
-	if (problems.length > 0) {
-		throw new DomainError(
-			422,
-			`These chapters can't be exported yet: ${problems.length === 1 ? 'one rule is' : `${problems.length} rules are`} broken. Fix what is listed, then download again.`,
-			undefined,
-			{ problems }
-		);
-	}
-	try {
-		const exported = exportChapters(format, row.chapters, {
-			rate,
-			cutEndFrame: row.cutDurationFrames ?? 0
-		});
-		return {
-			body: exported.body,
-			contentType: exported.contentType,
-			filename: downloadName(row.slug, exported.extension),
-			timing: {
-				queryMilliseconds: queried - started,
-				renderMilliseconds: performance.now() - queried
-			}
-		};
-	} catch (failure) {
-		// The rules above cover what the exporter checks; this keeps any gap a 422 in plain words.
-		if (failure instanceof ChapterExportError)
-			throw new DomainError(422, failure.message, undefined, {
-				problems: [{ chapterId: null, field: 'list', message: failure.message }]
-			});
-		throw failure;
-	}
 }

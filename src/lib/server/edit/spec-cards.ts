@@ -13,20 +13,20 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
-import { framesFromText } from '../episodes/segments';
+import { frameFromTyped } from './typed-time';
+import type { SpecCardInput } from '$lib/specs';
+import type { SpecCardBoard, SpecCardSegment, SpecCardView } from '$lib/specs/board';
 import {
-	compareTyres,
-	liftSummary,
-	parseTyreSize,
-	torqueCard,
-	type SpecCard,
-	type SpecCardInput,
-	type SpecCardKind
-} from '$lib/specs';
+	specCardExportRows,
+	specCardsCsv,
+	specCardsJson,
+	type SpecCardExportRow
+} from '$lib/specs/export';
 import {
 	defaultDropFrame,
 	formatTimecode,
 	framesToMilliseconds,
+	parseTypedTime,
 	secondsToFrames,
 	type FrameRate
 } from '$lib/timecode';
@@ -38,55 +38,6 @@ import {
 	type SpecCardExportFormat,
 	type SpecCardUpdate
 } from '$lib/schemas/spec-cards';
-import type { TimelineMark } from '$lib/components/timeline';
-import { csvText } from '$lib/csv';
-
-export interface SpecCardSegment {
-	id: string;
-	position: number;
-	title: string;
-	/** Where the segment starts in the cut, from the rundown's recorded lengths; null while one before it is unknown. */
-	startsAtFrame: number | null;
-	startsAtTimecode: string | null;
-}
-
-export interface SpecCardView {
-	id: string;
-	kind: SpecCardKind;
-	kindLabel: string;
-	/** The card as entered. */
-	input: SpecCardInput;
-	segment: { id: string; position: number; title: string } | null;
-	/** Program time in the cut (episode frame rate); null until placed. */
-	atFrame: number | null;
-	atTimecode: string | null;
-	durationFrames: number;
-	durationSeconds: number;
-	/** True when the cut's length is known and the card starts at or after its end. */
-	pastCutEnd: boolean;
-	position: number;
-	version: number;
-	createdByName: string | null;
-	updatedAt: string;
-	/** The lines as they read on screen; null (with `problem`) if the stored input no longer renders. */
-	card: SpecCard | null;
-	problem: string | null;
-}
-
-export interface SpecCardBoard {
-	episode: {
-		id: string;
-		title: string;
-		slug: string;
-		frameRate: FrameRate;
-		dropFrame: boolean;
-		cutDurationFrames: number | null;
-		cutTimecode: string | null;
-	};
-	segments: SpecCardSegment[];
-	/** Placed cards in program-time order, then unplaced ones in the order they were made. */
-	cards: SpecCardView[];
-}
 
 const cardNotFound = () => notFound('That spec card');
 
@@ -260,7 +211,7 @@ function placedFrame(
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
 	else if (input.at !== undefined)
-		frame = input.at === null ? null : framesFromText(input.at, rate, 'at');
+		frame = input.at === null ? null : frameFromTyped('at', () => parseTypedTime(input.at!, rate));
 	if (
 		frame !== null &&
 		frame !== undefined &&
@@ -393,107 +344,8 @@ export async function deleteSpecCard(
 	return { removed };
 }
 
-/** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
-export async function specCardMarksFor(
-	channelId: string,
-	episodeId: string
-): Promise<TimelineMark[]> {
-	const board = await specCardsFor(channelId, episodeId);
-	return board.cards
-		.filter((view) => view.atFrame !== null)
-		.map((view) => ({
-			kind: 'spec-card' as const,
-			atFrame: view.atFrame!,
-			label: `${view.kindLabel}: ${view.card?.heading ?? 'needs checking'}`,
-			href: `/episodes/${board.episode.id}/spec-cards?edit=${view.id}#card-form`
-		}));
-}
-
-/** Exact figures behind a card's lines (unrounded), for graphics that lay the numbers out themselves. */
-export function specCardFigures(input: SpecCardInput): Record<string, number | string> {
-	switch (input.kind) {
-		case 'tyre': {
-			const size = parseTyreSize(input.size);
-			return {
-				diameterIn: size.diameterIn,
-				diameterMm: size.diameterMm,
-				sectionWidthIn: size.sectionWidthIn,
-				sectionWidthMm: size.sectionWidthMm,
-				sidewallIn: size.sidewallIn,
-				sidewallMm: size.sidewallMm,
-				revsPerMile: size.revsPerMile,
-				revsPerKm: size.revsPerKm
-			};
-		}
-		case 'tyre-change': {
-			const change = compareTyres(parseTyreSize(input.from), parseTyreSize(input.to));
-			return {
-				fromDiameterIn: change.from.diameterIn,
-				toDiameterIn: change.to.diameterIn,
-				fromDiameterMm: change.from.diameterMm,
-				toDiameterMm: change.to.diameterMm,
-				diameterChangeIn: change.diameterChangeIn,
-				diameterChangeMm: change.diameterChangeMm,
-				axleHeightChangeIn: change.groundClearanceChangeIn,
-				axleHeightChangeMm: change.groundClearanceChangeMm,
-				speedometerFactor: change.speedometerFactor,
-				revsPerMileChange: change.revsPerMileChange,
-				revsPerKmChange: change.revsPerKmChange
-			};
-		}
-		case 'torque': {
-			const torque = torqueCard({ value: input.value, unit: input.unit });
-			return {
-				statedValue: input.value,
-				statedUnit: input.unit,
-				newtonMetres: torque.newtonMetres,
-				footPoundsForce: torque.footPoundsForce,
-				inchPoundsForce: torque.inchPoundsForce
-			};
-		}
-		case 'lift': {
-			const lift = liftSummary(input);
-			return {
-				frontLiftIn: lift.frontLiftIn,
-				rearLiftIn: lift.rearLiftIn,
-				frontLiftMm: lift.frontLiftMm,
-				rearLiftMm: lift.rearLiftMm,
-				rakeChangeIn: lift.rakeChangeIn,
-				rakeChangeMm: lift.rakeChangeMm
-			};
-		}
-		case 'text':
-			return {};
-	}
-}
-
-/** One card as the editor's graphics read it. */
-export interface SpecCardExportRow {
-	id: string;
-	kind: SpecCardKind;
-	segment: { position: number; title: string } | null;
-	start: { frame: number; timecode: string; seconds: string } | null;
-	end: { frame: number; timecode: string; seconds: string } | null;
-	durationSeconds: string;
-	heading: string;
-	body: string | null;
-	lines: SpecCard['lines'];
-	cautions: string[];
-	figures: Record<string, number | string>;
-}
-
-/** Seconds with exactly three decimals, written from whole milliseconds so no float formatting creeps in. */
-function secondsText(frames: number, rate: FrameRate): string {
-	const milliseconds = framesToMilliseconds(frames, rate);
-	return `${Math.floor(milliseconds / 1000)}.${String(milliseconds % 1000).padStart(3, '0')}`;
-}
-
-function pointOf(frame: number, rate: FrameRate) {
-	return { frame, timecode: formatTimecode(frame, rate), seconds: secondsText(frame, rate) };
-}
-
 /** The board's cards as export rows; 422 when a stored card no longer renders, so no half-checked number reaches the graphics. */
-export function specCardExportRows(board: SpecCardBoard): SpecCardExportRow[] {
+function exportRowsOf(board: SpecCardBoard): SpecCardExportRow[] {
 	const broken = board.cards.filter((view) => view.card === null);
 	if (broken.length > 0) {
 		throw new DomainError(
@@ -503,69 +355,8 @@ export function specCardExportRows(board: SpecCardBoard): SpecCardExportRow[] {
 			{ problems: broken.map((view) => ({ cardId: view.id, message: view.problem })) }
 		);
 	}
-	const rate = board.episode.frameRate;
-	return board.cards.map((view) => {
-		const card = view.card!;
-		return {
-			id: view.id,
-			kind: view.kind,
-			segment: view.segment && { position: view.segment.position, title: view.segment.title },
-			start: view.atFrame === null ? null : pointOf(view.atFrame, rate),
-			end: view.atFrame === null ? null : pointOf(view.atFrame + view.durationFrames, rate),
-			durationSeconds: secondsText(view.durationFrames, rate),
-			heading: card.heading,
-			body: card.body ?? null,
-			lines: card.lines,
-			cautions: card.cautions,
-			figures: specCardFigures(view.input)
-		};
-	});
-}
-
-/**
- * CSV for a titler: one row per card, a header row, CRLF line ends (RFC 4180). Lines go in
- * numbered column triples (label, imperial, metric) up to the longest card; cautions share one
- * field, one caution per line, the way they read on screen.
- */
-export function specCardsCsv(rows: SpecCardExportRow[]): string {
-	const lineCount = Math.max(1, ...rows.map((row) => row.lines.length));
-	const header = [
-		'card_id',
-		'kind',
-		'segment_position',
-		'segment_title',
-		'start_timecode',
-		'start_seconds',
-		'end_timecode',
-		'duration_seconds',
-		'heading',
-		'body'
-	];
-	for (let index = 1; index <= lineCount; index++)
-		header.push(`line_${index}_label`, `line_${index}_imperial`, `line_${index}_metric`);
-	header.push('cautions');
-	const records = [header];
-	for (const row of rows) {
-		const record = [
-			row.id,
-			row.kind,
-			row.segment ? String(row.segment.position) : '',
-			row.segment?.title ?? '',
-			row.start?.timecode ?? '',
-			row.start?.seconds ?? '',
-			row.end?.timecode ?? '',
-			row.durationSeconds,
-			row.heading,
-			row.body ?? ''
-		];
-		for (let index = 0; index < lineCount; index++) {
-			const line = row.lines[index];
-			record.push(line?.label ?? '', line?.imperial ?? '', line?.metric ?? '');
-		}
-		record.push(row.cautions.join('\n'));
-		records.push(record);
-	}
-	return csvText(records);
+	const cards = board.cards.map((view) => ({ ...view, card: view.card! }));
+	return specCardExportRows(cards, board.episode.frameRate);
 }
 
 export interface SpecCardDownload {
@@ -587,7 +378,7 @@ export async function specCardDownloadFor(
 	format: SpecCardExportFormat
 ): Promise<SpecCardDownload> {
 	const board = await specCardsFor(channelId, episodeId);
-	const rows = specCardExportRows(board);
+	const rows = exportRowsOf(board);
 	if (format === 'csv') {
 		// RFC 4180 §3 registers the optional header parameter; ours always has a header row.
 		return {
@@ -596,20 +387,9 @@ export async function specCardDownloadFor(
 			filename: downloadName(board.episode.slug, 'csv')
 		};
 	}
-	const { episode } = board;
-	const document = {
-		episode: {
-			id: episode.id,
-			slug: episode.slug,
-			title: episode.title,
-			frameRate: episode.frameRate,
-			dropFrame: episode.dropFrame
-		},
-		cards: rows
-	};
 	return {
-		body: `${JSON.stringify(document, null, 2)}\n`,
+		body: specCardsJson(board.episode, rows),
 		contentType: 'application/json; charset=utf-8',
-		filename: downloadName(episode.slug, 'json')
+		filename: downloadName(board.episode.slug, 'json')
 	};
 }

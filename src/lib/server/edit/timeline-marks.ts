@@ -4,7 +4,7 @@
  */
 import { db } from '../db';
 import type { TimelineMark } from '$lib/components/timeline';
-import { specCardMarksFor } from './spec-cards';
+import { specCardsFor } from './spec-cards';
 import { cautionMarksFor } from '../episodes/segments';
 
 export async function timelineMarksFor(
@@ -17,6 +17,22 @@ export async function timelineMarksFor(
 		specCardMarksFor(channelId, episodeId)
 	]);
 	return [...cautions, ...notes, ...specCards];
+}
+
+/** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
+export async function specCardMarksFor(
+	channelId: string,
+	episodeId: string
+): Promise<TimelineMark[]> {
+	const board = await specCardsFor(channelId, episodeId);
+	return board.cards
+		.filter((view) => view.atFrame !== null)
+		.map((view) => ({
+			kind: 'spec-card' as const,
+			atFrame: view.atFrame!,
+			label: `${view.kindLabel}: ${view.card?.heading ?? 'needs checking'}`,
+			href: `/episodes/${board.episode.id}/spec-cards?edit=${view.id}#card-form`
+		}));
 }
 
 /** Notes placed in the cut, and each part they link as its own mark at the same frame. */

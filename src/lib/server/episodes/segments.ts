@@ -11,17 +11,16 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, hostPaceFor, type Actor, type Executor } from './episodes';
+import { frameFromTyped } from '../edit/typed-time';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { spokenWords, spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
 import {
-	defaultDropFrame,
 	formatClock,
 	formatTimecode,
 	framesToSeconds,
-	parseTimecode,
-	TimecodeError,
+	parseTypedTime,
 	type FrameRate
 } from '$lib/timecode';
 import {
@@ -91,13 +90,7 @@ export interface SegmentView {
 
 /** Reads typed timecode or clock text at the episode's rate the way the pages show it (drop-frame at 29.97/59.94). */
 export function framesFromText(text: string, rate: FrameRate, field: string): number {
-	try {
-		return parseTimecode(text, rate, { dropFrame: defaultDropFrame(rate) });
-	} catch (failure) {
-		if (failure instanceof TimecodeError)
-			throw new DomainError(400, failure.message, { [field]: [failure.message] });
-		throw failure;
-	}
+	return frameFromTyped(field, () => parseTypedTime(text, rate));
 }
 
 const hazardOrder = new Map(HAZARDS.map((hazard, index) => [hazard.id, index]));

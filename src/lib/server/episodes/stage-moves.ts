@@ -103,7 +103,7 @@ export async function gateSnapshotFor(
 				.where('segment.episodeId', '=', episodeId)
 				.orderBy('take.createdAt')
 				.execute(),
-			chapterProblemsFor(trx, channelId, episodeId),
+			chapterProblemsFor(channelId, episodeId, trx),
 			featuredPartProblemsFor(channelId, episodeId, trx)
 		]);
 	const words = await spokenWordsEach(segments.map((segment) => segment.body));

@@ -9,22 +9,13 @@
  * when the take was logged with ";"), whichever separator the note's time is typed with.
  */
 import { DomainError } from '../http/api';
+import { frameFromTyped } from '../edit/typed-time';
 import { isUuid } from '../auth/identity';
 import type { Executor } from '../episodes/episodes';
 import { chapterStartFromText } from '$lib/chapters';
 import { TimecodeError, formatTimecode, parseTimecodeInForm, type FrameRate } from '$lib/timecode';
 import type { NoteUpdate } from '$lib/schemas/parts';
 
-/** Runs a parse of typed time; a typing mistake is a 400 in plain words on that field. */
-function readTyped(field: string, parse: () => number): number {
-	try {
-		return parse();
-	} catch (failure) {
-		if (failure instanceof TimecodeError)
-			throw new DomainError(400, failure.message, { [field]: [failure.message] });
-		throw failure;
-	}
-}
 
 /** The program frame the input names: undefined = unchanged, null = cleared. */
 export function programFrameOf(
@@ -37,7 +28,7 @@ export function programFrameOf(
 		frame =
 			input.programTime === null || input.programTime === ''
 				? null
-				: readTyped('programTime', () => chapterStartFromText(input.programTime!, rate));
+				: frameFromTyped('programTime', () => chapterStartFromText(input.programTime!, rate));
 	}
 	if (
 		frame !== null &&

@@ -1,18 +1,14 @@
-/** Shoot days: where and when the crew films, who is called, what is on set, and the pull list. */
+/**
+ * Shoot days: where and when the crew films, and everything one day's page shows. What a day
+ * lists (crew called, builds and segments on set, cameras, gear, pull list) is changed in
+ * day-items.ts; the channel's recording profiles are in recording-profiles.ts.
+ */
 import { sql } from 'kysely';
 import type { z } from 'zod';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import type {
-	cameraSchema,
-	gearSchema,
-	plannerSchema,
-	profileSchema,
-	pullItemSchema,
-	shootDaySchema,
-	shootDayUpdateSchema
-} from '$lib/schemas/shoot';
+import type { plannerSchema, shootDaySchema, shootDayUpdateSchema } from '$lib/schemas/shoot';
 
 const dayFormat = new Intl.DateTimeFormat('en', {
 	weekday: 'short',
@@ -74,7 +70,12 @@ export async function listShootDays(channelId: string) {
 		.execute();
 }
 
-async function dayInChannel(executor: typeof db, channelId: string, shootDayId: string) {
+/** The day's row if it is this channel's; 404 otherwise. */
+export async function dayInChannel(
+	channelId: string,
+	shootDayId: string,
+	executor: typeof db = db
+) {
 	if (!isUuid(shootDayId)) throw notFound('That shoot day');
 	const day = await executor
 		.selectFrom('shootDay')
@@ -134,7 +135,7 @@ export async function updateShootDay(
 	shootDayId: string,
 	input: z.infer<typeof shootDayUpdateSchema>
 ) {
-	await dayInChannel(db, channelId, shootDayId);
+	await dayInChannel(channelId, shootDayId);
 	const { version, ...values } = input;
 	const updated = await db
 		.updateTable('shootDay')
@@ -164,214 +165,13 @@ export async function updatePlanner(
 	shootDayId: string,
 	input: z.infer<typeof plannerSchema>
 ) {
-	await dayInChannel(db, channelId, shootDayId);
+	await dayInChannel(channelId, shootDayId);
 	await db.updateTable('shootDay').set(input).where('id', '=', shootDayId).execute();
 }
 
 export async function deleteShootDay(channelId: string, shootDayId: string) {
-	await dayInChannel(db, channelId, shootDayId);
+	await dayInChannel(channelId, shootDayId);
 	await db.deleteFrom('shootDay').where('id', '=', shootDayId).execute();
-}
-
-/** Replaces one of the day's lists (crew called, builds on set, segments filmed), checking every id is this channel's. */
-export async function setDayMembers(
-	channelId: string,
-	shootDayId: string,
-	list: 'crew' | 'builds' | 'segments',
-	ids: string[]
-) {
-	const day = await dayInChannel(db, channelId, shootDayId);
-	const unique = [...new Set(ids)];
-	await db.transaction().execute(async (trx) => {
-		if (list === 'crew') {
-			const valid = unique.length
-				? await trx
-						.selectFrom('membership')
-						.select('personId')
-						.where('channelId', '=', channelId)
-						.where('personId', 'in', unique)
-						.where('disabledAt', 'is', null)
-						.execute()
-				: [];
-			if (valid.length !== unique.length)
-				throw new DomainError(400, 'Someone in that list is not on this channel’s crew.', {
-					crew: ['Pick people from the crew list.']
-				});
-			await trx.deleteFrom('shootDayCrew').where('shootDayId', '=', shootDayId).execute();
-			if (unique.length)
-				await trx
-					.insertInto('shootDayCrew')
-					.values(unique.map((personId) => ({ shootDayId, personId })))
-					.execute();
-		} else if (list === 'builds') {
-			const valid = unique.length
-				? await trx
-						.selectFrom('build')
-						.select('id')
-						.where('channelId', '=', channelId)
-						.where('id', 'in', unique)
-						.execute()
-				: [];
-			if (valid.length !== unique.length)
-				throw new DomainError(400, 'A build in that list is not this channel’s.', {
-					builds: ['Pick builds from the list.']
-				});
-			await trx.deleteFrom('shootDayBuild').where('shootDayId', '=', shootDayId).execute();
-			if (unique.length)
-				await trx
-					.insertInto('shootDayBuild')
-					.values(unique.map((buildId) => ({ shootDayId, buildId })))
-					.execute();
-		} else {
-			const valid = unique.length
-				? await trx
-						.selectFrom('segment')
-						.select('id')
-						.where('episodeId', '=', day.episodeId)
-						.where('id', 'in', unique)
-						.execute()
-				: [];
-			if (valid.length !== unique.length)
-				throw new DomainError(400, 'A segment in that list is not in this episode.', {
-					segments: ['Pick segments of this episode.']
-				});
-			await trx.deleteFrom('shootDaySegment').where('shootDayId', '=', shootDayId).execute();
-			if (unique.length)
-				await trx
-					.insertInto('shootDaySegment')
-					.values(unique.map((segmentId) => ({ shootDayId, segmentId })))
-					.execute();
-		}
-	});
-}
-
-export async function addCamera(
-	channelId: string,
-	shootDayId: string,
-	input: z.infer<typeof cameraSchema>
-) {
-	await dayInChannel(db, channelId, shootDayId);
-	const profile = await db
-		.selectFrom('recordingProfile')
-		.select('id')
-		.where('id', '=', input.profileId)
-		.where('channelId', '=', channelId)
-		.executeTakeFirst();
-	if (!profile)
-		throw new DomainError(400, 'Pick one of this channel’s recording profiles.', {
-			profileId: ['Pick a recording profile.']
-		});
-	return db
-		.insertInto('shootDayCamera')
-		.values({ shootDayId, ...input })
-		.returning('id')
-		.executeTakeFirstOrThrow();
-}
-
-export async function addGear(
-	channelId: string,
-	shootDayId: string,
-	input: z.infer<typeof gearSchema>
-) {
-	await dayInChannel(db, channelId, shootDayId);
-	return db
-		.insertInto('gearItem')
-		.values({ shootDayId, ...input })
-		.returning('id')
-		.executeTakeFirstOrThrow();
-}
-
-export async function addPullItem(
-	channelId: string,
-	shootDayId: string,
-	input: z.infer<typeof pullItemSchema>,
-	source: 'segment' | 'extra' = 'extra'
-) {
-	await dayInChannel(db, channelId, shootDayId);
-	let label = input.label;
-	if (input.partId) {
-		const part = await db
-			.selectFrom('part')
-			.select(['name', 'sku'])
-			.where('id', '=', input.partId)
-			.where('channelId', '=', channelId)
-			.executeTakeFirst();
-		if (!part)
-			throw new DomainError(400, 'That part is not in this channel’s catalogue.', {
-				partId: ['Pick a part from the catalogue.']
-			});
-		label ||= part.name;
-	}
-	return db
-		.insertInto('pullItem')
-		.values({ shootDayId, partId: input.partId, label, quantity: input.quantity, source })
-		.returning('id')
-		.executeTakeFirstOrThrow();
-}
-
-/** The merch team ticks a pull item as on hand before the day; who and when are kept. */
-export async function setPullOnHand(
-	channelId: string,
-	itemId: string,
-	personId: string,
-	onHand: boolean,
-	version: number
-) {
-	if (!isUuid(itemId)) throw notFound('That pull-list item');
-	const item = await db
-		.selectFrom('pullItem')
-		.innerJoin('shootDay', 'shootDay.id', 'pullItem.shootDayId')
-		.select(['pullItem.id'])
-		.where('pullItem.id', '=', itemId)
-		.where('shootDay.channelId', '=', channelId)
-		.executeTakeFirst();
-	if (!item) throw notFound('That pull-list item');
-	const updated = await db
-		.updateTable('pullItem')
-		.set((eb) => ({
-			onHand,
-			checkedBy: onHand ? personId : null,
-			checkedAt: onHand ? new Date() : null,
-			version: eb('version', '+', 1)
-		}))
-		.where('id', '=', itemId)
-		.where('version', '=', version)
-		.returning(['id', 'onHand', 'version'])
-		.executeTakeFirst();
-	if (!updated) {
-		const current = await db
-			.selectFrom('pullItem')
-			.selectAll()
-			.where('id', '=', itemId)
-			.executeTakeFirstOrThrow();
-		throw new DomainError(
-			409,
-			'Someone else ticked this item meanwhile; the list now shows their answer.',
-			undefined,
-			{ current }
-		);
-	}
-	return updated;
-}
-
-/** Removes a camera, gear or pull item of a day in this channel. */
-export async function removeDayItem(
-	channelId: string,
-	kind: 'camera' | 'gear' | 'pull',
-	itemId: string
-) {
-	if (!isUuid(itemId)) throw notFound('That item');
-	const table = kind === 'camera' ? 'shootDayCamera' : kind === 'gear' ? 'gearItem' : 'pullItem';
-	const result = await db
-		.deleteFrom(table)
-		.where('id', '=', itemId)
-		.where(
-			'shootDayId',
-			'in',
-			db.selectFrom('shootDay').select('id').where('channelId', '=', channelId)
-		)
-		.executeTakeFirst();
-	if (Number(result.numDeletedRows) === 0) throw notFound('That item');
 }
 
 /** Everything one shoot day page shows, read in parallel. */
@@ -532,109 +332,4 @@ export async function shootDayDetail(channelId: string, shootDayId: string) {
 		segments: segments.map((s) => ({ ...s, cautions: s.cautions ?? [] })),
 		allSegments
 	};
-}
-
-export async function listProfiles(channelId: string) {
-	return db
-		.selectFrom('recordingProfile')
-		.selectAll()
-		.where('channelId', '=', channelId)
-		.orderBy('name')
-		.execute();
-}
-
-export async function createProfile(channelId: string, input: z.infer<typeof profileSchema>) {
-	return db
-		.insertInto('recordingProfile')
-		.values({ channelId, ...input })
-		.returningAll()
-		.executeTakeFirstOrThrow();
-}
-
-export async function deleteProfile(channelId: string, profileId: string) {
-	if (!isUuid(profileId)) throw notFound('That recording profile');
-	const profile = await db
-		.selectFrom('recordingProfile')
-		.select('id')
-		.where('id', '=', profileId)
-		.where('channelId', '=', channelId)
-		.executeTakeFirst();
-	if (!profile) throw notFound('That recording profile');
-	const inUse = await db
-		.selectFrom('shootDayCamera')
-		.select('id')
-		.where('profileId', '=', profileId)
-		.executeTakeFirst();
-	if (inUse) throw new DomainError(409, 'A shoot day uses this profile: change that camera first.');
-	const result = await db
-		.deleteFrom('recordingProfile')
-		.where('id', '=', profileId)
-		.where('channelId', '=', channelId)
-		.executeTakeFirst();
-	if (Number(result.numDeletedRows) === 0) throw notFound('That recording profile');
-}
-
-/**
- * Fills the pull list from the segments filmed that day: every part linked on their notes, and
- * every catalogue SKU named in their scripts. Parts already on the list are left as they are.
- */
-export async function pullPartsFromSegments(
-	channelId: string,
-	shootDayId: string
-): Promise<{ added: number }> {
-	await dayInChannel(db, channelId, shootDayId);
-	return db.transaction().execute(async (trx) => {
-		const linked = await trx
-			.selectFrom('shootDaySegment')
-			.innerJoin('segmentNote', 'segmentNote.segmentId', 'shootDaySegment.segmentId')
-			.innerJoin('segmentNotePart', 'segmentNotePart.noteId', 'segmentNote.id')
-			.select('segmentNotePart.partId')
-			.where('shootDaySegment.shootDayId', '=', shootDayId)
-			.execute();
-		// A SKU named in the script, as a whole word (SKUs are letters, digits and dashes).
-		const named = await trx
-			.selectFrom('shootDaySegment')
-			.innerJoin('segmentScript', 'segmentScript.segmentId', 'shootDaySegment.segmentId')
-			.innerJoin('part', (join) =>
-				join
-					.on('part.channelId', '=', channelId)
-					.on(
-						sql<boolean>`segment_script.body ~* ('(^|[^A-Za-z0-9-])' || regexp_replace(part.sku, '([^A-Za-z0-9])', '\\\\\\1', 'g') || '($|[^A-Za-z0-9-])')`
-					)
-			)
-			.select('part.id as partId')
-			.where('shootDaySegment.shootDayId', '=', shootDayId)
-			.execute();
-		const wanted = [...new Set([...linked, ...named].map((row) => row.partId))];
-		const present = new Set(
-			(
-				await trx
-					.selectFrom('pullItem')
-					.select('partId')
-					.where('shootDayId', '=', shootDayId)
-					.where('partId', 'is not', null)
-					.execute()
-			).map((row) => row.partId)
-		);
-		const missing = wanted.filter((id) => !present.has(id));
-		if (missing.length === 0) return { added: 0 };
-		const parts = await trx
-			.selectFrom('part')
-			.select(['id', 'name'])
-			.where('id', 'in', missing)
-			.execute();
-		await trx
-			.insertInto('pullItem')
-			.values(
-				parts.map((part) => ({
-					shootDayId,
-					partId: part.id,
-					label: part.name,
-					quantity: 1,
-					source: 'segment' as const
-				}))
-			)
-			.execute();
-		return { added: parts.length };
-	});
 }

@@ -7,7 +7,8 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel } from '../episodes/episodes';
-import { formatTimecode, parseTimecode, TimecodeError, type FrameRate } from '$lib/timecode';
+import { frameFromTyped } from '../edit/typed-time';
+import { formatTimecode, parseTimecode, type FrameRate } from '$lib/timecode';
 import type { TakeCreate, TakeUpdate } from '$lib/schemas/takes';
 import { hazardById } from '$lib/cautions';
 
@@ -149,13 +150,7 @@ export async function logTake(channelId: string, shotId: string, input: TakeCrea
 }
 
 function sourceFrames(text: string, rate: FrameRate, field: string): number {
-	try {
-		return parseTimecode(text, rate);
-	} catch (failure) {
-		if (failure instanceof TimecodeError)
-			throw new DomainError(400, failure.message, { [field]: [failure.message] });
-		throw failure;
-	}
+	return frameFromTyped(field, () => parseTimecode(text, rate));
 }
 
 async function takeInChannel(channelId: string, takeId: string) {

@@ -2,6 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import * as days from '$lib/server/shoot/shoot-days';
+import * as items from '$lib/server/shoot/day-items';
 import {
 	cameraSchema,
 	gearSchema,
@@ -65,26 +66,26 @@ export const actions = {
 			event,
 			'members',
 			z.object({ list: z.enum(['crew', 'builds', 'segments']), ids: idListSchema }),
-			(data) => days.setDayMembers(channel.id, event.params.id, data.list, data.ids),
+			(data) => items.setDayMembers(channel.id, event.params.id, data.list, data.ids),
 			(form) => ({ list: form.get('list'), ids: form.getAll('ids').map(String) })
 		);
 	},
 	addCamera: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		return run(event, 'addCamera', cameraSchema, (data) =>
-			days.addCamera(channel.id, event.params.id, data)
+			items.addCamera(channel.id, event.params.id, data)
 		);
 	},
 	addGear: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera');
 		return run(event, 'addGear', gearSchema, (data) =>
-			days.addGear(channel.id, event.params.id, data)
+			items.addGear(channel.id, event.params.id, data)
 		);
 	},
 	addPull: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
 		return run(event, 'addPull', pullItemSchema, (data) =>
-			days.addPullItem(channel.id, event.params.id, data)
+			items.addPullItem(channel.id, event.params.id, data)
 		);
 	},
 	onHand: async (event) => {
@@ -95,7 +96,7 @@ export const actions = {
 			onHandSchema.extend({ id: z.string() }),
 			async (data) => {
 				await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
-				return days.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version);
+				return items.setPullOnHand(channel.id, data.id, person.id, data.onHand, data.version);
 			},
 			(form) => ({
 				id: form.get('id'),
@@ -107,7 +108,7 @@ export const actions = {
 	pullFromSegments: async (event) => {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
 		const result = await attempt('pullFromSegments', {}, () =>
-			days.pullPartsFromSegments(channel.id, event.params.id)
+			items.pullPartsFromSegments(channel.id, event.params.id)
 		);
 		if (!result.ok) return result.failure;
 		return { action: 'pullFromSegments' as const, added: result.value.added };
@@ -120,7 +121,7 @@ export const actions = {
 			z.object({ kind: z.enum(['camera', 'gear']), id: z.string() }),
 			async (data) => {
 				await assertOnShootDay(channel.id, event.params.id, data.kind, data.id);
-				return days.removeDayItem(channel.id, data.kind, data.id);
+				return items.removeDayItem(channel.id, data.kind, data.id);
 			}
 		);
 	},
@@ -128,7 +129,7 @@ export const actions = {
 		const { channel } = requireRole(event, 'producer', 'camera', 'merch');
 		return run(event, 'removePull', z.object({ id: z.string() }), async (data) => {
 			await assertOnShootDay(channel.id, event.params.id, 'pull', data.id);
-			return days.removeDayItem(channel.id, 'pull', data.id);
+			return items.removeDayItem(channel.id, 'pull', data.id);
 		});
 	},
 	delete: async (event) => {

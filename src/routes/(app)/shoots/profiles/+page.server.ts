@@ -1,5 +1,5 @@
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { createProfile, deleteProfile, listProfiles } from '$lib/server/shoot/shoot-days';
+import { createProfile, deleteProfile, listProfiles } from '$lib/server/shoot/recording-profiles';
 import { profileSchema } from '$lib/schemas/shoot';
 import { attempt, formFields, runForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';

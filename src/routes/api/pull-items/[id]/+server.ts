@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { setPullOnHand } from '$lib/server/shoot/shoot-days';
+import { setPullOnHand } from '$lib/server/shoot/day-items';
 import { onHandSchema } from '$lib/schemas/shoot';
 import type { RequestHandler } from './$types';
 

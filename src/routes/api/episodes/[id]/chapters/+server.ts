@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { DomainError, api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { addChapter, chapterDownloadFor, editStateFor } from '$lib/server/edit/edit';
+import { addChapter, editStateFor } from '$lib/server/edit/edit';
+import { chapterDownloadFor } from '$lib/server/edit/chapter-download';
 import { chapterCreateSchema, chapterFormatSchema } from '$lib/schemas/edit';
 import type { RequestHandler } from './$types';
 
