@@ -16,7 +16,6 @@ import { chapterStartFromText } from '$lib/chapters';
 import { TimecodeError, formatTimecode, parseTimecodeInForm, type FrameRate } from '$lib/timecode';
 import type { NoteUpdate } from '$lib/schemas/parts';
 
-
 /** The program frame the input names: undefined = unchanged, null = cleared. */
 export function programFrameOf(
 	input: Partial<NoteUpdate>,
