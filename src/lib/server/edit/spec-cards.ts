@@ -13,7 +13,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
-import { framesFromText } from '../episodes/segments';
+import { framesFromText } from '../episodes/typed-timecode';
 import {
 	compareTyres,
 	liftSummary,

@@ -2,7 +2,7 @@ import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { deleteTake, logTake, shotListFor, updateTake } from '$lib/server/shoot/takes';
-import { addShot } from '$lib/server/episodes/segments';
+import { addShot } from '$lib/server/episodes/shots';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
 import { attempt, forPage, parseForm } from '$lib/server/http/forms';

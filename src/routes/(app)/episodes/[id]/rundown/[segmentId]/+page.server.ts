@@ -1,14 +1,14 @@
 import { error, fail, redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import {
-	addShot,
-	assertSegmentOfEpisode,
 	checkSegmentChangeRoles,
 	deleteSegment,
-	segmentView,
-	updateCaution,
 	updateSegment
 } from '$lib/server/episodes/segments';
+import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
+import { segmentView } from '$lib/server/episodes/rundown';
+import { updateCaution } from '$lib/server/episodes/cautions';
+import { addShot } from '$lib/server/episodes/shots';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
 import { db } from '$lib/server/db';
 import {

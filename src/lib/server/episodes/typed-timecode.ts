@@ -1,0 +1,17 @@
+/**
+ * Typed timecode or clock text read at an episode's frame rate, for every form and route that takes a
+ * time in the cut (segments, cautions, spec cards). A typo answers 400 naming the field.
+ */
+import { DomainError } from '../http/api';
+import { defaultDropFrame, parseTimecode, TimecodeError, type FrameRate } from '$lib/timecode';
+
+/** Reads typed timecode or clock text at the episode's rate the way the pages show it (drop-frame at 29.97/59.94). */
+export function framesFromText(text: string, rate: FrameRate, field: string): number {
+	try {
+		return parseTimecode(text, rate, { dropFrame: defaultDropFrame(rate) });
+	} catch (failure) {
+		if (failure instanceof TimecodeError)
+			throw new DomainError(400, failure.message, { [field]: [failure.message] });
+		throw failure;
+	}
+}
