@@ -6,7 +6,8 @@
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, hostPaceFor, type Executor } from './episodes';
+import { episodeInChannel, type Executor } from './episodes';
+import { hostPaceFor } from './host-pace';
 import { cautionView, hazardOrder, type CautionView } from './cautions';
 import { segmentNotFound } from './segment-in-channel';
 import type { HazardId } from '$lib/cautions';

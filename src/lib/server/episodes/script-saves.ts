@@ -4,7 +4,8 @@
  */
 import { db } from '../db';
 import { DomainError } from '../http/api';
-import { hostPaceFor, type Actor, type Executor } from './episodes';
+import type { Actor, Executor } from './episodes';
+import { hostPaceFor } from './host-pace';
 import { segmentInChannel } from './segment-in-channel';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { spokenWords } from '$lib/server/episodes/script-reader';
