@@ -3,8 +3,8 @@
  * (stage, publish date, crew, builds, segment count and planned length). Filtered by channel.
  */
 import { sql } from 'kysely';
-import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
+import { withAssignments, withBuilds } from './episodes';
 import { STAGES } from '$lib/stages';
 import type { EpisodeListQuery } from '$lib/schemas/episodes';
 
@@ -25,22 +25,8 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			'episode.scriptStatus',
 			'episode.createdAt',
 			'episode.version',
-			jsonArrayFrom(
-				eb
-					.selectFrom('episodeAssignment')
-					.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-					.select(['episodeAssignment.role', 'person.id as personId', 'person.name'])
-					.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
-					.orderBy('episodeAssignment.role')
-			).as('assignments'),
-			jsonArrayFrom(
-				eb
-					.selectFrom('episodeBuild')
-					.innerJoin('build', 'build.id', 'episodeBuild.buildId')
-					.select(['build.id', 'build.name'])
-					.whereRef('episodeBuild.episodeId', '=', 'episode.id')
-					.orderBy('build.name')
-			).as('builds'),
+			withAssignments(eb),
+			withBuilds(eb),
 			eb
 				.selectFrom('segment')
 				.select((inner) => inner.fn.countAll<number>().as('count'))

@@ -4,7 +4,7 @@
  * episode-crew.ts, the host's speaking pace in host-pace.ts. Every function takes the channel id and
  * filters by it: another channel's episode is "not found".
  */
-import type { Kysely } from 'kysely';
+import type { ExpressionBuilder, Kysely } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import type { Database, Role } from '../db/types';
@@ -44,6 +44,42 @@ export async function episodeInChannel(
 	return row;
 }
 
+/**
+ * An episode's crew (role, person id, name, in role order) as a JSON array named `assignments`, for a
+ * select over `episode`: Kysely's relations recipe (`jsonArrayFrom`). `extra` adds columns.
+ */
+export function withAssignments<Extra extends 'person.email' = never>(
+	eb: ExpressionBuilder<Database, 'episode'>,
+	extra: readonly Extra[] = []
+) {
+	return jsonArrayFrom(
+		eb
+			.selectFrom('episodeAssignment')
+			.innerJoin('person', 'person.id', 'episodeAssignment.personId')
+			.select(['episodeAssignment.role', 'person.id as personId', 'person.name', ...extra])
+			.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
+			.orderBy('episodeAssignment.role')
+	).as('assignments');
+}
+
+/**
+ * The builds an episode features (id, name, by name) as a JSON array named `builds`, for a select
+ * over `episode`, the same way as withAssignments. `extra` adds columns.
+ */
+export function withBuilds<Extra extends 'build.year' | 'build.vehicleType' = never>(
+	eb: ExpressionBuilder<Database, 'episode'>,
+	extra: readonly Extra[] = []
+) {
+	return jsonArrayFrom(
+		eb
+			.selectFrom('episodeBuild')
+			.innerJoin('build', 'build.id', 'episodeBuild.buildId')
+			.select(['build.id', 'build.name', ...extra])
+			.whereRef('episodeBuild.episodeId', '=', 'episode.id')
+			.orderBy('build.name')
+	).as('builds');
+}
+
 /** One episode with its builds and crew, for the episode pages and GET /api/episodes/[id]. */
 export async function episodeDetail(channelId: string, episodeId: string, executor: Executor = db) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
@@ -66,27 +102,8 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 			'approver.name as scriptApprovedByName',
 			'episode.version',
 			'episode.createdAt',
-			jsonArrayFrom(
-				eb
-					.selectFrom('episodeAssignment')
-					.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-					.select([
-						'episodeAssignment.role',
-						'person.id as personId',
-						'person.name',
-						'person.email'
-					])
-					.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
-					.orderBy('episodeAssignment.role')
-			).as('assignments'),
-			jsonArrayFrom(
-				eb
-					.selectFrom('episodeBuild')
-					.innerJoin('build', 'build.id', 'episodeBuild.buildId')
-					.select(['build.id', 'build.name', 'build.year', 'build.vehicleType'])
-					.whereRef('episodeBuild.episodeId', '=', 'episode.id')
-					.orderBy('build.name')
-			).as('builds')
+			withAssignments(eb, ['person.email']),
+			withBuilds(eb, ['build.year', 'build.vehicleType'])
 		])
 		.where('episode.id', '=', episodeId)
 		.where('episode.channelId', '=', channelId)
