@@ -10,6 +10,7 @@ import { db } from '../db';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
+import { activeCrew } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
 import type { Stage } from '$lib/stages';
 import type { EpisodeCreate, EpisodeUpdate } from '$lib/schemas/episodes';
@@ -123,14 +124,7 @@ export async function episodeFormOptions(channelId: string) {
 			.where('channelId', '=', channelId)
 			.orderBy('name')
 			.execute(),
-		db
-			.selectFrom('membership')
-			.innerJoin('person', 'person.id', 'membership.personId')
-			.select(['person.id', 'person.name', 'membership.roles'])
-			.where('membership.channelId', '=', channelId)
-			.where('membership.disabledAt', 'is', null)
-			.orderBy('person.name')
-			.execute(),
+		activeCrew(channelId),
 		db
 			.selectFrom('episode')
 			.select(['id', 'title', 'stage'])
