@@ -7,6 +7,7 @@ import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
 import { attempt, forPage, parseForm } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
+import { shotFormValues } from '../shot-form';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -24,13 +25,7 @@ export const actions = {
 		const { channel } = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
 		const segmentId = text(form, 'segmentId');
-		const values = {
-			what: text(form, 'what'),
-			angle: text(form, 'angle'),
-			roll: text(form, 'roll') || 'A',
-			camera: text(form, 'camera'),
-			notes: text(form, 'notes')
-		};
+		const values = shotFormValues(form);
 		const parsed = parseForm(shotCreateSchema, values);
 		if (!parsed.ok)
 			return fail(400, { action: 'addShot', segmentId, errors: parsed.errors, values });

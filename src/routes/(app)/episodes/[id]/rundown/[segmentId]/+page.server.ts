@@ -21,6 +21,7 @@ import { parseForm } from '$lib/server/http/forms';
 import { attemptAction, found, text } from '$lib/server/http/episode-forms';
 import { defaultDropFrame, formatTimecode } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
+import { shotFormValues } from '../../shot-form';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -120,13 +121,7 @@ export const actions = {
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
-		const values = {
-			what: text(form, 'what'),
-			angle: text(form, 'angle'),
-			roll: text(form, 'roll') || 'A',
-			camera: text(form, 'camera'),
-			notes: text(form, 'notes')
-		};
+		const values = shotFormValues(form);
 		const parsed = parseForm(shotCreateSchema, values);
 		if (!parsed.ok) return fail(400, { action: 'addShot', errors: parsed.errors, values });
 		const result = await attemptAction('addShot', values, () =>
