@@ -6,10 +6,11 @@
  * insecure direct object references). The calls run on an episode and build made for the matrix,
  * so the demo records stay as seeded.
  *
- * The rules (src/lib/stages.ts, src/lib/server/episodes/segments.ts): everyone reads; a producer changes
- * an episode's details and moves it back; the host and producer plan the rundown and write; the
- * camera operator and producer add shots; the editor and producer place cautions and set lengths
- * in the cut; the host and producer word cautions; the host and producer edit builds.
+ * The rules (src/lib/stages.ts, src/lib/server/episodes/segments.ts and cautions.ts): everyone
+ * reads; a producer changes an episode's details and moves it back; the host and producer plan the
+ * rundown and write; the camera operator and producer add shots; the editor and producer place
+ * cautions and set lengths in the cut; the host and producer word cautions; the host and producer
+ * edit builds.
  */
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';

@@ -17,7 +17,7 @@ import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { beforeAll, describe, expect, inject, test } from 'vitest';
 import { Visitor, baseUrl, demo, signedIn, sql } from '../helpers/http';
-import { cautionMarksFor } from '$lib/server/episodes/segments';
+import { cautionMarksFor } from '$lib/server/episodes/cautions';
 import { chapterProblemsFor } from '$lib/server/episodes/stage-moves';
 import type { Database } from '$lib/server/db/types';
 

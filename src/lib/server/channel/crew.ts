@@ -34,6 +34,18 @@ export async function listCrew(channelId: string) {
 
 export type CrewMember = Awaited<ReturnType<typeof listCrew>>[number];
 
+/** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */
+export async function activeCrew(channelId: string) {
+	return db
+		.selectFrom('membership')
+		.innerJoin('person', 'person.id', 'membership.personId')
+		.select(['person.id', 'person.name', 'membership.roles'])
+		.where('membership.channelId', '=', channelId)
+		.where('membership.disabledAt', 'is', null)
+		.orderBy('person.name')
+		.execute();
+}
+
 /** Adds a person to the crew; a new person gets a link to set a password, someone already known gets a note. */
 export async function invitePerson(
 	channelId: string,

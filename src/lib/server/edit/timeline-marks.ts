@@ -5,7 +5,7 @@
 import { db } from '../db';
 import type { TimelineMark } from '$lib/components/timeline';
 import { specCardsFor } from './spec-cards';
-import { cautionMarksFor } from '../episodes/segments';
+import { cautionMarksFor } from '../episodes/cautions';
 
 export async function timelineMarksFor(
 	channelId: string,

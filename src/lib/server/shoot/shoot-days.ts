@@ -8,6 +8,7 @@ import type { z } from 'zod';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
+import { activeCrew } from '../channel/crew';
 import type { plannerSchema, shootDaySchema, shootDayUpdateSchema } from '$lib/schemas/shoot';
 
 const dayFormat = new Intl.DateTimeFormat('en', {
@@ -210,14 +211,7 @@ export async function shootDayDetail(channelId: string, shootDayId: string) {
 			.where('shootDayCrew.shootDayId', '=', shootDayId)
 			.orderBy('person.name')
 			.execute(),
-		db
-			.selectFrom('membership')
-			.innerJoin('person', 'person.id', 'membership.personId')
-			.select(['person.id', 'person.name', 'membership.roles'])
-			.where('membership.channelId', '=', channelId)
-			.where('membership.disabledAt', 'is', null)
-			.orderBy('person.name')
-			.execute(),
+		activeCrew(channelId),
 		db
 			.selectFrom('shootDayBuild')
 			.innerJoin('build', 'build.id', 'shootDayBuild.buildId')

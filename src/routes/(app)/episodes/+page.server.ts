@@ -1,5 +1,6 @@
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { episodeFormOptions, listEpisodes } from '$lib/server/episodes/episodes';
+import { episodeFormOptions } from '$lib/server/episodes/episodes';
+import { listEpisodes } from '$lib/server/episodes/episode-list';
 import { episodeListQuerySchema } from '$lib/schemas/episodes';
 import { fieldIssues } from '$lib/server/http/api';
 import type { PageServerLoad } from './$types';

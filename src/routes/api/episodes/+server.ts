@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, parseWith, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { createEpisode, listEpisodes } from '$lib/server/episodes/episodes';
+import { createEpisode } from '$lib/server/episodes/episodes';
+import { listEpisodes } from '$lib/server/episodes/episode-list';
 import { episodeCreateSchema, episodeListQuerySchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

@@ -4,9 +4,9 @@ import { requireRole } from '$lib/server/auth/guard';
 import {
 	checkSegmentChangeRoles,
 	deleteSegment,
-	segmentView,
 	updateSegment
 } from '$lib/server/episodes/segments';
+import { segmentView } from '$lib/server/episodes/rundown';
 import { segmentDeleteSchema, segmentUpdateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

@@ -1,5 +1,7 @@
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { createSegment, moveSegment, rundownFor } from '$lib/server/episodes/segments';
+import { createSegment } from '$lib/server/episodes/segments';
+import { moveSegment } from '$lib/server/episodes/rundown-order';
+import { rundownFor } from '$lib/server/episodes/rundown';
 import { episodeFormOptions } from '$lib/server/episodes/episodes';
 import { segmentCreateSchema } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';

@@ -1,5 +1,5 @@
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { rundownFor } from '$lib/server/episodes/segments';
+import { rundownFor } from '$lib/server/episodes/rundown';
 import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/script-reviews';
 import { scriptHtml } from '$lib/server/episodes/script-reader';
 import { scriptReviewSchema } from '$lib/schemas/episodes';

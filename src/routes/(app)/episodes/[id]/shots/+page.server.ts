@@ -1,11 +1,12 @@
 import { z } from 'zod';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import { deleteTake, logTake, shotListFor, updateTake } from '$lib/server/shoot/takes';
-import { addShot } from '$lib/server/episodes/segments';
+import { addShot } from '$lib/server/episodes/shots';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import { takeCreateSchema, takeUpdateSchema } from '$lib/schemas/takes';
 import { forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
+import { shotFormValues } from '../shot-form';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -21,13 +22,7 @@ export const actions = {
 		const { channel } = requireRole(event, 'camera', 'producer');
 		const form = await event.request.formData();
 		const segmentId = text(form, 'segmentId');
-		const values = {
-			what: text(form, 'what'),
-			angle: text(form, 'angle'),
-			roll: text(form, 'roll') || 'A',
-			camera: text(form, 'camera'),
-			notes: text(form, 'notes')
-		};
+		const values = shotFormValues(form);
 		const tag = { action: 'addShot' as const, segmentId };
 		const result = await runForm(tag, shotCreateSchema, values, async (data) => {
 			await assertInEpisode(channel.id, event.params.id, 'segment', segmentId);

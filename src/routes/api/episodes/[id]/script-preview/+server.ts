@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { episodeInChannel, hostPaceFor } from '$lib/server/episodes/episodes';
+import { episodeInChannel } from '$lib/server/episodes/episodes';
+import { hostPaceFor } from '$lib/server/episodes/host-pace';
 import { db } from '$lib/server/db';
 import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { estimateSpokenSeconds } from '$lib/script/timing';

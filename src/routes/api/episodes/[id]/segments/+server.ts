@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { createSegment, rundownFor } from '$lib/server/episodes/segments';
+import { createSegment } from '$lib/server/episodes/segments';
+import { rundownFor } from '$lib/server/episodes/rundown';
 import { segmentCreateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

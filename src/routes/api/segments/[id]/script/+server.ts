@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { saveScript, segmentView } from '$lib/server/episodes/segments';
+import { saveScript } from '$lib/server/episodes/script-saves';
+import { segmentView } from '$lib/server/episodes/rundown';
 import { scriptSaveSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

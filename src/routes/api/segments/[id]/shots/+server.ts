@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { addShot, listShots } from '$lib/server/episodes/segments';
+import { addShot, listShots } from '$lib/server/episodes/shots';
 import { shotCreateSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 

@@ -1,14 +1,14 @@
 import { error, redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
 import {
-	addShot,
-	assertSegmentOfEpisode,
 	checkSegmentChangeRoles,
 	deleteSegment,
-	segmentView,
-	updateCaution,
 	updateSegment
 } from '$lib/server/episodes/segments';
+import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
+import { segmentView } from '$lib/server/episodes/rundown';
+import { updateCaution } from '$lib/server/episodes/cautions';
+import { addShot } from '$lib/server/episodes/shots';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
 import { db } from '$lib/server/db';
 import {
@@ -20,6 +20,7 @@ import {
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { defaultDropFrame, formatTimecode } from '$lib/timecode';
 import { segmentFormValues } from '../segment-form';
+import { shotFormValues } from '../../shot-form';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -117,13 +118,7 @@ export const actions = {
 			assertSegmentOfEpisode(channel.id, event.params.id, event.params.segmentId)
 		);
 		if (!owned.ok) return owned.failure;
-		const values = {
-			what: text(form, 'what'),
-			angle: text(form, 'angle'),
-			roll: text(form, 'roll') || 'A',
-			camera: text(form, 'camera'),
-			notes: text(form, 'notes')
-		};
+		const values = shotFormValues(form);
 		const result = await runForm('addShot', shotCreateSchema, values, (data) =>
 			addShot(channel.id, event.params.segmentId, data)
 		);

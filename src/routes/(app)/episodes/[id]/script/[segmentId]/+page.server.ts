@@ -1,6 +1,8 @@
 import { error } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { assertSegmentOfEpisode, rundownFor, saveScript } from '$lib/server/episodes/segments';
+import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
+import { rundownFor } from '$lib/server/episodes/rundown';
+import { saveScript } from '$lib/server/episodes/script-saves';
 import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/episodes/script-reviews';
 import { SCRIPT_CHARACTER_LIMIT, scriptSaveSchema } from '$lib/schemas/episodes';

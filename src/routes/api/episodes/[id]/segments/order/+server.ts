@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { reorderSegments } from '$lib/server/episodes/segments';
+import { reorderSegments } from '$lib/server/episodes/rundown-order';
 import { reorderSchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 
