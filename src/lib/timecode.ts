@@ -22,9 +22,7 @@
  */
 export const MAX_FRAMES = 2_000_000_000;
 
-export type FrameRate = '23.976' | '24' | '25' | '29.97' | '30' | '50' | '59.94' | '60';
-
-export const FRAME_RATES: readonly FrameRate[] = Object.freeze([
+export const FRAME_RATES = Object.freeze([
 	'23.976',
 	'24',
 	'25',
@@ -34,6 +32,8 @@ export const FRAME_RATES: readonly FrameRate[] = Object.freeze([
 	'59.94',
 	'60'
 ] as const);
+
+export type FrameRate = (typeof FRAME_RATES)[number];
 
 /** A frame rate as an exact fraction of frames per second. */
 export interface ExactFrameRate {

@@ -3,6 +3,7 @@ import { z } from 'zod';
 
 import { ROLES } from '$lib/roles';
 import { text, recordVersion, wholeNumber } from './fields';
+import { FRAME_RATES } from '../timecode';
 
 export const roleSchema = z.enum(ROLES, {
 	error: 'Pick one of: producer, host, camera, editor, merch.'
@@ -82,16 +83,8 @@ export const passwordChangeSchema = z
 		message: 'The two new passwords differ.'
 	});
 
-export const FRAME_RATE_VALUES = [
-	'23.976',
-	'24',
-	'25',
-	'29.97',
-	'30',
-	'50',
-	'59.94',
-	'60'
-] as const;
+/** The programme frame rates a channel or an episode may use (the list lives in $lib/timecode). */
+export const FRAME_RATE_VALUES = FRAME_RATES;
 
 export const channelSettingsSchema = z.object({
 	name: text()

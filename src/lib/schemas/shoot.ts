@@ -102,33 +102,27 @@ export const cameraSchema = z.object({
 		.transform((v) => (v === '' ? null : v))
 });
 
+const quantity = wholeNumber({
+	error: 'Enter how many.',
+	notWhole: 'Use a whole number.',
+	coerce: true,
+	min: 1,
+	max: 999,
+	tooSmall: 'At least one.',
+	tooBig: 'At most 999.'
+});
+
 export const gearSchema = z.object({
 	kind: z.enum(['camera', 'audio', 'light', 'grip', 'other'], { error: 'Pick a kind of gear.' }),
 	label: text().trim().min(1, 'Say what the gear is.').max(120, 'Keep it under 120 characters.'),
-	quantity: wholeNumber({
-		error: 'Enter how many.',
-		notWhole: 'Use a whole number.',
-		coerce: true,
-		min: 1,
-		max: 999,
-		tooSmall: 'At least one.',
-		tooBig: 'At most 999.'
-	})
+	quantity
 });
 
 export const pullItemSchema = z
 	.object({
 		partId: z.union([z.literal(''), z.string().uuid()]).transform((v) => v || null),
 		label: text().trim().max(160, 'Keep it under 160 characters.').default(''),
-		quantity: wholeNumber({
-			error: 'Enter how many.',
-			notWhole: 'Use a whole number.',
-			coerce: true,
-			min: 1,
-			max: 999,
-			tooSmall: 'At least one.',
-			tooBig: 'At most 999.'
-		})
+		quantity
 	})
 	.refine((d) => d.partId || d.label, {
 		path: ['label'],

@@ -17,18 +17,25 @@ import { UNLOCK_GRANT_MINUTES, UNLOCK_LINK_MINUTES } from './throttle-limits';
 export const UNLOCK_COOKIE = 'wr_unlock';
 const SECRET_MAX = 100;
 
-/** Mails an unlock link to an address of an active crew member; answers the same for any address. */
-export async function requestUnlockLink(
+/** Asks for a link mailed to an address (reset, unlock): answers the same for any address. */
+export type MailLinkRequest = (
 	email: string,
 	origin: string,
 	clientAddress: string
-): Promise<{ sent: true } | { sent: false; retryAfter: number }> {
-	const taken = await takeAttempt(mailCounters(email, clientAddress));
-	if (!taken.ok) return { sent: false, retryAfter: taken.retryAfter };
-	const person = await db
+) => Promise<{ sent: true } | { sent: false; retryAfter: number }>;
+
+/** The person an e-mail address names, compared as sign-in compares it (trimmed, any case). */
+export const personByAddress = (email: string) =>
+	db
 		.selectFrom('person')
 		.select(['id', 'email'])
-		.where(sql`lower(email)`, '=', email.trim().toLowerCase())
+		.where(sql`lower(email)`, '=', email.trim().toLowerCase());
+
+/** Mails an unlock link to an address of an active crew member; answers the same for any address. */
+export const requestUnlockLink: MailLinkRequest = async (email, origin, clientAddress) => {
+	const taken = await takeAttempt(mailCounters(email, clientAddress));
+	if (!taken.ok) return { sent: false, retryAfter: taken.retryAfter };
+	const person = await personByAddress(email)
 		.where(({ exists, selectFrom }) =>
 			exists(
 				selectFrom('membership')
@@ -65,7 +72,7 @@ export async function requestUnlockLink(
 		});
 	});
 	return { sent: true };
-}
+};
 
 /** The address an unopened, unexpired unlock link is for. */
 export async function findUnlockLink(secret: string) {

@@ -4,19 +4,22 @@ import { DomainError } from '../http/api';
 import type { z } from 'zod';
 import type { channelSettingsSchema } from '$lib/schemas/people';
 
+/** The channel's settings as the channel page shows and saves them. */
+const SETTINGS_COLUMNS = [
+	'id',
+	'name',
+	'frameRate',
+	'callToAction',
+	'contact',
+	'descriptionLimit',
+	'storageQuotaGb',
+	'version'
+] as const;
+
 export async function channelSettings(channelId: string) {
 	return db
 		.selectFrom('channel')
-		.select([
-			'id',
-			'name',
-			'frameRate',
-			'callToAction',
-			'contact',
-			'descriptionLimit',
-			'storageQuotaGb',
-			'version'
-		])
+		.select(SETTINGS_COLUMNS)
 		.where('id', '=', channelId)
 		.executeTakeFirstOrThrow();
 }
@@ -31,16 +34,7 @@ export async function updateChannelSettings(
 		.set((eb) => ({ ...values, version: eb('version', '+', 1) }))
 		.where('id', '=', channelId)
 		.where('version', '=', version)
-		.returning([
-			'id',
-			'name',
-			'frameRate',
-			'callToAction',
-			'contact',
-			'descriptionLimit',
-			'storageQuotaGb',
-			'version'
-		])
+		.returning(SETTINGS_COLUMNS)
 		.executeTakeFirst();
 	if (!updated) {
 		const current = await channelSettings(channelId);

@@ -10,6 +10,7 @@ import { hashPassword, passwordProblem } from '../auth/passwords';
 import { clearCounter, mailCounters, takeAttempt } from '../auth/throttle';
 import { signInAddressCounter } from '../auth/sessions';
 import { isUuid } from '../auth/identity';
+import { personByAddress, type MailLinkRequest } from '../auth/unlock';
 
 const INVITE_DAYS = 7;
 const RESET_HOURS = 1;
@@ -186,18 +187,10 @@ export async function updateMember(
  * which addresses have accounts. Limited per address asked for and per client asking (reset and
  * unlock mail share the limits); a new link voids the person's older reset links.
  */
-export async function requestPasswordReset(
-	email: string,
-	origin: string,
-	clientAddress: string
-): Promise<{ sent: true } | { sent: false; retryAfter: number }> {
+export const requestPasswordReset: MailLinkRequest = async (email, origin, clientAddress) => {
 	const taken = await takeAttempt(mailCounters(email, clientAddress));
 	if (!taken.ok) return { sent: false, retryAfter: taken.retryAfter };
-	const person = await db
-		.selectFrom('person')
-		.select(['id', 'email'])
-		.where(sql`lower(email)`, '=', email.trim().toLowerCase())
-		.executeTakeFirst();
+	const person = await personByAddress(email).executeTakeFirst();
 	if (!person) return { sent: true };
 	await db.transaction().execute(async (trx) => {
 		await voidLinks(trx, person.id, ['reset']);
@@ -214,7 +207,7 @@ export async function requestPasswordReset(
 		await queueMail(trx, { to: person.email, ...resetMail({ link: `${origin}/reset/${secret}` }) });
 	});
 	return { sent: true };
-}
+};
 
 /** Ends a person's live links of these purposes (unused ones, and opened unlock grants). */
 export async function voidLinks(

@@ -11,7 +11,7 @@ import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeNotFound, type Executor } from '../episodes/episodes';
+import { episodeNotFound, type EpisodeHeading, type Executor } from '../episodes/episodes';
 import { frameFromTyped } from './typed-time';
 import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
 import { defaultDropFrame, formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
@@ -37,14 +37,7 @@ export interface EditProblem {
 }
 
 export interface EditState {
-	episode: {
-		id: string;
-		title: string;
-		slug: string;
-		stage: string;
-		frameRate: FrameRate;
-		dropFrame: boolean;
-	};
+	episode: EpisodeHeading;
 	cut: { durationFrames: number | null; timecode: string | null };
 	/** In start order, the order the crew sees them in. */
 	chapters: EditChapter[];

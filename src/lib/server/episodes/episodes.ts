@@ -13,6 +13,7 @@ import { isUuid } from '../auth/identity';
 import { activeCrew } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
 import type { Stage } from '$lib/stages';
+import type { FrameRate } from '$lib/timecode';
 import type { EpisodeCreate, EpisodeUpdate } from '$lib/schemas/episodes';
 
 /** The shared instance or an open transaction (a Transaction is a Kysely). */
@@ -22,6 +23,17 @@ export interface Actor {
 	id: string;
 	name: string;
 	roles: readonly Role[];
+}
+
+/** What a page about one episode's time shows at its top: the episode and how its time is counted. */
+export interface EpisodeHeading {
+	id: string;
+	title: string;
+	slug: string;
+	stage: string;
+	frameRate: FrameRate;
+	/** Drop-frame timecode (29.97 and 59.94). */
+	dropFrame: boolean;
 }
 
 export const episodeNotFound = () =>

@@ -5,7 +5,7 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
-import { episodeInChannel, type Executor } from '../episodes/episodes';
+import { episodeInChannel, type EpisodeHeading, type Executor } from '../episodes/episodes';
 import {
 	defaultDropFrame,
 	formatClock,
@@ -44,13 +44,7 @@ export interface NoteView {
 }
 
 export interface NotesPage {
-	episode: {
-		id: string;
-		title: string;
-		slug: string;
-		stage: string;
-		frameRate: FrameRate;
-		dropFrame: boolean;
+	episode: EpisodeHeading & {
 		cutDurationFrames: number | null;
 		cutTimecode: string | null;
 	};

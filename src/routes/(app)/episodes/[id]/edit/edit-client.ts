@@ -1,42 +1,18 @@
 /** The edit page's calls to /api/episodes/[id]/…: every change answers with the new edit state. */
 import type { EditChapter, EditState } from '$lib/server/edit/edit';
 
+import { call as callApi, type Answer as ApiAnswer } from '$lib/api-call';
+
 export type { EditChapter, EditState };
+type ApiFailure = Extract<ApiAnswer<never>, { ok: false }>;
 
-export type Answer<T> =
-	| { ok: true; data: T }
-	| {
-			ok: false;
-			status: number;
-			error: string;
-			issues?: Record<string, string[]>;
-			state?: EditState;
-	  };
+export type Answer<T> = { ok: true; data: T } | (ApiFailure & { state?: EditState });
 
+/** The shared API call; a refusal's current edit state (`state`) comes up beside its words. */
 async function call<T>(path: string, method: string, body?: unknown): Promise<Answer<T>> {
-	let response: Response;
-	try {
-		response = await fetch(path, {
-			method,
-			headers: body === undefined ? {} : { 'content-type': 'application/json' },
-			body: body === undefined ? undefined : JSON.stringify(body)
-		});
-	} catch {
-		return {
-			ok: false,
-			status: 0,
-			error: 'The server did not answer. Check the connection; nothing was changed.'
-		};
-	}
-	const answer = await response.json().catch(() => null);
-	if (response.ok) return { ok: true, data: answer as T };
-	return {
-		ok: false,
-		status: response.status,
-		error: answer?.error ?? `The server answered ${response.status}; nothing was changed.`,
-		issues: answer?.issues,
-		state: answer?.state
-	};
+	const answer = await callApi<T>(path, { method, json: body });
+	if (answer.ok) return answer;
+	return { ...answer, state: answer.extra?.state as EditState | undefined };
 }
 
 export function editClient(episodeId: string) {
