@@ -126,6 +126,12 @@ async function wrenchrollSeconds(
 	return { seconds: (performance.now() - started) / 1000, url };
 }
 
+/** CPU seconds (user + system) a process has used so far, from /proc/<pid>/stat (clock ticks of 1/100 s). */
+function cpuSeconds(pid: number): number {
+	const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+	return (Number(fields[11]) + Number(fields[12])) / 100;
+}
+
 function peakResidentMegabytes(pid: number): number {
 	const status = readFileSync(`/proc/${pid}/status`, 'utf8');
 	return Number(/VmHWM:\s+(\d+)/.exec(status)?.[1] ?? 0) / 1024;
@@ -195,15 +201,30 @@ async function main(): Promise<boolean> {
 
 		const bareTimes: number[] = [];
 		const appTimes: number[] = [];
+		/** CPU seconds per round: [server, this process (the client)]. */
+		const bareCpu: [number, number][] = [];
+		const appCpu: [number, number][] = [];
+		const measureCpu = async (pid: number, into: [number, number][], run: () => Promise<void>) => {
+			const [server0, client0] = [cpuSeconds(pid), process.cpuUsage()];
+			await run();
+			const client = process.cpuUsage(client0);
+			into.push([cpuSeconds(pid) - server0, (client.user + client.system) / 1e6]);
+		};
 		const hashes: string[] = [];
 		for (let round = 0; round < REPETITIONS; round++) {
 			const runBare = async () => {
-				bareTimes.push(await bareSeconds(source, bareServer.port));
+				await measureCpu(bare!.pid!, bareCpu, async () => {
+					bareTimes.push(await bareSeconds(source, bareServer.port));
+				});
 				rmSync(path.join(work, 'bare.bin'), { force: true });
 			};
 			const runApp = async () => {
-				const { seconds, url } = await wrenchrollSeconds(source, base, cookie, episode.id);
-				appTimes.push(seconds);
+				let url = '';
+				await measureCpu(server!.pid!, appCpu, async () => {
+					const done = await wrenchrollSeconds(source, base, cookie, episode.id);
+					appTimes.push(done.seconds);
+					url = done.url;
+				});
 				const {
 					rows: [footage]
 				} = await db.query<{ sha256: string }>(`SELECT sha256 FROM footage WHERE upload_id = $1`, [
@@ -220,8 +241,10 @@ async function main(): Promise<boolean> {
 				await runBare();
 			}
 			const mbps = (seconds: number) => (SIZE / 1e6 / seconds).toFixed(0);
+			const cpu = ([server, client]: [number, number]) =>
+				`CPU ${server.toFixed(1)} s server, ${client.toFixed(1)} s client`;
 			console.log(
-				`round ${round + 1}: bare ${mbps(bareTimes[round])} MB/s, Wrenchroll ${mbps(appTimes[round])} MB/s, ratio ${(bareTimes[round] / appTimes[round]).toFixed(2)}`
+				`round ${round + 1}: bare ${mbps(bareTimes[round])} MB/s (${cpu(bareCpu[round])}), Wrenchroll ${mbps(appTimes[round])} MB/s (${cpu(appCpu[round])}), ratio ${(bareTimes[round] / appTimes[round]).toFixed(2)}`
 			);
 		}
 		const peakMb = peakResidentMegabytes(server.pid!);
