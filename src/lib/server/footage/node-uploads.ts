@@ -26,7 +26,8 @@ import { sessionIdFromCookie } from '../auth/session-cookie';
 import { isDatabaseUnavailable } from '../db/outage';
 import { databaseDownJson } from '../http/outage';
 import { withSecurityHeaders } from '../http/security-headers';
-import { answerUpload } from './tus-server';
+import { answerUpload, tusError } from './tus-server';
+import { bodySizeLimit } from './patch-body';
 
 /** Where server.js finds the routes it answers before SvelteKit. */
 export const NODE_ROUTES = Symbol.for('wrenchroll.node-routes');
@@ -102,10 +103,25 @@ async function uploadAnswer(req: IncomingMessage, request: Request): Promise<Res
 }
 
 async function answer(req: IncomingMessage, res: ServerResponse): Promise<void> {
-	const request = new NodeRequest({ req, res }) as unknown as Request;
+	// adapter-node's request body limit, which SvelteKit applied to every upload request before: a
+	// PATCH is judged by checkPatchBody (answerUpload); any other body (a creation POST carrying
+	// its first bytes) here, by its Content-Length or, without one, as it streams.
+	const limit = bodySizeLimit(env.BODY_SIZE_LIMIT);
+	const judgedHere = req.method !== 'PATCH';
+	const request = new NodeRequest({
+		req,
+		res,
+		maxRequestBodySize: judgedHere ? limit : undefined
+	}) as unknown as Request;
 	let response: Response;
 	try {
-		response = await uploadAnswer(req, request);
+		response =
+			judgedHere && Number(req.headers['content-length'] ?? 0) > limit
+				? tusError(
+						413,
+						`That request is larger than the server takes in one request (${limit} bytes). Send the file in smaller chunks.`
+					)
+				: await uploadAnswer(req, request);
 	} catch (failure) {
 		if (isDatabaseUnavailable(failure)) {
 			console.error(

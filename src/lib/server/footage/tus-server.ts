@@ -156,7 +156,7 @@ export function sweepTools() {
 	return { directory: uploadDir(), store: tusServer().datastore, locker };
 }
 
-const tusError = (status: number, message: string) =>
+export const tusError = (status: number, message: string) =>
 	new Response(message + '\n', {
 		status,
 		headers: { 'Tus-Resumable': '1.0.0', 'Content-Type': 'text/plain; charset=utf-8' }
