@@ -338,8 +338,16 @@ async function main() {
 			`Wrenchroll parts bench on ${process.platform} ${process.arch}, Node ${process.version}, built server ${world.buildDir}`
 		);
 		const session = await signIn(baseUrl, 'priya@torquehaven.test');
-		const searchOk = await searchBench(session);
-		const kitOk = await kitBench(session, pool, episodeId);
+		// A bench that throws is reported and counted as missed; the other still runs.
+		const attempt = (name: string, run: () => Promise<boolean>) =>
+			run().catch((failure) => {
+				console.error(
+					`\n${name}: FAILED TO RUN\n${failure instanceof Error ? failure.stack : failure}\n`
+				);
+				return false;
+			});
+		const searchOk = await attempt('catalogue search', () => searchBench(session));
+		const kitOk = await attempt('publish kit', () => kitBench(session, pool, episodeId));
 		ok = searchOk && kitOk;
 		console.log(`\n${ok ? 'all targets met' : 'TARGET MISSED'}\n`);
 	} finally {

@@ -398,9 +398,17 @@ async function main() {
 		const unknown = named.filter((name) => !BENCHES.some((bench) => bench.name === name));
 		if (unknown.length) throw new Error(`no bench named ${unknown.join(', ')}`);
 		for (const bench of BENCHES.filter((bench) => !named.length || named.includes(bench.name))) {
-			const result = await bench.run(context);
-			printResult(result);
-			ok &&= result.ok;
+			// A bench that throws is reported and counted as missed; the others still run.
+			try {
+				const result = await bench.run(context);
+				printResult(result);
+				ok &&= result.ok;
+			} catch (failure) {
+				console.error(
+					`\n${bench.name}: FAILED TO RUN\n${failure instanceof Error ? failure.stack : failure}\n`
+				);
+				ok = false;
+			}
 		}
 	} finally {
 		await world.close();

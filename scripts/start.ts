@@ -14,6 +14,7 @@ import { startCluster, type Cluster } from './lib/postgres.ts';
 import { seedDemo } from './lib/seed.ts';
 import { startFakeMail, type FakeMail } from './lib/fake-mail.ts';
 import { demoMailbox } from './lib/dev-mailbox.ts';
+import { serverProcessArgs } from './lib/server-entry.ts';
 import { BODY_SIZE_LIMIT_BYTES } from '../src/lib/upload-rules.ts';
 import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT, projectRoot } from './lib/config.ts';
 
@@ -108,7 +109,7 @@ if (!existsSync(path.join(projectRoot, 'build', 'index.js'))) {
 	if (built.status !== 0) fail('the build failed (see above).');
 }
 
-const server = spawn(process.execPath, [path.join(projectRoot, 'build', 'index.js')], {
+const server = spawn(process.execPath, serverProcessArgs(path.join(projectRoot, 'build')), {
 	env,
 	stdio: ['ignore', 'inherit', 'inherit']
 });

@@ -15,6 +15,7 @@ import { sessionIdFromCookie } from '$lib/server/auth/session-cookie';
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
+import { offerNodeRoutes } from '$lib/server/footage/node-uploads';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
 import { withSecurityHeaders } from '$lib/server/http/security-headers';
 import { isDatabaseUnavailable } from '$lib/server/db/outage';
@@ -28,6 +29,9 @@ import { startScriptReaders } from '$lib/server/episodes/script-reader';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
+
+// server.js (production) answers uploads itself, before SvelteKit; under vite dev uploadHandle does.
+offerNodeRoutes();
 
 export const init: ServerInit = async () => {
 	startMailSender();
@@ -166,7 +170,10 @@ const guardHandle: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-/** Resumable uploads go straight to tus after their own role checks (no byte is stored before them). */
+/**
+ * Resumable uploads go straight to tus after their own role checks (no byte is stored before them).
+ * In production server.js answers them before SvelteKit (node-uploads.ts); this serves vite dev.
+ */
 const uploadHandle: Handle = async ({ event, resolve }) => {
 	const path = event.url.pathname;
 	if (path === UPLOAD_PATH || path.startsWith(UPLOAD_PATH + '/')) return handleUpload(event);

@@ -8,6 +8,7 @@ import path from 'node:path';
 import pg from 'pg';
 import { startCluster, type Cluster } from './postgres.ts';
 import { projectRoot } from './config.ts';
+import { serverProcessArgs } from './server-entry.ts';
 
 export function freePort(): Promise<number> {
 	return new Promise((resolve, reject) => {
@@ -162,10 +163,11 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 		async startServer() {
 			const port = await freePort();
 			const baseUrl = `http://127.0.0.1:${port}`;
-			server = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
+			server = spawn(process.execPath, serverProcessArgs(buildDir), {
 				env: {
 					...process.env,
 					NODE_ENV: 'production',
+					WRENCHROLL_BUILD_DIR: buildDir,
 					HOST: '127.0.0.1',
 					PORT: String(port),
 					ORIGIN: baseUrl,

@@ -1,7 +1,8 @@
 /**
  * One throwaway world for the integration and browser tests: a PostgreSQL cluster on a free
  * loopback port, migrated and seeded with the real scripts; the loopback fake mail server; and the
- * built server (build/index.js) started as in production. Torn down after the run.
+ * built server started as in production (server.js around the build in WRENCHROLL_BUILD_DIR or
+ * build/). Torn down after the run.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, chmodSync } from 'node:fs';
@@ -10,6 +11,7 @@ import path from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { startCluster } from '../../scripts/lib/postgres';
 import { startFakeMail } from '../../scripts/lib/fake-mail';
+import { serverProcessArgs } from '../../scripts/lib/server-entry';
 import { freePort, waitForHttp } from './net';
 import { BODY_SIZE_LIMIT_BYTES } from '../../src/lib/upload-rules';
 
@@ -96,7 +98,7 @@ export function stopServer(child: ChildProcess): Promise<void> {
 }
 
 export function startServer(env: Record<string, string>): ChildProcess {
-	const child = spawn(process.execPath, [path.join(buildDir, 'index.js')], {
+	const child = spawn(process.execPath, serverProcessArgs(buildDir), {
 		env,
 		stdio: ['ignore', 'ignore', 'inherit']
 	});

@@ -243,8 +243,15 @@ test('a sender killed after the mail server took the message resends it, after i
 		30_000
 	);
 	expect(received).toHaveLength(2);
-	const sent = (await db.query(`SELECT sent_at FROM outbox WHERE id = $1`, [row.id])).rows[0];
-	expect(sent.sent_at).not.toBeNull();
+	// The sender marks the row sent only after the mail server's acceptance reaches it, which can
+	// be a moment after the message arrived here: wait for it rather than read once.
+	const sentAt = await until(
+		async () =>
+			(await db.query(`SELECT sent_at FROM outbox WHERE id = $1`, [row.id])).rows[0].sent_at,
+		(value) => value !== null,
+		5_000
+	);
+	expect(sentAt).not.toBeNull();
 
 	// Same Message-ID both times, built from the outbox row id and the site's host
 	// (RFC 5322 §3.6.4: msg-id = "<" id-left "@" id-right ">", both dot-atom-text here).

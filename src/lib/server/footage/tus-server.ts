@@ -156,24 +156,39 @@ export function sweepTools() {
 	return { directory: uploadDir(), store: tusServer().datastore, locker };
 }
 
-const tusError = (status: number, message: string) =>
+export const tusError = (status: number, message: string) =>
 	new Response(message + '\n', {
 		status,
 		headers: { 'Tus-Resumable': '1.0.0', 'Content-Type': 'text/plain; charset=utf-8' }
 	});
 
-/** Authorises a tus request, then hands it to @tus/server. Called from hooks.server.ts. */
-export async function handleUpload(event: RequestEvent): Promise<Response> {
-	const method = event.request.method;
-	if (method === 'OPTIONS') return tusServer().handleWeb(event.request);
-	const { person, channel, roles } = event.locals;
+/** Who is calling, as the identity look-up found them (App.Locals' fields). */
+export type UploadCaller = Pick<App.Locals, 'person' | 'channel' | 'roles'>;
+
+/** Authorises a tus request, then hands it to @tus/server. Used from hooks.server.ts (vite dev). */
+export function handleUpload(event: RequestEvent): Promise<Response> {
+	return answerUpload(event.request, event.url.pathname, event.locals);
+}
+
+/**
+ * Authorises a tus request on `pathname` (under UPLOAD_PATH), then hands it to @tus/server: from
+ * the SvelteKit hook, and in production from the Node.js server directly (node-uploads.ts).
+ */
+export async function answerUpload(
+	request: Request,
+	pathname: string,
+	caller: UploadCaller
+): Promise<Response> {
+	const method = request.method;
+	if (method === 'OPTIONS') return tusServer().handleWeb(request);
+	const { person, channel, roles } = caller;
 	if (!person || !channel) return tusError(401, 'Sign in to upload.');
-	const rest = event.url.pathname.slice(UPLOAD_PATH.length).replace(/^\//, '');
+	const rest = pathname.slice(UPLOAD_PATH.length).replace(/^\//, '');
 
 	if (method === 'POST') {
 		if (rest !== '') return tusError(404, 'Not found.');
 		const parsed = metadataSchema.safeParse(
-			Metadata.parse(event.request.headers.get('upload-metadata') ?? undefined)
+			Metadata.parse(request.headers.get('upload-metadata') ?? undefined)
 		);
 		if (!parsed.success)
 			return tusError(400, parsed.error.issues.map((issue) => issue.message).join(' '));
@@ -203,7 +218,7 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 			if (!day) return tusError(404, 'That shoot day was not found for this episode.');
 		}
 		const fileName = cleanFileName(meta.filename);
-		claims.set(event.request, {
+		claims.set(request, {
 			channelId: channel.id,
 			personId: person.id,
 			episodeId: meta.episodeId,
@@ -214,7 +229,7 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 			fileName,
 			fileType: meta.filetype.toLowerCase()
 		});
-		return tusServer().handleWeb(event.request);
+		return tusServer().handleWeb(request);
 	}
 
 	// HEAD, PATCH, DELETE on one upload: it must be the caller's, in this channel (a producer may act on any).
@@ -234,7 +249,7 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 		return tusError(404, 'Not found.');
 	if (method === 'PATCH') {
 		const checked = await checkPatchBody(
-			event.request,
+			request,
 			bodySizeLimit(env.BODY_SIZE_LIMIT),
 			path.join(uploadDir(), '.incoming')
 		);
@@ -245,7 +260,7 @@ export async function handleUpload(event: RequestEvent): Promise<Response> {
 			await checked.release();
 		}
 	}
-	const response = await tusServer().handleWeb(event.request);
+	const response = await tusServer().handleWeb(request);
 	if (method === 'DELETE' && response.status === 204)
 		await db.deleteFrom('upload').where('id', '=', rest).where('completedAt', 'is', null).execute();
 	return response;
