@@ -150,7 +150,7 @@ export async function specCardsFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<SpecCardBoard> {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [segments, rows] = await Promise.all([
 		segmentsOf(executor, episode.id, rate),
@@ -237,7 +237,7 @@ export async function createSpecCard(
 	const cardInput = checkedInput(input.input);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
-		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
 		const atFrame = placedFrame(input, episode, rate) ?? null;
@@ -284,7 +284,7 @@ export async function updateSpecCard(
 	cardId: string,
 	input: SpecCardUpdate
 ): Promise<SpecCardView> {
-	const episode = await episodeInChannel(db, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId);
 	if (!isUuid(cardId)) throw cardNotFound();
 	const rate = episode.frameRate;
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
@@ -330,7 +330,7 @@ export async function deleteSpecCard(
 	cardId: string,
 	version?: number
 ): Promise<{ removed: SpecCardView }> {
-	const episode = await episodeInChannel(db, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId);
 	if (!isUuid(cardId)) throw cardNotFound();
 	const removed = await cardView(db, episode, cardId);
 	if (!removed) throw cardNotFound();

@@ -156,7 +156,7 @@ export async function cautionMarksFor(
 	episodeId: string,
 	executor: Executor = db
 ) {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rows = await executor
 		.selectFrom('caution')
 		.innerJoin('segment', 'segment.id', 'caution.segmentId')

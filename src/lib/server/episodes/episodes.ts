@@ -41,9 +41,9 @@ export const episodeNotFound = () =>
 
 /** The episode row of this channel, optionally locked for the rest of the transaction; 404 otherwise. */
 export async function episodeInChannel(
-	executor: Executor,
 	channelId: string,
 	episodeId: string,
+	executor: Executor = db,
 	options: { lock?: boolean } = {}
 ) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
@@ -271,7 +271,7 @@ export async function updateEpisode(
 	origin: string
 ) {
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		if (episode.version !== input.version) {
 			throw new DomainError(
 				409,

@@ -15,7 +15,7 @@ export async function reorderSegments(
 	order: readonly string[]
 ): Promise<{ order: string[] }> {
 	return db.transaction().execute(async (trx) => {
-		await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const existing = (
 			await trx
 				.selectFrom('segment')

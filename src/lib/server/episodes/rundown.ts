@@ -186,7 +186,7 @@ function toView(row: SegmentRow, wordsPerMinute: number, words: number): Segment
 
 /** The whole rundown of an episode with timings at the host's pace; 404 for another channel's episode. */
 export async function rundownFor(channelId: string, episodeId: string, executor: Executor = db) {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const [pace, rows] = await Promise.all([
 		hostPaceFor(channelId, episodeId, executor),
 		segmentsQuery(executor, channelId)

@@ -29,7 +29,7 @@ const WORDS: Record<ScriptReviewInput['action'], string> = {
 
 /** The review trail of an episode's script, oldest first. */
 export async function reviewsFor(channelId: string, episodeId: string, executor: Executor = db) {
-	await episodeInChannel(executor, channelId, episodeId);
+	await episodeInChannel(channelId, episodeId, executor);
 	const rows = await executor
 		.selectFrom('scriptReview')
 		.leftJoin('person', 'person.id', 'scriptReview.personId')
@@ -85,8 +85,8 @@ export async function reviewScript(
 	if (!MAY[input.action].some((role) => actor.roles.includes(role)))
 		error(403, WORDS[input.action]);
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
-		const fingerprint = await currentScriptFingerprint(trx, episodeId);
+		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		const fingerprint = await currentScriptFingerprint(episodeId, trx);
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
 			const segment = await trx
@@ -198,8 +198,8 @@ export async function scriptStateFor(
 	episodeId: string,
 	executor: Executor = db
 ) {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
-	const fingerprint = await currentScriptFingerprint(executor, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
+	const fingerprint = await currentScriptFingerprint(episodeId, executor);
 	const approver = episode.scriptApprovedBy
 		? await executor
 				.selectFrom('person')

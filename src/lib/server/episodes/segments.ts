@@ -79,7 +79,7 @@ export async function createSegment(
 ): Promise<SegmentView> {
 	return db.transaction().execute(async (trx) => {
 		// Locking the episode serialises position numbers between two people adding at once.
-		await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		await checkBuild(trx, channelId, input.buildId);
 		await checkPromise(
 			trx,
@@ -227,7 +227,7 @@ export async function deleteSegment(
 ): Promise<{ id: string }> {
 	return db.transaction().execute(async (trx) => {
 		const segment = await segmentInChannel(trx, channelId, segmentId, { lock: true });
-		await episodeInChannel(trx, channelId, segment.episodeId, { lock: true });
+		await episodeInChannel(channelId, segment.episodeId, trx, { lock: true });
 		if (segment.version !== version) throw await staleSegment(channelId, segmentId, trx);
 		const takes = await trx
 			.selectFrom('take')

@@ -35,8 +35,8 @@ export { scriptFingerprint };
 
 /** The fingerprint of an episode's script as it is saved now. */
 export async function currentScriptFingerprint(
-	executor: Executor,
-	episodeId: string
+	episodeId: string,
+	executor: Executor = db
 ): Promise<string> {
 	const rows = await executor
 		.selectFrom('segment')
@@ -56,11 +56,11 @@ export const featuredPartProblemsFor = featuredPartProblems;
 
 /** Everything the gate checks read, gathered in the caller's transaction. */
 export async function gateSnapshotFor(
-	trx: Executor,
 	channelId: string,
-	episodeId: string
+	episodeId: string,
+	trx: Executor = db
 ): Promise<GateSnapshot> {
-	const episode = await episodeInChannel(trx, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, trx);
 	const [assignments, segments, cautions, shots, takes, chapterProblems, featuredPartProblems] =
 		await Promise.all([
 			trx
@@ -184,13 +184,13 @@ export async function stageReportFor(
 	viewer: { id: string; roles: readonly Role[] },
 	executor: Executor = db
 ): Promise<StageReport> {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const stage = episode.stage;
 	const next = nextStage(stage);
 	const assignments = await assignmentsOf(executor, episodeId);
 	const mover = { personId: viewer.id, roles: viewer.roles };
 	const reasons = next
-		? gateChecksFor(await gateSnapshotFor(executor, channelId, episodeId), next)
+		? gateChecksFor(await gateSnapshotFor(channelId, episodeId, executor), next)
 		: [];
 	return {
 		stage,
@@ -206,7 +206,7 @@ export async function stageReportFor(
 
 /** The history of moves, newest first. */
 export async function stageHistory(channelId: string, episodeId: string, executor: Executor = db) {
-	await episodeInChannel(executor, channelId, episodeId);
+	await episodeInChannel(channelId, episodeId, executor);
 	const rows = await executor
 		.selectFrom('stageMove')
 		.leftJoin('person', 'person.id', 'stageMove.personId')
@@ -240,7 +240,7 @@ export async function moveStage(
 	origin: string
 ) {
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const from = episode.stage;
 		if (from !== input.from) {
 			throw new DomainError(
@@ -270,7 +270,7 @@ export async function moveStage(
 			);
 		}
 		if (direction === 'forward') {
-			const reasons = gateChecksFor(await gateSnapshotFor(trx, channelId, episodeId), input.to);
+			const reasons = gateChecksFor(await gateSnapshotFor(channelId, episodeId, trx), input.to);
 			if (reasons.length > 0) {
 				throw new DomainError(
 					422,

@@ -127,7 +127,7 @@ async function producerItems(channelId: string): Promise<WorkItem[]> {
 		}
 		const next = nextStage(episode.stage);
 		if (!next) continue;
-		const reasons = gateChecksFor(await gateSnapshotFor(db, channelId, episode.id), next);
+		const reasons = gateChecksFor(await gateSnapshotFor(channelId, episode.id), next);
 		if (reasons.length === 0) {
 			items.push({
 				title: `Ready for ${STAGE_LABELS[next]}: ${episode.title}`,

@@ -250,7 +250,7 @@ export async function featuredPartsFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<FeaturedParts> {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [rows, named] = await Promise.all([
 		featuredRows(executor, episode.id),
@@ -286,7 +286,7 @@ export async function featuredPartProblemsFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<{ message: string; fixedBy: Role }[]> {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const parts = groupFeatured(await featuredRows(executor, episode.id), episode.frameRate);
 	// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
 	return lockWarnings(parts).map((warning) => ({

@@ -121,7 +121,7 @@ export async function notesPageFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<NotesPage> {
-	const episode = await episodeInChannel(executor, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [segments, takes, notes] = await Promise.all([
 		executor

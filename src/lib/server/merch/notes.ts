@@ -132,7 +132,7 @@ export async function createNote(
 ): Promise<NoteView> {
 	assertNoteRights(actor.roles, input, true);
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(trx, channelId, episodeId, { lock: true });
+		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const rate = episode.frameRate;
 		const placement = await checkPlacement(trx, episode.id, rate, {
 			segmentId: input.segmentId ?? null,

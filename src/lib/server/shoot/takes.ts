@@ -14,7 +14,7 @@ import { hazardById } from '$lib/cautions';
 
 /** Every segment of the episode with its shots and their takes, and the footage a take can point at. */
 export async function shotListFor(channelId: string, episodeId: string) {
-	const episode = await episodeInChannel(db, channelId, episodeId);
+	const episode = await episodeInChannel(channelId, episodeId);
 	const rate = episode.frameRate;
 	const [segments, shots, takes, footage, cautions] = await Promise.all([
 		db

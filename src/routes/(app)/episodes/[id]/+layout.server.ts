@@ -7,7 +7,7 @@ import type { LayoutServerLoad } from './$types';
 /** The header every episode page shares: title, stage, and the tabs. 404 for another channel's episode. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const episode = await forPage(episodeInChannel(db, channel.id, event.params.id));
+	const episode = await forPage(episodeInChannel(channel.id, event.params.id));
 	return {
 		episodeHeader: {
 			id: episode.id,

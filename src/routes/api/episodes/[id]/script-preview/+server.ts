@@ -20,7 +20,7 @@ export const POST: RequestHandler = api(async (event) => {
 	// The reads start at once, alongside the episode check (they touch no data and answer within
 	// their time limit either way), so the answer is not their limit plus the queries.
 	const reads = Promise.all([scriptHtml(markdown), spokenWords(markdown)]);
-	const episode = await episodeInChannel(db, channel.id, event.params.id);
+	const episode = await episodeInChannel(channel.id, event.params.id);
 	const [pace, [html, words]] = await Promise.all([hostPaceFor(channel.id, episode.id), reads]);
 	return json({
 		html,

@@ -29,7 +29,7 @@ export const load = (async (event) => {
 	const [segment, episode, options] = await forPage(
 		Promise.all([
 			segmentView(channel.id, event.params.segmentId),
-			episodeInChannel(db, channel.id, event.params.id),
+			episodeInChannel(channel.id, event.params.id),
 			episodeFormOptions(channel.id)
 		])
 	);
