@@ -1,7 +1,6 @@
 import { requireRole } from '$lib/server/auth/guard';
 import { episodeInChannel } from '$lib/server/episodes/episodes';
 import { forPage } from '$lib/server/http/forms';
-import { db } from '$lib/server/db';
 import type { LayoutServerLoad } from './$types';
 
 /** The header every episode page shares: title, stage, and the tabs. 404 for another channel's episode. */

@@ -3,7 +3,6 @@ import { api, readJson } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { episodeInChannel } from '$lib/server/episodes/episodes';
 import { hostPaceFor } from '$lib/server/episodes/host-pace';
-import { db } from '$lib/server/db';
 import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { scriptPreviewSchema } from '$lib/schemas/episodes';

@@ -10,7 +10,6 @@ import { segmentView } from '$lib/server/episodes/rundown';
 import { updateCaution } from '$lib/server/episodes/cautions';
 import { addShot } from '$lib/server/episodes/shots';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
-import { db } from '$lib/server/db';
 import {
 	cautionUpdateSchema,
 	segmentDeleteSchema,
