@@ -59,7 +59,7 @@ async function addCatalogue(pool: pg.Pool, channelId: string) {
 		   (ARRAY['Lift block pair','Coil spacer pair','Strut spacer pair','U-bolt kit','Shackle pair','Add-a-leaf','Brake line set','Track bar','Pitman arm','Sway bar link pair'])[1 + i % 10]
 		     || ', ' || (1 + i % 6) || ' in, ' || (ARRAY['cast','forged','polyurethane','aluminium','steel','zinc plated','heavy duty'])[1 + (i / 10) % 7] || ' ' || i,
 		   (ARRAY['Lift blocks','Coil spacers','Strut spacers','U-bolts','Shackles','Leaf springs','Brake lines','Steering','Steering','Sway bars'])[1 + i % 10],
-		   (ARRAY['Ironbark Suspension','Quillon Shocks','Halvard Wheel Co.','Cindertrack Tyres','Northpine Brake Works','Cobalt Steer','Ashgrove Axle Works','Tallow Ridge Offroad','Mirefield Fabrication','Kestrelmark Lift','Brackwater Gear','Saltmarsh Steelworks'])[1 + (i / 7) % 12],
+		   (ARRAY['Kingbolt Suspension','Quillon Shocks','Halvard Wheel Co.','Cindertrack Tyres','Northpine Brake Works','Cobalt Steer','Ashgrove Axle Works','Tallow Ridge Offroad','Mirefield Fabrication','Kestrelmark Lift','Brackwater Gear','Saltmarsh Steelworks'])[1 + (i / 7) % 12],
 		   1000 + (i * 7919) % 90000, 'USD', 'https://shop.bench.test/p/' || i || '?ref=bench', '',
 		   CASE WHEN i % 50 = 0 THEN 'discontinued' WHEN i % 20 = 0 THEN 'out_of_stock' ELSE 'active' END
 		 FROM generate_series(1, ${CATALOGUE_PARTS}) AS i`,
@@ -82,7 +82,7 @@ function searchMix(): { kind: string; query: string }[] {
 		'zinc plated u-bolt',
 		'pitman'
 	];
-	const skus = ['BN-LB', 'BN-CS-01', 'BN-SHK-1999', 'BN-TB-0', 'IBS-LB', 'BN-AAL-12'];
+	const skus = ['BN-LB', 'BN-CS-01', 'BN-SHK-1999', 'BN-TB-0', 'KBS-LB', 'BN-AAL-12'];
 	const mix: { kind: string; query: string }[] = [];
 	for (let index = 0; mix.length < WARM_UP_SEARCHES + MEASURED_SEARCHES; index++) {
 		const word = words[index % words.length];

@@ -91,103 +91,103 @@ type PartSeed = [
 	status?: 'active' | 'discontinued' | 'out_of_stock'
 ];
 
-/** At least 30 parts, fictional brands: Ironbark Suspension, Quillon Shocks, Halvard Wheel Co., Cindertrack Tyres, Northpine Brake Works, Cobalt Steer. */
+/** At least 30 parts, fictional brands: Kingbolt Suspension, Quillon Shocks, Halvard Wheel Co., Cindertrack Tyres, Northpine Brake Works, Cobalt Steer. */
 export const demoParts: PartSeed[] = [
 	[
-		'IBS-LB-200',
+		'KBS-LB-200',
 		'2 in lift block pair, cast',
 		'Lift blocks',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		89.0,
 		'Rear leaf-sprung axles only.'
 	],
 	[
-		'IBS-LB-300',
+		'KBS-LB-300',
 		'3 in lift block pair, cast',
 		'Lift blocks',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		99.0,
 		'Rear leaf-sprung axles only. Check driveshaft angle.'
 	],
 	[
-		'IBS-LB-300T',
+		'KBS-LB-300T',
 		'3 in tapered lift block pair, 2°',
 		'Lift blocks',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		119.0,
 		'Rear leaf-sprung axles; corrects pinion angle.'
 	],
 	[
-		'IBS-AAL-150',
+		'KBS-AAL-150',
 		'Add-a-leaf, 1.5 in, pair',
 		'Leaf springs',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		149.0,
 		'Multi-leaf rear packs with centre pin.'
 	],
 	[
-		'IBS-AAL-200',
+		'KBS-AAL-200',
 		'Add-a-leaf, 2 in, pair',
 		'Leaf springs',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		159.0,
 		'Multi-leaf rear packs with centre pin.'
 	],
 	[
-		'IBS-UB-58-9',
+		'KBS-UB-58-9',
 		'U-bolt kit, 5/8 in × 9 in, set of 4',
 		'U-bolts',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		54.0,
 		'Pairs with 2–3 in blocks on 2.5 in axle tubes.'
 	],
 	[
-		'IBS-UB-58-11',
+		'KBS-UB-58-11',
 		'U-bolt kit, 5/8 in × 11 in, set of 4',
 		'U-bolts',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		59.0,
 		'Pairs with 3–4 in blocks.'
 	],
 	[
-		'IBS-SHK-1',
+		'KBS-SHK-1',
 		'Extended shackle pair, 1 in',
 		'Shackles',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		69.0,
 		'Rear leaf packs; check tailpipe clearance.'
 	],
 	[
-		'IBS-CS-150',
+		'KBS-CS-150',
 		'Coil spacer pair, 1.5 in, polyurethane',
 		'Coil spacers',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		64.0,
 		'Solid-axle coil springs.'
 	],
 	[
-		'IBS-CS-200',
+		'KBS-CS-200',
 		'Coil spacer pair, 2 in, aluminium',
 		'Coil spacers',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		94.0,
 		'Solid-axle coil springs.'
 	],
 	[
-		'IBS-SS-200',
+		'KBS-SS-200',
 		'Strut spacer pair, 2 in',
 		'Strut spacers',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		109.0,
 		'Independent front coil-over struts.'
 	],
 	[
-		'IBS-BL-OLD',
+		'KBS-BL-OLD',
 		'Block lift kit, 4 in (old casting)',
 		'Lift blocks',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		129.0,
-		'Superseded by IBS-LB-400.',
+		'Superseded by KBS-LB-400.',
 		'discontinued'
 	],
 	[
@@ -345,18 +345,18 @@ export const demoParts: PartSeed[] = [
 		'Recentres the axle after a lift.'
 	],
 	[
-		'IBS-BS-6T',
+		'KBS-BS-6T',
 		'Jack stand pair, 6 t rated',
 		'Shop equipment',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		79.0,
 		'Rated capacity per pair.'
 	],
 	[
-		'IBS-TW-250',
+		'KBS-TW-250',
 		'Click torque wrench, 1/2 in drive, 30–250 ft·lbf',
 		'Shop equipment',
-		'Ironbark Suspension',
+		'Kingbolt Suspension',
 		119.0,
 		'Store at its lowest setting.'
 	]

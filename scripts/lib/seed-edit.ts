@@ -30,8 +30,8 @@ const demoEdits: Record<string, DemoEdit> = {
 			{ at: '0:00', title: 'Cold open: why Mule sits nose-high' },
 			{ at: '0:52', title: 'Safety first: wheel chocks, and jack stands under the frame' },
 			{ at: '2:10', title: 'Supporting the axle and loosening the U-bolts' },
-			{ at: '4:05', title: 'Tapered block in, pinion angle checked', partSku: 'IBS-LB-300T' },
-			{ at: '6:40', title: 'New U-bolts, torqued in a cross pattern', partSku: 'IBS-UB-58-11' },
+			{ at: '4:05', title: 'Tapered block in, pinion angle checked', partSku: 'KBS-LB-300T' },
+			{ at: '6:40', title: 'New U-bolts, torqued in a cross pattern', partSku: 'KBS-UB-58-11' },
 			{ at: '9:05', title: 'Matched rear shocks' },
 			{ at: '11:30', title: 'Road test, then re-torque after 50 miles' },
 			{ at: '12:50', title: 'What it cost, and what comes next' }
@@ -46,10 +46,10 @@ const demoEdits: Record<string, DemoEdit> = {
 			{
 				at: '3:02',
 				title: 'Front: dropping the axle and fitting the spacers',
-				partSku: 'IBS-CS-150'
+				partSku: 'KBS-CS-150'
 			},
 			{ at: '5:20', title: 'Front: sway bar links and brake line slack' },
-			{ at: '6:48', title: 'Rear: spacers in, shock length checked', partSku: 'IBS-CS-150' },
+			{ at: '6:48', title: 'Rear: spacers in, shock length checked', partSku: 'KBS-CS-150' },
 			{ at: '8:35', title: 'Alignment check and headlight aim' },
 			{ at: '9:50', title: 'Trail test at the quarry' },
 			{ at: '11:20', title: 'Verdict, costs and the parts list' }

@@ -130,7 +130,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Wide, low',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A001_C001', '09:02:10:00', '09:02:41:12', true, true]]
+						takes: [['ACAM_1001', '09:02:10:00', '09:02:41:12', true, true]]
 					},
 					{
 						what: 'Tape measure at rear and front arch',
@@ -138,8 +138,8 @@ const work: Record<string, EpisodeWorkSeed> = {
 						roll: 'B',
 						camera: 'B-cam',
 						takes: [
-							['B001_C002', '09:05:00:00', '09:05:20:00', false, true, 'Focus hunted'],
-							['B001_C003', '09:05:30:00', '09:05:52:04', true, true]
+							['BCAM_1002', '09:05:00:00', '09:05:20:00', false, true, 'Focus hunted'],
+							['BCAM_1003', '09:05:30:00', '09:05:52:04', true, true]
 						]
 					}
 				]
@@ -159,14 +159,14 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Medium',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B002_C001', '09:20:00:00', '09:20:12:00', true, true]]
+						takes: [['BCAM_2001', '09:20:00:00', '09:20:12:00', true, true]]
 					},
 					{
 						what: 'Stands under the frame rails, shove test',
 						angle: 'Wide, low',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A002_C004', '09:22:00:00', '09:23:10:00', true, true]]
+						takes: [['ACAM_2004', '09:22:00:00', '09:23:10:00', true, true]]
 					}
 				]
 			},
@@ -191,7 +191,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Close-up',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A003_C001', '10:01:00:00', '10:02:30:00', true, true]]
+						takes: [['ACAM_3001', '10:01:00:00', '10:02:30:00', true, true]]
 					},
 					{
 						what: 'Cutting the seized U-bolt',
@@ -199,7 +199,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						roll: 'B',
 						camera: 'B-cam',
 						notes: 'Shield between grinder and camera',
-						takes: [['B003_C002', '10:05:00:00', '10:05:45:00', true, true]]
+						takes: [['BCAM_3002', '10:05:00:00', '10:05:45:00', true, true]]
 					}
 				]
 			},
@@ -218,14 +218,14 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Close-up',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A004_C002', '10:40:00:00', '10:41:20:00', true, true]]
+						takes: [['ACAM_4002', '10:40:00:00', '10:41:20:00', true, true]]
 					},
 					{
 						what: 'Angle finder on the pinion flange',
 						angle: 'Insert',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B004_C001', '10:45:00:00', '10:45:18:00', true, true]]
+						takes: [['BCAM_4001', '10:45:00:00', '10:45:18:00', true, true]]
 					}
 				]
 			},
@@ -244,7 +244,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Medium',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A005_C003', '11:10:00:00', '11:12:05:00', true, true]]
+						takes: [['ACAM_5003', '11:10:00:00', '11:12:05:00', true, true]]
 					}
 				]
 			},
@@ -263,14 +263,14 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Medium',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A006_C001', '11:40:00:00', '11:43:00:00', true, true]]
+						takes: [['ACAM_6001', '11:40:00:00', '11:43:00:00', true, true]]
 					},
 					{
 						what: 'Brake hose at full droop',
 						angle: 'Close-up',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B006_C002', '11:50:00:00', '11:50:25:00', true, true]]
+						takes: [['BCAM_6002', '11:50:00:00', '11:50:25:00', true, true]]
 					}
 				]
 			},
@@ -287,7 +287,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Chase car',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B007_C001', '14:00:00:00', '14:01:30:00', true, true]]
+						takes: [['BCAM_7001', '14:00:00:00', '14:01:30:00', true, true]]
 					}
 				]
 			},
@@ -438,7 +438,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Wide',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A101_C001', '08:00:00:00', '08:00:45:00', true, true]]
+						takes: [['ACAM_101001', '08:00:00:00', '08:00:45:00', true, true]]
 					}
 				]
 			},
@@ -456,7 +456,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Insert',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B101_C002', '08:30:00:00', '08:30:40:00', true, true]]
+						takes: [['BCAM_101002', '08:30:00:00', '08:30:40:00', true, true]]
 					}
 				]
 			},
@@ -475,7 +475,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Wide',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A102_C001', '09:00:00:00', '09:01:00:00', true, true]]
+						takes: [['ACAM_102001', '09:00:00:00', '09:01:00:00', true, true]]
 					}
 				]
 			},
@@ -497,7 +497,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Medium',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A103_C002', '09:30:00:00', '09:33:00:00', true, true]]
+						takes: [['ACAM_103002', '09:30:00:00', '09:33:00:00', true, true]]
 					}
 				]
 			},
@@ -516,7 +516,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Close-up',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B104_C001', '10:00:00:00', '10:00:30:00', true, true]]
+						takes: [['BCAM_104001', '10:00:00:00', '10:00:30:00', true, true]]
 					}
 				]
 			},
@@ -538,7 +538,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Insert',
 						roll: 'B',
 						camera: 'B-cam',
-						takes: [['B105_C003', '10:40:00:00', '10:41:00:00', true, true]]
+						takes: [['BCAM_105003', '10:40:00:00', '10:41:00:00', true, true]]
 					}
 				]
 			},
@@ -555,7 +555,7 @@ const work: Record<string, EpisodeWorkSeed> = {
 						angle: 'Wide, low',
 						roll: 'A',
 						camera: 'A-cam',
-						takes: [['A106_C001', '13:00:00:00', '13:02:00:00', true, true]]
+						takes: [['ACAM_106001', '13:00:00:00', '13:02:00:00', true, true]]
 					}
 				]
 			},

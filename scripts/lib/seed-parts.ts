@@ -29,39 +29,39 @@ const demoNotes: Record<string, NoteSeed[]> = {
 	'mule-rear-block-lift': [
 		{
 			segment: 1,
-			take: 'A001_C001',
+			take: 'ACAM_1001',
 			source: '09:02:15:00',
 			at: '0:08',
 			text: 'Camper hitched, tail down. The kit is laid out on the bench behind Rico.',
-			parts: ['IBS-LB-300T', 'IBS-UB-58-11', 'QS-MT-230R']
+			parts: ['KBS-LB-300T', 'KBS-UB-58-11', 'QS-MT-230R']
 		},
 		{
 			segment: 2,
-			take: 'A002_C004',
+			take: 'ACAM_2004',
 			source: '09:22:20:00',
 			at: '1:02',
 			text: 'Stands under the frame rails, then the shove test.',
-			parts: ['IBS-BS-6T']
+			parts: ['KBS-BS-6T']
 		},
 		{
 			segment: 4,
-			take: 'A004_C002',
+			take: 'ACAM_4002',
 			source: '10:40:20:00',
 			at: '4:12',
 			text: 'Tapered block onto the perch, thick end to the rear. Label readable on the block.',
-			parts: ['IBS-LB-300T']
+			parts: ['KBS-LB-300T']
 		},
 		{
 			segment: 5,
-			take: 'A005_C003',
+			take: 'ACAM_5003',
 			source: '11:10:30:00',
 			at: '6:48',
 			text: 'New U-bolts snugged by hand, torque wrench in shot for the cross pattern.',
-			parts: ['IBS-UB-58-11', 'IBS-TW-250']
+			parts: ['KBS-UB-58-11', 'KBS-TW-250']
 		},
 		{
 			segment: 6,
-			take: 'A006_C001',
+			take: 'ACAM_6001',
 			source: '11:41:00:00',
 			at: '9:12',
 			text: 'Shock swap, driver side first. Box label faces the camera.',
@@ -70,14 +70,14 @@ const demoNotes: Record<string, NoteSeed[]> = {
 		// Logged on set; the editor hasn't placed it yet, so the featured parts list warns.
 		{
 			segment: 6,
-			take: 'B006_C002',
+			take: 'BCAM_6002',
 			source: '11:50:10:00',
 			text: 'Brake hose at full droop; Rico holds up the extended hose for the close-up.',
 			parts: ['NB-BL-REAR']
 		},
 		{
 			segment: 7,
-			take: 'B007_C001',
+			take: 'BCAM_7001',
 			source: '14:00:30:00',
 			at: '11:35',
 			text: 'Chase-car tracking shot, camper back on. No parts in frame.',
@@ -87,31 +87,31 @@ const demoNotes: Record<string, NoteSeed[]> = {
 	'tallboy-coil-spacers': [
 		{
 			segment: 2,
-			take: 'B101_C002',
+			take: 'BCAM_101002',
 			source: '08:30:12:00',
 			at: '0:52',
 			text: 'Spacer in hand next to the spring, part number on the box.',
-			parts: ['IBS-CS-150']
+			parts: ['KBS-CS-150']
 		},
 		{
 			segment: 3,
-			take: 'A102_C001',
+			take: 'ACAM_102001',
 			source: '09:00:20:00',
 			at: '2:05',
 			text: 'Stands under the frame before the axle drops.',
-			parts: ['IBS-BS-6T']
+			parts: ['KBS-BS-6T']
 		},
 		{
 			segment: 4,
-			take: 'A103_C002',
+			take: 'ACAM_103002',
 			source: '09:31:00:00',
 			at: '3:10',
 			text: 'Spacer seated on the front spring perch.',
-			parts: ['IBS-CS-150']
+			parts: ['KBS-CS-150']
 		},
 		{
 			segment: 5,
-			take: 'B104_C001',
+			take: 'BCAM_104001',
 			source: '10:00:10:00',
 			at: '5:31',
 			text: 'Brake line slack at full droop; the extended lines go on.',
@@ -119,15 +119,15 @@ const demoNotes: Record<string, NoteSeed[]> = {
 		},
 		{
 			segment: 6,
-			take: 'B105_C003',
+			take: 'BCAM_105003',
 			source: '10:40:30:00',
 			at: '7:02',
 			text: 'Rear spacer in, shock length checked at droop.',
-			parts: ['IBS-CS-150', 'QS-TT-250']
+			parts: ['KBS-CS-150', 'QS-TT-250']
 		},
 		{
 			segment: 7,
-			take: 'A106_C001',
+			take: 'ACAM_106001',
 			source: '13:00:40:00',
 			at: '10:05',
 			text: 'Quarry ledge climb; the tyre sidewall fills the frame.',

@@ -7,7 +7,7 @@ const profiles = [
 	{
 		key: 'a',
 		name: 'A cam, install wide',
-		camera: 'Fieldline C4 cinema body',
+		camera: 'Lumenjack L4 cinema body',
 		codec: 'H.265 10-bit 4:2:2',
 		resolution: '3840×2160',
 		bitrateMbps: 150
@@ -15,7 +15,7 @@ const profiles = [
 	{
 		key: 'b',
 		name: 'B cam, detail close-ups',
-		camera: 'Palmcam P2 compact',
+		camera: 'Gullcam G2 compact',
 		codec: 'H.264 8-bit 4:2:0',
 		resolution: '3840×2160',
 		bitrateMbps: 100
@@ -23,7 +23,7 @@ const profiles = [
 	{
 		key: 'g',
 		name: 'Gimbal walk-around',
-		camera: 'Palmcam P2 compact',
+		camera: 'Gullcam G2 compact',
 		codec: 'H.264 8-bit 4:2:0',
 		resolution: '1920×1080',
 		bitrateMbps: 50
@@ -44,12 +44,12 @@ const days = [
 			['B cam', 'b']
 		],
 		pull: [
-			['IBS-LB-300T', 1],
-			['IBS-UB-58-11', 1],
+			['KBS-LB-300T', 1],
+			['KBS-UB-58-11', 1],
 			['QS-MT-230R', 2],
 			['NB-BL-REAR', 1],
-			['IBS-BS-6T', 1],
-			['IBS-TW-250', 1]
+			['KBS-BS-6T', 1],
+			['KBS-TW-250', 1]
 		],
 		extras: [
 			['Brake cleaner, 2 cans', 1],

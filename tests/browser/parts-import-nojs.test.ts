@@ -37,7 +37,7 @@ test('without JavaScript, a CSV is checked, previewed and imported from the same
 				skus[0],
 				'Shock relocation bracket, left',
 				'Brackets',
-				'Ironbark Suspension',
+				'Kingbolt Suspension',
 				'39.00',
 				'https://shop.torquehaven.test/p/nojs-1'
 			],
@@ -45,7 +45,7 @@ test('without JavaScript, a CSV is checked, previewed and imported from the same
 				skus[1],
 				'Shock relocation bracket, right',
 				'Brackets',
-				'Ironbark Suspension',
+				'Kingbolt Suspension',
 				'39.00',
 				'https://shop.torquehaven.test/p/nojs-2'
 			]
@@ -87,7 +87,7 @@ test('without JavaScript, a file with a bad row names the row and offers no impo
 					`NOJS-${stamp}-bad`,
 					'Bracket with no price',
 					'Brackets',
-					'Ironbark Suspension',
+					'Kingbolt Suspension',
 					'free',
 					'https://shop.torquehaven.test/p/bad'
 				]

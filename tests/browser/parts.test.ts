@@ -66,7 +66,7 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 				skus[0],
 				'Browser test bracket, left',
 				'Brackets',
-				'Ironbark Suspension',
+				'Kingbolt Suspension',
 				'12.00',
 				`https://shop.torquehaven.test/p/${skus[0].toLowerCase()}`
 			],
@@ -74,7 +74,7 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 				skus[1],
 				'Browser test bracket, right',
 				'Brackets',
-				'Ironbark Suspension',
+				'Kingbolt Suspension',
 				'12.50',
 				`https://shop.torquehaven.test/p/${skus[1].toLowerCase()}?ref=test`
 			]
@@ -140,7 +140,7 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	expect(codes).toHaveLength(2);
 	for (const [index, side] of ['left', 'right'].entries()) {
 		expect(lines).toContain(
-			`- Browser test bracket, ${side} (Ironbark Suspension, ${skus[index]}), at 1:00: ${baseUrl()}/go/${codes[index].code}`
+			`- Browser test bracket, ${side} (Kingbolt Suspension, ${skus[index]}), at 1:00: ${baseUrl()}/go/${codes[index].code}`
 		);
 	}
 	expect(copied).toMatch(/licensed professional/);

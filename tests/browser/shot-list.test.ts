@@ -39,21 +39,21 @@ test('after a take is logged the Log take form empties its fields and keeps the 
 	const page = session.page;
 	await page.goto(`/episodes/${episodeId}/shots`);
 	const form = page.locator('form[action="?/logTake"]');
-	await form.getByLabel('Clip').fill('A001_C001');
+	await form.getByLabel('Clip').fill('ACAM_1001');
 	await form.getByLabel('Source in').fill('01:00:00:00');
 	await form.getByLabel('Source out').fill('01:00:12:00');
 	await form.getByLabel('Good').check();
 	await form.getByRole('button', { name: 'Log take' }).click();
 	await expect
 		.poll(() => page.getByRole('list', { name: 'Takes of this shot' }).textContent())
-		.toContain('A001_C001');
+		.toContain('ACAM_1001');
 	await expect.poll(() => form.getByLabel('Clip').inputValue()).toBe('');
 	expect(await form.getByLabel('Source in').inputValue()).toBe('');
 	expect(await form.getByLabel('Source out').inputValue()).toBe('');
 	expect(await form.getByLabel('Good').isChecked()).toBe(false);
 	expect(await form.locator('input[name="shotId"]').inputValue()).toBe(shotId);
 	// The next take goes to the same shot.
-	await form.getByLabel('Clip').fill('A001_C002');
+	await form.getByLabel('Clip').fill('ACAM_1002');
 	await form.getByLabel('Source in').fill('01:00:20:00');
 	await form.getByLabel('Source out').fill('01:00:30:00');
 	await form.getByRole('button', { name: 'Log take' }).click();
@@ -63,18 +63,18 @@ test('after a take is logged the Log take form empties its fields and keeps the 
 				(row) => row.clip_name
 			)
 		)
-		.toEqual(['A001_C001', 'A001_C002']);
+		.toEqual(['ACAM_1001', 'ACAM_1002']);
 });
 
 test('a refused take keeps what was typed so it can be corrected', async () => {
 	const page = session.page;
 	await page.goto(`/episodes/${episodeId}/shots`);
 	const form = page.locator('form[action="?/logTake"]');
-	await form.getByLabel('Clip').fill('A001_C009');
+	await form.getByLabel('Clip').fill('ACAM_1009');
 	await form.getByLabel('Source in').fill('01:00:10:00');
 	await form.getByLabel('Source out').fill('not a time');
 	await form.getByRole('button', { name: 'Log take' }).click();
 	await expect.poll(() => form.locator('.field-error').count()).toBeGreaterThan(0);
-	expect(await form.getByLabel('Clip').inputValue()).toBe('A001_C009');
+	expect(await form.getByLabel('Clip').inputValue()).toBe('ACAM_1009');
 	expect(await form.getByLabel('Source out').inputValue()).toBe('not a time');
 });

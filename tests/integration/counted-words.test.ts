@@ -27,7 +27,7 @@ beforeAll(async () => {
 		segment.id
 	]);
 	await sql(
-		`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, clip_name, file_name, file_type, size_bytes, sha256) VALUES ($1, $2, $3, 'footage', 'A001_C001', 'A001_C001.mov', 'video/quicktime', 1000, $4)`,
+		`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, clip_name, file_name, file_type, size_bytes, sha256) VALUES ($1, $2, $3, 'footage', 'ACAM_1001', 'ACAM_1001.mov', 'video/quicktime', 1000, $4)`,
 		[channel.id, episodeId, `counted-${Date.now()}`, 'a'.repeat(64)]
 	);
 });

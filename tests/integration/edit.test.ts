@@ -319,7 +319,7 @@ describe('chapters', () => {
 		const [ours] = await sql(`SELECT id FROM part WHERE channel_id = $1 LIMIT 1`, [torquehavenId]);
 		const [theirs] = await sql(
 			`INSERT INTO part (channel_id, sku, brand, name, category, price_cents, currency, store_url)
-			 SELECT id, $2, 'Ironbark Suspension', 'Other channel part', 'Test', 100, 'USD', 'https://shop.dunewagon.test/p/other'
+			 SELECT id, $2, 'Kingbolt Suspension', 'Other channel part', 'Test', 100, 'USD', 'https://shop.dunewagon.test/p/other'
 			 FROM channel WHERE id <> $1 LIMIT 1 RETURNING id`,
 			[torquehavenId, `OTHER-CHANNEL-${Date.now()}`]
 		);
@@ -352,7 +352,7 @@ describe('chapters', () => {
 		// The database holds the link too: a part that is gone clears it (ON DELETE SET NULL).
 		const [spare] = await sql(
 			`INSERT INTO part (channel_id, sku, brand, name, category, price_cents, currency, store_url)
-			 VALUES ($1, $2, 'Ironbark Suspension', 'Chapter link test part', 'Test', 100, 'USD', 'https://shop.torquehaven.test/p/chapter-link') RETURNING id`,
+			 VALUES ($1, $2, 'Kingbolt Suspension', 'Chapter link test part', 'Test', 100, 'USD', 'https://shop.torquehaven.test/p/chapter-link') RETURNING id`,
 			[torquehavenId, `CHAPTER-LINK-${Date.now()}`]
 		);
 		const moved = await editor().api(`${chaptersPath(id)}/${linked.body.chapter.id}`, {
@@ -565,7 +565,7 @@ const TRICKY = [
 /** Starts at 29.97 that fall between milliseconds (one frame = 33.366… ms). */
 const TRICKY_STARTS = [0, 377, 1800, 5399, 9001, 17982, 20000];
 const TRICKY_CUT = 30000;
-const PART_LINK = 'https://shop.torquehaven.test/p/ibs-cs-150?ref=chapters';
+const PART_LINK = 'https://shop.torquehaven.test/p/kbs-cs-150?ref=chapters';
 
 describe('exports over HTTP', () => {
 	let episode: { id: string; slug: string };

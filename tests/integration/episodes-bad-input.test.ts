@@ -91,7 +91,7 @@ describe('scripts', () => {
 			'<svg onload=alert(5)><circle /></svg>',
 			'<p onclick="alert(6)" style="color:red">styled</p>',
 			'<iframe src="https://example.test"></iframe>',
-			'[fine link](https://shop.torquehaven.test/p/ibs-lb-300t)'
+			'[fine link](https://shop.torquehaven.test/p/kbs-lb-300t)'
 		].join('\n\n');
 		const result = await host.api(`/api/episodes/${episodeId}/script-preview`, {
 			method: 'POST',
@@ -111,7 +111,7 @@ describe('scripts', () => {
 		}
 		expect(result.body.html).toContain('<strong>crew</strong>');
 		expect(result.body.html).toContain('click me');
-		expect(result.body.html).toContain('href="https://shop.torquehaven.test/p/ibs-lb-300t"');
+		expect(result.body.html).toContain('href="https://shop.torquehaven.test/p/kbs-lb-300t"');
 		expect(result.body.html).not.toContain('alert(');
 		// Spoken words: Hello crew, click me, tabbed, styled, fine link (URLs and tags are not words) = 9.
 		expect(result.body.words).toBe(9);

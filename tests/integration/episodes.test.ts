@@ -295,7 +295,7 @@ describe('an episode from idea to shoot and on', () => {
 		]);
 		// Takes are logged by the shoot work (its own issue); the gate reads them from the table.
 		await sql(
-			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, 'B014_C002', 1000, 1600, true)`,
+			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, 'BCAM_14002', 1000, 1600, true)`,
 			[shot.body.shot.id]
 		);
 		const noFootage = await camera.api(`/api/episodes/${episode.id}/stage`, {
@@ -303,13 +303,13 @@ describe('an episode from idea to shoot and on', () => {
 			json: { from: 'shoot', to: 'edit' }
 		});
 		expect(noFootage.body.gate.reasons).toMatchObject([{ rule: 'footage-missing' }]);
-		expect(noFootage.body.gate.reasons[0].message).toContain('B014_C002');
+		expect(noFootage.body.gate.reasons[0].message).toContain('BCAM_14002');
 		const [channel] = await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
 		const [footage] = await sql(
-			`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, clip_name, file_name, file_type, size_bytes, sha256) VALUES ($1, $2, $3, 'footage', 'B014_C002', 'B014_C002.mov', 'video/quicktime', 1000, $4) RETURNING id`,
+			`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, clip_name, file_name, file_type, size_bytes, sha256) VALUES ($1, $2, $3, 'footage', 'BCAM_14002', 'BCAM_14002.mov', 'video/quicktime', 1000, $4) RETURNING id`,
 			[channel.id, episode.id, `test-${Date.now()}`, 'a'.repeat(64)]
 		);
-		await sql(`UPDATE take SET footage_id = $1 WHERE clip_name = 'B014_C002'`, [footage.id]);
+		await sql(`UPDATE take SET footage_id = $1 WHERE clip_name = 'BCAM_14002'`, [footage.id]);
 		const editAt = Date.now() - 1000;
 		expect(
 			(

@@ -331,7 +331,7 @@ async function buildWorld(): Promise<World> {
 			await expectStatus(
 				fuzz.api(`/api/shots/${shot.id}/takes`, {
 					method: 'POST',
-					json: { clipName: 'A001_C001', sourceIn: '01:00:00;00', sourceOut: '01:00:10;00' }
+					json: { clipName: 'ACAM_1001', sourceIn: '01:00:00;00', sourceOut: '01:00:10;00' }
 				}),
 				201,
 				'a take'
@@ -657,7 +657,7 @@ const VALID_BODIES: Record<string, (ids: Ids, n: number) => unknown> = {
 		version: ids.version()
 	}),
 	'POST /api/shots/[id]/takes': () => ({
-		clipName: 'A002_C007',
+		clipName: 'ACAM_2007',
 		sourceIn: '01:02:00;00',
 		sourceOut: '01:02:30;00',
 		good: true,

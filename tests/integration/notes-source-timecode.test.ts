@@ -44,12 +44,12 @@ beforeAll(async () => {
 	);
 	// Logged as the shot list does: drop-frame labels 08:01:10;00 → 08:01:30;00.
 	const [dropTake] = await sql(
-		`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, source_drop_frame, good) VALUES ($1, 'B001_C007', $2, $3, true, true) RETURNING id`,
+		`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, source_drop_frame, good) VALUES ($1, 'BCAM_1007', $2, $3, true, true) RETURNING id`,
 		[shot.id, dropFrames('08:01:10;00'), dropFrames('08:01:30;00')]
 	);
 	dropTakeId = dropTake.id;
 	const [nonDropTake] = await sql(
-		`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, source_drop_frame, good) VALUES ($1, 'B001_C008', $2, $3, false, true) RETURNING id`,
+		`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, source_drop_frame, good) VALUES ($1, 'BCAM_1008', $2, $3, false, true) RETURNING id`,
 		[shot.id, nonDropFrames('08:01:10:00'), nonDropFrames('08:01:30:00')]
 	);
 	nonDropTakeId = nonDropTake.id;
@@ -103,7 +103,7 @@ describe('source timecode in the take’s own form', () => {
 		const answer = await writeNote({ takeId: dropTakeId, sourceTime: '08:02:00;02' });
 		expect(answer.status).toBe(400);
 		expect(answer.body.issues.sourceTime[0]).toMatch(
-			/08:02:00;02 is outside take B001_C007 \(08:01:10;00–08:01:30;00\)/
+			/08:02:00;02 is outside take BCAM_1007 \(08:01:10;00–08:01:30;00\)/
 		);
 	});
 
@@ -111,6 +111,6 @@ describe('source timecode in the take’s own form', () => {
 		const answer = await writeNote({ takeId: dropTakeId, sourceTime: '08:02:00:00' });
 		expect(answer.status).toBe(400);
 		expect(answer.body.issues.sourceTime[0]).toMatch(/doesn't exist in drop-frame/);
-		expect(answer.body.issues.sourceTime[0]).toMatch(/B001_C007 runs 08:01:10;00–08:01:30;00/);
+		expect(answer.body.issues.sourceTime[0]).toMatch(/BCAM_1007 runs 08:01:10;00–08:01:30;00/);
 	});
 });

@@ -52,7 +52,7 @@ describe('forms act on their own page’s episode', () => {
 		expect(addShot.data.errors.form[0]).toMatch(/not in this episode/);
 		const logTake = await camera.action(`/episodes/${page.episode_id}/shots?/logTake`, {
 			shotId: other.shot_id,
-			clipName: 'A999_C001',
+			clipName: 'ACAM_999001',
 			sourceIn: '01:00:00:00',
 			sourceOut: '01:00:10:00',
 			note: ''

@@ -74,7 +74,7 @@ describe('catalogue search', () => {
 		const answer = await host.api(`/api/parts?q=${encodeURIComponent('COIL spacer')}`);
 		expect(answer.status).toBe(200);
 		const skus = answer.body.parts.map((part: { sku: string }) => part.sku);
-		expect(skus).toEqual(expect.arrayContaining(['IBS-CS-150', 'IBS-CS-200']));
+		expect(skus).toEqual(expect.arrayContaining(['KBS-CS-150', 'KBS-CS-200']));
 		for (const part of answer.body.parts) {
 			const text = `${part.sku} ${part.name} ${part.brand}`.toLowerCase();
 			expect(text).toContain('coil');
@@ -99,7 +99,7 @@ describe('catalogue search', () => {
 		expect(prices).toEqual([...prices].sort((a: number, b: number) => b - a));
 		const discontinued = await host.api('/api/parts?status=discontinued');
 		expect(discontinued.body.parts.map((part: { sku: string }) => part.sku)).toEqual([
-			'IBS-BL-OLD'
+			'KBS-BL-OLD'
 		]);
 	});
 
@@ -116,7 +116,7 @@ describe('changing the catalogue', () => {
 			sku: 'TEST-NEW-1',
 			name: 'Test bump stop pair',
 			category: 'Bump stops',
-			brand: 'Ironbark Suspension',
+			brand: 'Kingbolt Suspension',
 			price: '1,299.5',
 			storeUrl: 'https://shop.torquehaven.test/p/test-new-1'
 		};
@@ -199,7 +199,7 @@ describe('changing the catalogue', () => {
 		);
 		expect(await sql(`SELECT id FROM part WHERE id = $1`, [spare.id])).toEqual([]);
 		const [featured] = await sql(
-			`SELECT id, version FROM part WHERE channel_id = $1 AND sku = 'IBS-LB-300T'`,
+			`SELECT id, version FROM part WHERE channel_id = $1 AND sku = 'KBS-LB-300T'`,
 			[channelId]
 		);
 		const refused = await merch.api(`/api/parts/${featured.id}`, { method: 'DELETE' });
@@ -221,7 +221,7 @@ describe('CSV import', () => {
 					'TEST-CSV-1',
 					'Shackle bushing set, "poly"',
 					'Shackles',
-					'Ironbark Suspension',
+					'Kingbolt Suspension',
 					'24.5',
 					'https://shop.test/p/1?ref=csv#top',
 					'Fits 2.5 in, and 3 in eyes',
@@ -292,7 +292,7 @@ describe('CSV import', () => {
 			['TEST-BAD-2', 'Comma price', 'Test', 'Test', '10,50', 'https://shop.test/2'],
 			['TEST-BAD-3', 'No scheme', 'Test', 'Test', '10.00', 'shop.test/3'],
 			['TEST-BAD-1', 'Same SKU again', 'Test', 'Test', '10.00', 'https://shop.test/4'],
-			['IBS-LB-300', 'Already in the catalogue', 'Test', 'Test', '10.00', 'https://shop.test/5'],
+			['KBS-LB-300', 'Already in the catalogue', 'Test', 'Test', '10.00', 'https://shop.test/5'],
 			['', 'No SKU', 'Test', 'Test', '10.00', 'https://shop.test/6']
 		]);
 		const preview = (await importCsv(merch, 'preview', 'create', csv)).body.preview;
@@ -344,7 +344,7 @@ describe('CSV import', () => {
 			`BULK-${String(index).padStart(5, '0')}`,
 			`Bulk test bracket ${index}, size ${index % 7}`,
 			['Brackets', 'Hardware', 'Bushings'][index % 3],
-			['Ironbark Suspension', 'Cobalt Steer'][index % 2],
+			['Kingbolt Suspension', 'Cobalt Steer'][index % 2],
 			`${10 + (index % 90)}.${String(index % 100).padStart(2, '0')}`,
 			'USD',
 			`https://shop.torquehaven.test/p/bulk-${index}?ref=import`,
@@ -459,7 +459,7 @@ describe('CSV export', () => {
 		const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
 		expect(parsed.errors).toEqual([]);
 		expect(parsed.data.length).toBe(await catalogueCount());
-		const tapered = parsed.data.find((row) => row.sku === 'IBS-LB-300T')!;
+		const tapered = parsed.data.find((row) => row.sku === 'KBS-LB-300T')!;
 		expect(tapered).toMatchObject({
 			name: '3 in tapered lift block pair, 2°',
 			price: '119.00',
@@ -480,16 +480,16 @@ describe('CSV export', () => {
 	test('a cell a spreadsheet would run as a formula is exported with a guard apostrophe and re-imports unchanged (OWASP CSV Injection)', async () => {
 		const note = '+2 in of lift needs longer brake lines; =check bump-stop gap';
 		const [{ fitment_note: before }] = await sql(
-			`SELECT fitment_note FROM part WHERE sku = 'IBS-LB-300T'`
+			`SELECT fitment_note FROM part WHERE sku = 'KBS-LB-300T'`
 		);
-		await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'IBS-LB-300T'`, [note]);
+		await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'KBS-LB-300T'`, [note]);
 		try {
 			const text = await (await host.request('/api/parts/export')).text();
 			const parsed = Papa.parse<Record<string, string>>(text, {
 				header: true,
 				skipEmptyLines: true
 			});
-			expect(parsed.data.find((row) => row.sku === 'IBS-LB-300T')!.fitment_note).toBe(`'${note}`);
+			expect(parsed.data.find((row) => row.sku === 'KBS-LB-300T')!.fitment_note).toBe(`'${note}`);
 			const demoOnly = Papa.unparse(
 				{
 					fields: parsed.meta.fields!,
@@ -500,7 +500,7 @@ describe('CSV export', () => {
 			const preview = (await importCsv(merch, 'preview', 'update', demoOnly)).body.preview;
 			expect(preview).toMatchObject({ errorCount: 0, updates: 0, creates: 0 });
 		} finally {
-			await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'IBS-LB-300T'`, [before]);
+			await sql(`UPDATE part SET fitment_note = $1 WHERE sku = 'KBS-LB-300T'`, [before]);
 		}
 	});
 });

@@ -67,10 +67,10 @@ async function newEpisode(script = ''): Promise<TestEpisode> {
 			`INSERT INTO shot (segment_id, what, position) VALUES ($1, 'Close-up', 1) RETURNING id`,
 			[segment.id]
 		);
-		// Take A00n_C001 runs 09:00:00:00–09:01:00:00 non-drop: 9 h × 3600 × 30 = 972000 frames.
+		// Take ACAM_n001 runs 09:00:00:00–09:01:00:00 non-drop: 9 h × 3600 × 30 = 972000 frames.
 		const [take] = await sql(
 			`INSERT INTO take (shot_id, clip_name, source_in_frames, source_out_frames, good) VALUES ($1, $2, 972000, 973800, true) RETURNING id`,
-			[shot.id, `A00${position}_C001`]
+			[shot.id, `ACAM_${position}001`]
 		);
 		segments.push(segment.id);
 		takes.push(take.id);
@@ -166,15 +166,15 @@ describe('writing, placing and linking notes', () => {
 	test('the merch team links two parts; each gets its tracked link for the episode', async () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
-		const [block, bolts] = [await part('IBS-LB-300T'), await part('IBS-UB-58-11')];
+		const [block, bolts] = [await part('KBS-LB-300T'), await part('KBS-UB-58-11')];
 		const linked = await patch(visitors.merch, note.id, {
 			version: note.version,
 			partIds: [block.id, bolts.id]
 		});
 		expect(linked.status).toBe(200);
 		expect(linked.body.note.parts.map((p: { sku: string }) => p.sku).sort()).toEqual([
-			'IBS-LB-300T',
-			'IBS-UB-58-11'
+			'KBS-LB-300T',
+			'KBS-UB-58-11'
 		]);
 		const links = await sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [
 			episode.id
@@ -186,7 +186,7 @@ describe('writing, placing and linking notes', () => {
 			version: linked.body.note.version,
 			partIds: [bolts.id]
 		});
-		expect(unlinked.body.note.parts.map((p: { sku: string }) => p.sku)).toEqual(['IBS-UB-58-11']);
+		expect(unlinked.body.note.parts.map((p: { sku: string }) => p.sku)).toEqual(['KBS-UB-58-11']);
 		expect(
 			await sql(`SELECT id FROM tracked_link WHERE episode_id = $1`, [episode.id])
 		).toHaveLength(2);
@@ -230,7 +230,7 @@ describe('writing, placing and linking notes', () => {
 		});
 		expect(outside.status).toBe(400);
 		expect(outside.body.issues.sourceTime[0]).toMatch(
-			/outside take A001_C001 \(09:00:00:00–09:01:00:00\)/
+			/outside take ACAM_1001 \(09:00:00:00–09:01:00:00\)/
 		);
 		const foreignTake = await visitors.camera.api(notesPath(episode.id), {
 			method: 'POST',
@@ -271,7 +271,7 @@ describe('who may change notes', () => {
 		const episode = await newEpisode();
 		const note = await writeNote(episode);
 		const before = await noteRow(note.id);
-		const { id: partId } = await part('IBS-LB-300T');
+		const { id: partId } = await part('KBS-LB-300T');
 		const refusals: [keyof typeof visitors, Record<string, unknown>][] = [
 			['camera', { programTime: '1:00' }],
 			['camera', { partIds: [partId] }],
@@ -298,13 +298,13 @@ describe('who may change notes', () => {
 		expect(all.body.note).toMatchObject({
 			text: 'Producer',
 			programFrame: firstFrameAtOrAfter(30),
-			parts: [expect.objectContaining({ sku: 'IBS-LB-300T' })]
+			parts: [expect.objectContaining({ sku: 'KBS-LB-300T' })]
 		});
 	});
 
 	test('the merch team starts a note on a segment with its parts; the take and source time stay the camera operator’s', async () => {
 		const episode = await newEpisode();
-		const { id: partId } = await part('IBS-LB-300T');
+		const { id: partId } = await part('KBS-LB-300T');
 		const started = await visitors.merch.api(notesPath(episode.id), {
 			method: 'POST',
 			json: {
@@ -316,7 +316,7 @@ describe('who may change notes', () => {
 		expect(started.status, JSON.stringify(started.body)).toBe(201);
 		expect(started.body.note).toMatchObject({
 			text: 'Lift block box on the bench',
-			parts: [expect.objectContaining({ sku: 'IBS-LB-300T' })]
+			parts: [expect.objectContaining({ sku: 'KBS-LB-300T' })]
 		});
 		expect((await noteRow(started.body.note.id)).segment_id).toBe(episode.segments[1]);
 		const withTake = await visitors.merch.api(notesPath(episode.id), {
@@ -432,12 +432,12 @@ describe('the featured parts list', () => {
 	test('parts in order of first appearance with every time, and the warnings', async () => {
 		// The script names one part by SKU, one by its exact name, and one SKU that contains another.
 		const episode = await newEpisode(
-			'Swap in the **CS-TB-ADJ** track bar, then the steering stabiliser, 110 mm stroke. The IBS-LB-300T block goes first.'
+			'Swap in the **CS-TB-ADJ** track bar, then the steering stabiliser, 110 mm stroke. The KBS-LB-300T block goes first.'
 		);
 		const [bolts, shock, old] = [
-			await part('IBS-UB-58-11'),
+			await part('KBS-UB-58-11'),
 			await part('QS-MT-230R'),
-			await part('IBS-BL-OLD')
+			await part('KBS-BL-OLD')
 		];
 		const late = await writeNote(episode, { text: 'Bolts again' });
 		const early = await writeNote(episode, { text: 'Bolts and shock' });
@@ -461,7 +461,7 @@ describe('the featured parts list', () => {
 			appearances: { clock: string; programFrame: number }[];
 			unplaced: unknown[];
 		}[];
-		expect(parts.map((p) => p.sku)).toEqual(['IBS-UB-58-11', 'QS-MT-230R', 'IBS-BL-OLD']);
+		expect(parts.map((p) => p.sku)).toEqual(['KBS-UB-58-11', 'QS-MT-230R', 'KBS-BL-OLD']);
 		expect(parts[0].appearances.map((a) => a.clock)).toEqual(['2:00', '6:00']);
 		expect(parts[0].appearances.map((a) => a.programFrame)).toEqual([
 			firstFrameAtOrAfter(120),
@@ -474,15 +474,15 @@ describe('the featured parts list', () => {
 
 		const warnings = answer.body.warnings as { kind: string; sku: string; blocksLock: boolean }[];
 		expect(warnings.filter((w) => w.blocksLock).map((w) => [w.kind, w.sku])).toEqual([
-			['discontinued', 'IBS-BL-OLD'],
-			['no-program-time', 'IBS-BL-OLD']
+			['discontinued', 'KBS-BL-OLD'],
+			['no-program-time', 'KBS-BL-OLD']
 		]);
 		const named = warnings
 			.filter((w) => w.kind === 'named-not-linked')
 			.map((w) => w.sku)
 			.sort();
-		// Whole words only: "IBS-LB-300T" in the script doesn't name IBS-LB-300.
-		expect(named).toEqual(['CS-SS-110', 'CS-TB-ADJ', 'IBS-LB-300T']);
+		// Whole words only: "KBS-LB-300T" in the script doesn't name KBS-LB-300.
+		expect(named).toEqual(['CS-SS-110', 'CS-TB-ADJ', 'KBS-LB-300T']);
 	});
 
 	test('featuredPartProblemsFor (for the lock gate): the blocking reasons, then [] once fixed; 404 elsewhere', async () => {
@@ -490,7 +490,7 @@ describe('the featured parts list', () => {
 		try {
 			const episode = await newEpisode();
 			expect(await featuredPartProblemsFor(channelId, episode.id, executor)).toEqual([]);
-			const [old, stands] = [await part('IBS-BL-OLD'), await part('IBS-BS-6T')];
+			const [old, stands] = [await part('KBS-BL-OLD'), await part('KBS-BS-6T')];
 			const note = await writeNote(episode, { text: 'Old kit' });
 			const linked = await patch(visitors.merch, note.id, {
 				version: note.version,
@@ -499,7 +499,7 @@ describe('the featured parts list', () => {
 			const problems = await featuredPartProblemsFor(channelId, episode.id, executor);
 			expect(problems).toHaveLength(2);
 			expect(problems[0].message).toMatch(
-				/^IBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/
+				/^KBS-BL-OLD “Block lift kit, 4 in \(old casting\)” is discontinued/
 			);
 			expect(problems[0].fixedBy).toBe('merch');
 			expect(problems[1].message).toMatch(
@@ -530,7 +530,7 @@ describe('the featured parts list', () => {
 			sql(`SELECT part_id, code FROM tracked_link WHERE episode_id = $1`, [episodeId]);
 		try {
 			const episode = await newEpisode();
-			const stands = await part('IBS-BS-6T');
+			const stands = await part('KBS-BS-6T');
 			const [dunewagon] = await sql(`SELECT id FROM channel WHERE name = 'Dune Wagon Weekly'`);
 			// OWASP ASVS 4.0 V4: another channel's records are "not found", and nothing is written.
 			await expect(
@@ -550,7 +550,7 @@ describe('the featured parts list', () => {
 	test('the demo: the episode in the edit waits for one note to be placed; the published one is clean', async () => {
 		const [mule] = await sql(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`);
 		const muleAnswer = (await visitors.merch.api(`/api/episodes/${mule.id}/featured-parts`)).body;
-		expect(muleAnswer.parts[0].sku).toBe('IBS-LB-300T');
+		expect(muleAnswer.parts[0].sku).toBe('KBS-LB-300T');
 		expect(
 			muleAnswer.warnings
 				.filter((w: { blocksLock: boolean }) => w.blocksLock)
@@ -561,8 +561,8 @@ describe('the featured parts list', () => {
 			.body;
 		expect(tallboyAnswer.warnings).toEqual([]);
 		expect(tallboyAnswer.parts.map((p: { sku: string }) => p.sku)).toEqual([
-			'IBS-CS-150',
-			'IBS-BS-6T',
+			'KBS-CS-150',
+			'KBS-BS-6T',
 			'NB-BL-EXT2',
 			'QS-TT-250',
 			'CT-MT-33125015'

@@ -118,7 +118,7 @@ describe('the publish kit of the published demo episode', () => {
 		expect(lines[3]).toMatch(/^0:00 /);
 		// The first part on screen is the coil spacer at 0:52 (the demo's first placed note).
 		expect(lines[expected.indexOf('Parts in this episode') + 1]).toMatch(
-			/^- Coil spacer pair, 1\.5 in, polyurethane \(Ironbark Suspension, IBS-CS-150\), at 0:52, 3:10, 7:02: http/
+			/^- Coil spacer pair, 1\.5 in, polyurethane \(Kingbolt Suspension, KBS-CS-150\), at 0:52, 3:10, 7:02: http/
 		);
 
 		const rest = lines.slice(expected.length);
@@ -171,7 +171,7 @@ describe('the publish kit of the published demo episode', () => {
 		expect(md.split('\n')[0]).toBe('# Coil spacer lift on Project Tallboy');
 		expect(md).toContain('## Parts in this episode');
 		expect(md).toMatch(
-			/- \[Coil spacer pair, 1\.5 in, polyurethane\]\(http:\/\/127\.0\.0\.1:\d+\/go\/[A-Za-z0-9]{8}\) \(Ironbark Suspension, IBS-CS-150\), at 0:52, 3:10, 7:02/
+			/- \[Coil spacer pair, 1\.5 in, polyurethane\]\(http:\/\/127\.0\.0\.1:\d+\/go\/[A-Za-z0-9]{8}\) \(Kingbolt Suspension, KBS-CS-150\), at 0:52, 3:10, 7:02/
 		);
 		const json = JSON.parse(
 			await (await merch.request(`/api/episodes/${tallboy.id}/publish-kit?format=json`)).text()

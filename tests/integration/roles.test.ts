@@ -561,7 +561,7 @@ const partsCases: Case[] = [
 	{
 		name: 'GET /api/parts',
 		allowed: everyone,
-		call: async (v) => (await v.api('/api/parts?q=ibs&pageSize=5')).status
+		call: async (v) => (await v.api('/api/parts?q=kbs&pageSize=5')).status
 	},
 	{
 		name: 'POST /api/parts',
@@ -598,7 +598,7 @@ const partsCases: Case[] = [
 			(
 				await v.api('/api/parts/import', {
 					method: 'POST',
-					json: { action: 'preview', mode: 'update', csv: 'sku,price\r\nIBS-LB-300,99.00\r\n' }
+					json: { action: 'preview', mode: 'update', csv: 'sku,price\r\nKBS-LB-300,99.00\r\n' }
 				})
 			).status
 	},
@@ -731,7 +731,7 @@ const partsActionCases: Case[] = [
 			actionStatus(v, `/episodes/${partsIds.episode}/notes?/link`, {
 				noteId: partsIds.note!,
 				version: String(await noteVersion()),
-				sku: 'IBS-LB-300'
+				sku: 'KBS-LB-300'
 			})
 	},
 	{

@@ -199,7 +199,7 @@ describe('a NUL character in a text field', () => {
 		// tus 1.0.0 creation: Upload-Metadata is comma-separated `key base64value` pairs.
 		const metadata = Object.entries({
 			episodeId,
-			filename: 'A001_C002.mov',
+			filename: 'ACAM_1002.mov',
 			filetype: 'video/quicktime',
 			clipName: `A001${NUL}C002`
 		})

@@ -81,7 +81,7 @@ describe('takes and the shoot gate', () => {
 		const logged = await camera.api(`/api/shots/${shotId}/takes`, {
 			method: 'POST',
 			json: {
-				clipName: 'A001_C001',
+				clipName: 'ACAM_1001',
 				sourceIn: '00:01:00;02',
 				sourceOut: '00:01:10;00',
 				good: false
@@ -98,11 +98,11 @@ describe('takes and the shoot gate', () => {
 	test('a good take without footage still holds the gate; linking its uploaded clip clears it', async () => {
 		const good = await camera.api(`/api/shots/${shotId}/takes`, {
 			method: 'POST',
-			json: { clipName: 'A001_C002', sourceIn: '00:02:00:00', sourceOut: '00:02:20:00', good: true }
+			json: { clipName: 'ACAM_1002', sourceIn: '00:02:00:00', sourceOut: '00:02:20:00', good: true }
 		});
 		expect(good.status).toBe(201);
 		expect(await reasons()).toContain('footage-missing');
-		const clipId = await uploadClip(camera, 'A001_C002.mp4', episodeId);
+		const clipId = await uploadClip(camera, 'ACAM_1002.mp4', episodeId);
 		const linked = await camera.api(`/api/takes/${good.body.take.id}`, {
 			method: 'PATCH',
 			json: { footageId: clipId, version: good.body.take.version }

@@ -53,7 +53,7 @@ describe('spreadsheet formula guard (OWASP CSV Injection)', () => {
 	});
 
 	test('ordinary cells are left as they are', () => {
-		const cells = ['IBS-LB-300T', '119.00', "Driver's side", 'https://shop.example.test/p/x', ''];
+		const cells = ['KBS-LB-300T', '119.00', "Driver's side", 'https://shop.example.test/p/x', ''];
 		expect(Papa.parse<string[]>(csvText([cells], { escapeFormulae: true })).data[0]).toEqual(cells);
 	});
 

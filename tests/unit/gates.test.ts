@@ -26,7 +26,7 @@ function segment(overrides: Partial<GateSegment> = {}): GateSegment {
 			{
 				id: 'shot-1',
 				what: 'Wide of the rear axle',
-				takes: [{ clipName: 'A001_C004', good: true, hasFootage: true }]
+				takes: [{ clipName: 'ACAM_1004', good: true, hasFootage: true }]
 			}
 		],
 		cautions: [],
@@ -195,12 +195,12 @@ describe('shoot → edit', () => {
 	test('a good take without uploaded footage is refused, naming the clip', () => {
 		const reasons = gateChecksFor(
 			shootSnapshot([
-				{ id: 'x', what: 'Wide', takes: [{ clipName: 'A003_C011', good: true, hasFootage: false }] }
+				{ id: 'x', what: 'Wide', takes: [{ clipName: 'ACAM_3011', good: true, hasFootage: false }] }
 			]),
 			'edit'
 		);
 		expect(reasons.map((r) => r.rule)).toEqual(['footage-missing']);
-		expect(reasons[0].message).toContain('A003_C011');
+		expect(reasons[0].message).toContain('ACAM_3011');
 	});
 
 	test('one good take with footage among bad ones is enough', () => {
@@ -260,10 +260,10 @@ describe('edit → locked', () => {
 			ready({
 				stage: 'edit',
 				featuredPartProblems: [
-					{ message: 'IBS-BL-OLD is discontinued: link a current part.', fixedBy: 'merch' },
+					{ message: 'KBS-BL-OLD is discontinued: link a current part.', fixedBy: 'merch' },
 					{
 						message:
-							'IBS-BS-6T is on a note with no program time: the editor places the note in the cut.',
+							'KBS-BS-6T is on a note with no program time: the editor places the note in the cut.',
 						fixedBy: 'editor'
 					}
 				]

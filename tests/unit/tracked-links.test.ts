@@ -36,21 +36,21 @@ const Url = require('url-parse') as new (
 const tags = {
 	source: 'torquehaven-garage',
 	campaign: 'tallboy-coil-spacers',
-	content: 'IBS-CS-150'
+	content: 'KBS-CS-150'
 };
 
 describe('trackedUrl', () => {
 	test('a plain store URL gains the four campaign parameters', () => {
-		const built = trackedUrl('https://shop.torquehaven.test/p/ibs-cs-150', tags);
+		const built = trackedUrl('https://shop.torquehaven.test/p/kbs-cs-150', tags);
 		expect(built).toBe(
-			'https://shop.torquehaven.test/p/ibs-cs-150?utm_source=torquehaven-garage&utm_medium=video&utm_campaign=tallboy-coil-spacers&utm_content=IBS-CS-150'
+			'https://shop.torquehaven.test/p/kbs-cs-150?utm_source=torquehaven-garage&utm_medium=video&utm_campaign=tallboy-coil-spacers&utm_content=KBS-CS-150'
 		);
 		const parsed = new Url(built, true);
 		expect(parsed.query).toEqual({
 			utm_source: 'torquehaven-garage',
 			utm_medium: 'video',
 			utm_campaign: 'tallboy-coil-spacers',
-			utm_content: 'IBS-CS-150'
+			utm_content: 'KBS-CS-150'
 		});
 	});
 
@@ -69,7 +69,7 @@ describe('trackedUrl', () => {
 			size: '33x12.50R15',
 			note: 'a b',
 			ref: 'catalogue',
-			utm_content: 'IBS-CS-150',
+			utm_content: 'KBS-CS-150',
 			utm_medium: 'video'
 		});
 	});

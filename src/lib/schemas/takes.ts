@@ -10,7 +10,7 @@ const timecodeText = (label: string) =>
 
 export const takeCreateSchema = z
 	.object({
-		clipName: text('Name the clip.').trim().min(1, 'Name the clip, e.g. A012_C004.').max(120),
+		clipName: text('Name the clip.').trim().min(1, 'Name the clip, e.g. ACAM_12004.').max(120),
 		sourceIn: timecodeText('in'),
 		sourceOut: timecodeText('out'),
 		good: z.boolean().default(false),

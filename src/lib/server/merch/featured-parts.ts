@@ -205,8 +205,8 @@ const TRAILING = /[.,;:!?)"'”’*_\]]+$/u;
 /**
  * Every run of 1 to `maxWords` consecutive words of the text, lower-cased, joined by one space,
  * with the punctuation around the run taken off (and also as written). A part is "named" when its
- * SKU or its whole name is one of these: whole words only, so "IBS-LB-300" is not named by
- * "IBS-LB-300T", and case and line breaks don't matter.
+ * SKU or its whole name is one of these: whole words only, so "KBS-LB-300" is not named by
+ * "KBS-LB-300T", and case and line breaks don't matter.
  */
 export function scriptPhrases(text: string, maxWords = 12): string[] {
 	const words = text.toLowerCase().split(/\s+/u).filter(Boolean);

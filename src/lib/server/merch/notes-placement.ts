@@ -65,7 +65,7 @@ interface TakeSpan {
 	sourceDropFrame: boolean;
 }
 
-/** "B001_C007 runs 08:01:10;00–08:01:30;00" in the take's own timecode form. */
+/** "BCAM_1007 runs 08:01:10;00–08:01:30;00" in the take's own timecode form. */
 function takeRuns(take: TakeSpan, rate: FrameRate): string {
 	const tc = (frames: number) => formatTimecode(frames, rate, { dropFrame: take.sourceDropFrame });
 	return `${tc(take.sourceInFrames)}–${tc(take.sourceOutFrames)}`;
