@@ -18,7 +18,7 @@
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
 import type { Stage } from './stages';
-import { formatTimecode, type FrameRate } from './timecode';
+import { capturedRateFit, formatTimecode, type FrameRate } from './timecode';
 
 export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
 
@@ -27,6 +27,8 @@ export interface GateTake {
 	good: boolean;
 	/** True once the take's footage is uploaded (the take's footage id is set). */
 	hasFootage: boolean;
+	/** The uploaded clip's measured frame rate (null: not read, or no clip). */
+	footageFrameRate?: string | null;
 }
 
 export interface GateShot {
@@ -83,6 +85,7 @@ export type GateRule =
 	| 'shot-list-missing'
 	| 'take-missing'
 	| 'footage-missing'
+	| 'footage-rate-mismatch'
 	| 'assignee-missing'
 	| 'chapters-missing'
 	| 'chapter-problem'
@@ -223,6 +226,23 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 					fixedBy: 'camera',
 					segmentId: segment.id
 				});
+			} else {
+				const uploaded = goodTakes.filter((take) => take.hasFootage);
+				const fits = uploaded.some(
+					(take) => capturedRateFit(take.footageFrameRate, snapshot.frameRate) !== 'different'
+				);
+				if (!fits) {
+					const clips = uploaded
+						.map((take) => `${take.clipName} at ${take.footageFrameRate} fps`)
+						.join(', ');
+					reasons.push({
+						rule: 'footage-rate-mismatch',
+						subject,
+						message: `The good take's clip was recorded at another rate (${clips}) than the episode's ${snapshot.frameRate} fps: it would play at the wrong speed or drop frames. Upload a clip conformed to ${snapshot.frameRate} fps, or mark a take at the episode's rate good.`,
+						fixedBy: 'camera',
+						segmentId: segment.id
+					});
+				}
 			}
 		}
 	}

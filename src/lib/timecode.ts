@@ -105,6 +105,28 @@ export function exactFps(rate: FrameRate): ExactFrameRate {
 	return { numerator, denominator };
 }
 
+/**
+ * How a clip's measured rate (ffprobe's average, as stored: "29.97", "30", "119.88") sits with the
+ * programme rate: the same rate; a whole multiple of it (overcranked for slow motion and conformed on
+ * purpose, common practice); a different rate (plays at the wrong speed or drops and repeats frames
+ * once cut in); or unknown (no rate was read). Labels carry three decimals, so a 0.01 fps tolerance.
+ */
+export function capturedRateFit(
+	measured: string | null | undefined,
+	programme: FrameRate
+): 'same' | 'overcranked' | 'different' | 'unknown' {
+	const fps = Number(measured);
+	if (measured === null || measured === undefined || measured === '' || !(fps > 0))
+		return 'unknown';
+	const { numerator, denominator } = factsFor(programme);
+	const exact = numerator / denominator;
+	if (Math.abs(fps - exact) < 0.01) return 'same';
+	const multiple = Math.round(fps / exact);
+	return multiple >= 2 && Math.abs(fps - multiple * exact) < 0.01 * multiple
+		? 'overcranked'
+		: 'different';
+}
+
 function assertFrameCount(frames: number): void {
 	if (!Number.isSafeInteger(frames) || frames < 0) {
 		throw new TimecodeError(

@@ -443,3 +443,42 @@ describe('who may move a stage (our own rule, src/lib/stages.ts)', () => {
 		).toBe(false);
 	});
 });
+
+describe('footage recorded at another frame rate than the episode', () => {
+	// A clip at a rate other than the programme's plays at the wrong speed or drops and repeats
+	// frames once cut in (the 1000/1001 family and whole rates are distinct; tests/REFERENCES.md
+	// "Frame rates"). Capture at a whole multiple (50 for 25, 119.88 for 29.97) is overcranked for
+	// slow motion and conformed on purpose (common practice), so it passes.
+	const withRate = (measured: string | null) =>
+		ready({
+			stage: 'shoot',
+			frameRate: '29.97',
+			segments: [
+				segment({
+					shots: [
+						{
+							id: 'shot-1',
+							what: 'Wide of the rear axle',
+							takes: [
+								{ clipName: 'ACAM_1004', good: true, hasFootage: true, footageFrameRate: measured }
+							]
+						}
+					]
+				})
+			]
+		});
+
+	test('a good take’s clip at 30 fps in a 29.97 episode holds shoot → edit, naming both rates', () => {
+		const reasons = gateChecksFor(withRate('30'), 'edit');
+		expect(reasons.map((reason) => reason.rule)).toEqual(['footage-rate-mismatch']);
+		expect(reasons[0].message).toContain('30 fps');
+		expect(reasons[0].message).toContain('29.97 fps');
+		expect(reasons[0].message).toContain('ACAM_1004');
+		expect(reasons[0].fixedBy).toBe('camera');
+	});
+
+	test('the same rate, an overcranked whole multiple, or an unread rate passes', () => {
+		for (const measured of ['29.97', '59.94', '119.88', null])
+			expect(rules(withRate(measured), 'edit'), String(measured)).toEqual([]);
+	});
+});

@@ -100,7 +100,14 @@ export async function gateSnapshotFor(
 				.selectFrom('take')
 				.innerJoin('shot', 'shot.id', 'take.shotId')
 				.innerJoin('segment', 'segment.id', 'shot.segmentId')
-				.select(['take.shotId', 'take.clipName', 'take.good', 'take.footageId'])
+				.leftJoin('footage', 'footage.id', 'take.footageId')
+				.select([
+					'take.shotId',
+					'take.clipName',
+					'take.good',
+					'take.footageId',
+					'footage.frameRate as footageFrameRate'
+				])
 				.where('segment.episodeId', '=', episodeId)
 				.orderBy('take.createdAt')
 				.execute(),
@@ -136,7 +143,8 @@ export async function gateSnapshotFor(
 						.map((take) => ({
 							clipName: take.clipName,
 							good: take.good,
-							hasFootage: take.footageId !== null
+							hasFootage: take.footageId !== null,
+							footageFrameRate: take.footageFrameRate
 						}))
 				})),
 			cautions: cautions
