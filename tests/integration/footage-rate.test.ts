@@ -21,7 +21,12 @@ beforeAll(async () => {
 	episodeId = created.body.episode.id;
 	const segment = await producer.api(`/api/episodes/${episodeId}/segments`, {
 		method: 'POST',
-		json: { kind: 'install-step', title: 'Torque the U-bolts', plannedSeconds: 90, needsFootage: true }
+		json: {
+			kind: 'install-step',
+			title: 'Torque the U-bolts',
+			plannedSeconds: 90,
+			needsFootage: true
+		}
 	});
 	const shot = await producer.api(`/api/segments/${segment.body.segment.id}/shots`, {
 		method: 'POST',
