@@ -14,6 +14,8 @@ export const demoChannels = [
 			'Every part in this episode is in the Torquehaven shop. New installs every other Friday: subscribe so you catch the next one.',
 		contact:
 			'Fitment questions: fitment@torquehaven.test · Torquehaven Supply, Bay 3, Millbrook Works (fictional demo address)',
+		disclosure:
+			'This channel is run by Torquehaven Supply: the parts links below go to our own shop, and we earn on what you buy through them.',
 		crew: [
 			{ name: 'Dana Okafor', email: 'dana@torquehaven.test', roles: ['producer'] },
 			{ name: 'Rico Valdane', email: 'rico@torquehaven.test', roles: ['host'] },
@@ -28,6 +30,8 @@ export const demoChannels = [
 		frameRate: '25',
 		callToAction: 'More sand-rail rebuilds every week.',
 		contact: 'hello@dunewagon.test',
+		disclosure:
+			'We earn a small commission when you buy through the parts links below; it costs you nothing extra.',
 		crew: [
 			{ name: 'Sam Ortega', email: 'sam@dunewagon.test', roles: ['producer', 'host', 'camera'] },
 			{ name: 'Jules Farrow', email: 'jules@cutbench.test', roles: ['editor'] }

@@ -35,7 +35,8 @@ export async function seedDemo(databaseUrl: string): Promise<'seeded' | 'skipped
 						name: spec.name,
 						frameRate: spec.frameRate,
 						callToAction: spec.callToAction,
-						contact: spec.contact
+						contact: spec.contact,
+						disclosure: spec.disclosure
 					})
 					.returning('id')
 					.executeTakeFirstOrThrow();

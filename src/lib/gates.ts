@@ -12,13 +12,16 @@
  * - edit → locked: valid chapters; every featured part linked to an active catalogue part; every
  *   caution of a flagged segment written and placed inside the cut.
  * - locked → published: everything the lock needs still holds, and a publish date is set. A caution
- *   never blocks publishing silently: each refusal names its segment.
+ *   never blocks publishing silently: each refusal names its segment. When the publish kit carries
+ *   tracked links, the channel has a disclosure to place beside them (a channel that earns on its
+ *   links says so); and the title is one video platforms take ($lib/publish-limits).
  * Moving back is never gated.
  */
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
 import type { Stage } from './stages';
 import { capturedRateFit, formatTimecode, type FrameRate } from './timecode';
+import { titleProblems } from './publish-limits';
 
 export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
 
@@ -75,6 +78,14 @@ export interface GateSnapshot {
 	/** Featured parts not linked to an active catalogue part, in words. */
 	/** Why the featured parts aren't ready, each with whose job it is (merch links parts, the editor places notes). */
 	featuredPartProblems: { message: string; fixedBy: Role }[];
+	/** What the publish gate reads besides the lock's rules. */
+	publishing: {
+		title: string;
+		/** Parts in the publish kit: each goes out with a tracked link. */
+		trackedLinks: number;
+		/** The channel's disclosure; '' when none is set. */
+		disclosure: string;
+	};
 }
 
 export type GateRule =
@@ -93,7 +104,9 @@ export type GateRule =
 	| 'caution-text-missing'
 	| 'caution-unplaced'
 	| 'caution-past-end'
-	| 'publish-date-missing';
+	| 'publish-date-missing'
+	| 'disclosure-missing'
+	| 'title-refused';
 
 export interface GateReason {
 	rule: GateRule;
@@ -318,6 +331,27 @@ function lockRules(snapshot: GateSnapshot): GateReason[] {
 	return reasons;
 }
 
+/** A disclosure beside tracked links, and a title platforms take: the publish gate's own rules. */
+function publishingRules(snapshot: GateSnapshot): GateReason[] {
+	const reasons: GateReason[] = [];
+	const { title, trackedLinks, disclosure } = snapshot.publishing;
+	if (trackedLinks > 0 && disclosure.trim() === '')
+		reasons.push({
+			rule: 'disclosure-missing',
+			subject: 'Disclosure',
+			message: `The publish kit has ${trackedLinks === 1 ? 'a tracked link' : `${trackedLinks} tracked links`} and the channel has no disclosure to put beside ${trackedLinks === 1 ? 'it' : 'them'}: a producer writes one under Channel settings, saying plainly how the channel earns on the links.`,
+			fixedBy: 'producer'
+		});
+	for (const problem of titleProblems(title))
+		reasons.push({
+			rule: 'title-refused',
+			subject: 'Title',
+			message: problem,
+			fixedBy: 'producer'
+		});
+	return reasons;
+}
+
 /** Every reason the episode may not move forward to `to` from its current stage; empty means the gate passes. */
 export function gateChecksFor(snapshot: GateSnapshot, to: Stage): GateReason[] {
 	switch (to) {
@@ -347,6 +381,7 @@ export function gateChecksFor(snapshot: GateSnapshot, to: Stage): GateReason[] {
 					fixedBy: 'producer'
 				});
 			}
+			reasons.push(...publishingRules(snapshot));
 			return reasons;
 		}
 	}

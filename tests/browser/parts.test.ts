@@ -174,4 +174,23 @@ test('merch imports a CSV, links two parts to a note, and copies the publish kit
 	await page.getByRole('button', { name: 'Start again from the blocks' }).click();
 	await expect.poll(() => page.getByTestId('required-missing').count()).toBe(0);
 	expect(await whole.inputValue()).toMatch(/licensed professional/);
+
+	// 5. The channel's disclosure sits above the links; a hand edit that drops it and keeps the
+	// links is called out (a disclosure before the links is common practice; tests/REFERENCES.md,
+	// "Publish kit", from memory).
+	const [{ disclosure }] = await sql(
+		`SELECT disclosure FROM channel WHERE name = 'Torquehaven Garage'`
+	);
+	const kitText = await whole.inputValue();
+	expect(kitText.indexOf(disclosure)).toBeGreaterThan(kitText.indexOf('Parts in this episode'));
+	expect(kitText.indexOf(disclosure)).toBeLessThan(kitText.indexOf('/go/'));
+	expect(await page.getByTestId('disclosure-note').count()).toBe(1);
+	await whole.fill(kitText.replace(`${disclosure}\n`, ''));
+	await expect.poll(() => page.getByTestId('disclosure-dropped').count()).toBe(1);
+	await page
+		.getByTestId('disclosure-dropped')
+		.getByRole('button', { name: 'Start again from the blocks' })
+		.click();
+	await expect.poll(() => page.getByTestId('disclosure-dropped').count()).toBe(0);
+	expect(await whole.inputValue()).toContain(disclosure);
 });

@@ -94,9 +94,10 @@ describe('the publish kit of the published demo episode', () => {
 			`SELECT c.text FROM caution c JOIN segment s ON s.id = c.segment_id WHERE s.episode_id = $1 ORDER BY c.at_frame, s.position, c.hazard`,
 			[tallboy.id]
 		);
-		const [channel] = await sql(`SELECT call_to_action, contact FROM channel WHERE id = $1`, [
-			channelId
-		]);
+		const [channel] = await sql(
+			`SELECT call_to_action, contact, disclosure FROM channel WHERE id = $1`,
+			[channelId]
+		);
 		const origin = baseUrl();
 
 		const expected = [
@@ -106,6 +107,8 @@ describe('the publish kit of the published demo episode', () => {
 			...chapters.map((chapter) => `${clockOf(chapter.start_frame)} ${chapter.title}`),
 			'',
 			'Parts in this episode',
+			// The disclosure comes before the links, so it is read before a click (common practice).
+			channel.disclosure,
 			...featured.map(
 				(part) =>
 					`- ${part.name} (${part.brand}, ${part.sku}), at ${[...new Set(part.frames.map(clockOf))].join(', ')}: ${origin}/go/${part.code}`
@@ -117,7 +120,7 @@ describe('the publish kit of the published demo episode', () => {
 		expect(lines.slice(0, expected.length)).toEqual(expected);
 		expect(lines[3]).toMatch(/^0:00 /);
 		// The first part on screen is the coil spacer at 0:52 (the demo's first placed note).
-		expect(lines[expected.indexOf('Parts in this episode') + 1]).toMatch(
+		expect(lines[expected.indexOf('Parts in this episode') + 2]).toMatch(
 			/^- Coil spacer pair, 1\.5 in, polyurethane \(Kingbolt Suspension, KBS-CS-150\), at 0:52, 3:10, 7:02: http/
 		);
 
@@ -136,7 +139,7 @@ describe('the publish kit of the published demo episode', () => {
 		const partLines = kit.blocks
 			.find((block: { id: string }) => block.id === 'parts')
 			.text.split('\n')
-			.slice(1) as string[];
+			.slice(2) as string[]; // the title, then the disclosure
 		expect(partLines.length).toBe(5);
 		for (const line of partLines) {
 			const address = line.slice(line.lastIndexOf(': ') + 2);

@@ -49,6 +49,11 @@ function ready(overrides: Partial<GateSnapshot> = {}): GateSnapshot {
 		],
 		chapterProblems: [],
 		featuredPartProblems: [],
+		publishing: {
+			title: 'Coil spacer lift on the project pickup',
+			trackedLinks: 3,
+			disclosure: 'We earn on parts bought through the links below.'
+		},
 		...overrides
 	};
 }
@@ -371,6 +376,60 @@ describe('locked → published', () => {
 	test('a missing publish date is refused', () => {
 		expect(rules(ready({ stage: 'locked', publishDate: null }), 'published')).toEqual([
 			'publish-date-missing'
+		]);
+	});
+});
+
+describe('locked → published: disclosure beside tracked links, and a title platforms take', () => {
+	// A channel that earns on its links says so beside them (tests/REFERENCES.md, "Publish kit":
+	// common practice, from memory).
+	const publishing = (changes: Partial<GateSnapshot['publishing']>) =>
+		ready({ stage: 'locked', publishing: { ...ready().publishing, ...changes } });
+
+	test('tracked links with no disclosure are refused, and the reason says who writes it and where', () => {
+		const reasons = gateChecksFor(publishing({ disclosure: '' }), 'published');
+		expect(reasons).toEqual([
+			{
+				rule: 'disclosure-missing',
+				subject: 'Disclosure',
+				message: expect.stringMatching(/3 tracked links.*no disclosure.*Channel settings/),
+				fixedBy: 'producer'
+			}
+		]);
+	});
+
+	test('a disclosure of only spaces and line breaks counts as none; one link is said as one', () => {
+		const reasons = gateChecksFor(
+			publishing({ disclosure: ' \n\t ', trackedLinks: 1 }),
+			'published'
+		);
+		expect(reasons.map((reason) => reason.rule)).toEqual(['disclosure-missing']);
+		expect(reasons[0].message).toMatch(/^The publish kit has a tracked link and .* beside it:/);
+	});
+
+	test('no tracked links, no disclosure needed', () => {
+		expect(gateChecksFor(publishing({ disclosure: '', trackedLinks: 0 }), 'published')).toEqual([]);
+	});
+
+	test('the disclosure is the publish gate’s rule only: picture lock does not ask for it', () => {
+		expect(gateChecksFor(publishing({ disclosure: '' }), 'locked')).toEqual([]);
+	});
+
+	test('a title over the 100 characters platforms take is refused with how much to cut', () => {
+		// 100 characters is the platforms' title limit (tests/REFERENCES.md, "Publish kit": from memory).
+		expect(gateChecksFor(publishing({ title: 'x'.repeat(100) }), 'published')).toEqual([]);
+		const reasons = gateChecksFor(publishing({ title: 'x'.repeat(101) }), 'published');
+		expect(reasons).toMatchObject([
+			{ rule: 'title-refused', subject: 'Title', fixedBy: 'producer' }
+		]);
+		expect(reasons[0].message).toMatch(/101 characters; video platforms take 100: shorten it by 1/);
+	});
+
+	test('the title counts UTF-16 code units, so 50 emoji (100 units) pass and 51 do not', () => {
+		// U+1F527 is a surrogate pair in UTF-16: 2 code units (Unicode Standard §3.9, public).
+		expect(gateChecksFor(publishing({ title: '\u{1F527}'.repeat(50) }), 'published')).toEqual([]);
+		expect(rules(publishing({ title: '\u{1F527}'.repeat(51) }), 'published')).toEqual([
+			'title-refused'
 		]);
 	});
 });

@@ -86,6 +86,9 @@ export const passwordChangeSchema = z
 /** The programme frame rates a channel or an episode may use (the list lives in $lib/timecode). */
 export const FRAME_RATE_VALUES = FRAME_RATES;
 
+/** Longest disclosure a channel may set (the channel.disclosure check says the same). */
+export const DISCLOSURE_MAX = 500;
+
 export const channelSettingsSchema = z.object({
 	name: text()
 		.trim()
@@ -94,6 +97,14 @@ export const channelSettingsSchema = z.object({
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
 	callToAction: text().trim().max(1000, 'Keep the call to action under 1,000 characters.'),
 	contact: text().trim().max(500, 'Keep the contact details under 500 characters.'),
+	/** Said beside the tracked links; left out (an older page or client), the channel keeps its text. */
+	disclosure: text()
+		.trim()
+		.max(
+			DISCLOSURE_MAX,
+			`Keep the disclosure under ${DISCLOSURE_MAX} characters: one or two plain sentences.`
+		)
+		.optional(),
 	descriptionLimit: wholeNumber({
 		error: 'Enter a number of characters.',
 		notWhole: 'Use a whole number.',

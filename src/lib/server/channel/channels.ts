@@ -11,6 +11,7 @@ const SETTINGS_COLUMNS = [
 	'frameRate',
 	'callToAction',
 	'contact',
+	'disclosure',
 	'descriptionLimit',
 	'storageQuotaGb',
 	'version'

@@ -23,6 +23,8 @@ export interface ChannelTable {
 	frameRate: ColumnType<FrameRate, FrameRate | undefined, FrameRate>;
 	callToAction: Generated<string>;
 	contact: Generated<string>;
+	/** Said beside the tracked links in every publish kit; '' until the producer writes it. */
+	disclosure: Generated<string>;
 	descriptionLimit: Generated<number>;
 	/** Whole decimal gigabytes that finished footage and unfinished uploads may take. */
 	storageQuotaGb: Generated<number>;

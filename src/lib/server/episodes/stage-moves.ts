@@ -54,6 +54,27 @@ export const chapterProblemsFor = editChapterProblems;
 /** Featured parts the lock gate refuses (not linked, not active, no program time); the parts module owns the rules. */
 export const featuredPartProblemsFor = featuredPartProblems;
 
+/**
+ * The channel's disclosure and how many tracked links the publish kit carries: one per part linked
+ * on the episode's notes (merch/publish-kit.ts makes a link for each).
+ */
+async function publishingFactsFor(channelId: string, episodeId: string, trx: Executor) {
+	const row = await trx
+		.selectFrom('channel')
+		.select((eb) => [
+			'channel.disclosure',
+			eb
+				.selectFrom('segmentNotePart')
+				.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
+				.select((inner) => inner.fn.count<string>('segmentNotePart.partId').distinct().as('n'))
+				.where('segmentNote.episodeId', '=', episodeId)
+				.as('trackedLinks')
+		])
+		.where('channel.id', '=', channelId)
+		.executeTakeFirstOrThrow();
+	return { disclosure: row.disclosure, trackedLinks: Number(row.trackedLinks ?? 0) };
+}
+
 /** Everything the gate checks read, gathered in the caller's transaction. */
 export async function gateSnapshotFor(
 	channelId: string,
@@ -115,6 +136,7 @@ export async function gateSnapshotFor(
 			featuredPartProblemsFor(channelId, episodeId, trx)
 		]);
 	const words = await spokenWordsEach(segments.map((segment) => segment.body));
+	const publishing = await publishingFactsFor(channelId, episodeId, trx);
 	return {
 		stage: episode.stage,
 		frameRate: episode.frameRate,
@@ -156,7 +178,8 @@ export async function gateSnapshotFor(
 				}))
 		})),
 		chapterProblems,
-		featuredPartProblems
+		featuredPartProblems,
+		publishing: { title: episode.title, ...publishing }
 	};
 }
 

@@ -1,10 +1,15 @@
 /**
  * The publish kit: the episode description assembled from what the crew already entered, in
  * blocks the merch team copies one by one or as a whole:
- *   logline · chapters (the chapter module's `txt` format) · parts in this episode (with their
- *   times and tracked links) · safety (the episode's caution cards and the general safety note)
+ *   logline · chapters (the chapter module's `txt` format) · parts in this episode (the channel's
+ *   disclosure first, then each part with its times and tracked link) · safety (the episode's caution cards and the general safety note)
  *   · the channel's call to action and contact.
  * Chapters that are missing or break the chapter rules don't stop the kit: the block says so.
+ *
+ * The disclosure (Channel settings) opens the parts block, above the links, so a viewer reads that
+ * the channel earns on them before clicking one, and copying the block alone carries it too
+ * (placing it before the links is common practice). With links and no disclosure the block says so,
+ * and the publish gate refuses ($lib/gates).
  *
  * Everything is read in ONE query (JSON aggregates of chapters, cautions and featured parts beside
  * the episode and channel row). Only when a featured part has no tracked link yet (a link made
@@ -48,6 +53,8 @@ export interface KitBlock {
 	problems: string[];
 	/** Why this block cannot be left out of the description (absent: it can). */
 	required?: string;
+	/** The parts block: the channel's disclosure, placed first in the block ('' when none is set). */
+	disclosure?: string;
 }
 
 export interface PublishKit {
@@ -88,6 +95,7 @@ function kitQuery(executor: Executor, channelId: string, episodeId: string) {
 			'episode.cutDurationFrames',
 			'channel.callToAction',
 			'channel.contact',
+			'channel.disclosure',
 			'channel.descriptionLimit',
 			jsonArrayFrom(
 				eb
@@ -189,7 +197,11 @@ const statusNote = (part: FeaturedPart) =>
 			? ' [out of stock]'
 			: '';
 
-function partsBlock(parts: readonly FeaturedPart[], origin: string): KitBlock {
+/** What the parts block says when the channel has no disclosure (the gate's reason says the same). */
+export const DISCLOSURE_MISSING =
+	'These are tracked links and the channel has no disclosure to put above them: the producer writes one under Channel settings. An episode with tracked links is not published without it.';
+
+function partsBlock(parts: readonly FeaturedPart[], origin: string, disclosure: string): KitBlock {
 	const title = 'Parts in this episode';
 	if (parts.length === 0)
 		return {
@@ -201,9 +213,12 @@ function partsBlock(parts: readonly FeaturedPart[], origin: string): KitBlock {
 				'No parts are linked on the segment notes yet: the merch team links them on the notes page.'
 			]
 		};
-	const problems: string[] = [];
-	const text: string[] = [title];
-	const markdown: string[] = [`## ${title}`, ''];
+	const problems: string[] = disclosure ? [] : [DISCLOSURE_MISSING];
+	// Before the links, so it is read before a click (common practice).
+	const text: string[] = disclosure ? [title, disclosure] : [title];
+	const markdown: string[] = disclosure
+		? [`## ${title}`, '', escapeMarkdown(disclosure), '']
+		: [`## ${title}`, ''];
 	for (const part of parts) {
 		// Two notes in the same second read as one time in a description.
 		const clocks = [...new Set(part.appearances.map((appearance) => appearance.clock))];
@@ -220,7 +235,14 @@ function partsBlock(parts: readonly FeaturedPart[], origin: string): KitBlock {
 		if (part.unplaced.length > 0)
 			problems.push(`${part.sku} is on a note with no program time: the editor places it.`);
 	}
-	return { id: 'parts', title, text: text.join('\n'), markdown: markdown.join('\n'), problems };
+	return {
+		id: 'parts',
+		title,
+		text: text.join('\n'),
+		markdown: markdown.join('\n'),
+		problems,
+		disclosure
+	};
 }
 
 function safetyBlock(row: KitRow): KitBlock {
@@ -263,7 +285,7 @@ function assemble(row: KitRow, origin: string): PublishKit {
 	const blocks = [
 		loglineBlock(row),
 		chaptersBlock(row),
-		partsBlock(parts, origin),
+		partsBlock(parts, origin, row.disclosure.trim()),
 		safetyBlock(row),
 		callToActionBlock(row)
 	];

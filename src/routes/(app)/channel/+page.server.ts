@@ -28,8 +28,9 @@ export const actions = {
 				String(form.get(key) ?? '')
 			])
 		);
-		// A form without the quota field (an older page) keeps the channel's quota.
+		// A form without the quota or disclosure field (an older page) keeps the channel's value.
 		if (form.has('storageQuotaGb')) values.storageQuotaGb = String(form.get('storageQuotaGb'));
+		if (form.has('disclosure')) values.disclosure = String(form.get('disclosure'));
 		const result = await runForm('save', channelSettingsSchema, values, (data) =>
 			updateChannelSettings(channel.id, data)
 		);
