@@ -147,7 +147,11 @@ describe('a person outside the record’s channel', () => {
 		const host = await signedIn(demo.host); // Torquehaven only
 		const build = await host.request(`/builds/${ids.build}`);
 		expect(build.status).toBe(404);
-		expect(await build.text()).not.toContain('Dune Wagon');
+		const notFound = await build.text();
+		expect(notFound).not.toContain('Dune Wagon');
+		// The error page has no top bar, so it does not send anyone to one.
+		expect(notFound).not.toContain('top bar');
+		expect(notFound).toContain('opens it in that channel');
 		expect(await channelOf(host)).toBe('Torquehaven Garage');
 
 		const sam = await signedIn(demo.otherProducer); // Dune Wagon only
