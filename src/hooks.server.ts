@@ -29,6 +29,7 @@ import { startScriptReaders } from '$lib/server/episodes/script-reader';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
+import { channelLinkHandle } from '$lib/server/channel/current-channel';
 
 // server.js (production) answers uploads itself, before SvelteKit; under vite dev uploadHandle does.
 offerNodeRoutes();
@@ -217,7 +218,8 @@ export const handle: Handle = sequence(
 	authHandle,
 	identityHandle,
 	uploadHandle,
-	guardHandle
+	guardHandle,
+	channelLinkHandle
 );
 
 export const handleError: HandleServerError = ({ error, event, status }) => {

@@ -7,7 +7,7 @@
  */
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
+import { openBrowser, signInAs, switchChannel, type BrowserSession } from '../helpers/browser';
 import { demo, sql } from '../helpers/http';
 
 let ids: {
@@ -172,12 +172,8 @@ describe('no CSP violations on the main pages of each role', () => {
 			const violations = await watchViolations(session.page);
 			await signInAs(session.page, demo[who]);
 			if (who === 'editor') {
-				// The shared editor starts in the other channel (channels sort by name): switch like a person would.
-				await Promise.all([
-					session.page.waitForResponse((response) => response.url().includes('/channel?/switch')),
-					session.page.getByLabel('Channel').selectOption({ label: 'Torquehaven Garage' })
-				]);
-				await session.page.waitForLoadState();
+				// The shared editor may start in the other channel: switch like a person would.
+				await switchChannel(session.page, 'Torquehaven Garage');
 			}
 			for (const path of pages()) {
 				// goto waits for <html data-hydrated>: the page's own scripts ran under the policy.

@@ -82,6 +82,11 @@ function waitForHydrationOnLoad(page: Page): void {
  * then still follows the redirect, and a `goto` made meanwhile is interrupted by it.
  */
 export async function switchChannel(page: Page, name: string): Promise<void> {
+	// A sign-in starts in the channel the person chose last, which may already be this one.
+	const current = await page
+		.getByLabel('Channel')
+		.evaluate((select: HTMLSelectElement) => select.selectedOptions[0]?.textContent?.trim() ?? '');
+	if (current === name) return;
 	const landed = page.waitForEvent(
 		'framenavigated',
 		(frame) => frame === page.mainFrame() && !new URL(frame.url()).pathname.startsWith('/channel')

@@ -2,6 +2,7 @@ import { isRedirect, redirect } from '@sveltejs/kit';
 import { signOut } from '../../auth';
 import { closeSession } from '$lib/server/auth/sessions';
 import { withFormBody } from '$lib/server/auth/form-body';
+import { forgetBrowserChannel } from '$lib/server/channel/current-channel';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (() => redirect(303, '/')) satisfies PageServerLoad;
@@ -9,6 +10,7 @@ export const load = (() => redirect(303, '/')) satisfies PageServerLoad;
 export const actions = {
 	default: async (event) => {
 		if (event.locals.sessionId) await closeSession(event.locals.sessionId);
+		forgetBrowserChannel(event);
 		const request = withFormBody(event.request, new URLSearchParams({ redirectTo: '/signin' }));
 		try {
 			await signOut({ ...event, request });

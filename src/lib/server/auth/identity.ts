@@ -74,6 +74,7 @@ export async function identityFromSession(
 			'person.id as personId',
 			'person.email',
 			'person.name as personName',
+			'person.lastChannelId',
 			'channel.id',
 			'channel.name',
 			'channel.frameRate',
@@ -85,12 +86,16 @@ export async function identityFromSession(
 		.orderBy('channel.name')
 		.execute();
 	if (rows.length === 0) return nobody;
-	const { personId, email, personName } = rows[0];
-	return identityOf(
-		{ id: personId, email, name: personName },
-		rows.map(({ id, name, frameRate, roles }) => ({ id, name, frameRate, roles })),
-		wantedChannel
-	);
+	const { personId, email, personName, lastChannelId } = rows[0];
+	// This browser's choice first; a browser without one (a new sign-in) starts in the last chosen.
+	const memberships = rows.map(({ id, name, frameRate, roles }) => ({
+		id,
+		name,
+		frameRate,
+		roles
+	}));
+	const wanted = memberships.some((m) => m.id === wantedChannel) ? wantedChannel : lastChannelId;
+	return identityOf({ id: personId, email, name: personName }, memberships, wanted);
 }
 
 /** A bearer token works in the one channel it was created in. Revoked tokens and disabled memberships get nothing. */

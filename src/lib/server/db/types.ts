@@ -37,6 +37,8 @@ export interface PersonTable {
 	email: string;
 	name: string;
 	passwordHash: string | null;
+	/** The channel last chosen: a browser without a channel cookie (a new sign-in) opens it. */
+	lastChannelId: string | null;
 	createdAt: CreatedAt;
 }
 

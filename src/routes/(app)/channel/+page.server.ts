@@ -3,7 +3,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { channelSettings, updateChannelSettings } from '$lib/server/channel/channels';
 import { channelSettingsSchema } from '$lib/schemas/people';
 import { runForm } from '$lib/server/http/forms';
-import { CHANNEL_COOKIE } from '$lib/server/auth/identity';
+import { chooseChannel } from '$lib/server/channel/current-channel';
 import { storageInUse } from '$lib/server/footage/upload-limits';
 import { maxUploadBytes } from '$lib/server/footage/tus-server';
 import { safeRedirectPath } from '$lib/safe-redirect';
@@ -39,17 +39,12 @@ export const actions = {
 	},
 	/** Any crew member may switch to another channel they belong to. */
 	switch: async (event) => {
-		requireRole(event);
+		const { person } = requireRole(event);
 		const form = await event.request.formData();
 		const wanted = String(form.get('channelId') ?? '');
 		if (!event.locals.channels.some((c) => c.id === wanted))
 			return fail(404, { errors: { channelId: ['You are not on that channel’s crew.'] } });
-		event.cookies.set(CHANNEL_COOKIE, wanted, {
-			path: '/',
-			httpOnly: true,
-			sameSite: 'lax',
-			maxAge: 365 * 24 * 3600
-		});
+		await chooseChannel(event, person.id, wanted);
 		redirect(303, sectionOf(safeRedirectPath(form.get('next'))));
 	}
 } satisfies Actions;
