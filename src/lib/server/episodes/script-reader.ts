@@ -61,8 +61,21 @@ const READER_HEAP_MB = 256;
 export const PLAIN_SCRIPT_NOTICE =
 	'<p><strong>Shown as plain text.</strong> The formatting of this script took too long to work out, so it is shown exactly as typed. Long runs of *, _, [, ` or &gt; usually cause this: break them up.</p>\n';
 
+/** Shown above a script whose formatting would hide every one of its words. */
+export const HIDDEN_WORDS_NOTICE =
+	'<p><strong>Shown as plain text.</strong> Formatted, this script would show none of its words, so it is shown exactly as typed. A line starting with three or more ` or ~ opens a code block and hides the rest of that line: break it up.</p>\n';
+
+const LETTER_OR_DIGIT = /[\p{L}\p{N}]/u;
+
+/** True when the Markdown has letters or digits and the rendered HTML shows none of them. */
+function hidesAllWords(markdown: string, html: string): boolean {
+	if (!LETTER_OR_DIGIT.test(markdown)) return false;
+	const shown = html.replace(/<[^>]*>/g, '').replace(/&[#\w]+;/g, ' ');
+	return !LETTER_OR_DIGIT.test(shown);
+}
+
 /** The fallback page for a script: every character kept, escaped, blank lines as paragraph breaks and single newlines as line breaks. */
-export function plainScriptHtml(markdown: string): string {
+export function plainScriptHtml(markdown: string, notice = PLAIN_SCRIPT_NOTICE): string {
 	const escaped = markdown
 		.replace(/\r\n?/g, '\n')
 		.replace(/&/g, '&amp;')
@@ -74,7 +87,7 @@ export function plainScriptHtml(markdown: string): string {
 		.split(/\n[ \t]*\n/)
 		.filter((paragraph) => paragraph.trim() !== '')
 		.map((paragraph) => `<p>${paragraph.split('\n').join('<br />\n')}</p>\n`);
-	return PLAIN_SCRIPT_NOTICE + paragraphs.join('');
+	return notice + paragraphs.join('');
 }
 
 /** How one read ended: its answer, or why there is none. */
@@ -152,7 +165,13 @@ class ScriptReaderPool {
 		const key = digest(markdown);
 		if (this.#plainOnly.get(key)) return plainScriptHtml(markdown);
 		const outcome = await this.#read('html', markdown);
-		if (outcome.type === 'done' && typeof outcome.html === 'string') return outcome.html;
+		if (outcome.type === 'done' && typeof outcome.html === 'string') {
+			// Formatting that hides every word (a line opening a code fence with the words in its info
+			// string, a tag-like run the sanitiser drops) shows the text as typed instead.
+			return hidesAllWords(markdown, outcome.html)
+				? plainScriptHtml(markdown, HIDDEN_WORDS_NOTICE)
+				: outcome.html;
+		}
 		if (outcome.type !== 'unavailable') this.#plainOnly.set(key, true, FALLBACK_MEMORY_MS);
 		return plainScriptHtml(markdown);
 	}
