@@ -4,7 +4,7 @@
  * message (RFC 5322 §3.6.4). Runs the built server against a database of its own in the test
  * cluster (its outbox is its own) and against mail servers started here on loopback.
  */
-import { spawnSync, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { createServer, type Server, type Socket } from 'node:net';
 import { tmpdir } from 'node:os';
@@ -15,9 +15,9 @@ import { SMTPServer } from 'smtp-server';
 import { afterAll, afterEach, beforeAll, expect, inject, test } from 'vitest';
 import { startServer, stopServer } from '../helpers/global-setup';
 import { freePort, waitForHttp } from '../helpers/net';
+import { dropScratchDatabase, scratchDatabase } from '../helpers/scratch-database';
 import { startFakeMail, type FakeMail } from '../../scripts/lib/fake-mail';
 
-const root = path.resolve(import.meta.dirname, '../..');
 const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-mail-sender-'));
 const DATABASE = 'wrenchroll_mail_sender';
 let databaseUrl = '';
@@ -63,20 +63,7 @@ async function startWrenchroll(
 }
 
 beforeAll(async () => {
-	const admin = new pg.Client({ connectionString: inject('databaseUrl') });
-	await admin.connect();
-	await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
-	await admin.query(`CREATE DATABASE ${DATABASE}`);
-	await admin.end();
-	const url = new URL(inject('databaseUrl'));
-	url.pathname = `/${DATABASE}`;
-	databaseUrl = url.toString();
-	const result = spawnSync(path.join(root, 'node_modules/.bin/tsx'), ['scripts/migrate.ts'], {
-		cwd: root,
-		env: { ...process.env, DATABASE_URL: databaseUrl },
-		encoding: 'utf8'
-	});
-	expect(result.status, result.stderr).toBe(0);
+	databaseUrl = await scratchDatabase(DATABASE, ['scripts/migrate.ts']);
 	db = new pg.Client({ connectionString: databaseUrl });
 	await db.connect();
 });
@@ -89,10 +76,7 @@ afterEach(async () => {
 
 afterAll(async () => {
 	await db?.end();
-	const admin = new pg.Client({ connectionString: inject('databaseUrl') });
-	await admin.connect();
-	await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
-	await admin.end();
+	await dropScratchDatabase(DATABASE);
 	rmSync(work, { recursive: true, force: true });
 });
 

@@ -6,7 +6,7 @@
  * uploads expire (Expiration extension: Upload-Expires in RFC 7231 date format) and are swept.
  * No test fills the disk: uploads only declare their lengths.
  */
-import { spawnSync, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, rmSync, statfsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -14,9 +14,9 @@ import pg from 'pg';
 import { afterAll, afterEach, beforeAll, describe, expect, inject, test } from 'vitest';
 import { DEMO_PASSWORD, demo, signedIn, sql } from '../helpers/http';
 import { startServer, stopServer } from '../helpers/global-setup';
+import { dropScratchDatabase, scratchDatabase } from '../helpers/scratch-database';
 import { freePort, waitForHttp } from '../helpers/net';
 
-const root = path.resolve(import.meta.dirname, '../..');
 const work = mkdtempSync(path.join(tmpdir(), 'wrenchroll-upload-limits-'));
 const GB = 1e9; // decimal gigabyte, as disk makers and the settings page count
 const servers: ChildProcess[] = [];
@@ -268,29 +268,11 @@ describe('expiration (tus 1.0.0 Expiration extension)', () => {
 	const DATABASE = 'wrenchroll_upload_expiry';
 	let databaseUrl = '';
 	beforeAll(async () => {
-		const admin = new pg.Client({ connectionString: inject('databaseUrl') });
-		await admin.connect();
-		await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
-		await admin.query(`CREATE DATABASE ${DATABASE}`);
-		await admin.end();
-		const url = new URL(inject('databaseUrl'));
-		url.pathname = `/${DATABASE}`;
-		databaseUrl = url.toString();
-		for (const script of ['scripts/migrate.ts', 'scripts/seed.ts']) {
-			const result = spawnSync(path.join(root, 'node_modules/.bin/tsx'), [script], {
-				cwd: root,
-				env: { ...process.env, DATABASE_URL: databaseUrl },
-				encoding: 'utf8'
-			});
-			expect(result.status, result.stderr).toBe(0);
-		}
+		databaseUrl = await scratchDatabase(DATABASE, ['scripts/migrate.ts', 'scripts/seed.ts']);
 	});
 	afterAll(async () => {
 		await Promise.all(servers.splice(0).map((server) => stopServer(server)));
-		const admin = new pg.Client({ connectionString: inject('databaseUrl') });
-		await admin.connect();
-		await admin.query(`DROP DATABASE IF EXISTS ${DATABASE} WITH (FORCE)`);
-		await admin.end();
+		await dropScratchDatabase(DATABASE);
 	});
 
 	test('creation and PATCH send Upload-Expires as an RFC 7231 date; an expired partial upload is swept (file, sidecar, row) and a finished one stays', async () => {
