@@ -17,6 +17,7 @@ import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
 import { offerNodeRoutes } from '$lib/server/footage/node-uploads';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
+import { startMediaWorker, stopMedia } from '$lib/server/media/queue';
 import { withSecurityHeaders } from '$lib/server/http/security-headers';
 import { isDatabaseUnavailable } from '$lib/server/db/outage';
 import {
@@ -35,6 +36,23 @@ import { channelLinkHandle } from '$lib/server/channel/current-channel';
 offerNodeRoutes();
 
 export const init: ServerInit = async () => {
+	if (env.WRENCHROLL_PROCESS === 'worker') {
+		// worker.js: this process only makes media (no HTTP, no mail); it stops on SIGTERM/SIGINT.
+		await startMediaWorker();
+		const stop = () =>
+			void stopMedia()
+				.then(() => db.destroy())
+				.then(
+					() => process.exit(0),
+					() => process.exit(1)
+				);
+		process.once('SIGTERM', stop);
+		process.once('SIGINT', stop);
+		return;
+	}
+	// npm start and the tests make media in the app process too; a failure here leaves the rows waiting.
+	if (env.WRENCHROLL_MEDIA_WORKER === 'inline')
+		void startMediaWorker().catch((failure) => console.error('media worker:', failure.message));
 	startMailSender();
 	startUploadSweep();
 	// Start the script readers now, so the first script anybody opens does not wait for them.
@@ -44,7 +62,8 @@ export const init: ServerInit = async () => {
 	// sweep, then close the pool so the process can exit.
 	process.on(
 		'sveltekit:shutdown',
-		() => void Promise.all([stopMailSender(), stopUploadSweep()]).then(() => db.destroy())
+		() =>
+			void Promise.all([stopMailSender(), stopUploadSweep(), stopMedia()]).then(() => db.destroy())
 	);
 };
 

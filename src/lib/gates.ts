@@ -32,6 +32,8 @@ export interface GateTake {
 	hasFootage: boolean;
 	/** The uploaded clip's measured frame rate (null: not read, or no clip). */
 	footageFrameRate?: string | null;
+	/** True when ffprobe found the clip's frames unevenly spaced (a variable frame rate). */
+	footageVariableRate?: boolean | null;
 }
 
 export interface GateShot {
@@ -241,10 +243,22 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 				});
 			} else {
 				const uploaded = goodTakes.filter((take) => take.hasFootage);
-				const fits = uploaded.some(
-					(take) => capturedRateFit(take.footageFrameRate, snapshot.frameRate) !== 'different'
-				);
-				if (!fits) {
+				const rateFits = (take: GateTake) =>
+					capturedRateFit(take.footageFrameRate, snapshot.frameRate) !== 'different';
+				const fits = uploaded.some((take) => rateFits(take) && !take.footageVariableRate);
+				if (!fits && uploaded.some(rateFits)) {
+					const clips = uploaded
+						.filter((take) => take.footageVariableRate)
+						.map((take) => take.clipName)
+						.join(', ');
+					reasons.push({
+						rule: 'footage-rate-mismatch',
+						subject,
+						message: `The good take's clip (${clips}) has a variable frame rate: its frames are unevenly spaced, so it drifts out of sync in the cut. Upload a copy conformed to a constant ${snapshot.frameRate} fps, or mark another take good.`,
+						fixedBy: 'camera',
+						segmentId: segment.id
+					});
+				} else if (!fits) {
 					const clips = uploaded
 						.map((take) => `${take.clipName} at ${take.footageFrameRate} fps`)
 						.join(', ');

@@ -127,7 +127,8 @@ export async function gateSnapshotFor(
 					'take.clipName',
 					'take.good',
 					'take.footageId',
-					'footage.frameRate as footageFrameRate'
+					'footage.frameRate as footageFrameRate',
+					'footage.variableFrameRate as footageVariableRate'
 				])
 				.where('segment.episodeId', '=', episodeId)
 				.orderBy('take.createdAt')
@@ -166,7 +167,8 @@ export async function gateSnapshotFor(
 							clipName: take.clipName,
 							good: take.good,
 							hasFootage: take.footageId !== null,
-							footageFrameRate: take.footageFrameRate
+							footageFrameRate: take.footageFrameRate,
+							footageVariableRate: take.footageVariableRate
 						}))
 				})),
 			cautions: cautions
