@@ -540,4 +540,15 @@ describe('footage recorded at another frame rate than the episode', () => {
 		for (const measured of ['29.97', '59.94', '119.88', null])
 			expect(rules(withRate(measured), 'edit'), String(measured)).toEqual([]);
 	});
+
+	test('a good take’s clip at the right average rate but variable spacing holds shoot → edit', () => {
+		// Phones and screen recorders space frames unevenly (variable frame rate); edit systems
+		// expect a constant rate and drift out of sync otherwise (common practice: conform first).
+		const snapshot = withRate('29.97');
+		snapshot.segments[0].shots[0].takes[0].footageVariableRate = true;
+		const reasons = gateChecksFor(snapshot, 'edit');
+		expect(reasons.map((reason) => reason.rule)).toEqual(['footage-rate-mismatch']);
+		expect(reasons[0].message).toContain('variable frame rate');
+		expect(reasons[0].message).toContain('ACAM_1004');
+	});
 });
