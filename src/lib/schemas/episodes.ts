@@ -12,11 +12,8 @@ import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
 import { MAX_FRAMES, calendarDate, text, recordVersion, wholeNumber } from './fields';
 
-/**
- * One segment's script limit; the same number as MAX_SCRIPT_CHARACTERS in src/lib/server/episodes/markdown.ts
- * (repeated here because this file reaches the browser; a unit test keeps the two equal).
- */
-export const SCRIPT_CHARACTER_LIMIT = 100_000;
+import { SCRIPT_CHARACTER_LIMIT } from './episodes-constants';
+export { SCRIPT_CHARACTER_LIMIT };
 
 /** Our own ceilings: a how-to episode runs minutes, not hours; a segment ten minutes at most in practice. */
 export const MAX_TARGET_RUNTIME_SECONDS = 4 * 3600;
@@ -82,8 +79,8 @@ const publishDate = calendarDate('Enter the date as YYYY-MM-DD.', { allowEmpty: 
 	.transform((value) => (value === '' ? null : value))
 	.nullable();
 
-export const ASSIGNABLE_ROLES = ['host', 'camera', 'editor', 'merch'] as const;
-export type AssignableRole = (typeof ASSIGNABLE_ROLES)[number];
+import { ASSIGNABLE_ROLES, type AssignableRole } from './episodes-constants';
+export { ASSIGNABLE_ROLES, type AssignableRole } from './episodes-constants';
 
 const assignments = z
 	.object(

@@ -1,5 +1,5 @@
 /** Reads the episode form (new and edit share it) into the shape the episode schemas take. */
-import { ASSIGNABLE_ROLES } from '$lib/schemas/episodes';
+import { ASSIGNABLE_ROLES } from '$lib/schemas/episodes-constants';
 
 export function episodeFormValues(form: FormData) {
 	const text = (name: string) => String(form.get(name) ?? '');
