@@ -321,37 +321,46 @@ describe('an episode from idea to shoot and on', () => {
 		).toBe(200);
 		await mailMatching(demo.editor, /Edit is yours: Brake line swap/, editAt);
 
-		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced; each named.
+		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced with no
+		// time on screen; each named.
 		const lock = await editor.api(`/api/episodes/${episode.id}/stage`, {
 			method: 'POST',
 			json: { from: 'edit', to: 'locked' }
 		});
 		expect(lock.status).toBe(422);
 		const lockRules = lock.body.gate.reasons.map((r: { rule: string }) => r.rule);
-		expect(lockRules).toEqual(['chapters-missing', 'caution-unplaced', 'caution-unplaced']);
+		expect(lockRules).toEqual([
+			'chapters-missing',
+			'caution-unplaced',
+			'caution-duration-missing',
+			'caution-unplaced',
+			'caution-duration-missing'
+		]);
 		expect(lock.body.gate.reasons[0].message).toBe(
 			'Mark at least three chapters on the edit timeline.'
 		);
-		expect(lock.body.gate.reasons[2]).toMatchObject({
+		expect(lock.body.gate.reasons[3]).toMatchObject({
 			subject: 'Segment 1 “Swap the rear brake hose”',
 			fixedBy: 'editor'
 		});
-		expect(lock.body.gate.reasons[2].message).toMatch(/“Brakes” caution is not placed/);
+		expect(lock.body.gate.reasons[3].message).toMatch(/“Brakes” caution is not placed/);
 
-		// The editor places both by typing timecode and clock time at 29.97 drop-frame.
+		// The editor places both by typing timecode and clock time at 29.97 drop-frame, each shown
+		// for 9 s (the longest card, 140 characters, needs 140 ÷ 17 = 8.2 → 9 s; tests/REFERENCES.md,
+		// "Reading speed").
 		const cautions = (await editor.api(`/api/segments/${brakesId}`)).body.segment.cautions as {
 			hazard: string;
 			version: number;
 		}[];
 		const placedA = await editor.api(`/api/segments/${brakesId}/cautions/raised-vehicle`, {
 			method: 'PATCH',
-			json: { at: '00:00:10;00', version: cautions[0].version }
+			json: { at: '00:00:10;00', seconds: 9, version: cautions[0].version }
 		});
 		expect(placedA.status).toBe(200);
 		expect(placedA.body.caution.atFrame).toBe(300); // 10 s × 30 labels, no drops in minute 0 (SMPTE ST 12-1)
 		const placedB = await editor.api(`/api/segments/${brakesId}/cautions/brakes`, {
 			method: 'PATCH',
-			json: { at: '1:00', version: cautions[1].version }
+			json: { at: '1:00', seconds: 9, version: cautions[1].version }
 		});
 		// 60 s at 30000/1001 fps is 1798.2 frames, nearest 1798 = label 00:00:59;28
 		// (tests/REFERENCES.md, "Frame rates").
@@ -361,8 +370,11 @@ describe('an episode from idea to shoot and on', () => {
 			method: 'POST',
 			json: { from: 'edit', to: 'locked' }
 		});
+		// This episode has no cut yet, so its segment has no in and out points to check them against.
 		expect(lock2.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
-			'chapters-missing'
+			'chapters-missing',
+			'segment-span-missing',
+			'segment-span-missing'
 		]);
 
 		// The editor may not move it back; a producer may, without a gate, and the host is told why.

@@ -456,7 +456,7 @@ const specCardActionCases: Case[] = [
 				to: '285/70R17',
 				segmentId: '',
 				at: '3:00',
-				durationSeconds: '6'
+				durationSeconds: '40'
 			})
 	},
 	{

@@ -3,7 +3,7 @@
  * and builds: shared by the form actions, the API routes and the client.
  */
 import { z } from 'zod';
-import { HAZARD_IDS, CAUTION_MAX_CHARACTERS } from '$lib/cautions';
+import { HAZARD_IDS, CAUTION_MAX_CHARACTERS, CAUTION_SECONDS_LIMITS } from '$lib/cautions';
 import { SEGMENT_KINDS, parseDurationText } from '$lib/rundown';
 import { STAGES } from '$lib/stages';
 import { SUSPENSION_TYPES, LIFT_METHODS, MAX_LIFT_IN } from '$lib/specs/lift';
@@ -233,6 +233,31 @@ export const cautionUpdateSchema = z
 			tooBig: 'That frame is far past any cut.'
 		})
 			.nullable()
+			.optional(),
+		/**
+		 * How long the card stays on screen, in seconds (a number, or text from a form; '' or null
+		 * clears it). The server refuses less than the words need to be read ($lib/reading-time).
+		 */
+		seconds: z
+			.preprocess(
+				(value) =>
+					typeof value === 'string'
+						? value.trim() === ''
+							? null
+							: Number(value.trim().replace(',', '.'))
+						: value,
+				z
+					.number({ error: 'Type how many seconds the card stays on screen, e.g. 8.' })
+					.min(
+						CAUTION_SECONDS_LIMITS.min,
+						`A caution card needs at least ${CAUTION_SECONDS_LIMITS.min} s on screen.`
+					)
+					.max(
+						CAUTION_SECONDS_LIMITS.max,
+						`Keep a caution card on screen for ${CAUTION_SECONDS_LIMITS.max} s or less.`
+					)
+					.nullable()
+			)
 			.optional(),
 		version: recordVersion
 	})

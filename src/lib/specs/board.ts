@@ -26,6 +26,8 @@ export interface SpecCardView {
 	atTimecode: string | null;
 	durationFrames: number;
 	durationSeconds: number;
+	/** Whole seconds the card's words need to be read ($lib/reading-time); null if it no longer renders. */
+	neededSeconds: number | null;
 	/** True when the cut's length is known and the card starts at or after its end. */
 	pastCutEnd: boolean;
 	position: number;

@@ -14,7 +14,13 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { frameFromTyped } from './typed-time';
-import type { SpecCardInput } from '$lib/specs';
+import type { SpecCard, SpecCardInput } from '$lib/specs';
+import {
+	READING_CHARACTERS_PER_SECOND,
+	onScreenText,
+	readableCharacters,
+	readingSeconds
+} from '$lib/reading-time';
 import type { SpecCardBoard, SpecCardSegment, SpecCardView } from '$lib/specs/board';
 import {
 	specCardExportRows,
@@ -32,6 +38,7 @@ import {
 } from '$lib/timecode';
 import {
 	DEFAULT_ON_SCREEN_SECONDS,
+	ON_SCREEN_SECONDS_LIMITS,
 	SPEC_CARD_KIND_LABELS,
 	checkSpecCard,
 	type SpecCardCreate,
@@ -91,6 +98,7 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
 		durationFrames,
 		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
+		neededSeconds: checked.ok ? readingSeconds(onScreenText(checked.card)) : null,
 		pastCutEnd:
 			row.atFrame !== null &&
 			episode.cutDurationFrames !== null &&
@@ -227,6 +235,30 @@ function placedFrame(
 const durationFramesOf = (seconds: number | undefined, rate: FrameRate) =>
 	seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate));
 
+/**
+ * A card must stay on screen long enough to be read: about 17 characters a second ($lib/reading-time,
+ * subtitle practice, a figure from memory). A shorter time is a 400 on the time field saying how many
+ * seconds the card needs; a card that needs more than a card may stay up is told to split.
+ */
+function refuseUnreadable(card: SpecCard, durationFrames: number, rate: FrameRate): void {
+	const text = onScreenText(card);
+	const needed = readingSeconds(text);
+	if (durationFrames >= secondsToFrames(needed, rate)) return;
+	const characters = readableCharacters(text);
+	const message =
+		needed > ON_SCREEN_SECONDS_LIMITS.max
+			? `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second, longer than a card may stay up (${ON_SCREEN_SECONDS_LIMITS.max} s). Split it into two cards.`
+			: `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second. Show it for at least ${needed} s.`;
+	throw new DomainError(400, message, { durationSeconds: [message] });
+}
+
+/** The card's lines as they read on screen (its input was checked by checkedInput). */
+function renderedCard(input: SpecCardInput): SpecCard {
+	const checked = checkSpecCard(input);
+	if (!checked.ok) throw new DomainError(400, checked.message);
+	return checked.card;
+}
+
 /** Adds a card to the episode, checked by the spec parsers, at the end of the episode's card order. */
 export async function createSpecCard(
 	channelId: string,
@@ -235,12 +267,21 @@ export async function createSpecCard(
 	input: SpecCardCreate
 ): Promise<SpecCardView> {
 	const cardInput = checkedInput(input.input);
+	const card = renderedCard(cardInput);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
 		const atFrame = placedFrame(input, episode, rate) ?? null;
+		// Without a time typed, the default, or the card's reading time when that is longer.
+		const durationFrames =
+			durationFramesOf(input.durationSeconds, rate) ??
+			Math.max(
+				defaultDurationFrames(rate),
+				secondsToFrames(readingSeconds(onScreenText(card)), rate)
+			);
+		refuseUnreadable(card, durationFrames, rate);
 		const last = await trx
 			.selectFrom('specCard')
 			.select((eb) => eb.fn.max('position').as('position'))
@@ -254,8 +295,7 @@ export async function createSpecCard(
 				kind: cardInput.kind,
 				input: JSON.stringify(cardInput),
 				atFrame,
-				durationFrames:
-					durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
+				durationFrames,
 				position: (last?.position ?? 0) + 1,
 				createdBy: actor.id
 			})
@@ -292,6 +332,22 @@ export async function updateSpecCard(
 		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
 	const atFrame = placedFrame(input, episode, rate);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
+	// A change of figures or of time on screen is checked against the reading time of the card as
+	// it will be; moving a card along the timeline is not (the board marks one left too short).
+	if (cardInput !== undefined || durationFrames !== undefined) {
+		const stored = await db
+			.selectFrom('specCard')
+			.select(['input', 'durationFrames'])
+			.where('id', '=', cardId)
+			.where('episodeId', '=', episode.id)
+			.executeTakeFirst();
+		if (!stored) throw cardNotFound();
+		refuseUnreadable(
+			renderedCard(cardInput ?? stored.input),
+			durationFrames ?? stored.durationFrames ?? defaultDurationFrames(rate),
+			rate
+		);
+	}
 	const row = await db
 		.updateTable('specCard')
 		.set((eb) => ({

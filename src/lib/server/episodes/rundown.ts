@@ -95,6 +95,7 @@ function segmentsQuery(executor: Executor, channelId: string) {
 						'caution.hazard',
 						'caution.text',
 						'caution.atFrame',
+						'caution.durationFrames',
 						'caution.version'
 					])
 					.whereRef('caution.segmentId', '=', 'segment.id')

@@ -99,6 +99,8 @@ export async function gateSnapshotFor(
 					'segment.title',
 					'segment.needsFootage',
 					'segment.hazards',
+					'segment.cutInFrame',
+					'segment.cutOutFrame',
 					'segmentScript.body'
 				])
 				.where('segment.episodeId', '=', episodeId)
@@ -107,7 +109,13 @@ export async function gateSnapshotFor(
 			trx
 				.selectFrom('caution')
 				.innerJoin('segment', 'segment.id', 'caution.segmentId')
-				.select(['caution.segmentId', 'caution.hazard', 'caution.text', 'caution.atFrame'])
+				.select([
+					'caution.segmentId',
+					'caution.hazard',
+					'caution.text',
+					'caution.atFrame',
+					'caution.durationFrames'
+				])
 				.where('segment.episodeId', '=', episodeId)
 				.execute(),
 			trx
@@ -156,6 +164,8 @@ export async function gateSnapshotFor(
 			needsFootage: segment.needsFootage,
 			words: words[index],
 			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
+			inFrame: segment.cutInFrame,
+			outFrame: segment.cutOutFrame,
 			shots: shots
 				.filter((shot) => shot.segmentId === segment.id)
 				.map((shot) => ({
@@ -176,7 +186,8 @@ export async function gateSnapshotFor(
 				.map((caution) => ({
 					hazard: caution.hazard,
 					text: caution.text,
-					atFrame: caution.atFrame
+					atFrame: caution.atFrame,
+					durationFrames: caution.durationFrames
 				}))
 		})),
 		chapterProblems,

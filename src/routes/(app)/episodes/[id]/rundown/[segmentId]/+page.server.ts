@@ -100,6 +100,7 @@ export const actions = {
 		const values: Record<string, string> = { version: text(form, 'version') };
 		if (form.has('text')) values.text = text(form, 'text');
 		if (form.has('at')) values.at = text(form, 'at');
+		if (form.has('seconds')) values.seconds = text(form, 'seconds');
 		const result = await runForm(
 			{ action: 'caution', hazard },
 			cautionUpdateSchema,
