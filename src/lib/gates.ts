@@ -20,7 +20,13 @@
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
 import type { Stage } from './stages';
-import { capturedRateFit, formatTimecode, type FrameRate } from './timecode';
+import {
+	capturedRateFit,
+	programmeClock,
+	programmeTimecode,
+	type FrameRate,
+	type ProgrammeTimecode
+} from './timecode';
 import { titleProblems } from './publish-limits';
 
 export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
@@ -62,6 +68,8 @@ export interface GateSegment {
 export interface GateSnapshot {
 	stage: Stage;
 	frameRate: FrameRate;
+	/** How the episode labels times in its cut; left out: the rate's usual form from 00:00:00:00. */
+	timecode?: ProgrammeTimecode;
 	cutDurationFrames: number | null;
 	publishDate: string | null;
 	/** Role → name of the assigned person, for the roles that have someone. */
@@ -264,7 +272,10 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 
 function cautionRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
-	const at = (frames: number) => formatTimecode(frames, snapshot.frameRate);
+	const clock = programmeClock(
+		snapshot.timecode ?? programmeTimecode({ frameRate: snapshot.frameRate })
+	);
+	const at = (frames: number) => clock.format(frames);
 	for (const segment of snapshot.segments) {
 		for (const hazard of segment.hazards) {
 			const label = hazardById(hazard)?.label ?? hazard;

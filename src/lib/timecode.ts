@@ -459,8 +459,11 @@ export interface ProgrammeClock {
 	parse(text: string): number;
 	/** A length typed as timecode or clock text, read in this form, without the start. */
 	parseLength(text: string): number;
-	/** `00:04:30;12`-style example of a label this far into the cut, for placeholders and hints. */
-	example(seconds: number): string;
+	/**
+	 * A placeholder or hint: the label as far into the cut as `length` (written `HH:MM:SS:FF`) says,
+	 * in this form and with the start, e.g. `01:04:07:12` for `00:04:07:12` from 01:00:00:00.
+	 */
+	example(length: string): string;
 }
 
 /**
@@ -526,6 +529,26 @@ export function programmeClock(timecode: ProgrammeTimecode): ProgrammeClock {
 			return frames - startFrame;
 		},
 		parseLength: (text) => readLabel(text),
-		example: (seconds) => label(startFrame + secondsToFrames(seconds, rate))
+		example: (length) => label(startFrame + parseTimecodeInForm(length, rate, dropFrame))
 	};
+}
+
+/** A programme clock as given, or the usual one for a bare rate (its usual form from 00:00:00:00). */
+export function clockOrUsual(clockOrRate: ProgrammeClock | FrameRate): ProgrammeClock {
+	return typeof clockOrRate === 'string'
+		? programmeClock(programmeTimecode({ frameRate: clockOrRate }))
+		: clockOrRate;
+}
+
+/** The programme clock of a page's episode heading (rate, drop-frame flag and start label). */
+export function clockOfHeading(episode: {
+	frameRate: FrameRate;
+	dropFrame: boolean;
+	timecodeStart: string;
+}): ProgrammeClock {
+	return programmeClock({
+		frameRate: episode.frameRate,
+		dropFrame: episode.dropFrame,
+		start: episode.timecodeStart
+	});
 }

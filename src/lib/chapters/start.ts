@@ -1,13 +1,7 @@
 /**
  * Reading a typed chapter start. Pure module: no I/O, safe in the browser and on the server.
  */
-import {
-	exactFps,
-	programmeClock,
-	programmeTimecode,
-	type FrameRate,
-	type ProgrammeClock
-} from '../timecode';
+import { clockOrUsual, exactFps, type FrameRate, type ProgrammeClock } from '../timecode';
 
 // M:SS, H:MM:SS, with an optional decimal fraction: the clock forms parseTimecode accepts.
 const CLOCK_TIME = /^(?:(\d+):)?(\d+):(\d{2})(?:\.(\d+))?$/;
@@ -23,10 +17,7 @@ export function chapterStartFromText(
 	text: string,
 	clockOrRate: ProgrammeClock | FrameRate
 ): number {
-	const clock =
-		typeof clockOrRate === 'string'
-			? programmeClock(programmeTimecode({ frameRate: clockOrRate }))
-			: clockOrRate;
+	const clock = clockOrUsual(clockOrRate);
 	const rate = clock.rate;
 	const nearest = clock.parse(text);
 	const typedClock = CLOCK_TIME.exec(String(text).trim());
