@@ -25,10 +25,12 @@ import type { Role } from './roles';
 import type { Stage } from './stages';
 import {
 	capturedRateFit,
-	formatTimecode,
 	framesToSeconds,
+	programmeClock,
+	programmeTimecode,
 	secondsToFrames,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeTimecode
 } from './timecode';
 import { titleProblems } from './publish-limits';
 import { READING_CHARACTERS_PER_SECOND, readableCharacters, readingSeconds } from './reading-time';
@@ -79,6 +81,8 @@ export interface GateSegment {
 export interface GateSnapshot {
 	stage: Stage;
 	frameRate: FrameRate;
+	/** How the episode labels times in its cut; left out: the rate's usual form from 00:00:00:00. */
+	timecode?: ProgrammeTimecode;
 	cutDurationFrames: number | null;
 	publishDate: string | null;
 	/** Role → name of the assigned person, for the roles that have someone. */
@@ -307,7 +311,10 @@ function placementProblem(
 	caution: GateCaution,
 	label: string
 ): { rule: GateRule; message: string } | null {
-	const at = (frames: number) => formatTimecode(frames, snapshot.frameRate);
+	const clock = programmeClock(
+		snapshot.timecode ?? programmeTimecode({ frameRate: snapshot.frameRate })
+	);
+	const at = (frames: number) => clock.format(frames);
 	if (caution.atFrame === null)
 		return {
 			rule: 'caution-unplaced',

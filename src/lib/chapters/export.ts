@@ -14,9 +14,11 @@
 
 import {
 	formatMilliseconds,
-	formatTimecode,
+	programmeClock,
+	programmeTimecode,
 	framesToMilliseconds,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeClock
 } from '../timecode';
 import { nameChapter, sortChapters, type Chapter } from './rules';
 import { csvText } from '../csv';
@@ -34,7 +36,13 @@ export const CHAPTER_FORMATS: readonly ChapterFormat[] = Object.freeze([
 export interface ChapterExportOptions {
 	rate: FrameRate;
 	cutEndFrame: number;
-	/** Only for the CSV timecode column; defaults to drop-frame at 29.97 and 59.94. */
+	/**
+	 * Only for the CSV timecode column: the episode's programme timecode (its form and start
+	 * offset). Left out: the rate's usual form from 00:00:00:00. Every other format, and the CSV's
+	 * seconds, count real time from the start of the cut, as video platforms read chapters.
+	 */
+	programme?: ProgrammeClock;
+	/** Without `programme`: the CSV's form; defaults to drop-frame at 29.97 and 59.94. */
 	dropFrame?: boolean;
 }
 
@@ -215,10 +223,15 @@ function secondsText(milliseconds: number): string {
 
 /** CSV with a header row and CRLF line ends (RFC 4180); the timecode is at the episode's rate. */
 function toCsv(chapters: TimedChapter[], options: ChapterExportOptions): string {
+	const programme =
+		options.programme ??
+		programmeClock(
+			programmeTimecode({ frameRate: options.rate, timecodeDropFrame: options.dropFrame })
+		);
 	const rows = [['start_timecode', 'start_seconds', 'end_seconds', 'title']];
 	for (const chapter of chapters) {
 		rows.push([
-			formatTimecode(chapter.startFrame, options.rate, { dropFrame: options.dropFrame }),
+			programme.format(chapter.startFrame),
 			secondsText(chapter.startMilliseconds),
 			secondsText(chapter.endMilliseconds),
 			chapter.title

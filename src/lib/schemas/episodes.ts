@@ -99,6 +99,19 @@ const episodeFields = {
 		'Give the episode a target runtime above 0, e.g. 12:00.'
 	),
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
+	/** Programme timecode form: true drop-frame, false non-drop, null the rate's usual form. */
+	timecodeDropFrame: z
+		.boolean({ error: 'Pick drop-frame or non-drop for the programme timecode.' })
+		.nullable()
+		.optional(),
+	/** The label of the cut's first frame; whether it fits the rate is the domain's check. */
+	timecodeStart: text()
+		.trim()
+		.regex(
+			/^\d{2}:\d{2}:\d{2}[:;]\d{2}$/,
+			'Write the start timecode as HH:MM:SS:FF, e.g. 01:00:00:00 (00:00:00:00 for none).'
+		)
+		.optional(),
 	publishDate: publishDate.optional(),
 	buildIds: z
 		.array(uuid('a build'), { error: 'Pick builds from the list.' })

@@ -46,6 +46,8 @@ export interface SpecCardBoard {
 		slug: string;
 		frameRate: FrameRate;
 		dropFrame: boolean;
+		/** The label of the cut's first frame in the programme timecode, e.g. 01:00:00:00. */
+		timecodeStart: string;
 		cutDurationFrames: number | null;
 		cutTimecode: string | null;
 	};

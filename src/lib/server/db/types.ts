@@ -160,6 +160,10 @@ export interface EpisodeTable {
 	publishDate: ColumnType<string | null, string | null | undefined, string | null>;
 	stage: ColumnType<Stage, Stage | undefined, Stage>;
 	cutDurationFrames: number | null;
+	/** Programme timecode form: null is the rate's usual one (drop-frame at 29.97 and 59.94). */
+	timecodeDropFrame: boolean | null;
+	/** The cut's first frame's label, `HH:MM:SS:FF` (episode_timecode_start check). */
+	timecodeStart: Generated<string>;
 	scriptStatus: ColumnType<ScriptStatus, ScriptStatus | undefined, ScriptStatus>;
 	/** Fingerprint of the script text as approved; a later edit makes it differ from the current one. */
 	scriptApprovedFingerprint: string | null;

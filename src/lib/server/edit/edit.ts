@@ -14,14 +14,15 @@ import { isUuid } from '../auth/identity';
 import { episodeNotFound, type EpisodeHeading, type Executor } from '../episodes/episodes';
 import { frameFromTyped } from './typed-time';
 import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
-import { defaultDropFrame, formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
+import type { FrameRate, ProgrammeClock } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
 import { editLocks, type Stage } from '$lib/stages';
 
 export interface EditChapter {
 	id: string;
 	startFrame: number;
-	/** The start as timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	/** The start as the episode's programme timecode (its form, plus its start offset). */
 	startTimecode: string;
 	title: string;
 	url: string | null;
@@ -61,6 +62,8 @@ export function episodeWithChapters(channelId: string, episodeId: string, execut
 			'episode.slug',
 			'episode.stage',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.cutDurationFrames',
 			jsonArrayFrom(
 				eb
@@ -96,12 +99,12 @@ function toEditChapter(
 		partId: string | null;
 		version: number;
 	},
-	rate: FrameRate
+	clock: ProgrammeClock
 ): EditChapter {
 	return {
 		id: row.id,
 		startFrame: row.startFrame,
-		startTimecode: formatTimecode(row.startFrame, rate),
+		startTimecode: clock.format(row.startFrame),
 		title: row.title,
 		url: row.url,
 		partId: row.partId,
@@ -124,7 +127,8 @@ export function problemsOf(
 
 function stateOf(row: EpisodeWithChapters): EditState {
 	const rate = row.frameRate;
-	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
+	const clock = clockOfEpisode(row);
+	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, clock));
 	return {
 		episode: {
 			id: row.id,
@@ -132,11 +136,13 @@ function stateOf(row: EpisodeWithChapters): EditState {
 			slug: row.slug,
 			stage: row.stage,
 			frameRate: rate,
-			dropFrame: defaultDropFrame(rate)
+			dropFrame: clock.dropFrame,
+			timecodeStart: clock.startLabel
 		},
 		cut: {
 			durationFrames: row.cutDurationFrames,
-			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
+			// A length, so without the start offset.
+			timecode: row.cutDurationFrames === null ? null : clock.formatLength(row.cutDurationFrames)
 		},
 		chapters,
 		problems: problemsOf(row.chapters, row.cutDurationFrames, rate),
@@ -184,12 +190,17 @@ async function scopedEpisode(channelId: string, episodeId: string) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
 	const episode = await db
 		.selectFrom('episode')
-		.select(['id', 'frameRate', 'cutDurationFrames', 'stage'])
+		.select(['id', 'frameRate', 'timecodeDropFrame', 'timecodeStart', 'cutDurationFrames', 'stage'])
 		.where('id', '=', episodeId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!episode) throw episodeNotFound();
-	return { ...episode, rate: episode.frameRate, locks: editLocks(episode.stage as Stage) };
+	return {
+		...episode,
+		rate: episode.frameRate,
+		clock: clockOfEpisode(episode),
+		locks: editLocks(episode.stage as Stage)
+	};
 }
 
 /** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
@@ -199,11 +210,11 @@ function refuseLocked(reason: string | null): void {
 
 function startFrameOf(
 	input: { start?: string; startFrame?: number },
-	rate: FrameRate
+	clock: ProgrammeClock
 ): number | undefined {
 	if (input.startFrame !== undefined) return input.startFrame;
 	if (input.start !== undefined)
-		return frameFromTyped('start', () => chapterStartFromText(input.start!, rate));
+		return frameFromTyped('start', () => chapterStartFromText(input.start!, clock));
 	return undefined;
 }
 
@@ -215,11 +226,10 @@ export async function setCutDuration(
 ): Promise<EditState> {
 	const episode = await scopedEpisode(channelId, episodeId);
 	refuseLocked(episode.locks.cut);
-	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
-	const frames = frameFromTyped('duration', () => parseTypedTime(input.duration, episode.rate));
+	// A length, read in the episode's programme timecode form (drop-frame or not), without its start.
+	const frames = frameFromTyped('duration', () => episode.clock.parseLength(input.duration));
 	if (frames <= 0) {
-		const message =
-			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
+		const message = `A cut has to run longer than 0 frames; type its length, e.g. 00:13:40${episode.clock.dropFrame ? ';' : ':'}00 or 13:40.`;
 		throw new DomainError(400, message, { duration: [message] });
 	}
 	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
@@ -275,7 +285,7 @@ export async function addChapter(
 	const episode = await scopedEpisode(channelId, episodeId);
 	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate)!;
+	const startFrame = startFrameOf(input, episode.clock)!;
 	const row = await db
 		.insertInto('chapter')
 		.values({
@@ -288,7 +298,7 @@ export async function addChapter(
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirstOrThrow();
 	return {
-		chapter: toEditChapter(row, episode.rate),
+		chapter: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId)
 	};
 }
@@ -306,7 +316,7 @@ async function staleVersion(
 	channelId: string,
 	episodeId: string,
 	chapterId: string,
-	rate: FrameRate
+	clock: ProgrammeClock
 ): Promise<never> {
 	const current = await chapterOf(episodeId, chapterId);
 	if (!current) throw chapterNotFound();
@@ -314,7 +324,7 @@ async function staleVersion(
 		409,
 		`Someone changed chapter “${current.title}” while you were working on it. Their version is shown now; make your change again on top of it.`,
 		undefined,
-		{ current: toEditChapter(current, rate), state: await editStateFor(channelId, episodeId) }
+		{ current: toEditChapter(current, clock), state: await editStateFor(channelId, episodeId) }
 	);
 }
 
@@ -329,7 +339,7 @@ export async function updateChapter(
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	refuseLocked(episode.locks.chapters);
 	await checkChapterPart(channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate);
+	const startFrame = startFrameOf(input, episode.clock);
 	const row = await db
 		.updateTable('chapter')
 		.set((eb) => ({
@@ -344,9 +354,9 @@ export async function updateChapter(
 		.where('version', '=', input.version)
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.clock);
 	return {
-		chapter: toEditChapter(row, episode.rate),
+		chapter: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId)
 	};
 }
@@ -369,9 +379,9 @@ export async function deleteChapter(
 	const row = await removal
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.clock);
 	return {
-		removed: toEditChapter(row, episode.rate),
+		removed: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId)
 	};
 }

@@ -29,13 +29,13 @@ import {
 	type SpecCardExportRow
 } from '$lib/specs/export';
 import {
-	defaultDropFrame,
-	formatTimecode,
+	clockOfHeading,
 	framesToMilliseconds,
-	parseTypedTime,
 	secondsToFrames,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeClock
 } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import {
 	DEFAULT_ON_SCREEN_SECONDS,
 	ON_SCREEN_SECONDS_LIMITS,
@@ -95,7 +95,7 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 				? null
 				: { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
 		atFrame: row.atFrame,
-		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		atTimecode: row.atFrame === null ? null : clockOfEpisode(episode).format(row.atFrame),
 		durationFrames,
 		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
 		neededSeconds: checked.ok ? readingSeconds(onScreenText(checked.card)) : null,
@@ -116,7 +116,7 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 async function segmentsOf(
 	executor: Executor,
 	episodeId: string,
-	rate: FrameRate
+	programme: ProgrammeClock
 ): Promise<SpecCardSegment[]> {
 	const rows = await executor
 		.selectFrom('segment')
@@ -131,7 +131,7 @@ async function segmentsOf(
 			position: row.position,
 			title: row.title,
 			startsAtFrame: startsAt,
-			startsAtTimecode: startsAt === null ? null : formatTimecode(startsAt, rate)
+			startsAtTimecode: startsAt === null ? null : programme.format(startsAt)
 		};
 		startsAt =
 			startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
@@ -140,15 +140,18 @@ async function segmentsOf(
 }
 
 function boardEpisode(episode: Episode, rate: FrameRate): SpecCardBoard['episode'] {
+	const programme = clockOfEpisode(episode);
 	return {
 		id: episode.id,
 		title: episode.title,
 		slug: episode.slug,
 		frameRate: rate,
-		dropFrame: defaultDropFrame(rate),
+		dropFrame: programme.dropFrame,
+		timecodeStart: programme.startLabel,
 		cutDurationFrames: episode.cutDurationFrames,
+		// A length, so without the start offset.
 		cutTimecode:
-			episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+			episode.cutDurationFrames === null ? null : programme.formatLength(episode.cutDurationFrames)
 	};
 }
 
@@ -161,7 +164,7 @@ export async function specCardsFor(
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [segments, rows] = await Promise.all([
-		segmentsOf(executor, episode.id, rate),
+		segmentsOf(executor, episode.id, clockOfEpisode(episode)),
 		cardsQuery(executor, episode.id).execute()
 	]);
 	return {
@@ -213,20 +216,22 @@ async function checkSegment(
 /** The frame a placement names: typed text read at the episode's rate, or a frame count; undefined leaves it as it is. */
 function placedFrame(
 	input: { at?: string | null; atFrame?: number | null },
-	episode: Episode,
-	rate: FrameRate
+	episode: Episode
 ): number | null | undefined {
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
 	else if (input.at !== undefined)
-		frame = input.at === null ? null : frameFromTyped('at', () => parseTypedTime(input.at!, rate));
+		frame =
+			input.at === null
+				? null
+				: frameFromTyped('at', () => clockOfEpisode(episode).parse(input.at!));
 	if (
 		frame !== null &&
 		frame !== undefined &&
 		episode.cutDurationFrames !== null &&
 		frame >= episode.cutDurationFrames
 	) {
-		const message = `That is at or after the end of the cut (${formatTimecode(episode.cutDurationFrames, rate)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
+		const message = `That is at or after the end of the cut (${clockOfEpisode(episode).format(episode.cutDurationFrames)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
 		throw new DomainError(400, message, { at: [message] });
 	}
 	return frame;
@@ -273,7 +278,7 @@ export async function createSpecCard(
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
-		const atFrame = placedFrame(input, episode, rate) ?? null;
+		const atFrame = placedFrame(input, episode) ?? null;
 		// Without a time typed, the default, or the card's reading time when that is longer.
 		const durationFrames =
 			durationFramesOf(input.durationSeconds, rate) ??
@@ -330,7 +335,7 @@ export async function updateSpecCard(
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
 	const segmentId =
 		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
-	const atFrame = placedFrame(input, episode, rate);
+	const atFrame = placedFrame(input, episode);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
 	// A change of figures or of time on screen is checked against the reading time of the card as
 	// it will be; moving a card along the timeline is not (the board marks one left too short).
@@ -412,7 +417,7 @@ function exportRowsOf(board: SpecCardBoard): SpecCardExportRow[] {
 		);
 	}
 	const cards = board.cards.map((view) => ({ ...view, card: view.card! }));
-	return specCardExportRows(cards, board.episode.frameRate);
+	return specCardExportRows(cards, clockOfHeading(board.episode));
 }
 
 export interface SpecCardDownload {

@@ -13,20 +13,15 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { segmentInChannel } from './segment-in-channel';
-import { framesFromText } from './typed-timecode';
+import { positionFromText } from './typed-timecode';
+import { clockOfEpisode } from './programme-timecode';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
 import {
 	READING_CHARACTERS_PER_SECOND,
 	readableCharacters,
 	readingSeconds
 } from '$lib/reading-time';
-import {
-	formatClock,
-	formatTimecode,
-	framesToSeconds,
-	secondsToFrames,
-	type FrameRate
-} from '$lib/timecode';
+import { formatClock, framesToSeconds, secondsToFrames, type ProgrammeClock } from '$lib/timecode';
 import type { CautionUpdate } from '$lib/schemas/episodes';
 import type { Role } from '../db/types';
 
@@ -37,7 +32,7 @@ export interface CautionView {
 	text: string;
 	defaultText: string;
 	atFrame: number | null;
-	/** Timecode at the episode's rate (drop-frame at 29.97 and 59.94), null when not placed. */
+	/** The episode's programme timecode (its form and start offset), null when not placed. */
 	atTimecode: string | null;
 	atClock: string | null;
 	/** Time on screen in frames and seconds; null until set. */
@@ -66,8 +61,9 @@ export function cautionView(
 		durationFrames: number | null;
 		version: number;
 	},
-	rate: FrameRate
+	programme: ProgrammeClock
 ): CautionView {
+	const rate = programme.rate;
 	const hazard = hazardById(row.hazard);
 	return {
 		id: row.id,
@@ -76,7 +72,7 @@ export function cautionView(
 		text: row.text,
 		defaultText: hazard?.defaultCaution ?? '',
 		atFrame: row.atFrame,
-		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		atTimecode: row.atFrame === null ? null : programme.format(row.atFrame),
 		atClock:
 			row.atFrame === null
 				? null
@@ -135,7 +131,8 @@ export async function updateCaution(
 		);
 	return db.transaction().execute(async (trx) => {
 		const segment = await segmentInChannel(trx, channelId, segmentId);
-		const rate = segment.frameRate;
+		const programme = clockOfEpisode(segment);
+		const rate = programme.rate;
 		const caution = await trx
 			.selectFrom('caution')
 			.selectAll()
@@ -149,19 +146,20 @@ export async function updateCaution(
 				409,
 				'Someone changed this caution while you were editing. Their version is shown; yours is still in the form.',
 				undefined,
-				{ current: cautionView(caution, rate) }
+				{ current: cautionView(caution, programme) }
 			);
 		}
 		let atFrame = caution.atFrame;
 		if (input.atFrame !== undefined) atFrame = input.atFrame;
 		else if (input.at !== undefined)
-			atFrame = input.at === null || input.at === '' ? null : framesFromText(input.at, rate, 'at');
+			atFrame =
+				input.at === null || input.at === '' ? null : positionFromText(input.at, programme, 'at');
 		if (
 			atFrame !== null &&
 			segment.cutDurationFrames !== null &&
 			atFrame >= segment.cutDurationFrames
 		) {
-			const message = `${formatTimecode(atFrame, rate)} is after the end of the cut (${formatTimecode(segment.cutDurationFrames, rate)}): place the caution inside the cut.`;
+			const message = `${programme.format(atFrame)} is after the end of the cut (${programme.format(segment.cutDurationFrames)}): place the caution inside the cut.`;
 			throw new DomainError(400, message, { at: [message] });
 		}
 		const text = input.text ?? caution.text;
@@ -186,7 +184,7 @@ export async function updateCaution(
 			.where('id', '=', caution.id)
 			.returningAll()
 			.executeTakeFirstOrThrow();
-		return cautionView(updated, rate);
+		return cautionView(updated, programme);
 	});
 }
 

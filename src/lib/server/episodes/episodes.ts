@@ -12,8 +12,9 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { activeCrew } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
+import { checkedProgrammeTimecode } from './programme-timecode';
 import type { Stage } from '$lib/stages';
-import type { FrameRate } from '$lib/timecode';
+import { isDropFrameCapable, type FrameRate } from '$lib/timecode';
 import type { EpisodeCreate, EpisodeUpdate } from '$lib/schemas/episodes';
 
 /** The shared instance or an open transaction (a Transaction is a Kysely). */
@@ -32,8 +33,10 @@ export interface EpisodeHeading {
 	slug: string;
 	stage: string;
 	frameRate: FrameRate;
-	/** Drop-frame timecode (29.97 and 59.94). */
+	/** Drop-frame programme timecode (only possible at 29.97 and 59.94). */
 	dropFrame: boolean;
+	/** The label of the cut's first frame, e.g. 01:00:00:00 (`programmeClock` in $lib/timecode). */
+	timecodeStart: string;
 }
 
 export const episodeNotFound = () =>
@@ -107,6 +110,8 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 			'episode.logline',
 			'episode.targetRuntimeSeconds',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.publishDate',
 			'episode.stage',
 			'episode.cutDurationFrames',
@@ -227,6 +232,11 @@ export async function createEpisode(
 				`Another episode already uses the slug “${slug}”. Pick another, or leave it empty to make one from the title.`,
 				{ slug: ['Already used by another episode.'] }
 			);
+		const timecode = checkedProgrammeTimecode(
+			input.frameRate,
+			input.timecodeDropFrame ?? null,
+			input.timecodeStart ?? '00:00:00:00'
+		);
 		const episode = await trx
 			.insertInto('episode')
 			.values({
@@ -236,6 +246,7 @@ export async function createEpisode(
 				logline: input.logline ?? '',
 				targetRuntimeSeconds: input.targetRuntimeSeconds,
 				frameRate: input.frameRate,
+				...timecode,
 				publishDate: input.publishDate ?? null,
 				stage: 'script'
 			})
@@ -293,6 +304,18 @@ export async function updateEpisode(
 				{ frameRate: ['Fixed after the script stage.'] }
 			);
 		}
+		// The timecode form and start only change how positions are labelled (positions are frames
+		// from the start of the cut), so they stay editable at every stage.
+		const frameRate = input.frameRate ?? episode.frameRate;
+		const timecode = checkedProgrammeTimecode(
+			frameRate,
+			input.timecodeDropFrame !== undefined
+				? input.timecodeDropFrame
+				: isDropFrameCapable(frameRate)
+					? episode.timecodeDropFrame
+					: null,
+			input.timecodeStart ?? episode.timecodeStart
+		);
 		if (input.buildIds) await checkBuilds(trx, channelId, input.buildIds);
 		if (input.assignments) await checkAssignments(trx, channelId, input.assignments);
 		let slug = episode.slug;
@@ -323,7 +346,8 @@ export async function updateEpisode(
 				slug,
 				logline: input.logline ?? episode.logline,
 				targetRuntimeSeconds: input.targetRuntimeSeconds ?? episode.targetRuntimeSeconds,
-				frameRate: input.frameRate ?? episode.frameRate,
+				frameRate,
+				...timecode,
 				publishDate: input.publishDate === undefined ? episode.publishDate : input.publishDate,
 				version: episode.version + 1
 			})

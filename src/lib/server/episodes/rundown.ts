@@ -14,7 +14,7 @@ import type { HazardId } from '$lib/cautions';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { spokenWords, spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
-import { formatTimecode } from '$lib/timecode';
+import { clockOfEpisode } from './programme-timecode';
 
 export interface ShotView {
 	id: string;
@@ -83,6 +83,8 @@ function segmentsQuery(executor: Executor, channelId: string) {
 			'segment.promiseTitle',
 			'segment.version',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'segmentScript.body as scriptBody',
 			'segmentScript.version as scriptVersion',
 			'segmentScript.updatedAt as scriptUpdatedAt',
@@ -143,7 +145,7 @@ type SegmentRow = Awaited<ReturnType<ReturnType<typeof segmentsQuery>['execute']
 
 /** `words` is the script's spoken-word count, read beforehand through `script-reader`. */
 function toView(row: SegmentRow, wordsPerMinute: number, words: number): SegmentView {
-	const rate = row.frameRate;
+	const programme = clockOfEpisode(row);
 	const flagged = new Set(row.hazards);
 	return {
 		id: row.id,
@@ -158,7 +160,9 @@ function toView(row: SegmentRow, wordsPerMinute: number, words: number): Segment
 		needsFootage: row.needsFootage,
 		hazards: [...row.hazards].sort((a, b) => (hazardOrder.get(a) ?? 0) - (hazardOrder.get(b) ?? 0)),
 		recordedFrames: row.recordedFrames,
-		recordedTimecode: row.recordedFrames === null ? null : formatTimecode(row.recordedFrames, rate),
+		// A length, so in the episode's form without its start offset.
+		recordedTimecode:
+			row.recordedFrames === null ? null : programme.formatLength(row.recordedFrames),
 		promiseEpisodeId: row.promiseEpisodeId,
 		promiseEpisodeTitle: row.promiseEpisodeTitle,
 		promiseEpisodeStage: row.promiseEpisodeStage,
@@ -174,7 +178,7 @@ function toView(row: SegmentRow, wordsPerMinute: number, words: number): Segment
 		spokenSeconds: estimateSpokenSeconds(words, wordsPerMinute),
 		cautions: row.cautionRows
 			.filter((caution) => flagged.has(caution.hazard))
-			.map((caution) => cautionView(caution, rate))
+			.map((caution) => cautionView(caution, programme))
 			.sort((a, b) => (hazardOrder.get(a.hazard) ?? 0) - (hazardOrder.get(b.hazard) ?? 0)),
 		shots: row.shotRows.map((shot) => ({
 			...shot,

@@ -12,6 +12,7 @@ import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
 import { scriptFingerprint } from './fingerprint';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
+import { programmeTimecode } from '$lib/timecode';
 import { assignmentMap } from './episode-crew';
 import { queueMail } from '../mail/outbox';
 import { stageArrivalMail } from '../mail/episode-messages';
@@ -149,6 +150,7 @@ export async function gateSnapshotFor(
 	return {
 		stage: episode.stage,
 		frameRate: episode.frameRate,
+		timecode: programmeTimecode(episode),
 		cutDurationFrames: episode.cutDurationFrames,
 		publishDate: episode.publishDate,
 		assignments: Object.fromEntries(assignments.map((row) => [row.role, row.name])),

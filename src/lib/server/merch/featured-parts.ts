@@ -10,7 +10,14 @@
 import { sql, type Expression } from 'kysely';
 import { db } from '../db';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
-import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import {
+	clockOrUsual,
+	formatClock,
+	framesToSeconds,
+	type FrameRate,
+	type ProgrammeClock
+} from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import type { Role } from '$lib/roles';
 
 export interface FeaturedAppearance {
@@ -106,7 +113,13 @@ export const clockAt = (frame: number, rate: FrameRate) =>
 	formatClock(framesToSeconds(frame, rate));
 
 /** Groups (note, part) rows into parts ordered by first appearance; parts never placed come last, by SKU. */
-export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): FeaturedPart[] {
+export function groupFeatured(
+	rows: readonly FeaturedRow[],
+	clockOrRate: ProgrammeClock | FrameRate
+): FeaturedPart[] {
+	// Appearances carry the episode's programme timecode; a bare rate means its usual form from 0.
+	const programme = clockOrUsual(clockOrRate);
+	const rate = programme.rate;
 	const parts = new Map<string, FeaturedPart>();
 	for (const row of rows) {
 		let part = parts.get(row.partId);
@@ -133,7 +146,7 @@ export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): Fe
 			part.appearances.push({
 				noteId: row.noteId,
 				programFrame: row.programFrame,
-				timecode: formatTimecode(row.programFrame, rate),
+				timecode: programme.format(row.programFrame),
 				clock: clockAt(row.programFrame, rate)
 			});
 			part.firstFrame =
@@ -256,7 +269,7 @@ export async function featuredPartsFor(
 		featuredRows(executor, episode.id),
 		partsNamedInScript(executor, channelId, episode.id)
 	]);
-	const parts = groupFeatured(rows, rate);
+	const parts = groupFeatured(rows, clockOfEpisode(episode));
 	const featured = new Set(parts.map((part) => part.partId));
 	const warnings = lockWarnings(parts);
 	for (const part of named) {

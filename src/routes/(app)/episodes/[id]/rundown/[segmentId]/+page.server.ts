@@ -17,7 +17,7 @@ import {
 	shotCreateSchema
 } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
-import { defaultDropFrame, formatTimecode } from '$lib/timecode';
+import { clockOfEpisode } from '$lib/server/episodes/programme-timecode';
 import { segmentFormValues } from '../segment-form';
 import { shotFormValues } from '../../shot-form';
 import type { Actions, PageServerLoad } from './$types';
@@ -33,17 +33,22 @@ export const load = (async (event) => {
 		])
 	);
 	if (segment.episodeId !== episode.id) error(404, 'That segment is not in this episode.');
+	const programme = clockOfEpisode(episode);
 	return {
 		segment,
 		episode: {
 			id: episode.id,
 			title: episode.title,
 			frameRate: episode.frameRate,
-			dropFrame: defaultDropFrame(episode.frameRate),
+			dropFrame: programme.dropFrame,
+			timecodeStart: programme.startLabel,
+			/** The cut's length (no start offset), and the label where it ends. */
 			cut:
 				episode.cutDurationFrames === null
 					? null
-					: formatTimecode(episode.cutDurationFrames, episode.frameRate)
+					: programme.formatLength(episode.cutDurationFrames),
+			cutEnd:
+				episode.cutDurationFrames === null ? null : programme.format(episode.cutDurationFrames)
 		},
 		builds: options.builds,
 		episodes: options.episodes.filter((other) => other.id !== episode.id),
