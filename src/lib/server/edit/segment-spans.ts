@@ -10,7 +10,8 @@ import { DomainError } from '../http/api';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { segmentInChannel } from '../episodes/segment-in-channel';
 import { frameFromTyped } from './typed-time';
-import { formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
+import type { ProgrammeClock } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import { editLocks, type Stage } from '$lib/stages';
 import type { HazardId } from '$lib/cautions';
 import type { SegmentSpanUpdate } from '$lib/schemas/edit';
@@ -38,7 +39,7 @@ function spanView(
 		cutOutFrame: number | null;
 		version: number;
 	},
-	rate: FrameRate
+	clock: ProgrammeClock
 ): SegmentSpan {
 	return {
 		id: row.id,
@@ -47,8 +48,8 @@ function spanView(
 		hazards: row.hazards,
 		inFrame: row.cutInFrame,
 		outFrame: row.cutOutFrame,
-		inTimecode: row.cutInFrame === null ? null : formatTimecode(row.cutInFrame, rate),
-		outTimecode: row.cutOutFrame === null ? null : formatTimecode(row.cutOutFrame, rate),
+		inTimecode: row.cutInFrame === null ? null : clock.format(row.cutInFrame),
+		outTimecode: row.cutOutFrame === null ? null : clock.format(row.cutOutFrame),
 		version: row.version
 	};
 }
@@ -66,7 +67,8 @@ export async function segmentSpansFor(
 		.where('episodeId', '=', episode.id)
 		.orderBy('position')
 		.execute();
-	return rows.map((row) => spanView(row, episode.frameRate));
+	const clock = clockOfEpisode(episode);
+	return rows.map((row) => spanView(row, clock));
 }
 
 /**
@@ -81,7 +83,7 @@ export async function setSegmentSpan(
 ): Promise<SegmentSpan> {
 	return db.transaction().execute(async (trx) => {
 		const segment = await segmentInChannel(trx, channelId, segmentId, { lock: true });
-		const rate = segment.frameRate;
+		const clock = clockOfEpisode(segment);
 		if (editLocks(segment.stage as Stage).cut)
 			throw new DomainError(
 				409,
@@ -92,7 +94,7 @@ export async function setSegmentSpan(
 				409,
 				'Someone changed this segment while you were working on it. Its current in and out points are shown; type yours again.',
 				undefined,
-				{ current: spanView(segment, rate) }
+				{ current: spanView(segment, clock) }
 			);
 		let inFrame: number | null = null;
 		let outFrame: number | null = null;
@@ -100,7 +102,7 @@ export async function setSegmentSpan(
 			const issues: Record<string, string[]> = {};
 			const read = (field: 'in' | 'out', typed: string) => {
 				try {
-					return frameFromTyped(field, () => parseTypedTime(typed, rate));
+					return frameFromTyped(field, () => clock.parse(typed));
 				} catch (failure) {
 					if (!(failure instanceof DomainError) || !failure.issues) throw failure;
 					Object.assign(issues, failure.issues);
@@ -110,7 +112,7 @@ export async function setSegmentSpan(
 			inFrame = read('in', input.in);
 			outFrame = read('out', input.out);
 			const cut = segment.cutDurationFrames;
-			const at = (frame: number) => formatTimecode(frame, rate);
+			const at = (frame: number) => clock.format(frame);
 			if (cut === null) {
 				issues.in ??= [
 					'The cut has no length yet: set how long the cut runs first, then place the segments in it.'
@@ -143,6 +145,6 @@ export async function setSegmentSpan(
 			.where('id', '=', segment.id)
 			.returning(['id', 'position', 'title', 'hazards', 'cutInFrame', 'cutOutFrame', 'version'])
 			.executeTakeFirstOrThrow();
-		return spanView(updated, rate);
+		return spanView(updated, clock);
 	});
 }
