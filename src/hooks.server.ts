@@ -213,7 +213,7 @@ const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
 };
 
 /** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): X-Query-Count on every answer. */
-const queryCountHandle: Handle = ({ event, resolve }) => countQueries(() => resolve(event));
+const queryCountHandle: Handle = ({ event, resolve }) => countQueries(async () => resolve(event));
 
 export const handle: Handle = sequence(
 	...(countingQueries ? [queryCountHandle] : []),

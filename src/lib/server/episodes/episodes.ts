@@ -128,24 +128,30 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
-/** What the episode forms offer: the channel's builds and its active crew with their roles. */
+/** What the episode forms offer: the channel's builds and its active crew with their roles (two queries). */
 export async function episodeFormOptions(channelId: string) {
-	const [builds, crew, episodes] = await Promise.all([
+	const [lists, crew] = await Promise.all([
 		db
-			.selectFrom('build')
-			.select(['id', 'name', 'year', 'vehicleType'])
-			.where('channelId', '=', channelId)
-			.orderBy('name')
-			.execute(),
-		activeCrew(channelId),
-		db
-			.selectFrom('episode')
-			.select(['id', 'title', 'stage'])
-			.where('channelId', '=', channelId)
-			.orderBy('title')
-			.execute()
+			.selectNoFrom((eb) => [
+				jsonArrayFrom(
+					eb
+						.selectFrom('build')
+						.select(['build.id', 'build.name', 'build.year', 'build.vehicleType'])
+						.where('build.channelId', '=', channelId)
+						.orderBy('build.name')
+				).as('builds'),
+				jsonArrayFrom(
+					eb
+						.selectFrom('episode')
+						.select(['episode.id', 'episode.title', 'episode.stage'])
+						.where('episode.channelId', '=', channelId)
+						.orderBy('episode.title')
+				).as('episodes')
+			])
+			.executeTakeFirstOrThrow(),
+		activeCrew(channelId)
 	]);
-	return { builds, crew, episodes };
+	return { builds: lists.builds, crew, episodes: lists.episodes };
 }
 
 /** A URL slug from a title: lower case, ASCII letters and digits joined by single hyphens. */
