@@ -203,3 +203,90 @@ export async function scaleDemo(
 	await database.query('ANALYZE');
 	return total;
 }
+
+export const BENCH_EPISODES = 10_000;
+export const BENCH_PARTS = 200_000;
+export const BENCH_CHAPTERS = 10_000;
+export const BENCH_CHAPTER_EPISODE_SLUG = 'bench-ten-thousand-chapters';
+
+/**
+ * A real channel's size in the channel named `channelName` (the demo's): its episodes copied with
+ * all their work up to BENCH_EPISODES episodes in all, one of them an episode of BENCH_CHAPTERS
+ * chapters; and catalogue parts up to BENCH_PARTS, of fictional brands. Set-based statements
+ * (generate_series, INSERT … SELECT), so it takes seconds to a few minutes, not hours.
+ */
+export async function fillBenchChannel(database: Query, channelName: string) {
+	const started = performance.now();
+	const [channel] = (
+		await database.query<{ id: string }>(`SELECT id FROM channel WHERE name = $1`, [channelName])
+	).rows;
+	if (!channel) throw new Error(`no channel named ${channelName}: seed the demo first`);
+	const count = async (sqlText: string) =>
+		Number((await database.query<{ n: number }>(sqlText, [channel.id])).rows[0].n);
+	// A run stopped half way leaves its chapter episode: start that part again.
+	await database.query(`DELETE FROM episode WHERE channel_id = $1 AND slug = $2`, [
+		channel.id,
+		BENCH_CHAPTER_EPISODE_SLUG
+	]);
+	const episodesBefore = await count(
+		`SELECT count(*)::int AS n FROM episode WHERE channel_id = $1`
+	);
+	if (episodesBefore >= BENCH_EPISODES) return { alreadyFilled: true, seconds: 0 };
+
+	// The chapter episode: a chapter every 12 s at 29.97 (360 frames at 30000/1001, from memory;
+	// the rules ask for at least 10 s between chapters), the cut 3 s past the last one.
+	const rate = 30000 / 1001;
+	const cut = Math.round((BENCH_CHAPTERS * 12 + 3) * rate);
+	const [chapterEpisode] = (
+		await database.query<{ id: string }>(
+			`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage, cut_duration_frames)
+			 VALUES ($1, 'Bench: ten thousand chapters of a frame-off rebuild', $2, 120000, '29.97', 'edit', $3)
+			 RETURNING id`,
+			[channel.id, BENCH_CHAPTER_EPISODE_SLUG, cut]
+		)
+	).rows;
+	await database.query(
+		`INSERT INTO chapter (episode_id, start_frame, title)
+		 SELECT $1, round(i * 12 * 30000.0 / 1001)::int,
+		   (i + 1) || '. ' || (ARRAY['Strip the bed','Lift the body','Wire-brush the rails','Prime the frame','Torque the mounts','Bleed the lines'])[1 + i % 6]
+		 FROM generate_series(0, ${BENCH_CHAPTERS - 1}) AS i`,
+		[chapterEpisode.id]
+	);
+
+	// Every other episode of the channel copied until there are BENCH_EPISODES, then the surplus dropped.
+	const others = episodesBefore;
+	const factor = Math.ceil((BENCH_EPISODES - 1) / others);
+	await copyWithChildren(database, 'episode', 't.channel_id = $1 AND t.id <> $2', factor, [
+		channel.id,
+		chapterEpisode.id
+	]);
+	const surplus =
+		(await count(`SELECT count(*)::int AS n FROM episode WHERE channel_id = $1`)) - BENCH_EPISODES;
+	if (surplus > 0)
+		await database.query(
+			`DELETE FROM episode WHERE id IN (
+			   SELECT id FROM episode WHERE channel_id = $1 AND title LIKE '% · %' ORDER BY created_at DESC, id LIMIT ${surplus})`,
+			[channel.id]
+		);
+
+	const partsBefore = await count(`SELECT count(*)::int AS n FROM part WHERE channel_id = $1`);
+	await database.query(
+		`INSERT INTO part (channel_id, sku, name, category, brand, price_cents, currency, store_url, fitment_note, status)
+		 SELECT $1,
+		   'BS-' || (ARRAY['LB','CS','SS','UB','SHK','AAL','BL','TB','PA','SBL'])[1 + i % 10] || '-' || lpad(i::text, 6, '0'),
+		   (ARRAY['Lift block pair','Coil spacer pair','Strut spacer pair','U-bolt kit','Shackle pair','Add-a-leaf','Brake line set','Track bar','Pitman arm','Sway bar link pair'])[1 + i % 10]
+		     || ', ' || (1 + i % 6) || ' in, ' || (ARRAY['cast','forged','polyurethane','aluminium','steel','zinc plated','heavy duty'])[1 + (i / 10) % 7] || ' ' || i,
+		   (ARRAY['Lift blocks','Coil spacers','Strut spacers','U-bolts','Shackles','Leaf springs','Brake lines','Steering','Steering','Sway bars'])[1 + i % 10],
+		   (ARRAY['Kingbolt Suspension','Quillon Shocks','Halvard Wheel Co.','Cindertrack Tyres','Northpine Brake Works','Cobalt Steer','Ashgrove Axle Works','Tallow Ridge Offroad','Mirefield Fabrication','Kestrelmark Lift','Brackwater Gear','Saltmarsh Steelworks'])[1 + (i / 7) % 12],
+		   1000 + (i * 7919) % 90000, 'USD', 'https://shop.bench.test/p/' || i, '',
+		   CASE WHEN i % 50 = 0 THEN 'discontinued' WHEN i % 20 = 0 THEN 'out_of_stock' ELSE 'active' END
+		 FROM generate_series(1, ${Math.max(0, BENCH_PARTS - partsBefore)}) AS i`,
+		[channel.id]
+	);
+	await database.query('ANALYZE');
+	return {
+		alreadyFilled: false,
+		chapterEpisodeId: chapterEpisode.id,
+		seconds: (performance.now() - started) / 1000
+	};
+}
