@@ -63,15 +63,31 @@ const quote = (name: string) => `"${name.replace(/"/g, '""')}"`;
 
 /**
  * Copies the rows of `root` chosen by `where` (SQL over the table's columns, alias `t`) factor − 1
- * times, with every row below them. `titles` adds " · k" to a `title` column of the root copies.
+ * times, with every row below them; a `title` of a root copy gets " · k" added.
  * Returns how many rows each table gained.
  */
 export async function copyWithChildren(
-	database: Query,
+	pool: pg.Pool,
 	root: string,
 	where: string,
 	factor: number,
 	params: readonly unknown[] = []
+): Promise<Record<string, number>> {
+	// Temporary tables belong to one connection: every statement goes through the same client.
+	const client = await pool.connect();
+	try {
+		return await copyOnOneConnection(client, root, where, factor, params);
+	} finally {
+		client.release();
+	}
+}
+
+async function copyOnOneConnection(
+	database: Query,
+	root: string,
+	where: string,
+	factor: number,
+	params: readonly unknown[]
 ): Promise<Record<string, number>> {
 	const { foreignKeys, uniques } = await catalogue(database);
 	// CREATE TABLE AS takes no bind parameters: the root's few values go in as quoted literals.
@@ -188,7 +204,7 @@ export async function copyWithChildren(
  * shots, takes, cautions, notes), chapters and stage history ×factor.
  */
 export async function scaleDemo(
-	database: Query,
+	database: pg.Pool,
 	channelId: string,
 	factor: number,
 	wholeEpisodeId: string
@@ -215,7 +231,7 @@ export const BENCH_CHAPTER_EPISODE_SLUG = 'bench-ten-thousand-chapters';
  * chapters; and catalogue parts up to BENCH_PARTS, of fictional brands. Set-based statements
  * (generate_series, INSERT … SELECT), so it takes seconds to a few minutes, not hours.
  */
-export async function fillBenchChannel(database: Query, channelName: string) {
+export async function fillBenchChannel(database: pg.Pool, channelName: string) {
 	const started = performance.now();
 	const [channel] = (
 		await database.query<{ id: string }>(`SELECT id FROM channel WHERE name = $1`, [channelName])

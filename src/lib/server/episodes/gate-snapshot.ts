@@ -122,22 +122,24 @@ export interface GateMaterials {
 }
 
 const WORDS_REMEMBERED = 500;
-const wordsByFingerprint = new Map<string, number[]>();
+const wordsByFingerprint = new Map<string, Promise<number[]>>();
 
 /**
  * Spoken words of each segment of a script, remembered by the script's fingerprint: reading the
- * same script again costs a hash, not a Markdown parse per segment. The oldest entry goes first.
+ * same script again costs a hash, not a Markdown parse per segment, and requests arriving together
+ * share one read. The oldest entry goes first; a read that fails is forgotten.
  */
-export async function spokenWordsOfScript(
+export function spokenWordsOfScript(
 	segments: readonly { id: string; body: string }[],
 	fingerprint = scriptFingerprint(segments)
 ): Promise<number[]> {
 	const known = wordsByFingerprint.get(fingerprint);
 	if (known) return known;
-	const words = await spokenWordsEach(segments.map((segment) => segment.body));
+	const words = spokenWordsEach(segments.map((segment) => segment.body));
 	if (wordsByFingerprint.size >= WORDS_REMEMBERED)
 		wordsByFingerprint.delete(wordsByFingerprint.keys().next().value!);
 	wordsByFingerprint.set(fingerprint, words);
+	words.catch(() => wordsByFingerprint.delete(fingerprint));
 	return words;
 }
 
