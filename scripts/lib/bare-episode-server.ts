@@ -2,7 +2,8 @@
  * The bench's baseline for the episode page and API (scripts/bench-episode.ts): a bare node:http
  * server with a pg pool of the app's size, running the same reads as the app for one request and
  * answering them as JSON: who is calling (by session id), the episode with its crew and builds,
- * everything its gate reads, and for /page also the stage history and the producer's form choices.
+ * everything its gate reads, and for /page also the stage history and the producer's form choices
+ * (builds and crew).
  * No framework, no rendering, no gate computation: what the data alone costs.
  *
  *   DATABASE_URL=… PORT=… tsx scripts/lib/bare-episode-server.ts
@@ -47,8 +48,7 @@ FROM stage_move sm JOIN episode e ON e.id = sm.episode_id LEFT JOIN person p ON 
 WHERE sm.episode_id = $1 AND e.channel_id = $2 ORDER BY sm.created_at DESC, sm.id DESC`;
 
 const FORM_LISTS = `SELECT
-  ${agg(`SELECT b.id, b.name, b.year, b.vehicle_type FROM build b WHERE b.channel_id = $1 ORDER BY b.name`)} AS builds,
-  ${agg(`SELECT e.id, e.title, e.stage FROM episode e WHERE e.channel_id = $1 ORDER BY e.title`)} AS episodes`;
+  ${agg(`SELECT b.id, b.name, b.year, b.vehicle_type FROM build b WHERE b.channel_id = $1 ORDER BY b.name`)} AS builds`;
 
 const CREW = `SELECT p.id, p.name, m.roles FROM membership m JOIN person p ON p.id = m.person_id
 WHERE m.channel_id = $1 AND m.disabled_at IS NULL ORDER BY p.name`;

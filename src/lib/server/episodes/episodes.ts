@@ -4,7 +4,7 @@
  * episode-crew.ts, the host's speaking pace in host-pace.ts. Every function takes the channel id and
  * filters by it: another channel's episode is "not found".
  */
-import type { ExpressionBuilder, Kysely } from 'kysely';
+import { sql, type ExpressionBuilder, type Kysely } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import type { Database, Role } from '../db/types';
@@ -128,8 +128,12 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
-/** What the episode forms offer: the channel's builds and its active crew with their roles (two queries). */
-export async function episodeFormOptions(channelId: string) {
+/**
+ * What the episode forms offer: the channel's builds and its active crew with their roles, and
+ * (unless `withEpisodes` is false) its episodes for the follow-up pickers; two queries. The episode
+ * page's details form needs no episode list, which on a big channel is most of the page.
+ */
+export async function episodeFormOptions(channelId: string, withEpisodes = true) {
 	const [lists, crew] = await Promise.all([
 		db
 			.selectNoFrom((eb) => [
@@ -145,6 +149,7 @@ export async function episodeFormOptions(channelId: string) {
 						.selectFrom('episode')
 						.select(['episode.id', 'episode.title', 'episode.stage'])
 						.where('episode.channelId', '=', channelId)
+						.$if(!withEpisodes, (query) => query.where(sql<boolean>`false`))
 						.orderBy('episode.title')
 				).as('episodes')
 			])
