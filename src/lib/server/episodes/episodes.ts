@@ -128,24 +128,21 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
-/** What the episode forms offer: the channel's builds and its active crew with their roles. */
+/**
+ * What the episode forms offer: the channel's builds and its active crew with their roles. Other
+ * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts).
+ */
 export async function episodeFormOptions(channelId: string) {
-	const [builds, crew, episodes] = await Promise.all([
+	const [builds, crew] = await Promise.all([
 		db
 			.selectFrom('build')
 			.select(['id', 'name', 'year', 'vehicleType'])
 			.where('channelId', '=', channelId)
 			.orderBy('name')
 			.execute(),
-		activeCrew(channelId),
-		db
-			.selectFrom('episode')
-			.select(['id', 'title', 'stage'])
-			.where('channelId', '=', channelId)
-			.orderBy('title')
-			.execute()
+		activeCrew(channelId)
 	]);
-	return { builds, crew, episodes };
+	return { builds, crew };
 }
 
 /** A URL slug from a title: lower case, ASCII letters and digits joined by single hyphens. */

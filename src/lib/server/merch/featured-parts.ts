@@ -234,13 +234,15 @@ async function partsNamedInScript(executor: Executor, channelId: string, episode
 		.execute();
 	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
 	if (phrases.length === 0) return [];
-	// One pass over the catalogue with hashed lookups in the phrase list, instead of a text search per part.
+	// Each phrase is looked up in the (channel_id, lower(sku)) and (channel_id, lower(name)) indexes
+	// (migration 2026-12-03-40): the work follows the script's length, not the catalogue's size.
 	const named = await sql<{ id: string; sku: string; name: string }>`
-		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
 		SELECT part.id, part.sku, part.name FROM part
-		WHERE part.channel_id = ${channelId}
-		  AND (lower(part.sku) IN (SELECT text FROM phrase) OR lower(part.name) IN (SELECT text FROM phrase))
-		ORDER BY part.sku`.execute(executor);
+		WHERE part.channel_id = ${channelId} AND lower(part.sku) = ANY(${phrases}::text[])
+		UNION
+		SELECT part.id, part.sku, part.name FROM part
+		WHERE part.channel_id = ${channelId} AND lower(part.name) = ANY(${phrases}::text[])
+		ORDER BY sku`.execute(executor);
 	return named.rows;
 }
 
