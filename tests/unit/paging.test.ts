@@ -84,6 +84,8 @@ describe('cursor values', () => {
 		expect(keyValueFits('integer', '9'.repeat(19))).toBe(false);
 		expect(keyValueFits('uuid', 'not-an-id')).toBe(false);
 		expect(keyValueFits('text', 42)).toBe(false);
+		// PostgreSQL's text type refuses the NUL character (its documentation, "Character Types").
+		expect(keyValueFits('text', 'a\u0000b')).toBe(false);
 		expect(keyValueFits('text', null)).toBe(false);
 	});
 });

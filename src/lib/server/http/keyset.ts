@@ -41,7 +41,8 @@ export function keyValueFits(kind: KeyKind, value: unknown): value is string {
 	if (typeof value !== 'string' || value.length > 2000) return false;
 	switch (kind) {
 		case 'text':
-			return true;
+			// PostgreSQL text cannot hold NUL.
+			return !value.includes('\u0000');
 		case 'uuid':
 			return isUuid(value);
 		case 'integer':
