@@ -59,10 +59,20 @@ beforeAll(async () => {
 		 FROM generate_series(1, ${PARTS}) AS i`,
 		[channelId]
 	);
+	// 119 more crew members whose names repeat in runs of 6 (ties broken by id).
+	await sql(
+		`WITH added AS (
+		   INSERT INTO person (email, name)
+		   SELECT 'paging.crew.' || i || '@paging.test', 'Bay hand ' || (i % 20) FROM generate_series(1, 119) AS i
+		   RETURNING id)
+		 INSERT INTO membership (channel_id, person_id, roles) SELECT $1, id, ARRAY['camera'] FROM added`,
+		[channelId]
+	);
 	producer = await signedIn(EMAIL);
 });
 
 afterAll(async () => {
+	await sql(`DELETE FROM person WHERE email LIKE 'paging.crew.%@paging.test'`);
 	await sql(`DELETE FROM part WHERE channel_id = $1`, [channelId]);
 	await sql(`DELETE FROM episode WHERE channel_id = $1`, [channelId]);
 });
@@ -149,7 +159,7 @@ describe('episode list paging', () => {
 		const html = await (
 			await producer.request('/episodes?sort=title', { headers: { accept: 'text/html' } })
 		).text();
-		const shown = html.match(/href="\/episodes\/[0-9a-f-]{36}"/g) ?? [];
+		const shown: string[] = html.match(/href="\/episodes\/[0-9a-f-]{36}"/g) ?? [];
 		expect(shown).toHaveLength(50);
 		const more = /<a href="([^"]+)"[^>]*rel="next"[^>]*>More episodes<\/a>/.exec(html);
 		expect(more).not.toBeNull();
@@ -159,7 +169,7 @@ describe('episode list paging', () => {
 		const second = await (
 			await producer.request(nextUrl, { headers: { accept: 'text/html' } })
 		).text();
-		const secondShown = second.match(/href="\/episodes\/[0-9a-f-]{36}"/g) ?? [];
+		const secondShown: string[] = second.match(/href="\/episodes\/[0-9a-f-]{36}"/g) ?? [];
 		expect(secondShown).toHaveLength(50);
 		expect(secondShown.filter((link) => shown.includes(link))).toEqual([]);
 		expect(second).toContain('Back to the first page');
@@ -197,6 +207,18 @@ describe('episode picker', () => {
 		const except = await producer.api('/api/episodes/picker?except=nope');
 		expect(except.status).toBe(400);
 		expect(except.body.issues.except).toBeDefined();
+	});
+});
+
+describe('crew paging', () => {
+	test('walking the crew 13 at a time gives every member once, by name', async () => {
+		const { rows } = await walk<{ id: string; name: string }>('/api/crew?limit=13', (b) => b.items);
+		expect(rows).toHaveLength(120);
+		expect(new Set(rows.map((row) => row.id)).size).toBe(120);
+		const whole = (await producer.api('/api/crew?limit=200')).body;
+		expect(whole.next).toBeNull();
+		expect(rows.map((row) => row.id)).toEqual(whole.items.map((row: { id: string }) => row.id));
+		expect((await producer.api('/api/crew?after=AAAA')).status).toBe(400);
 	});
 });
 
