@@ -98,7 +98,11 @@ export function keysetAfter(
 		const beyond = sql`${key.expression} ${sql.raw(key.direction === 'asc' ? '>' : '<')} ${values[index]}`;
 		return sql`(${sql.join([...equalBefore, beyond], sql` AND `)})`;
 	});
-	return sql<boolean>`(${sql.join(alternatives, sql` OR `)})`;
+	// The first key's bound on its own as well (implied by the alternatives), so an index on the
+	// keys starts reading at the cursor instead of filtering every row before it.
+	const first = keys[0];
+	const bound = sql`${first.expression} ${sql.raw(first.direction === 'asc' ? '>=' : '<=')} ${values[0]}`;
+	return sql<boolean>`(${bound} AND (${sql.join(alternatives, sql` OR `)}))`;
 }
 
 /**
