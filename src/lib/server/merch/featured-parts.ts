@@ -235,14 +235,20 @@ async function partsNamedInScript(executor: Executor, channelId: string, episode
 	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
 	if (phrases.length === 0) return [];
 	// Each phrase is looked up in the (channel_id, lower(sku)) and (channel_id, lower(name)) indexes
-	// (migration 2026-12-03-40): the work follows the script's length, not the catalogue's size.
+	// (migration 2026-12-03-40): a LATERAL subquery runs once per phrase as an index probe, so the
+	// work follows the script's length, not the catalogue's size (a plain join or = ANY lets the
+	// planner read every part and compute lower() on each instead).
 	const named = await sql<{ id: string; sku: string; name: string }>`
-		SELECT part.id, part.sku, part.name FROM part
-		WHERE part.channel_id = ${channelId} AND lower(part.sku) = ANY(${phrases}::text[])
-		UNION
-		SELECT part.id, part.sku, part.name FROM part
-		WHERE part.channel_id = ${channelId} AND lower(part.name) = ANY(${phrases}::text[])
-		ORDER BY sku`.execute(executor);
+		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
+		SELECT DISTINCT found.id, found.sku, found.name FROM phrase
+		CROSS JOIN LATERAL (
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.sku) = phrase.text
+			UNION ALL
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.name) = phrase.text
+		) AS found
+		ORDER BY found.sku`.execute(executor);
 	return named.rows;
 }
 
