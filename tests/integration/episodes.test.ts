@@ -458,7 +458,7 @@ describe('an episode from idea to shoot and on', () => {
 
 describe('episode list and details', () => {
 	test('filters by stage, assignee and publish dates, and sorts', async () => {
-		const all = (await producer.api('/api/episodes?sort=title')).body.episodes as {
+		const all = (await producer.api('/api/episodes?sort=title')).body.items as {
 			title: string;
 			stage: string;
 		}[];
@@ -466,18 +466,18 @@ describe('episode list and details', () => {
 		expect(titles).toEqual(
 			[...titles].sort((a, b) => a.toLowerCase().localeCompare(b.toLowerCase()))
 		);
-		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.episodes as {
+		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.items as {
 			stage: string;
 		}[];
 		expect(inEdit.length).toBeGreaterThan(0);
 		expect(inEdit.every((e) => e.stage === 'edit')).toBe(true);
-		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.episodes as {
+		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.items as {
 			assignments: { personId: string }[];
 		}[];
 		expect(priyas.length).toBeGreaterThan(0);
 		expect(priyas.every((e) => e.assignments.some((a) => a.personId === people.merch))).toBe(true);
 		const march = (await producer.api('/api/episodes?from=2027-03-01&to=2027-03-31')).body
-			.episodes as { publishDate: string }[];
+			.items as { publishDate: string }[];
 		expect(march.length).toBeGreaterThan(0);
 		expect(march.every((e) => e.publishDate >= '2027-03-01' && e.publishDate <= '2027-03-31')).toBe(
 			true

@@ -11,6 +11,7 @@ import { parseTyreSize } from '$lib/specs/tyres';
 import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
 import { MAX_FRAMES, calendarDate, text, recordVersion, wholeNumber } from './fields';
+import { pageQueryFields } from './paging';
 
 import { SCRIPT_CHARACTER_LIMIT } from './episodes-constants';
 export { SCRIPT_CHARACTER_LIMIT };
@@ -139,9 +140,27 @@ export const episodeListQuerySchema = z.object({
 	from: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
 	to: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
 	sort: z.enum(EPISODE_SORTS).default('publish'),
-	direction: z.enum(['asc', 'desc']).default('asc')
+	direction: z.enum(['asc', 'desc']).default('asc'),
+	...pageQueryFields
 });
 export type EpisodeListQuery = z.infer<typeof episodeListQuerySchema>;
+
+/** How many episodes the picker offers at once. */
+export const EPISODE_PICKER_LIMIT = 20;
+
+/** `?q=&except=&limit=` of the episode picker's search. */
+export const episodePickerQuerySchema = z.object({
+	q: text().trim().max(120, 'Type at most 120 characters to find an episode.').optional(),
+	except: uuid('an episode').optional(),
+	limit: wholeNumber({
+		coerce: true,
+		error: 'Ask for a number of episodes, such as 20.',
+		min: 1,
+		max: 50,
+		tooBig: 'Ask for at most 50 episodes at a time.'
+	}).default(EPISODE_PICKER_LIMIT)
+});
+export type EpisodePickerQuery = z.infer<typeof episodePickerQuerySchema>;
 
 const hazards = z
 	.array(z.enum(HAZARD_IDS, { error: 'Pick hazards from the list.' }))

@@ -4,6 +4,7 @@
  * status, currency) are the same for a typed form, a JSON call and a CSV row, so a value accepted
  * in one is accepted in all three.
  */
+import { pageQueryFields } from './paging';
 import { z } from 'zod';
 import {
 	MAX_FRAMES,
@@ -273,7 +274,9 @@ export const partSearchSchema = z.object({
 			tooSmall: 'pageSize is 1 or more.',
 			tooBig: `pageSize is at most ${MAX_PART_PAGE_SIZE}.`
 		}).default(25)
-	)
+	),
+	/** The `next` of the previous answer: the page after its last part (`page` then only numbers it). */
+	after: pageQueryFields.after
 });
 export type PartSearch = z.infer<typeof partSearchSchema>;
 

@@ -4,7 +4,7 @@
  * episode-crew.ts, the host's speaking pace in host-pace.ts. Every function takes the channel id and
  * filters by it: another channel's episode is "not found".
  */
-import { sql, type ExpressionBuilder, type Kysely } from 'kysely';
+import { type ExpressionBuilder, type Kysely } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import type { Database, Role } from '../db/types';
@@ -134,34 +134,20 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
 /**
- * What the episode forms offer: the channel's builds and its active crew with their roles, and
- * (unless `withEpisodes` is false) its episodes for the follow-up pickers; two queries. The episode
- * page's details form needs no episode list, which on a big channel is most of the page.
+ * What the episode forms offer: the channel's builds and its active crew with their roles. Other
+ * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts).
  */
-export async function episodeFormOptions(channelId: string, withEpisodes = true) {
-	const [lists, crew] = await Promise.all([
+export async function episodeFormOptions(channelId: string) {
+	const [builds, crew] = await Promise.all([
 		db
-			.selectNoFrom((eb) => [
-				jsonArrayFrom(
-					eb
-						.selectFrom('build')
-						.select(['build.id', 'build.name', 'build.year', 'build.vehicleType'])
-						.where('build.channelId', '=', channelId)
-						.orderBy('build.name')
-				).as('builds'),
-				jsonArrayFrom(
-					eb
-						.selectFrom('episode')
-						.select(['episode.id', 'episode.title', 'episode.stage'])
-						.where('episode.channelId', '=', channelId)
-						.$if(!withEpisodes, (query) => query.where(sql<boolean>`false`))
-						.orderBy('episode.title')
-				).as('episodes')
-			])
-			.executeTakeFirstOrThrow(),
+			.selectFrom('build')
+			.select(['id', 'name', 'year', 'vehicleType'])
+			.where('channelId', '=', channelId)
+			.orderBy('name')
+			.execute(),
 		activeCrew(channelId)
 	]);
-	return { builds: lists.builds, crew, episodes: lists.episodes };
+	return { builds, crew };
 }
 
 /** A URL slug from a title: lower case, ASCII letters and digits joined by single hyphens. */

@@ -247,13 +247,21 @@ async function partsNamedInScript(executor: Executor, channelId: string, episode
 		.execute();
 	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
 	if (phrases.length === 0) return [];
-	// One pass over the catalogue with hashed lookups in the phrase list, instead of a text search per part.
+	// Each phrase is looked up in the (channel_id, lower(sku)) and (channel_id, lower(name)) indexes
+	// (migration 2026-12-03-40): a LATERAL subquery runs once per phrase as an index probe, so the
+	// work follows the script's length, not the catalogue's size (a plain join or = ANY lets the
+	// planner read every part and compute lower() on each instead).
 	const named = await sql<{ id: string; sku: string; name: string }>`
 		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
-		SELECT part.id, part.sku, part.name FROM part
-		WHERE part.channel_id = ${channelId}
-		  AND (lower(part.sku) IN (SELECT text FROM phrase) OR lower(part.name) IN (SELECT text FROM phrase))
-		ORDER BY part.sku`.execute(executor);
+		SELECT DISTINCT found.id, found.sku, found.name FROM phrase
+		CROSS JOIN LATERAL (
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.sku) = phrase.text
+			UNION ALL
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.name) = phrase.text
+		) AS found
+		ORDER BY found.sku`.execute(executor);
 	return named.rows;
 }
 

@@ -21,9 +21,7 @@ export const load = (async (event) => {
 			requestEpisode(event.locals, channel.id, id),
 			gateMaterialsFor(channel.id, id),
 			stageHistory(channel.id, id),
-			hasRole(event.locals, 'producer')
-				? episodeFormOptions(channel.id, false)
-				: Promise.resolve(null)
+			hasRole(event.locals, 'producer') ? episodeFormOptions(channel.id) : Promise.resolve(null)
 		])
 	);
 	return {

@@ -10,7 +10,9 @@ import { segmentView } from '$lib/server/episodes/rundown';
 import { updateCaution } from '$lib/server/episodes/cautions';
 import { addShot } from '$lib/server/episodes/shots';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
+import { pickEpisodes } from '$lib/server/episodes/episode-picker';
 import {
+	EPISODE_PICKER_LIMIT,
 	cautionUpdateSchema,
 	segmentDeleteSchema,
 	segmentUpdateSchema,
@@ -25,11 +27,12 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [segment, episode, options] = await forPage(
+	const [segment, episode, options, episodes] = await forPage(
 		Promise.all([
 			segmentView(channel.id, event.params.segmentId),
 			episodeInChannel(channel.id, event.params.id),
-			episodeFormOptions(channel.id)
+			episodeFormOptions(channel.id),
+			pickEpisodes(channel.id, { except: event.params.id, limit: EPISODE_PICKER_LIMIT })
 		])
 	);
 	if (segment.episodeId !== episode.id) error(404, 'That segment is not in this episode.');
@@ -51,7 +54,7 @@ export const load = (async (event) => {
 				episode.cutDurationFrames === null ? null : programme.format(episode.cutDurationFrames)
 		},
 		builds: options.builds,
-		episodes: options.episodes.filter((other) => other.id !== episode.id),
+		episodes,
 		can: {
 			plan: hasRole(event.locals, 'producer', 'host'),
 			word: hasRole(event.locals, 'producer', 'host'),
