@@ -152,7 +152,7 @@ describe('an episode from idea to shoot and on', () => {
 
 		// The host writes the segment; [[directions]] and Markdown marks are not spoken words.
 		const script = await host.api(`/api/segments/${brakesId}/script`);
-		const words = Array.from({ length: 150 }, (_, i) => `word${i}`).join(' ');
+		const words = Array.from({ length: 150 }, () => `bolt`).join(' ');
 		const saved = await host.api(`/api/segments/${brakesId}/script`, {
 			method: 'PUT',
 			json: {

@@ -21,11 +21,14 @@
  *   Markdown is read, so they may hold anything; write `\[\[` for literal
  *   double brackets.
  * - A word is a run of characters between whitespace (or an em dash) holding
- *   at least one letter or digit. Numbers are words ("95"); hyphenated and
- *   slash-joined tokens are one word ("ft-lbs", "and/or"); a lone "&" is one
- *   word because it is read as "and".
+ *   at least one letter or digit. Hyphenated and slash-joined words are one
+ *   word ("and/or"); a lone "&" is one word because it is read as "and".
+ * - Figures and units count as they are read aloud (`spokenWordsInToken` in
+ *   ./spoken-numbers): "285/70R17" is seven words, "95 ft-lbs" four, "35 psi"
+ *   five.
  */
 import { Lexer, type Token, type Tokens } from 'marked';
+import { spokenWordsInToken } from './spoken-numbers';
 
 /**
  * Presented speech runs about 150 words per minute (common practice; Lucas,
@@ -183,7 +186,11 @@ export function countSpokenWords(markdown: string): number {
 	const withoutDirections = markdown.replace(/\r\n?/g, '\n').replace(directionPattern, ' ');
 	const tokens = Lexer.lex(withoutDirections, lexerOptions);
 	const spokenText = decodeCharacterReferences(spokenTextOfBlocks(tokens));
-	return spokenText.split(/[\s—]+/u).filter(isSpokenWord).length;
+	let words = 0;
+	for (const token of spokenText.split(/[\s—]+/u)) {
+		if (isSpokenWord(token)) words += spokenWordsInToken(token);
+	}
+	return words;
 }
 
 /**
@@ -264,7 +271,7 @@ export function roughSpokenWords(markdown: string): number {
 	const text = withoutDirectionsInOnePass(markdown.replace(/\r\n?/g, '\n'));
 	let words = 0;
 	for (const token of decodeCharacterReferences(text).split(/[\s—]+/u)) {
-		if (isSpokenWordInOnePass(token)) words += 1;
+		if (isSpokenWordInOnePass(token)) words += spokenWordsInToken(token);
 	}
 	return words;
 }
