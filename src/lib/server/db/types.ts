@@ -10,6 +10,7 @@ import type { EditTables } from './tables/edit';
 import type { ShootTables } from './tables/shoot';
 import type { PartsTables } from './tables/parts';
 import type { SpecCardTables } from './tables/spec-cards';
+import type { SpeakingPaceTables } from './tables/speaking-pace';
 export type { Role } from '$lib/roles';
 export type { Stage } from '$lib/stages';
 
@@ -180,7 +181,13 @@ export interface EpisodeAssignmentTable {
 }
 
 export interface Database
-	extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables {
+	extends
+		EpisodeWorkTables,
+		EditTables,
+		ShootTables,
+		PartsTables,
+		SpecCardTables,
+		SpeakingPaceTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;
