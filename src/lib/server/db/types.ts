@@ -11,6 +11,7 @@ import type { ShootTables } from './tables/shoot';
 import type { PartsTables } from './tables/parts';
 import type { SpecCardTables } from './tables/spec-cards';
 import type { MediaTables } from './tables/media';
+import type { SpeakingPaceTables } from './tables/speaking-pace';
 export type { Role } from '$lib/roles';
 export type { Stage } from '$lib/stages';
 
@@ -185,7 +186,14 @@ export interface EpisodeAssignmentTable {
 }
 
 export interface Database
-	extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables, MediaTables {
+	extends
+		EpisodeWorkTables,
+		EditTables,
+		ShootTables,
+		PartsTables,
+		SpecCardTables,
+		SpeakingPaceTables,
+		MediaTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

@@ -201,10 +201,19 @@ export async function rundownFor(channelId: string, episodeId: string, executor:
 	]);
 	const words = await spokenWordsEach(rows.map((row) => row.scriptBody));
 	const segments = rows.map((row, index) => toView(row, pace.wordsPerMinute, words[index]));
+	// Spoken time is compared with the planned time of the segments that are spoken (they have
+	// script words); wordless work segments are counted apart, not against the speech.
+	const spoken = segments.filter((segment) => segment.words > 0);
 	const totals = {
 		plannedSeconds: segments.reduce((sum, segment) => sum + segment.plannedSeconds, 0),
 		words: segments.reduce((sum, segment) => sum + segment.words, 0),
-		spokenSeconds: segments.reduce((sum, segment) => sum + segment.spokenSeconds, 0)
+		spokenSeconds: segments.reduce((sum, segment) => sum + segment.spokenSeconds, 0),
+		spokenSegments: spoken.length,
+		spokenPlannedSeconds: spoken.reduce((sum, segment) => sum + segment.plannedSeconds, 0),
+		wordlessSegments: segments.length - spoken.length,
+		wordlessPlannedSeconds: segments
+			.filter((segment) => segment.words === 0)
+			.reduce((sum, segment) => sum + segment.plannedSeconds, 0)
 	};
 	return {
 		episode: {
