@@ -10,6 +10,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { segmentInChannel } from './segment-in-channel';
+import { episodeOpenFor } from './stage-locks';
 import { framesFromText } from './typed-timecode';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
 import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
@@ -101,6 +102,7 @@ export async function updateCaution(
 			'Placing a caution in the cut is the editor’s or a producer’s job. You can change its words.'
 		);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'cards', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId);
 		const rate = segment.frameRate;
 		const caution = await trx

@@ -8,6 +8,7 @@ import { db } from '../db';
 import { DomainError } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { currentScriptFingerprint } from './stage-moves';
+import { refuseIfFixed } from './stage-locks';
 import { queueMail } from '../mail/outbox';
 import { scriptReviewedMail, scriptSubmittedMail } from '../mail/episode-messages';
 import type { ScriptReviewInput } from '$lib/schemas/episodes';
@@ -86,6 +87,8 @@ export async function reviewScript(
 		error(403, WORDS[input.action]);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		// Comments stay open; sending, approving and returning change the script's state.
+		if (input.action !== 'comment') refuseIfFixed(episode.stage, 'script');
 		const fingerprint = await currentScriptFingerprint(episodeId, trx);
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
