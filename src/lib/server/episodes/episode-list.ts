@@ -6,6 +6,8 @@ import { sql } from 'kysely';
 import { db } from '../db';
 import { withAssignments, withBuilds } from './episodes';
 import { STAGES } from '$lib/stages';
+import { scriptChangedSinceApproval } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
 import type { EpisodeListQuery } from '$lib/schemas/episodes';
 
 const stageOrder = sql<number>`array_position(ARRAY[${sql.join(STAGES.map((stage) => sql.lit(stage)))}]::text[], episode.stage)`;
@@ -23,6 +25,7 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			'episode.publishDate',
 			'episode.targetRuntimeSeconds',
 			'episode.scriptStatus',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.createdAt',
 			'episode.version',
 			withAssignments(eb),
@@ -76,8 +79,9 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			select = select.orderBy(sql`episode.publish_date ${sql.raw(direction)} ${nulls}`);
 	}
 	const rows = await select.orderBy('episode.title').orderBy('episode.id').execute();
-	return rows.map((row) => ({
+	return rows.map(({ scriptChanged, ...row }) => ({
 		...row,
+		scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged),
 		segmentCount: Number(row.segmentCount ?? 0),
 		plannedSeconds: Number(row.plannedSeconds ?? 0)
 	}));

@@ -9,6 +9,9 @@ import { DomainError } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { currentScriptFingerprint } from './stage-moves';
 import { refuseIfFixed } from './stage-locks';
+import { scriptChangedSinceApproval, scriptFingerprintOf } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
+import { sql } from 'kysely';
 import { queueMail } from '../mail/outbox';
 import { scriptReviewedMail, scriptSubmittedMail } from '../mail/episode-messages';
 import type { ScriptReviewInput } from '$lib/schemas/episodes';
@@ -202,7 +205,14 @@ export async function scriptStateFor(
 	executor: Executor = db
 ) {
 	const episode = await episodeInChannel(channelId, episodeId, executor);
-	const fingerprint = await currentScriptFingerprint(episodeId, executor);
+	const { fingerprint, changed } = await executor
+		.selectFrom('episode')
+		.select([
+			scriptFingerprintOf(sql.ref('episode.id')).as('fingerprint'),
+			scriptChangedSinceApproval().as('changed')
+		])
+		.where('episode.id', '=', episode.id)
+		.executeTakeFirstOrThrow();
 	const approver = episode.scriptApprovedBy
 		? await executor
 				.selectFrom('person')
@@ -213,8 +223,8 @@ export async function scriptStateFor(
 	return {
 		status: episode.scriptStatus,
 		fingerprint,
-		changedSinceApproval:
-			episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint,
+		changedSinceApproval: changed,
+		shown: shownScriptStatus(episode.scriptStatus, changed),
 		approvedAt: episode.scriptApprovedAt ? new Date(episode.scriptApprovedAt).toISOString() : null,
 		approvedByName: approver?.name ?? null
 	};

@@ -13,6 +13,8 @@ import { gateChecksFor } from '$lib/gates';
 import { counted } from '$lib/plural';
 import { spokenWordsEach } from '../episodes/script-reader';
 import { nextStage, STAGE_LABELS } from '$lib/stages';
+import { scriptChangedSinceApproval } from '../episodes/script-status';
+import { shownScriptStatus } from '$lib/script/status';
 
 async function episodesFor(
 	channelId: string,
@@ -33,6 +35,7 @@ async function episodesFor(
 			'episode.stage',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.publishDate'
 		])
 		.where('episode.channelId', '=', channelId)
@@ -53,7 +56,18 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 	const items: WorkItem[] = [];
 	for (const episode of await episodesFor(channelId, 'host', personId, ['script'])) {
 		const href = `/episodes/${episode.id}/script`;
-		if (episode.scriptStatus === 'returned') {
+		const shown = shownScriptStatus(episode.scriptStatus, episode.scriptChanged);
+		if (shown === 'changed') {
+			items.push({
+				title: `Script changed since approval: ${episode.title}`,
+				detail:
+					'The text changed after the producer approved it: send it again from the script page.',
+				href,
+				tone: 'todo'
+			});
+			continue;
+		}
+		if (shown === 'returned') {
 			const comment = await db
 				.selectFrom('scriptReview')
 				.select('body')
@@ -72,7 +86,7 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 			});
 			continue;
 		}
-		if (episode.scriptStatus !== 'draft') continue;
+		if (shown !== 'draft') continue;
 		const scripts = await db
 			.selectFrom('segment')
 			.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
