@@ -59,7 +59,7 @@ describe('a published episode in the browser', () => {
 		for (const path of pages(ids.published, ids.publishedSegment)) {
 			await browser.page.goto(path);
 			const notice = browser.page.locator('[data-stage-lock]');
-			await expect.poll(() => notice.count(), path).toBe(1);
+			await expect.poll(() => notice.count(), { message: path }).toBe(1);
 			const reason = await notice.innerText();
 			expect(reason, path).toMatch(/^This episode is published: /);
 			expect(reason, path).toMatch(/A producer can move it back to (Edit|Locked) to change it\./);
