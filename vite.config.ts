@@ -4,6 +4,18 @@ import { defineConfig } from 'vitest/config';
 
 export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],
+	build: {
+		rolldownOptions: {
+			treeshake: {
+				// marked's package does not declare itself free of side effects, so a page that imports
+				// anything from $lib/script/timing (a pace, a tolerance) would get the whole Markdown
+				// lexer. It has none worth keeping: only what a module actually uses stays (the
+				// JavaScript budget, DEVELOPERS.md; tests/integration/js-weight.test.ts checks it).
+				moduleSideEffects: (id: string) =>
+					/[\\/]node_modules[\\/]marked[\\/]/.test(id) ? false : undefined
+			}
+		}
+	},
 	test: {
 		projects: [
 			{

@@ -70,7 +70,10 @@ const env: Record<string, string> = {
 	PORT: String(port),
 	ORIGIN: origin,
 	// Production mode for the libraries that read it (SvelteKit's server output, Auth.js's logging).
-	NODE_ENV: 'production'
+	NODE_ENV: 'production',
+	// The demo makes proxies, thumbnails and waveforms in the app process; a deployment runs
+	// `npm run worker` beside it instead (set WRENCHROLL_MEDIA_WORKER=off here then).
+	WRENCHROLL_MEDIA_WORKER: process.env.WRENCHROLL_MEDIA_WORKER ?? 'inline'
 };
 const mailSetting = demoMailbox(env);
 delete env.DEV_MAILBOX;

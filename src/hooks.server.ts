@@ -17,6 +17,7 @@ import { db } from '$lib/server/db';
 import { handleUpload } from '$lib/server/footage/tus-server';
 import { offerNodeRoutes } from '$lib/server/footage/node-uploads';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
+import { startMediaWorker, stopMedia } from '$lib/server/media/queue';
 import { withSecurityHeaders } from '$lib/server/http/security-headers';
 import { isDatabaseUnavailable } from '$lib/server/db/outage';
 import {
@@ -30,11 +31,29 @@ import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
 import { channelLinkHandle } from '$lib/server/channel/current-channel';
+import { countingQueries, countQueries } from '$lib/server/db/query-count';
 
 // server.js (production) answers uploads itself, before SvelteKit; under vite dev uploadHandle does.
 offerNodeRoutes();
 
 export const init: ServerInit = async () => {
+	if (env.WRENCHROLL_PROCESS === 'worker') {
+		// worker.js: this process only makes media (no HTTP, no mail); it stops on SIGTERM/SIGINT.
+		await startMediaWorker();
+		const stop = () =>
+			void stopMedia()
+				.then(() => db.destroy())
+				.then(
+					() => process.exit(0),
+					() => process.exit(1)
+				);
+		process.once('SIGTERM', stop);
+		process.once('SIGINT', stop);
+		return;
+	}
+	// npm start and the tests make media in the app process too; a failure here leaves the rows waiting.
+	if (env.WRENCHROLL_MEDIA_WORKER === 'inline')
+		void startMediaWorker().catch((failure) => console.error('media worker:', failure.message));
 	startMailSender();
 	startUploadSweep();
 	// Start the script readers now, so the first script anybody opens does not wait for them.
@@ -44,7 +63,8 @@ export const init: ServerInit = async () => {
 	// sweep, then close the pool so the process can exit.
 	process.on(
 		'sveltekit:shutdown',
-		() => void Promise.all([stopMailSender(), stopUploadSweep()]).then(() => db.destroy())
+		() =>
+			void Promise.all([stopMailSender(), stopUploadSweep(), stopMedia()]).then(() => db.destroy())
 	);
 };
 
@@ -211,7 +231,11 @@ const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
 	return new Response(response.body, { status, statusText: '', headers });
 };
 
+/** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): X-Query-Count on every answer. */
+const queryCountHandle: Handle = ({ event, resolve }) => countQueries(async () => resolve(event));
+
 export const handle: Handle = sequence(
+	...(countingQueries ? [queryCountHandle] : []),
 	securityHeadersHandle,
 	throttleAnswerHandle,
 	outageHandle,

@@ -66,6 +66,8 @@ export default async function setup(project: TestProject) {
 		AUTH_SECRET: 'test-secret-for-the-throwaway-server-only-0123456789',
 		UPLOAD_DIR: uploadDir,
 		MAIL_INTERVAL_MS: '500',
+		WRENCHROLL_MEDIA_WORKER: 'inline',
+		WRENCHROLL_MEDIA_STALE_SECONDS: '6',
 		BODY_SIZE_LIMIT: String(BODY_SIZE_LIMIT_BYTES)
 	};
 	const server: ChildProcess = startServer(serverEnv);

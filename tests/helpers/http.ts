@@ -55,8 +55,18 @@ export function requestFrom(
 export class Visitor {
 	cookies = new Map<string, string>();
 
-	/** `from`: a loopback source address of this visitor's own (see requestFrom). */
-	constructor(readonly from?: string) {}
+	/**
+	 * `from`: a loopback source address of this visitor's own (see requestFrom); `base`: another
+	 * server's origin (a second server a test starts), else the shared test server.
+	 */
+	constructor(
+		readonly from?: string,
+		readonly base?: string
+	) {}
+
+	private origin(): string {
+		return this.base ?? baseUrl();
+	}
 
 	cookieHeader(): string {
 		return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
@@ -67,7 +77,7 @@ export class Visitor {
 		init: RequestInit & { json?: unknown; form?: Record<string, string | string[]> } = {}
 	): Promise<Response> {
 		const headers = new Headers(init.headers);
-		headers.set('origin', baseUrl());
+		headers.set('origin', this.origin());
 		if (this.cookies.size) headers.set('cookie', this.cookieHeader());
 		let body = init.body;
 		if (init.json !== undefined) {
@@ -83,12 +93,12 @@ export class Visitor {
 			if (!headers.has('accept')) headers.set('accept', 'text/html');
 		}
 		const response = this.from
-			? await requestFrom(this.from, baseUrl() + path, {
+			? await requestFrom(this.from, this.origin() + path, {
 					method: init.method,
 					headers,
 					body: body === undefined || body === null ? undefined : String(body)
 				})
-			: await fetch(baseUrl() + path, { ...init, headers, body, redirect: 'manual' });
+			: await fetch(this.origin() + path, { ...init, headers, body, redirect: 'manual' });
 		for (const line of response.headers.getSetCookie()) {
 			const [pair, ...attributes] = line.split(';');
 			const [name, ...rest] = pair.split('=');

@@ -578,6 +578,7 @@ const VALID_BODIES: Record<string, (ids: Ids, n: number) => unknown> = {
 			rearSuspension: 'leaf',
 			method: { front: null, rear: null }
 		},
+		durationSeconds: 45,
 		atFrame: 300
 	}),
 	'POST /api/episodes/[id]/stage': () => ({ from: 'script', to: 'shoot', note: 'Ready.' }),
@@ -621,6 +622,11 @@ const VALID_BODIES: Record<string, (ids: Ids, n: number) => unknown> = {
 	'PATCH /api/segments/[id]/cautions/[hazard]': (ids) => ({
 		text: 'Support the vehicle on rated stands.',
 		at: '0:05',
+		version: ids.version()
+	}),
+	'PATCH /api/segments/[id]/span': (ids) => ({
+		in: '0:05',
+		out: '1:10',
 		version: ids.version()
 	}),
 	'PUT /api/segments/[id]/script': (ids) => ({

@@ -36,7 +36,9 @@ const metadataHeader = (fields: Record<string, string>) =>
 		.join(',');
 const storedFiles = () =>
 	existsSync(inject('uploadDir'))
-		? readdirSync(inject('uploadDir')).filter((name) => !name.endsWith('.json'))
+		? readdirSync(inject('uploadDir')).filter(
+				(name) => !name.endsWith('.json') && name !== 'derived'
+			)
 		: [];
 
 beforeAll(async () => {

@@ -11,6 +11,13 @@
  */
 import { z } from 'zod';
 
+// Zod compiles object parsers with `new Function` where it may, and probes for that when the first
+// schema is built. A page's Content-Security-Policy allows no eval (svelte.config.js), so in the
+// browser the probe would be refused and reported as a violation: tell Zod not to try. Every schema
+// module imports this one first, so this runs before any schema exists. (It lives here rather than in
+// hooks.client.ts so that pages without a schema are not sent Zod at all.)
+if (typeof window !== 'undefined') z.config({ jitless: true });
+
 /** PostgreSQL `integer`: −2^31 … 2^31 − 1. */
 export const INT_MIN = -(2 ** 31);
 export const INT_MAX = 2 ** 31 - 1;

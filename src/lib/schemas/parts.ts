@@ -4,6 +4,7 @@
  * status, currency) are the same for a typed form, a JSON call and a CSV row, so a value accepted
  * in one is accepted in all three.
  */
+import { pageQueryFields } from './paging';
 import { z } from 'zod';
 import {
 	MAX_FRAMES,
@@ -14,31 +15,38 @@ import {
 	wholeNumber
 } from './fields';
 
-export const PART_STATUSES = ['active', 'discontinued', 'out_of_stock'] as const;
-export type PartStatusValue = (typeof PART_STATUSES)[number];
-export const PART_STATUS_LABELS: Record<PartStatusValue, string> = {
-	active: 'Active',
-	discontinued: 'Discontinued',
-	out_of_stock: 'Out of stock'
+import {
+	PART_STATUSES,
+	PART_STATUS_LABELS,
+	PART_SORTS,
+	PART_PAGE_SIZES,
+	MAX_PART_PAGE_SIZE,
+	PART_LIMITS,
+	MAX_PRICE_CENTS,
+	IMPORT_FIELDS,
+	IMPORT_FIELD_LABELS,
+	REQUIRED_IMPORT_FIELDS,
+	type PartStatusValue,
+	type PartSort,
+	type ImportField,
+	type ImportMapping
+} from './parts-constants';
+export {
+	PART_STATUSES,
+	PART_STATUS_LABELS,
+	PART_SORTS,
+	PART_PAGE_SIZES,
+	MAX_PART_PAGE_SIZE,
+	PART_LIMITS,
+	MAX_PRICE_CENTS,
+	IMPORT_FIELDS,
+	IMPORT_FIELD_LABELS,
+	REQUIRED_IMPORT_FIELDS,
+	type PartStatusValue,
+	type PartSort,
+	type ImportField,
+	type ImportMapping
 };
-
-export const PART_SORTS = ['sku', 'name', 'brand', 'category', 'price', 'status'] as const;
-export type PartSort = (typeof PART_SORTS)[number];
-
-export const PART_PAGE_SIZES = [10, 25, 50, 100] as const;
-export const MAX_PART_PAGE_SIZE = 100;
-
-/** Limits of our own, generous for real catalogues and small enough to keep a table readable. */
-export const PART_LIMITS = {
-	sku: 64,
-	name: 200,
-	category: 80,
-	brand: 80,
-	storeUrl: 2000,
-	fitmentNote: 1000
-} as const;
-/** Highest price accepted: 10,000,000.00, far above any part and well inside a 32-bit cent count. */
-export const MAX_PRICE_CENTS = 1_000_000_000;
 
 export type FieldReading<T> = { ok: true; value: T } | { ok: false; message: string };
 
@@ -266,43 +274,11 @@ export const partSearchSchema = z.object({
 			tooSmall: 'pageSize is 1 or more.',
 			tooBig: `pageSize is at most ${MAX_PART_PAGE_SIZE}.`
 		}).default(25)
-	)
+	),
+	/** The `next` of the previous answer: the page after its last part (`page` then only numbers it). */
+	after: pageQueryFields.after
 });
 export type PartSearch = z.infer<typeof partSearchSchema>;
-
-/** Wrenchroll's catalogue columns a CSV file's columns are mapped onto, in the order the export writes them. */
-export const IMPORT_FIELDS = [
-	'sku',
-	'name',
-	'category',
-	'brand',
-	'price',
-	'currency',
-	'storeUrl',
-	'fitmentNote',
-	'status'
-] as const;
-export type ImportField = (typeof IMPORT_FIELDS)[number];
-export const IMPORT_FIELD_LABELS: Record<ImportField, string> = {
-	sku: 'SKU (part number)',
-	name: 'Name',
-	category: 'Category',
-	brand: 'Brand',
-	price: 'Price',
-	currency: 'Currency',
-	storeUrl: 'Store URL',
-	fitmentNote: 'Fitment note',
-	status: 'Status'
-};
-/** Needed for every new part; in update mode only the SKU is needed for parts already in the catalogue. */
-export const REQUIRED_IMPORT_FIELDS: readonly ImportField[] = [
-	'sku',
-	'name',
-	'category',
-	'brand',
-	'price',
-	'storeUrl'
-];
 
 /** Largest CSV text accepted in one import (about 100,000 typical rows). */
 export const MAX_IMPORT_CHARACTERS = 30 * 1024 * 1024;
@@ -326,7 +302,6 @@ export const importRequestSchema = z
 	})
 	.strict();
 export type ImportRequest = z.infer<typeof importRequestSchema>;
-export type ImportMapping = Partial<Record<ImportField, string | null>>;
 
 const uuidList = z
 	.array(z.uuid({ error: 'Each part is named by its id.' }), {

@@ -3,7 +3,6 @@ import { z } from 'zod';
 
 import { ROLES } from '$lib/roles';
 import { text, recordVersion, wholeNumber } from './fields';
-import { FRAME_RATES } from '../timecode';
 
 export const roleSchema = z.enum(ROLES, {
 	error: 'Pick one of: producer, host, camera, editor, merch.'
@@ -83,11 +82,8 @@ export const passwordChangeSchema = z
 		message: 'The two new passwords differ.'
 	});
 
-/** The programme frame rates a channel or an episode may use (the list lives in $lib/timecode). */
-export const FRAME_RATE_VALUES = FRAME_RATES;
-
-/** Longest disclosure a channel may set (the channel.disclosure check says the same). */
-export const DISCLOSURE_MAX = 500;
+import { DISCLOSURE_MAX, FRAME_RATE_VALUES } from './people-constants';
+export { DISCLOSURE_MAX, FRAME_RATE_VALUES };
 
 export const channelSettingsSchema = z.object({
 	name: text()

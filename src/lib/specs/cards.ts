@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { text } from '../schemas/fields';
+import { TEXT_CARD_LIMITS } from './card-limits';
 import { SpecError } from './errors';
 import {
 	LIFT_CAUTION,
@@ -25,8 +26,7 @@ import type { TorqueUnit } from './units';
 /** Printed on every torque card. */
 export const TORQUE_CAUTION = "Verify against the manufacturer's instructions.";
 
-/** Longest heading and body a text card takes: what fits a lower third at broadcast size. */
-export const TEXT_CARD_LIMITS = { heading: 60, body: 280, fastener: 60 } as const;
+export { TEXT_CARD_LIMITS } from './card-limits';
 
 /** Speeds at which a tyre-change card shows the true speed (the usual highway check figures). */
 export const SPEEDOMETER_CHECK_SPEEDS = { mph: 60, kmh: 100 } as const;

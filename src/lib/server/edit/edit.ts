@@ -15,14 +15,15 @@ import { episodeNotFound, type EpisodeHeading, type Executor } from '../episodes
 import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
 import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
-import { defaultDropFrame, formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
+import type { FrameRate, ProgrammeClock } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
 import { editLocks, type Stage } from '$lib/stages';
 
 export interface EditChapter {
 	id: string;
 	startFrame: number;
-	/** The start as timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	/** The start as the episode's programme timecode (its form, plus its start offset). */
 	startTimecode: string;
 	title: string;
 	url: string | null;
@@ -62,6 +63,8 @@ export function episodeWithChapters(channelId: string, episodeId: string, execut
 			'episode.slug',
 			'episode.stage',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.cutDurationFrames',
 			jsonArrayFrom(
 				eb
@@ -97,12 +100,12 @@ function toEditChapter(
 		partId: string | null;
 		version: number;
 	},
-	rate: FrameRate
+	clock: ProgrammeClock
 ): EditChapter {
 	return {
 		id: row.id,
 		startFrame: row.startFrame,
-		startTimecode: formatTimecode(row.startFrame, rate),
+		startTimecode: clock.format(row.startFrame),
 		title: row.title,
 		url: row.url,
 		partId: row.partId,
@@ -125,7 +128,8 @@ export function problemsOf(
 
 function stateOf(row: EpisodeWithChapters): EditState {
 	const rate = row.frameRate;
-	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
+	const clock = clockOfEpisode(row);
+	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, clock));
 	return {
 		episode: {
 			id: row.id,
@@ -133,11 +137,13 @@ function stateOf(row: EpisodeWithChapters): EditState {
 			slug: row.slug,
 			stage: row.stage,
 			frameRate: rate,
-			dropFrame: defaultDropFrame(rate)
+			dropFrame: clock.dropFrame,
+			timecodeStart: clock.startLabel
 		},
 		cut: {
 			durationFrames: row.cutDurationFrames,
-			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
+			// A length, so without the start offset.
+			timecode: row.cutDurationFrames === null ? null : clock.formatLength(row.cutDurationFrames)
 		},
 		chapters,
 		problems: problemsOf(row.chapters, row.cutDurationFrames, rate),
@@ -192,16 +198,16 @@ async function scopedEpisode(
 	what: 'cut' | 'chapters'
 ) {
 	const episode = await episodeOpenFor(trx, channelId, what, { episodeId });
-	return { ...episode, rate: episode.frameRate };
+	return { ...episode, rate: episode.frameRate, clock: clockOfEpisode(episode) };
 }
 
 function startFrameOf(
 	input: { start?: string; startFrame?: number },
-	rate: FrameRate
+	clock: ProgrammeClock
 ): number | undefined {
 	if (input.startFrame !== undefined) return input.startFrame;
 	if (input.start !== undefined)
-		return frameFromTyped('start', () => chapterStartFromText(input.start!, rate));
+		return frameFromTyped('start', () => chapterStartFromText(input.start!, clock));
 	return undefined;
 }
 
@@ -221,11 +227,10 @@ async function setCutDurationIn(
 	input: CutUpdate
 ): Promise<EditState> {
 	const episode = await scopedEpisode(trx, channelId, episodeId, 'cut');
-	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
-	const frames = frameFromTyped('duration', () => parseTypedTime(input.duration, episode.rate));
+	// A length, read in the episode's programme timecode form (drop-frame or not), without its start.
+	const frames = frameFromTyped('duration', () => episode.clock.parseLength(input.duration));
 	if (frames <= 0) {
-		const message =
-			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
+		const message = `A cut has to run longer than 0 frames; type its length, e.g. 00:13:40${episode.clock.dropFrame ? ';' : ':'}00 or 13:40.`;
 		throw new DomainError(400, message, { duration: [message] });
 	}
 	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
@@ -290,7 +295,7 @@ async function addChapterIn(
 ): Promise<{ chapter: EditChapter; state: EditState }> {
 	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	await checkChapterPart(trx, channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate)!;
+	const startFrame = startFrameOf(input, episode.clock)!;
 	const row = await trx
 		.insertInto('chapter')
 		.values({
@@ -303,7 +308,7 @@ async function addChapterIn(
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirstOrThrow();
 	return {
-		chapter: toEditChapter(row, episode.rate),
+		chapter: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
@@ -322,7 +327,7 @@ async function staleVersion(
 	channelId: string,
 	episodeId: string,
 	chapterId: string,
-	rate: FrameRate
+	clock: ProgrammeClock
 ): Promise<never> {
 	const current = await chapterOf(trx, episodeId, chapterId);
 	if (!current) throw chapterNotFound();
@@ -330,7 +335,7 @@ async function staleVersion(
 		409,
 		`Someone changed chapter “${current.title}” while you were working on it. Their version is shown now; make your change again on top of it.`,
 		undefined,
-		{ current: toEditChapter(current, rate), state: await editStateFor(channelId, episodeId, trx) }
+		{ current: toEditChapter(current, clock), state: await editStateFor(channelId, episodeId, trx) }
 	);
 }
 
@@ -356,7 +361,7 @@ async function updateChapterIn(
 	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	if (!isUuid(chapterId)) throw chapterNotFound();
 	await checkChapterPart(trx, channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate);
+	const startFrame = startFrameOf(input, episode.clock);
 	const row = await trx
 		.updateTable('chapter')
 		.set((eb) => ({
@@ -371,9 +376,9 @@ async function updateChapterIn(
 		.where('version', '=', input.version)
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
-		chapter: toEditChapter(row, episode.rate),
+		chapter: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
@@ -407,9 +412,9 @@ async function deleteChapterIn(
 	const row = await removal
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
-		removed: toEditChapter(row, episode.rate),
+		removed: toEditChapter(row, episode.clock),
 		state: await editStateFor(channelId, episodeId, trx)
 	};
 }

@@ -15,7 +15,13 @@ import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
-import type { SpecCardInput } from '$lib/specs';
+import type { SpecCard, SpecCardInput } from '$lib/specs';
+import {
+	READING_CHARACTERS_PER_SECOND,
+	onScreenText,
+	readableCharacters,
+	readingSeconds
+} from '$lib/reading-time';
 import type { SpecCardBoard, SpecCardSegment, SpecCardView } from '$lib/specs/board';
 import {
 	specCardExportRows,
@@ -24,15 +30,16 @@ import {
 	type SpecCardExportRow
 } from '$lib/specs/export';
 import {
-	defaultDropFrame,
-	formatTimecode,
+	clockOfHeading,
 	framesToMilliseconds,
-	parseTypedTime,
 	secondsToFrames,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeClock
 } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import {
 	DEFAULT_ON_SCREEN_SECONDS,
+	ON_SCREEN_SECONDS_LIMITS,
 	SPEC_CARD_KIND_LABELS,
 	checkSpecCard,
 	type SpecCardCreate,
@@ -89,9 +96,10 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 				? null
 				: { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
 		atFrame: row.atFrame,
-		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		atTimecode: row.atFrame === null ? null : clockOfEpisode(episode).format(row.atFrame),
 		durationFrames,
 		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
+		neededSeconds: checked.ok ? readingSeconds(onScreenText(checked.card)) : null,
 		pastCutEnd:
 			row.atFrame !== null &&
 			episode.cutDurationFrames !== null &&
@@ -109,7 +117,7 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 async function segmentsOf(
 	executor: Executor,
 	episodeId: string,
-	rate: FrameRate
+	programme: ProgrammeClock
 ): Promise<SpecCardSegment[]> {
 	const rows = await executor
 		.selectFrom('segment')
@@ -124,7 +132,7 @@ async function segmentsOf(
 			position: row.position,
 			title: row.title,
 			startsAtFrame: startsAt,
-			startsAtTimecode: startsAt === null ? null : formatTimecode(startsAt, rate)
+			startsAtTimecode: startsAt === null ? null : programme.format(startsAt)
 		};
 		startsAt =
 			startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
@@ -133,15 +141,18 @@ async function segmentsOf(
 }
 
 function boardEpisode(episode: Episode, rate: FrameRate): SpecCardBoard['episode'] {
+	const programme = clockOfEpisode(episode);
 	return {
 		id: episode.id,
 		title: episode.title,
 		slug: episode.slug,
 		frameRate: rate,
-		dropFrame: defaultDropFrame(rate),
+		dropFrame: programme.dropFrame,
+		timecodeStart: programme.startLabel,
 		cutDurationFrames: episode.cutDurationFrames,
+		// A length, so without the start offset.
 		cutTimecode:
-			episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+			episode.cutDurationFrames === null ? null : programme.formatLength(episode.cutDurationFrames)
 	};
 }
 
@@ -154,7 +165,7 @@ export async function specCardsFor(
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [segments, rows] = await Promise.all([
-		segmentsOf(executor, episode.id, rate),
+		segmentsOf(executor, episode.id, clockOfEpisode(episode)),
 		cardsQuery(executor, episode.id).execute()
 	]);
 	return {
@@ -206,20 +217,22 @@ async function checkSegment(
 /** The frame a placement names: typed text read at the episode's rate, or a frame count; undefined leaves it as it is. */
 function placedFrame(
 	input: { at?: string | null; atFrame?: number | null },
-	episode: Episode,
-	rate: FrameRate
+	episode: Episode
 ): number | null | undefined {
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
 	else if (input.at !== undefined)
-		frame = input.at === null ? null : frameFromTyped('at', () => parseTypedTime(input.at!, rate));
+		frame =
+			input.at === null
+				? null
+				: frameFromTyped('at', () => clockOfEpisode(episode).parse(input.at!));
 	if (
 		frame !== null &&
 		frame !== undefined &&
 		episode.cutDurationFrames !== null &&
 		frame >= episode.cutDurationFrames
 	) {
-		const message = `That is at or after the end of the cut (${formatTimecode(episode.cutDurationFrames, rate)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
+		const message = `That is at or after the end of the cut (${clockOfEpisode(episode).format(episode.cutDurationFrames)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
 		throw new DomainError(400, message, { at: [message] });
 	}
 	return frame;
@@ -227,6 +240,30 @@ function placedFrame(
 
 const durationFramesOf = (seconds: number | undefined, rate: FrameRate) =>
 	seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate));
+
+/**
+ * A card must stay on screen long enough to be read: about 17 characters a second ($lib/reading-time,
+ * subtitle practice, a figure from memory). A shorter time is a 400 on the time field saying how many
+ * seconds the card needs; a card that needs more than a card may stay up is told to split.
+ */
+function refuseUnreadable(card: SpecCard, durationFrames: number, rate: FrameRate): void {
+	const text = onScreenText(card);
+	const needed = readingSeconds(text);
+	if (durationFrames >= secondsToFrames(needed, rate)) return;
+	const characters = readableCharacters(text);
+	const message =
+		needed > ON_SCREEN_SECONDS_LIMITS.max
+			? `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second, longer than a card may stay up (${ON_SCREEN_SECONDS_LIMITS.max} s). Split it into two cards.`
+			: `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second. Show it for at least ${needed} s.`;
+	throw new DomainError(400, message, { durationSeconds: [message] });
+}
+
+/** The card's lines as they read on screen (its input was checked by checkedInput). */
+function renderedCard(input: SpecCardInput): SpecCard {
+	const checked = checkSpecCard(input);
+	if (!checked.ok) throw new DomainError(400, checked.message);
+	return checked.card;
+}
 
 /** Adds a card to the episode, checked by the spec parsers, at the end of the episode's card order. */
 export async function createSpecCard(
@@ -236,12 +273,21 @@ export async function createSpecCard(
 	input: SpecCardCreate
 ): Promise<SpecCardView> {
 	const cardInput = checkedInput(input.input);
+	const card = renderedCard(cardInput);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
 		const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
-		const atFrame = placedFrame(input, episode, rate) ?? null;
+		const atFrame = placedFrame(input, episode) ?? null;
+		// Without a time typed, the default, or the card's reading time when that is longer.
+		const durationFrames =
+			durationFramesOf(input.durationSeconds, rate) ??
+			Math.max(
+				defaultDurationFrames(rate),
+				secondsToFrames(readingSeconds(onScreenText(card)), rate)
+			);
+		refuseUnreadable(card, durationFrames, rate);
 		const last = await trx
 			.selectFrom('specCard')
 			.select((eb) => eb.fn.max('position').as('position'))
@@ -255,8 +301,7 @@ export async function createSpecCard(
 				kind: cardInput.kind,
 				input: JSON.stringify(cardInput),
 				atFrame,
-				durationFrames:
-					durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
+				durationFrames,
 				position: (last?.position ?? 0) + 1,
 				createdBy: actor.id
 			})
@@ -305,8 +350,24 @@ async function updateSpecCardIn(
 		input.segmentId === undefined
 			? undefined
 			: await checkSegment(trx, episode.id, input.segmentId);
-	const atFrame = placedFrame(input, episode, rate);
+	const atFrame = placedFrame(input, episode);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
+	// A change of figures or of time on screen is checked against the reading time of the card as
+	// it will be; moving a card along the timeline is not (the board marks one left too short).
+	if (cardInput !== undefined || durationFrames !== undefined) {
+		const stored = await trx
+			.selectFrom('specCard')
+			.select(['input', 'durationFrames'])
+			.where('id', '=', cardId)
+			.where('episodeId', '=', episode.id)
+			.executeTakeFirst();
+		if (!stored) throw cardNotFound();
+		refuseUnreadable(
+			renderedCard(cardInput ?? stored.input),
+			durationFrames ?? stored.durationFrames ?? defaultDurationFrames(rate),
+			rate
+		);
+	}
 	const row = await trx
 		.updateTable('specCard')
 		.set((eb) => ({
@@ -383,7 +444,7 @@ function exportRowsOf(board: SpecCardBoard): SpecCardExportRow[] {
 		);
 	}
 	const cards = board.cards.map((view) => ({ ...view, card: view.card! }));
-	return specCardExportRows(cards, board.episode.frameRate);
+	return specCardExportRows(cards, clockOfHeading(board.episode));
 }
 
 export interface SpecCardDownload {

@@ -12,7 +12,8 @@ import { episodeOpenFor } from './stage-locks';
 import { segmentView, type SegmentView } from './rundown';
 import { segmentInChannel } from './segment-in-channel';
 import { ensureCautions, inHazardOrder } from './cautions';
-import { framesFromText } from './typed-timecode';
+import { lengthFromText } from './typed-timecode';
+import { clockOfEpisode } from './programme-timecode';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
 import {
 	MAX_SEGMENTS_PER_EPISODE,
@@ -190,14 +191,13 @@ export async function updateSegment(
 				input.promiseTitle
 			);
 		if (input.buildId !== undefined) await checkBuild(trx, channelId, input.buildId);
-		const rate = segment.frameRate;
 		let recordedFrames = segment.recordedFrames;
 		if (input.recordedFrames !== undefined) recordedFrames = input.recordedFrames;
 		else if (input.recorded !== undefined)
 			recordedFrames =
 				input.recorded === null || input.recorded === ''
 					? null
-					: framesFromText(input.recorded, rate, 'recorded');
+					: lengthFromText(input.recorded, clockOfEpisode(segment), 'recorded');
 		const hazards = input.hazards ? inHazardOrder(input.hazards) : segment.hazards;
 		await trx
 			.updateTable('segment')

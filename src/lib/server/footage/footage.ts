@@ -1,5 +1,5 @@
 /** Footage and uploaded cuts of an episode: listing, the file behind a row, and deleting both together. */
-import { access, unlink } from 'node:fs/promises';
+import { access, rm, unlink } from 'node:fs/promises';
 import path from 'node:path';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
@@ -31,7 +31,7 @@ export async function listFootage(
 	if (!isUuid(episodeId)) throw notFound('That episode');
 	const episode = await db
 		.selectFrom('episode')
-		.select(['id', 'title', 'slug', 'frameRate'])
+		.select(['id', 'title', 'slug', 'frameRate', 'timecodeDropFrame', 'timecodeStart'])
 		.where('id', '=', episodeId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
@@ -54,6 +54,12 @@ export async function listFootage(
 			'footage.frameRate',
 			'footage.videoCodec',
 			'footage.probeNote',
+			'footage.videoProfile',
+			'footage.variableFrameRate',
+			'footage.width',
+			'footage.height',
+			'footage.startTimecode',
+			'footage.audioChannels',
 			'footage.createdAt',
 			'footage.shootDayId',
 			'shootDay.shootDate',
@@ -115,5 +121,7 @@ export async function deleteFootage(channelId: string, footageId: string): Promi
 				);
 		}
 		await unlink(file.path + '.json').catch(() => undefined);
+		// The proxy, poster, thumbnails and waveform made from it (media_output rows go with the row).
+		await rm(path.join(uploadDir(), 'derived', file.id), { recursive: true, force: true });
 	});
 }

@@ -27,6 +27,7 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { isUuid } from '../auth/identity';
 import { probeMedia } from './probe';
+import { queueMediaOutputs } from '../media/queue';
 import { reserveUpload, uploadExpiryMs } from './upload-limits';
 import { bodySizeLimit, checkPatchBody } from './patch-body';
 
@@ -282,8 +283,8 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 	const file = path.join(uploadDir(), uploadId);
 	const running = takeRunningHash(uploadId, sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
-	await db.transaction().execute(async (trx) => {
-		await trx
+	const inserted = await db.transaction().execute(async (trx) => {
+		const row = await trx
 			.insertInto('footage')
 			.values({
 				channelId: upload.channelId,
@@ -301,14 +302,26 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 				frameRate: probe.frameRate,
 				videoCodec: probe.videoCodec,
 				probeNote: probe.note,
+				videoProfile: probe.videoProfile,
+				pixelFormat: probe.pixelFormat,
+				variableFrameRate: probe.variableFrameRate,
+				width: probe.width,
+				height: probe.height,
+				startTimecode: probe.startTimecode,
+				audioChannels: probe.audioChannels,
+				bitRate: probe.bitRate,
 				uploadedBy: upload.personId
 			})
 			.onConflict((oc) => oc.column('uploadId').doNothing())
-			.execute();
+			.returning('id')
+			.executeTakeFirst();
 		await trx
 			.updateTable('upload')
 			.set({ completedAt: new Date(), sizeBytes })
 			.where('id', '=', uploadId)
 			.execute();
+		return row;
 	});
+	// The proxy, poster, thumbnails and waveform are made by the media worker (media/queue.ts).
+	if (inserted) await queueMediaOutputs(inserted.id, probe);
 }

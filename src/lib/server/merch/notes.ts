@@ -15,6 +15,7 @@ import type { Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { type Actor, type Executor } from '../episodes/episodes';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import { episodeOpenFor } from '../episodes/stage-locks';
 import { ensureTrackedLinks } from './tracked-links';
 import { viewOf, type NoteView } from './notes-page';
@@ -140,7 +141,8 @@ export async function createNote(
 			takeId: input.takeId ?? null,
 			source: sourceTimeOf(input) ?? null
 		});
-		const programFrame = programFrameOf(input, rate, episode.cutDurationFrames) ?? null;
+		const programFrame =
+			programFrameOf(input, clockOfEpisode(episode), episode.cutDurationFrames) ?? null;
 		const partIds = await checkParts(trx, channelId, input.partIds ?? []);
 		const note = await trx
 			.insertInto('segmentNote')
@@ -172,6 +174,8 @@ async function scopedNote(trx: Executor, channelId: string, noteId: string) {
 			'segmentNote.sourceFrame',
 			'segmentNote.version',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.cutDurationFrames'
 		])
 		.where('segmentNote.id', '=', noteId)
@@ -229,7 +233,7 @@ export async function updateNote(
 				})
 			);
 		}
-		const programFrame = programFrameOf(input, note.rate, note.cutDurationFrames);
+		const programFrame = programFrameOf(input, clockOfEpisode(note), note.cutDurationFrames);
 		if (programFrame !== undefined) changes.programFrame = programFrame;
 		if (input.partIds !== undefined)
 			await replaceParts(

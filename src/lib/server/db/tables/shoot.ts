@@ -122,6 +122,16 @@ export interface FootageTable {
 	frameRate: string | null;
 	videoCodec: string | null;
 	probeNote: string | null;
+	/** The rest of the probe (2026-12-03-50): null where ffprobe read nothing. */
+	videoProfile: string | null;
+	pixelFormat: string | null;
+	variableFrameRate: boolean | null;
+	width: number | null;
+	height: number | null;
+	/** The start timecode the camera wrote (container tag or timecode track), as written. */
+	startTimecode: string | null;
+	audioChannels: number | null;
+	bitRate: number | null;
 	uploadedBy: string | null;
 	createdAt: CreatedAt;
 }

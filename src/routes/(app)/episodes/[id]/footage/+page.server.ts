@@ -4,6 +4,7 @@ import { shootDayOptions } from '$lib/server/shoot/shoot-days';
 import { attempt, forPage } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
 import { UPLOAD_ROLES } from '$lib/server/footage/tus-server';
+import { mediaOutputsFor } from '$lib/server/media/outputs';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
@@ -15,6 +16,10 @@ export const load = (async (event) => {
 	return {
 		episode,
 		footage,
+		media: await mediaOutputsFor(
+			channel.id,
+			footage.map((clip) => clip.id)
+		),
 		shootDays,
 		purposes: (['footage', 'cut'] as const).filter((purpose) =>
 			hasRole(event.locals, ...UPLOAD_ROLES[purpose])

@@ -40,6 +40,9 @@ export const load = (async (event) => {
 			? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title }
 			: null,
 		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
+		// The planned time of the other spoken segments (the editor counts this one as spoken).
+		otherSpokenPlannedSeconds:
+			rundown.totals.spokenPlannedSeconds - (segment.words > 0 ? segment.plannedSeconds : 0),
 		previewHtml,
 		canWrite: open && hasRole(event.locals, 'producer', 'host')
 	};
