@@ -71,7 +71,7 @@ async function approve(episodeId: string) {
 /** What each place says about the episode's script. */
 async function chips(episode: { id: string; title: string }) {
 	const list = await (await producer.request('/episodes')).text();
-	const listed = (await producer.api('/api/episodes')).body.episodes.find(
+	const listed = (await producer.api('/api/episodes')).body.items.find(
 		(row: { id: string }) => row.id === episode.id
 	);
 	const overview = await (await producer.request(`/episodes/${episode.id}`)).text();

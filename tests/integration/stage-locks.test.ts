@@ -546,7 +546,7 @@ const writePaths: WritePath[] = [
 				to: '285/70R17',
 				segmentId: '',
 				at: '3:00',
-				durationSeconds: '6'
+				durationSeconds: '40'
 			})
 		)
 	},
