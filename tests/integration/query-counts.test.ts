@@ -35,8 +35,10 @@ const TAB_BUDGETS: Record<string, number> = {
 	rundown: 8,
 	'rundown/<segment>': 8,
 	shots: 8,
-	edit: 10,
-	footage: 5,
+	// The edit page also reads the segments' spans in the cut (caution checks), the footage page
+	// each clip's media outputs (proxy, thumbnails, waveform): one query each, not one per row.
+	edit: 12,
+	footage: 6,
 	notes: 6,
 	parts: 8,
 	publish: 3,

@@ -12,6 +12,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeNotFound, type EpisodeHeading, type Executor } from '../episodes/episodes';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
 import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
 import type { FrameRate, ProgrammeClock } from '$lib/timecode';
@@ -186,26 +187,18 @@ export async function chapterProblemsFor(
 	return state.problems.map((problem) => problem.message);
 }
 
-async function scopedEpisode(channelId: string, episodeId: string) {
-	if (!isUuid(episodeId)) throw episodeNotFound();
-	const episode = await db
-		.selectFrom('episode')
-		.select(['id', 'frameRate', 'timecodeDropFrame', 'timecodeStart', 'cutDurationFrames', 'stage'])
-		.where('id', '=', episodeId)
-		.where('channelId', '=', channelId)
-		.executeTakeFirst();
-	if (!episode) throw episodeNotFound();
-	return {
-		...episode,
-		rate: episode.frameRate,
-		clock: clockOfEpisode(episode),
-		locks: editLocks(episode.stage as Stage)
-	};
-}
-
-/** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
-function refuseLocked(reason: string | null): void {
-	if (reason) throw new DomainError(409, reason);
+/**
+ * The episode, locked for the change's transaction; 409 when its stage has fixed what the change
+ * would touch (the one guard, episodes/stage-locks.ts).
+ */
+async function scopedEpisode(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	what: 'cut' | 'chapters'
+) {
+	const episode = await episodeOpenFor(trx, channelId, what, { episodeId });
+	return { ...episode, rate: episode.frameRate, clock: clockOfEpisode(episode) };
 }
 
 function startFrameOf(
@@ -224,8 +217,16 @@ export async function setCutDuration(
 	episodeId: string,
 	input: CutUpdate
 ): Promise<EditState> {
-	const episode = await scopedEpisode(channelId, episodeId);
-	refuseLocked(episode.locks.cut);
+	return db.transaction().execute((trx) => setCutDurationIn(trx, channelId, episodeId, input));
+}
+
+async function setCutDurationIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	input: CutUpdate
+): Promise<EditState> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'cut');
 	// A length, read in the episode's programme timecode form (drop-frame or not), without its start.
 	const frames = frameFromTyped('duration', () => episode.clock.parseLength(input.duration));
 	if (frames <= 0) {
@@ -234,7 +235,7 @@ export async function setCutDuration(
 	}
 	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
 	// episode's details at the same time is not told about a conflict that doesn't touch their fields.
-	let update = db
+	let update = trx
 		.updateTable('episode')
 		.set({ cutDurationFrames: frames })
 		.where('id', '=', episode.id)
@@ -246,7 +247,7 @@ export async function setCutDuration(
 	}
 	const result = await update.executeTakeFirst();
 	if (Number(result.numUpdatedRows) !== 1) {
-		const state = await editStateFor(channelId, episodeId);
+		const state = await editStateFor(channelId, episodeId, trx);
 		throw new DomainError(
 			409,
 			`Someone set the cut's length to ${state.cut.timecode ?? 'nothing'} while you were working. Check it, then set yours again if it should change.`,
@@ -254,16 +255,17 @@ export async function setCutDuration(
 			{ current: state.cut, state }
 		);
 	}
-	return editStateFor(channelId, episodeId);
+	return editStateFor(channelId, episodeId, trx);
 }
 
 /** A chapter may name a part only from its own channel's catalogue. */
 async function checkChapterPart(
+	trx: Executor,
 	channelId: string,
 	partId: string | null | undefined
 ): Promise<void> {
 	if (!partId) return;
-	const part = await db
+	const part = await trx
 		.selectFrom('part')
 		.select('id')
 		.where('id', '=', partId)
@@ -282,11 +284,19 @@ export async function addChapter(
 	episodeId: string,
 	input: ChapterCreate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
-	refuseLocked(episode.locks.chapters);
-	await checkChapterPart(channelId, input.partId);
+	return db.transaction().execute((trx) => addChapterIn(trx, channelId, episodeId, input));
+}
+
+async function addChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	input: ChapterCreate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
+	await checkChapterPart(trx, channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.clock)!;
-	const row = await db
+	const row = await trx
 		.insertInto('chapter')
 		.values({
 			episodeId: episode.id,
@@ -299,12 +309,12 @@ export async function addChapter(
 		.executeTakeFirstOrThrow();
 	return {
 		chapter: toEditChapter(row, episode.clock),
-		state: await editStateFor(channelId, episodeId)
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
 
-async function chapterOf(episodeId: string, chapterId: string) {
-	return db
+async function chapterOf(trx: Executor, episodeId: string, chapterId: string) {
+	return trx
 		.selectFrom('chapter')
 		.select(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.where('id', '=', chapterId)
@@ -313,18 +323,19 @@ async function chapterOf(episodeId: string, chapterId: string) {
 }
 
 async function staleVersion(
+	trx: Executor,
 	channelId: string,
 	episodeId: string,
 	chapterId: string,
 	clock: ProgrammeClock
 ): Promise<never> {
-	const current = await chapterOf(episodeId, chapterId);
+	const current = await chapterOf(trx, episodeId, chapterId);
 	if (!current) throw chapterNotFound();
 	throw new DomainError(
 		409,
 		`Someone changed chapter “${current.title}” while you were working on it. Their version is shown now; make your change again on top of it.`,
 		undefined,
-		{ current: toEditChapter(current, clock), state: await editStateFor(channelId, episodeId) }
+		{ current: toEditChapter(current, clock), state: await editStateFor(channelId, episodeId, trx) }
 	);
 }
 
@@ -335,12 +346,23 @@ export async function updateChapter(
 	chapterId: string,
 	input: ChapterUpdate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => updateChapterIn(trx, channelId, episodeId, chapterId, input));
+}
+
+async function updateChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	input: ChapterUpdate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	if (!isUuid(chapterId)) throw chapterNotFound();
-	refuseLocked(episode.locks.chapters);
-	await checkChapterPart(channelId, input.partId);
+	await checkChapterPart(trx, channelId, input.partId);
 	const startFrame = startFrameOf(input, episode.clock);
-	const row = await db
+	const row = await trx
 		.updateTable('chapter')
 		.set((eb) => ({
 			...(startFrame !== undefined ? { startFrame } : {}),
@@ -354,10 +376,10 @@ export async function updateChapter(
 		.where('version', '=', input.version)
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.clock);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
 		chapter: toEditChapter(row, episode.clock),
-		state: await editStateFor(channelId, episodeId)
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
 
@@ -368,10 +390,21 @@ export async function deleteChapter(
 	chapterId: string,
 	version?: number
 ): Promise<{ removed: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => deleteChapterIn(trx, channelId, episodeId, chapterId, version));
+}
+
+async function deleteChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	version?: number
+): Promise<{ removed: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	if (!isUuid(chapterId)) throw chapterNotFound();
-	refuseLocked(episode.locks.chapters);
-	let removal = db
+	let removal = trx
 		.deleteFrom('chapter')
 		.where('id', '=', chapterId)
 		.where('episodeId', '=', episode.id);
@@ -379,9 +412,9 @@ export async function deleteChapter(
 	const row = await removal
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.clock);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
 		removed: toEditChapter(row, episode.clock),
-		state: await editStateFor(channelId, episodeId)
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }

@@ -13,6 +13,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
 import type { SpecCard, SpecCardInput } from '$lib/specs';
 import {
@@ -275,7 +276,7 @@ export async function createSpecCard(
 	const card = renderedCard(cardInput);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
-		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
 		const atFrame = placedFrame(input, episode) ?? null;
@@ -329,18 +330,32 @@ export async function updateSpecCard(
 	cardId: string,
 	input: SpecCardUpdate
 ): Promise<SpecCardView> {
-	const episode = await episodeInChannel(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => updateSpecCardIn(trx, channelId, episodeId, cardId, input));
+}
+
+async function updateSpecCardIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	input: SpecCardUpdate
+): Promise<SpecCardView> {
+	const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 	if (!isUuid(cardId)) throw cardNotFound();
 	const rate = episode.frameRate;
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
 	const segmentId =
-		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
+		input.segmentId === undefined
+			? undefined
+			: await checkSegment(trx, episode.id, input.segmentId);
 	const atFrame = placedFrame(input, episode);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
 	// A change of figures or of time on screen is checked against the reading time of the card as
 	// it will be; moving a card along the timeline is not (the board marks one left too short).
 	if (cardInput !== undefined || durationFrames !== undefined) {
-		const stored = await db
+		const stored = await trx
 			.selectFrom('specCard')
 			.select(['input', 'durationFrames'])
 			.where('id', '=', cardId)
@@ -353,7 +368,7 @@ export async function updateSpecCard(
 			rate
 		);
 	}
-	const row = await db
+	const row = await trx
 		.updateTable('specCard')
 		.set((eb) => ({
 			...(cardInput !== undefined
@@ -370,8 +385,8 @@ export async function updateSpecCard(
 		.where('version', '=', input.version)
 		.returning('id')
 		.executeTakeFirst();
-	if (!row) return staleCard(db, episode, cardId);
-	return (await cardView(db, episode, row.id))!;
+	if (!row) return staleCard(trx, episode, cardId);
+	return (await cardView(trx, episode, row.id))!;
 }
 
 /** Places a card at a program time (typed text or a frame), or takes it off the cut with null: what the timeline calls. */
@@ -391,17 +406,29 @@ export async function deleteSpecCard(
 	cardId: string,
 	version?: number
 ): Promise<{ removed: SpecCardView }> {
-	const episode = await episodeInChannel(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => deleteSpecCardIn(trx, channelId, episodeId, cardId, version));
+}
+
+async function deleteSpecCardIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	version?: number
+): Promise<{ removed: SpecCardView }> {
+	const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 	if (!isUuid(cardId)) throw cardNotFound();
-	const removed = await cardView(db, episode, cardId);
+	const removed = await cardView(trx, episode, cardId);
 	if (!removed) throw cardNotFound();
-	let removal = db
+	let removal = trx
 		.deleteFrom('specCard')
 		.where('id', '=', cardId)
 		.where('episodeId', '=', episode.id);
 	if (version !== undefined) removal = removal.where('version', '=', version);
 	const row = await removal.returning('id').executeTakeFirst();
-	if (!row) return staleCard(db, episode, cardId);
+	if (!row) return staleCard(trx, episode, cardId);
 	return { removed };
 }
 

@@ -13,6 +13,7 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { segmentInChannel } from './segment-in-channel';
+import { episodeOpenFor } from './stage-locks';
 import { positionFromText } from './typed-timecode';
 import { clockOfEpisode } from './programme-timecode';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
@@ -130,6 +131,7 @@ export async function updateCaution(
 			'Placing a caution in the cut is the editor’s or a producer’s job. You can change its words.'
 		);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'cards', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId);
 		const programme = clockOfEpisode(segment);
 		const rate = programme.rate;

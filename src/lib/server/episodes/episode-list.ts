@@ -6,6 +6,8 @@ import { sql } from 'kysely';
 import { db } from '../db';
 import { withAssignments, withBuilds } from './episodes';
 import { STAGES } from '$lib/stages';
+import { scriptChangedSinceApproval } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
 import type { EpisodeListQuery } from '$lib/schemas/episodes';
 import {
 	keysetAfter,
@@ -33,6 +35,7 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			'episode.publishDate',
 			'episode.targetRuntimeSeconds',
 			'episode.scriptStatus',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.createdAt',
 			'episode.version',
 			withAssignments(eb),
@@ -79,8 +82,9 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 	const page = keysetPage(order, keys, rows, query.limit);
 	return {
 		next: page.next,
-		items: page.items.map((row) => ({
+		items: page.items.map(({ scriptChanged, ...row }) => ({
 			...row,
+			scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged),
 			segmentCount: Number(row.segmentCount ?? 0),
 			plannedSeconds: Number(row.plannedSeconds ?? 0)
 		}))

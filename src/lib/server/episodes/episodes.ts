@@ -10,6 +10,8 @@ import { db } from '../db';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
+import { scriptChangedSinceApproval } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
 import { activeCrew } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
 import { checkedProgrammeTimecode } from './programme-timecode';
@@ -117,6 +119,7 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 			'episode.cutDurationFrames',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.scriptApprovedAt',
 			'approver.name as scriptApprovedByName',
 			'episode.version',
@@ -128,7 +131,8 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 		.where('episode.channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!row) throw episodeNotFound();
-	return row;
+	const { scriptChanged, ...detail } = row;
+	return { ...detail, scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged) };
 }
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;

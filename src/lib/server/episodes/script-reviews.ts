@@ -14,6 +14,8 @@ import {
 	type Executor
 } from './episodes';
 import { currentScriptFingerprint } from './stage-moves';
+import { refuseIfFixed } from './stage-locks';
+import { shownScriptStatus } from '$lib/script/status';
 import { queueMail } from '../mail/outbox';
 import { scriptReviewedMail, scriptSubmittedMail } from '../mail/episode-messages';
 import type { ScriptReviewInput } from '$lib/schemas/episodes';
@@ -92,6 +94,8 @@ export async function reviewScript(
 		error(403, WORDS[input.action]);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		// Comments stay open; sending, approving and returning change the script's state.
+		if (input.action !== 'comment') refuseIfFixed(episode.stage, 'script');
 		const fingerprint = await currentScriptFingerprint(episodeId, trx);
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
@@ -219,11 +223,14 @@ export function scriptStateOf(
 	>,
 	fingerprint: string
 ) {
+	// The same rule as script-status.ts's SQL (IS DISTINCT FROM): approved, and the text differs.
+	const changed =
+		episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint;
 	return {
 		status: episode.scriptStatus,
 		fingerprint,
-		changedSinceApproval:
-			episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint,
+		changedSinceApproval: changed,
+		shown: shownScriptStatus(episode.scriptStatus, changed),
 		approvedAt: episode.scriptApprovedAt ? new Date(episode.scriptApprovedAt).toISOString() : null,
 		approvedByName: episode.scriptApprovedByName ?? null
 	};

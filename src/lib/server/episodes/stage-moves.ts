@@ -7,10 +7,12 @@
 import { chapterProblemsFor as editChapterProblems } from '../edit/edit';
 import { featuredPartProblemsFor as featuredPartProblems } from '../merch/featured-parts';
 import { error } from '@sveltejs/kit';
+import { sql } from 'kysely';
 import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
 import { scriptFingerprint } from './fingerprint';
+import { scriptFingerprintOf } from './script-status';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { assignmentMap } from './episode-crew';
 import { queueMail } from '../mail/outbox';
@@ -38,14 +40,10 @@ export async function currentScriptFingerprint(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<string> {
-	const rows = await executor
-		.selectFrom('segment')
-		.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
-		.select(['segment.id', 'segmentScript.body'])
-		.where('segment.episodeId', '=', episodeId)
-		.orderBy('segment.position')
-		.execute();
-	return scriptFingerprint(rows);
+	const row = await executor
+		.selectNoFrom(scriptFingerprintOf(sql.val(episodeId)).as('fingerprint'))
+		.executeTakeFirstOrThrow();
+	return row.fingerprint;
 }
 
 /** Chapter rule violations for the lock gate (null: no chapters yet); the edit module owns the rules. */

@@ -14,6 +14,8 @@ import { spokenWordsOfScript, unpublishedGateMaterials } from '../episodes/gate-
 import { gateChecksFor } from '$lib/gates';
 import { counted } from '$lib/plural';
 import { nextStage, STAGE_LABELS } from '$lib/stages';
+import { scriptChangedSinceApproval } from '../episodes/script-status';
+import { shownScriptStatus } from '$lib/script/status';
 
 /** The episodes at these stages whose `role` is this person's or nobody's: a query to add columns to. */
 function episodesFor(
@@ -35,6 +37,7 @@ function episodesFor(
 			'episode.stage',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.publishDate'
 		])
 		.where('episode.channelId', '=', channelId)
@@ -76,7 +79,18 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 		.execute();
 	for (const episode of episodes) {
 		const href = `/episodes/${episode.id}/script`;
-		if (episode.scriptStatus === 'returned') {
+		const shown = shownScriptStatus(episode.scriptStatus, episode.scriptChanged);
+		if (shown === 'changed') {
+			items.push({
+				title: `Script changed since approval: ${episode.title}`,
+				detail:
+					'The text changed after the producer approved it: send it again from the script page.',
+				href,
+				tone: 'todo'
+			});
+			continue;
+		}
+		if (shown === 'returned') {
 			const comment = episode.returnedComment;
 			items.push({
 				title: `Script returned with comments: ${episode.title}`,
@@ -88,7 +102,7 @@ async function hostItems(channelId: string, personId: string | undefined): Promi
 			});
 			continue;
 		}
-		if (episode.scriptStatus !== 'draft') continue;
+		if (shown !== 'draft') continue;
 		const scripts = episode.scripts;
 		const written = (await spokenWordsOfScript(scripts)).filter((words) => words > 0).length;
 		if (scripts.length === 0)

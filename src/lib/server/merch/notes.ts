@@ -14,8 +14,9 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, type Actor, type Executor } from '../episodes/episodes';
+import { type Actor, type Executor } from '../episodes/episodes';
 import { clockOfEpisode } from '../episodes/programme-timecode';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { ensureTrackedLinks } from './tracked-links';
 import { viewOf, type NoteView } from './notes-page';
 import { checkPlacement, programFrameOf, sourceTimeOf } from './notes-placement';
@@ -133,7 +134,7 @@ export async function createNote(
 ): Promise<NoteView> {
 	assertNoteRights(actor.roles, input, true);
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		const episode = await episodeOpenFor(trx, channelId, 'notes', { episodeId });
 		const rate = episode.frameRate;
 		const placement = await checkPlacement(trx, episode.id, rate, {
 			segmentId: input.segmentId ?? null,
@@ -207,6 +208,7 @@ export async function updateNote(
 ): Promise<NoteView> {
 	assertNoteRights(actor.roles, input);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'notes', { noteId });
 		const note = await scopedNote(trx, channelId, noteId);
 		if (note.version !== input.version) return refuseStale(trx, note);
 		const changes: Record<string, unknown> = {};
@@ -260,6 +262,7 @@ export async function deleteNote(
 	if (!noteRightsFor(actor.roles).write)
 		error(403, 'Not with your roles: the camera operator (or the producer) removes notes.');
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'notes', { noteId });
 		const note = await scopedNote(trx, channelId, noteId);
 		if (version !== undefined && note.version !== version) return refuseStale(trx, note);
 		const removed = await viewOf(trx, note.episodeId, note.id, note.rate);

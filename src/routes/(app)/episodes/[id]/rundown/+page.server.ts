@@ -7,10 +7,14 @@ import { pickEpisodes } from '$lib/server/episodes/episode-picker';
 import { EPISODE_PICKER_LIMIT, segmentCreateSchema } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { segmentFormValues } from './segment-form';
+import { stageLock, type Lockable, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
+	const { episodeHeader } = await event.parent();
+	// The stage's locks take the editing controls away (the layout says why).
+	const open = (what: Lockable) => stageLock(episodeHeader.stage as Stage, what) === null;
 	const [rundown, options, episodes] = await forPage(
 		Promise.all([
 			rundownFor(channel.id, event.params.id),
@@ -22,8 +26,8 @@ export const load = (async (event) => {
 		rundown,
 		builds: options.builds,
 		episodes,
-		canPlan: hasRole(event.locals, 'producer', 'host'),
-		canPlanShots: hasRole(event.locals, 'producer', 'camera')
+		canPlan: open('rundown') && hasRole(event.locals, 'producer', 'host'),
+		canPlanShots: open('shots') && hasRole(event.locals, 'producer', 'camera')
 	};
 }) satisfies PageServerLoad;
 

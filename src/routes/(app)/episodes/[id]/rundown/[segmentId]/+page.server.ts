@@ -22,11 +22,15 @@ import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { clockOfEpisode } from '$lib/server/episodes/programme-timecode';
 import { segmentFormValues } from '../segment-form';
 import { shotFormValues } from '../../shot-form';
+import { stageLock, type Lockable, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
+	const { episodeHeader } = await event.parent();
+	// The stage's locks take the editing controls away (the layout says why).
+	const open = (what: Lockable) => stageLock(episodeHeader.stage as Stage, what) === null;
 	const [segment, episode, options, episodes] = await forPage(
 		Promise.all([
 			segmentView(channel.id, event.params.segmentId),
@@ -56,10 +60,10 @@ export const load = (async (event) => {
 		builds: options.builds,
 		episodes,
 		can: {
-			plan: hasRole(event.locals, 'producer', 'host'),
-			word: hasRole(event.locals, 'producer', 'host'),
-			place: hasRole(event.locals, 'producer', 'editor'),
-			shots: hasRole(event.locals, 'producer', 'camera')
+			plan: open('rundown') && hasRole(event.locals, 'producer', 'host'),
+			word: open('cards') && hasRole(event.locals, 'producer', 'host'),
+			place: open('cards') && hasRole(event.locals, 'producer', 'editor'),
+			shots: open('shots') && hasRole(event.locals, 'producer', 'camera')
 		}
 	};
 }) satisfies PageServerLoad;
