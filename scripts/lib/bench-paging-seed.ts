@@ -61,12 +61,20 @@ export async function addEpisodes(
 	await pool.query('ANALYZE episode; ANALYZE segment; ANALYZE episode_assignment');
 }
 
-/** `count` catalogue parts of fictional brands, varied so words, SKUs and filters select differently. */
-export async function addParts(pool: pg.Pool, channelId: string, count: number): Promise<void> {
+/**
+ * `count` catalogue parts of fictional brands, varied so words, SKUs and filters select
+ * differently; SKUs start with `prefix` (npm run bench:seed uses its own, so the two never clash).
+ */
+export async function addParts(
+	pool: pg.Pool,
+	channelId: string,
+	count: number,
+	prefix = 'BN'
+): Promise<void> {
 	await pool.query(
 		`INSERT INTO part (channel_id, sku, name, category, brand, price_cents, currency, store_url, fitment_note, status)
 		 SELECT $1,
-		   'BN-' || (ARRAY['LB','CS','SS','UB','SHK','AAL','BL','TB','PA','SBL'])[1 + i % 10] || '-' || lpad(i::text, 6, '0'),
+		   '${prefix}-' || (ARRAY['LB','CS','SS','UB','SHK','AAL','BL','TB','PA','SBL'])[1 + i % 10] || '-' || lpad(i::text, 6, '0'),
 		   (ARRAY['Lift block pair','Coil spacer pair','Strut spacer pair','U-bolt kit','Shackle pair','Add-a-leaf','Brake line set','Track bar','Pitman arm','Sway bar link pair'])[1 + i % 10]
 		     || ', ' || (1 + i % 6) || ' in, ' || (ARRAY['cast','forged','polyurethane','aluminium','steel','zinc plated','heavy duty'])[1 + (i / 10) % 7] || ' ' || i,
 		   (ARRAY['Lift blocks','Coil spacers','Strut spacers','U-bolts','Shackles','Leaf springs','Brake lines','Steering','Steering','Sway bars'])[1 + i % 10],

@@ -9,6 +9,7 @@
  * references pointed at copy k. A unique column that no copied reference makes unique again gets
  * copy k's number added (`slug` → `slug-k`-like text, `position` + 1000·(k-1)).
  */
+import { addParts } from './bench-paging-seed.ts';
 import type pg from 'pg';
 
 type Query = Pick<pg.Pool, 'query'>;
@@ -286,19 +287,7 @@ export async function fillBenchChannel(database: pg.Pool, channelName: string) {
 		);
 
 	const partsBefore = await count(`SELECT count(*)::int AS n FROM part WHERE channel_id = $1`);
-	await database.query(
-		`INSERT INTO part (channel_id, sku, name, category, brand, price_cents, currency, store_url, fitment_note, status)
-		 SELECT $1,
-		   'BS-' || (ARRAY['LB','CS','SS','UB','SHK','AAL','BL','TB','PA','SBL'])[1 + i % 10] || '-' || lpad(i::text, 6, '0'),
-		   (ARRAY['Lift block pair','Coil spacer pair','Strut spacer pair','U-bolt kit','Shackle pair','Add-a-leaf','Brake line set','Track bar','Pitman arm','Sway bar link pair'])[1 + i % 10]
-		     || ', ' || (1 + i % 6) || ' in, ' || (ARRAY['cast','forged','polyurethane','aluminium','steel','zinc plated','heavy duty'])[1 + (i / 10) % 7] || ' ' || i,
-		   (ARRAY['Lift blocks','Coil spacers','Strut spacers','U-bolts','Shackles','Leaf springs','Brake lines','Steering','Steering','Sway bars'])[1 + i % 10],
-		   (ARRAY['Kingbolt Suspension','Quillon Shocks','Halvard Wheel Co.','Cindertrack Tyres','Northpine Brake Works','Cobalt Steer','Ashgrove Axle Works','Tallow Ridge Offroad','Mirefield Fabrication','Kestrelmark Lift','Brackwater Gear','Saltmarsh Steelworks'])[1 + (i / 7) % 12],
-		   1000 + (i * 7919) % 90000, 'USD', 'https://shop.bench.test/p/' || i, '',
-		   CASE WHEN i % 50 = 0 THEN 'discontinued' WHEN i % 20 = 0 THEN 'out_of_stock' ELSE 'active' END
-		 FROM generate_series(1, ${Math.max(0, BENCH_PARTS - partsBefore)}) AS i`,
-		[channel.id]
-	);
+	await addParts(database, channel.id, Math.max(0, BENCH_PARTS - partsBefore), 'BS');
 	await database.query('ANALYZE');
 	return {
 		alreadyFilled: false,
