@@ -117,6 +117,19 @@ for (const [who, email] of [
 	});
 }
 
+test('on a phone the edit timeline’s marks are 24 × 24 px or more (WCAG 2.2 SC 2.5.8 minimum)', async () => {
+	// The marks sit on a dense strip, so the enhanced 44 px would overlap neighbours; the minimum
+	// holds for every control of the edit page, the marks included.
+	await session?.close();
+	session = await openBrowser(PHONE);
+	const page = session.page;
+	await signInAs(page, demo.editor);
+	expect((await page.goto(`/episodes/${episodeId}/edit`))?.status()).toBe(200);
+	const targets = await targetsOn(page);
+	expect(targets.length).toBeGreaterThan(5);
+	expect(targets.filter((target) => target.width < MINIMUM || target.height < MINIMUM)).toEqual([]);
+});
+
 test('on a phone a take’s Remove button is on its own line, at least 24 px from GOOD / NG (SC 2.5.8 spacing)', async () => {
 	await session?.close();
 	session = await openBrowser(PHONE);
