@@ -1,8 +1,8 @@
 /**
  * The Storage view: what a channel holds against its quota, per episode and per kind, and which
- * published episodes' rushes could go to long-term storage. Two grouped queries per request, however
- * many episodes the channel has: one for the channel's totals and the archive list, one for a
- * keyset page of episodes (largest first). Sizes are bytes; pages show them in decimal units.
+ * published episodes' rushes could go to long-term storage. One grouped query per request, however
+ * many episodes the channel has: the channel's totals, the archive list and a keyset page of
+ * episodes (largest first). Sizes are bytes; pages show them in decimal units.
  *
  * What counts against the quota is what `upload-limits.ts` counts: finished footage (rushes and
  * cuts) and the declared length of every unfinished upload (an unknown length counts as the largest
@@ -78,7 +78,7 @@ export interface StorageCursor {
 export const cursorText = (row: { totalBytes: number; id: string }) =>
 	`${row.totalBytes}_${row.id}`;
 
-/** Per-episode sums of one channel, as a common table expression shared by both queries. */
+/** Per-episode sums of one channel, as common table expressions. */
 function perEpisode(channelId: string, largestUpload: number) {
 	return sql`
 		made AS (
@@ -125,12 +125,18 @@ function perEpisode(channelId: string, largestUpload: number) {
 
 const n = (value: unknown) => Number(value ?? 0);
 
-/** The channel's totals and the archive candidates: one query. */
-export async function channelStorage(
+/**
+ * The channel's totals, the archive candidates and one page of episodes by bytes held (largest
+ * first, ties by id): one query, so the per-episode sums are worked out once per request.
+ */
+export async function storageView(
 	channelId: string,
 	largestUpload: number,
+	options: { after?: StorageCursor; limit?: number } = {},
 	now = new Date()
-): Promise<ChannelStorage> {
+): Promise<{ channel: ChannelStorage } & StoragePage> {
+	const limit = options.limit ?? EPISODES_PER_PAGE;
+	const after = options.after;
 	const { rows } = await sql<Record<string, unknown>>`
 		WITH ${perEpisode(channelId, largestUpload)},
 		published AS (
@@ -163,14 +169,35 @@ export async function channelStorage(
 					'id', x.id, 'title', x.title, 'publishedAt', x.published_at,
 					'rushesBytes', x.rushes, 'rushesMadeBytes', x.rushes_made)), '[]'::json)
 			 FROM (SELECT * FROM candidates ORDER BY rushes DESC, id LIMIT ${ARCHIVE_LIST_CAP}) x
-			) AS archive_list
+			) AS archive_list,
+			(SELECT max(total) FROM per) AS largest,
+			(SELECT coalesce(json_agg(json_build_object(
+					'id', x.id, 'title', x.title, 'stage', x.stage, 'rushesBytes', x.rushes,
+					'cutsBytes', x.cuts, 'madeBytes', x.made, 'arrivingBytes', x.arriving,
+					'totalBytes', x.total) ORDER BY x.total DESC, x.id DESC), '[]'::json)
+			 FROM (SELECT * FROM per
+				${after ? sql`WHERE (total, id) < (${after.totalBytes}::bigint, ${after.id}::uuid)` : sql``}
+				ORDER BY total DESC, id DESC LIMIT ${limit + 1}) x
+			) AS page
 		FROM channel c WHERE c.id = ${channelId}`.execute(db);
 	const row = rows[0] ?? {};
 	const rushesBytes = n(row.rushes);
 	const cutsBytes = n(row.cuts);
 	const arrivingBytes = n(row.arriving);
 	const list = (row.archiveList ?? []) as Record<string, unknown>[];
-	return {
+	const pageRows = (row.page ?? []) as Record<string, unknown>[];
+	const episodes: EpisodeStorage[] = pageRows.slice(0, limit).map((item) => ({
+		id: String(item.id),
+		title: String(item.title),
+		stage: item.stage as Stage,
+		rushesBytes: n(item.rushesBytes),
+		cutsBytes: n(item.cutsBytes),
+		madeBytes: n(item.madeBytes),
+		arrivingBytes: n(item.arrivingBytes),
+		totalBytes: n(item.totalBytes)
+	}));
+	const last = episodes.at(-1);
+	const channel: ChannelStorage = {
 		quotaBytes: n(row.quotaGb) * GB,
 		countedBytes: rushesBytes + cutsBytes + arrivingBytes,
 		rushesBytes,
@@ -198,37 +225,10 @@ export async function channelStorage(
 			}))
 		}
 	};
-}
-
-/** One page of episodes by bytes held, largest first (ties by id): one query. */
-export async function episodeStoragePage(
-	channelId: string,
-	largestUpload: number,
-	options: { after?: StorageCursor; limit?: number } = {}
-): Promise<StoragePage> {
-	const limit = options.limit ?? EPISODES_PER_PAGE;
-	const after = options.after;
-	const { rows } = await sql<Record<string, unknown>>`
-		WITH ${perEpisode(channelId, largestUpload)}
-		SELECT id, title, stage, rushes, cuts, made, arriving, total, largest
-		FROM (SELECT *, max(total) OVER () AS largest FROM per) ranked
-		${after ? sql`WHERE (total, id) < (${after.totalBytes}::bigint, ${after.id}::uuid)` : sql``}
-		ORDER BY total DESC, id DESC
-		LIMIT ${limit + 1}`.execute(db);
-	const episodes = rows.slice(0, limit).map((row) => ({
-		id: String(row.id),
-		title: String(row.title),
-		stage: row.stage as Stage,
-		rushesBytes: n(row.rushes),
-		cutsBytes: n(row.cuts),
-		madeBytes: n(row.made),
-		arrivingBytes: n(row.arriving),
-		totalBytes: n(row.total)
-	}));
-	const last = episodes.at(-1);
 	return {
+		channel,
 		episodes,
-		largestBytes: n(rows[0]?.largest),
-		next: rows.length > limit && last ? cursorText(last) : null
+		largestBytes: n(row.largest),
+		next: pageRows.length > limit && last ? cursorText(last) : null
 	};
 }

@@ -1,5 +1,5 @@
 import { requireRole } from '$lib/server/auth/guard';
-import { channelStorage, episodeStoragePage } from '$lib/server/footage/storage';
+import { storageView } from '$lib/server/footage/storage';
 import { maxUploadBytes } from '$lib/server/footage/tus-server';
 import { storageQuerySchema } from '$lib/schemas/storage';
 import type { PageServerLoad } from './$types';
@@ -12,13 +12,9 @@ export const load = (async (event) => {
 	});
 	// A broken "more" link shows the first page with a note, never an error page.
 	const after = parsed.success ? parsed.data.after : undefined;
-	const largest = maxUploadBytes();
-	const [totals, page] = await Promise.all([
-		channelStorage(channel.id, largest),
-		episodeStoragePage(channel.id, largest, { after })
-	]);
+	const { channel: storage, ...page } = await storageView(channel.id, maxUploadBytes(), { after });
 	return {
-		storage: totals,
+		storage,
 		page,
 		later: Boolean(after),
 		linkProblem: parsed.success ? null : (parsed.error.issues[0]?.message ?? null)

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { api, parseWith } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { channelStorage, episodeStoragePage } from '$lib/server/footage/storage';
+import { storageView } from '$lib/server/footage/storage';
 import { maxUploadBytes } from '$lib/server/footage/tus-server';
 import { storageQuerySchema } from '$lib/schemas/storage';
 import type { RequestHandler } from './$types';
@@ -10,10 +10,5 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const query = parseWith(storageQuerySchema, Object.fromEntries(event.url.searchParams));
-	const largest = maxUploadBytes();
-	const [totals, page] = await Promise.all([
-		channelStorage(channel.id, largest),
-		episodeStoragePage(channel.id, largest, query)
-	]);
-	return json({ channel: totals, ...page });
+	return json(await storageView(channel.id, maxUploadBytes(), query));
 });
