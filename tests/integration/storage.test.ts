@@ -6,7 +6,10 @@
  * Sizes use decimal SI prefixes: 1 GB = 10^9 bytes, 1 MB = 10^6 bytes (NIST SP 811 §4; tests/REFERENCES.md,
  * "Units" and "Recording storage"). Every expected number below is hand-worked arithmetic.
  */
+import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { hostileString } from '../helpers/hostile';
+import { formatBytes } from '$lib/components/uploads/format';
 import { baseUrl, demo, signedIn, sql, type Visitor } from '../helpers/http';
 import { channelOf, removeEpisodes, storageEpisode } from '../helpers/storage-fixture';
 
@@ -193,6 +196,28 @@ describe('GET /api/storage', () => {
 			expect(status, query).toBe(400);
 			expect(body.issues[field]?.[0], query).toMatch(/\w/);
 		}
+	});
+	test('hostile query strings get a 200 or a 400 with field messages, never a 5xx', async () => {
+		// Seeded (OWASP ASVS 4.0.3 V5, input validation), as the route fuzz test does for every route.
+		await fc.assert(
+			fc.asyncProperty(hostileString, hostileString, async (after, limit) => {
+				const query = new URLSearchParams({ after, limit }).toString();
+				const { status, body } = await producer.api(`/api/storage?${query}`);
+				const shown = query.slice(0, 120);
+				// 431: a query string longer than Node's header limit is refused before the app sees it.
+				expect([200, 400, 431], shown).toContain(status);
+				if (status === 400) expect(Object.keys(body.issues).length, shown).toBeGreaterThan(0);
+			}),
+			{ seed: 13_2026, numRuns: 150 }
+		);
+	});
+
+	test('counts against the quota what the Channel page says is in use', async () => {
+		const { body } = await producer.api('/api/storage');
+		const channelPage = await (
+			await producer.request('/channel', { headers: { accept: 'text/html' } })
+		).text();
+		expect(channelPage).toContain(`In use now: ${formatBytes(body.channel.countedBytes)}`);
 	});
 });
 
