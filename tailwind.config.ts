@@ -40,7 +40,7 @@ export default {
 					light: '#fff6cc'
 				},
 				go: {
-					DEFAULT: '#2f7d4f',
+					DEFAULT: '#2a7049',
 					light: '#dff1e6'
 				},
 				stop: {

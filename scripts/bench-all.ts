@@ -7,6 +7,9 @@
  *   npm run bench                      every bench
  *   npm run bench uploads              only the upload bench (scripts/bench-uploads.ts)
  *   npm run bench parts                only the parts bench (scripts/bench-parts.ts)
+ *   npm run bench episode              only the episode page and API bench (scripts/bench-episode.ts)
+ *   npm run bench "episode list"       "parts search", "chapter export at scale": the paging benches
+ *                                      (scripts/bench-paging.ts), lists at a real channel's size
  *   npm run bench "chapter export"     any other name: that bench of scripts/bench.ts
  */
 import { spawnSync } from 'node:child_process';
@@ -23,7 +26,12 @@ interface BenchScript {
 const SCRIPTS: BenchScript[] = [
 	{ script: 'scripts/bench.ts', names: null },
 	{ script: 'scripts/bench-uploads.ts', names: ['uploads'] },
-	{ script: 'scripts/bench-parts.ts', names: ['parts'] }
+	{ script: 'scripts/bench-parts.ts', names: ['parts'] },
+	{ script: 'scripts/bench-episode.ts', names: ['episode'] },
+	{
+		script: 'scripts/bench-paging.ts',
+		names: ['episode list', 'parts search', 'chapter export at scale']
+	}
 ];
 
 /** What the build is made from: a change to any of these makes the build stale. */

@@ -31,6 +31,7 @@ import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
 import { channelLinkHandle } from '$lib/server/channel/current-channel';
+import { countingQueries, countQueries } from '$lib/server/db/query-count';
 
 // server.js (production) answers uploads itself, before SvelteKit; under vite dev uploadHandle does.
 offerNodeRoutes();
@@ -230,7 +231,11 @@ const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
 	return new Response(response.body, { status, statusText: '', headers });
 };
 
+/** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): X-Query-Count on every answer. */
+const queryCountHandle: Handle = ({ event, resolve }) => countQueries(async () => resolve(event));
+
 export const handle: Handle = sequence(
+	...(countingQueries ? [queryCountHandle] : []),
 	securityHeadersHandle,
 	throttleAnswerHandle,
 	outageHandle,

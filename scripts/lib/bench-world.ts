@@ -132,6 +132,8 @@ export interface BenchWorld {
 	pool: pg.Pool;
 	/** Starts the built server against the bench database; answers its base URL once it is up. */
 	startServer(): Promise<string>;
+	/** The running server's process id (for its memory in /proc), or null before startServer. */
+	serverPid(): number | null;
 	/** Stops the server and the cluster and removes the bench folder. */
 	close(): Promise<void>;
 }
@@ -180,6 +182,7 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 			await waitForHttp(`${baseUrl}/healthz`, 30_000);
 			return baseUrl;
 		},
+		serverPid: () => server?.pid ?? null,
 		async close() {
 			await pool.end();
 			const running = server as ChildProcess | null;

@@ -3,7 +3,9 @@
  * for the demo episodes. Each episode's data matches its stage: the published and edit-stage
  * episodes passed their gates on the way (approved scripts, shots with good takes and footage),
  * the edit-stage one still has one caution to place, the script-stage one was returned with
- * comments, and the shoot-stage one is missing a take and an upload. All names are invented.
+ * comments, and the shoot-stage one is missing a take and an upload. The episodes with a cut have
+ * their segments' in and out points on the timeline (demoSpans), and every caution card is shown
+ * inside its segment for its reading time and a second more. All names are invented.
  */
 import { createHash, randomUUID } from 'node:crypto';
 import { sql, type Transaction } from 'kysely';
@@ -12,6 +14,7 @@ import { hazardById, type HazardId } from '../../src/lib/cautions.ts';
 import type { SegmentKind } from '../../src/lib/rundown.ts';
 import type { Stage } from '../../src/lib/stages.ts';
 import { countSpokenWords } from '../../src/lib/script/timing.ts';
+import { readingSeconds } from '../../src/lib/reading-time.ts';
 import {
 	framesToSeconds,
 	parseTimecode,
@@ -726,6 +729,42 @@ async function demoFootage(
 	return row.id;
 }
 
+/**
+ * Where each segment sits in the cut of the episodes that have one: segment n runs from the n-th
+ * cut point to the next (timecode at 29.97 drop-frame; the last point is the cut's end, as in
+ * seed-edit.ts). The points follow the demo chapters, and every placed caution falls inside its
+ * segment.
+ */
+const demoSpans: Record<string, string[]> = {
+	'mule-rear-block-lift': [
+		'00:00:00;00',
+		'00:00:52;00',
+		'00:02:10;00',
+		'00:04:05;00',
+		'00:06:40;00',
+		'00:09:05;00',
+		'00:11:30;00',
+		'00:12:50;00',
+		'00:13:20;00',
+		'00:13:40;00'
+	],
+	'tallboy-coil-spacers': [
+		'00:00:00;00',
+		'00:00:41;00',
+		'00:01:55;00',
+		'00:03:02;00',
+		'00:05:20;00',
+		'00:06:48;00',
+		'00:09:50;00',
+		'00:11:20;00',
+		'00:12:10;00',
+		'00:12:18;00'
+	]
+};
+
+/** A demo caution stays on screen for its reading time and one second more (our own margin). */
+const CAUTION_MARGIN_SECONDS = 1;
+
 /** Timecode or clock text → frames; the demo cameras record non-drop timecode, written with ':'. */
 function frames(text: string, rate: FrameRate): number {
 	return parseTimecode(text, rate);
@@ -805,6 +844,10 @@ export async function seedEpisodeWork(
 			trx
 		);
 
+		if (demoSpans[slug] && demoSpans[slug].length !== seed.segments.length + 1)
+			throw new Error(
+				`demo cut points of ${slug} don't match its ${seed.segments.length} segments`
+			);
 		const segmentIds: string[] = [];
 		const scripts: { id: string; body: string }[] = [];
 		for (const [index, segment] of seed.segments.entries()) {
@@ -819,6 +862,13 @@ export async function seedEpisodeWork(
 				? (context.episodes.get(segment.promise.slug)?.id ?? null)
 				: null;
 			const hazards = segment.hazards ?? [];
+			const cutPoints = demoSpans[slug];
+			const span = cutPoints
+				? {
+						cutInFrame: frames(cutPoints[index], rate),
+						cutOutFrame: frames(cutPoints[index + 1], rate)
+					}
+				: {};
 			const row = await trx
 				.insertInto('segment')
 				.values({
@@ -831,6 +881,7 @@ export async function seedEpisodeWork(
 					needsFootage: segment.needsFootage ?? true,
 					hazards,
 					recordedFrames,
+					...span,
 					promiseEpisodeId,
 					promiseTitle: segment.promise?.title ?? null,
 					createdAt: daysAgo(seed.history[0].daysAgo, index)
@@ -851,13 +902,15 @@ export async function seedEpisodeWork(
 				.execute();
 			for (const hazard of hazards) {
 				const placement = segment.cautions?.[hazard];
+				const text = placement?.text ?? hazardById(hazard).defaultCaution;
 				await trx
 					.insertInto('caution')
 					.values({
 						segmentId: row.id,
 						hazard,
-						text: placement?.text ?? hazardById(hazard).defaultCaution,
-						atFrame: placement?.at ? frames(placement.at, rate) : null
+						text,
+						atFrame: placement?.at ? frames(placement.at, rate) : null,
+						durationFrames: secondsToFrames(readingSeconds(text) + CAUTION_MARGIN_SECONDS, rate)
 					})
 					.execute();
 			}

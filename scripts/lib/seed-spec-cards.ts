@@ -9,6 +9,7 @@ import type { Database } from '../../src/lib/server/db/types.ts';
 import type { SpecCardInput } from '../../src/lib/specs/index.ts';
 import { checkSpecCard, DEFAULT_ON_SCREEN_SECONDS } from '../../src/lib/schemas/spec-cards.ts';
 import { parseTimecode, secondsToFrames } from '../../src/lib/timecode.ts';
+import { onScreenText, readingSeconds } from '../../src/lib/reading-time.ts';
 import type { SeedContext } from './seed-context.ts';
 
 interface DemoCard {
@@ -83,7 +84,11 @@ export async function seedSpecCards(
 					kind: checked.input.kind,
 					input: JSON.stringify(checked.input),
 					atFrame: card.at === null ? null : parseTimecode(card.at, rate),
-					durationFrames: secondsToFrames(DEFAULT_ON_SCREEN_SECONDS, rate),
+					// Long enough to read: the default, or the card's reading time when longer.
+					durationFrames: secondsToFrames(
+						Math.max(DEFAULT_ON_SCREEN_SECONDS, readingSeconds(onScreenText(checked.card))),
+						rate
+					),
 					position: ++position,
 					createdBy: editor
 				})

@@ -34,6 +34,12 @@ export interface Hazard {
 /** Our own on-screen limit: a caution card must be readable in the few seconds it is shown. */
 export const CAUTION_MAX_CHARACTERS = 140;
 
+/**
+ * How long a caution card may be shown, in seconds (our own bounds, the same as a spec card's);
+ * the shortest it may be is its reading time ($lib/reading-time), 9 s for the longest card.
+ */
+export const CAUTION_SECONDS_LIMITS = { min: 1, max: 60 } as const;
+
 const hazardList: Hazard[] = [
 	{
 		id: 'raised-vehicle',

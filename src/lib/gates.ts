@@ -10,7 +10,10 @@
  * - shoot → edit: the shot lists as above, and for every planned shot at least one good take whose
  *   footage is uploaded; an editor assigned.
  * - edit → locked: valid chapters; every featured part linked to an active catalogue part; every
- *   caution of a flagged segment written and placed inside the cut.
+ *   caution of a flagged segment written, and on screen inside that segment's span on the edit
+ *   timeline (its in and out points) for at least its reading time ($lib/reading-time: about 17
+ *   characters a second, subtitle practice from memory): a "vehicle on stands" card in the end
+ *   credits, or one flashed for a second, does not count.
  * - locked → published: everything the lock needs still holds, and a publish date is set. A caution
  *   never blocks publishing silently: each refusal names its segment. When the publish kit carries
  *   tracked links, the channel has a disclosure to place beside them (a channel that earns on its
@@ -20,8 +23,17 @@
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
 import type { Stage } from './stages';
-import { capturedRateFit, formatTimecode, type FrameRate } from './timecode';
+import {
+	capturedRateFit,
+	framesToSeconds,
+	programmeClock,
+	programmeTimecode,
+	secondsToFrames,
+	type FrameRate,
+	type ProgrammeTimecode
+} from './timecode';
 import { titleProblems } from './publish-limits';
+import { READING_CHARACTERS_PER_SECOND, readableCharacters, readingSeconds } from './reading-time';
 
 export type ScriptStatus = 'draft' | 'submitted' | 'approved' | 'returned';
 
@@ -46,6 +58,8 @@ export interface GateCaution {
 	hazard: HazardId;
 	text: string;
 	atFrame: number | null;
+	/** Time on screen in frames at the episode's rate; null until set. */
+	durationFrames: number | null;
 }
 
 export interface GateSegment {
@@ -56,6 +70,9 @@ export interface GateSegment {
 	/** Spoken words in the segment's script. */
 	words: number;
 	hazards: HazardId[];
+	/** The segment's in and out points on the edit timeline (frames, out exclusive); null until placed. */
+	inFrame: number | null;
+	outFrame: number | null;
 	shots: GateShot[];
 	/** The caution rows of this segment; only those of hazards in `hazards` count. */
 	cautions: GateCaution[];
@@ -64,6 +81,8 @@ export interface GateSegment {
 export interface GateSnapshot {
 	stage: Stage;
 	frameRate: FrameRate;
+	/** How the episode labels times in its cut; left out: the rate's usual form from 00:00:00:00. */
+	timecode?: ProgrammeTimecode;
 	cutDurationFrames: number | null;
 	publishDate: string | null;
 	/** Role → name of the assigned person, for the roles that have someone. */
@@ -106,6 +125,10 @@ export type GateRule =
 	| 'caution-text-missing'
 	| 'caution-unplaced'
 	| 'caution-past-end'
+	| 'segment-span-missing'
+	| 'caution-outside-segment'
+	| 'caution-duration-missing'
+	| 'caution-too-short'
 	| 'publish-date-missing'
 	| 'disclosure-missing'
 	| 'title-refused';
@@ -276,9 +299,54 @@ function footageRules(snapshot: GateSnapshot): GateReason[] {
 	return reasons;
 }
 
+/** Seconds as the crew reads them: "6 s", "5.5 s". */
+function secondsText(seconds: number): string {
+	return `${Math.round(seconds * 10) / 10} s`;
+}
+
+/** Why a written caution is not where its hazard is shown: unplaced, past the cut, no span, or outside it. */
+function placementProblem(
+	snapshot: GateSnapshot,
+	segment: GateSegment,
+	caution: GateCaution,
+	label: string
+): { rule: GateRule; message: string } | null {
+	const clock = programmeClock(
+		snapshot.timecode ?? programmeTimecode({ frameRate: snapshot.frameRate })
+	);
+	const at = (frames: number) => clock.format(frames);
+	if (caution.atFrame === null)
+		return {
+			rule: 'caution-unplaced',
+			message: `The “${label}” caution is not placed in the cut: type the time where its card appears, on the rundown.`
+		};
+	if (snapshot.cutDurationFrames !== null && caution.atFrame >= snapshot.cutDurationFrames)
+		return {
+			rule: 'caution-past-end',
+			message: `The “${label}” caution is placed at ${at(caution.atFrame)}, after the end of the cut (${at(snapshot.cutDurationFrames)}): place it inside the cut.`
+		};
+	if (segment.inFrame === null || segment.outFrame === null)
+		return {
+			rule: 'segment-span-missing',
+			message: `The segment has no in and out points on the edit timeline, so its “${label}” caution can't be checked against the hazard: set them on the edit page.`
+		};
+	const endFrame = caution.atFrame + (caution.durationFrames ?? 0);
+	// A span left longer than a cut shortened since still ends where the cut does.
+	const spanEnd = Math.min(segment.outFrame, snapshot.cutDurationFrames ?? segment.outFrame);
+	if (caution.atFrame >= segment.inFrame && endFrame <= spanEnd) return null;
+	const shown =
+		caution.durationFrames === null
+			? `placed at ${at(caution.atFrame)}`
+			: `on screen ${at(caution.atFrame)}–${at(endFrame)}`;
+	return {
+		rule: 'caution-outside-segment',
+		message: `The “${label}” caution is ${shown}, outside its segment (${at(segment.inFrame)}–${at(spanEnd)}): place it where the hazardous work is shown, from its start to its end inside the segment.`
+	};
+}
+
 function cautionRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
-	const at = (frames: number) => formatTimecode(frames, snapshot.frameRate);
+	const rate = snapshot.frameRate;
 	for (const segment of snapshot.segments) {
 		for (const hazard of segment.hazards) {
 			const label = hazardById(hazard)?.label ?? hazard;
@@ -293,21 +361,22 @@ function cautionRules(snapshot: GateSnapshot): GateReason[] {
 				});
 				continue;
 			}
-			if (caution.atFrame === null) {
+			const placed = placementProblem(snapshot, segment, caution, label);
+			if (placed) reasons.push({ ...base, ...placed, fixedBy: 'editor' });
+			const neededSeconds = readingSeconds(caution.text);
+			const need = `its ${readableCharacters(caution.text)} characters need ${neededSeconds} s at about ${READING_CHARACTERS_PER_SECOND} characters a second`;
+			if (caution.durationFrames === null) {
 				reasons.push({
 					...base,
-					rule: 'caution-unplaced',
-					message: `The “${label}” caution is not placed in the cut: type the time where its card appears, on the rundown.`,
+					rule: 'caution-duration-missing',
+					message: `The “${label}” caution has no time on screen: ${need}. Type how long it shows, on the rundown.`,
 					fixedBy: 'editor'
 				});
-			} else if (
-				snapshot.cutDurationFrames !== null &&
-				caution.atFrame >= snapshot.cutDurationFrames
-			) {
+			} else if (caution.durationFrames < secondsToFrames(neededSeconds, rate)) {
 				reasons.push({
 					...base,
-					rule: 'caution-past-end',
-					message: `The “${label}” caution is placed at ${at(caution.atFrame)}, after the end of the cut (${at(snapshot.cutDurationFrames)}): place it inside the cut.`,
+					rule: 'caution-too-short',
+					message: `The “${label}” caution is on screen for ${secondsText(framesToSeconds(caution.durationFrames, rate))}, too short to read: ${need}. Show it longer, or shorten the words.`,
 					fixedBy: 'editor'
 				});
 			}

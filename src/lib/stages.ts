@@ -106,22 +106,101 @@ export function forwardMoversText(stage: Stage): string {
 	return role ? `A producer or the assigned ${names[role]}` : 'A producer';
 }
 
+/** The kinds of work a stage can fix, one name per write path (see stageLock). */
+export const LOCKABLE = [
+	'rundown',
+	'script',
+	'shots',
+	'notes',
+	'chapters',
+	'cards',
+	'cut'
+] as const;
+export type Lockable = (typeof LOCKABLE)[number];
+
+/**
+ * The first stage at which each kind of work is fixed (our own rule; DEVELOPERS.md, "Stage locks",
+ * gives the reasons). Picture lock fixes what the picture is made of: the cut's length, the rundown
+ * (segments, their order and their lengths in the cut), the script said on camera and the shot list
+ * filmed. Notes, chapters and cards stay open at picture lock because the merch team links parts and
+ * the editor finishes chapters and on-screen cards against the fixed cut then. Publishing fixes
+ * everything else: chapters, notes and parts are in the live description, the cards on screen.
+ */
+const FIXED_FROM: Record<Lockable, Stage> = {
+	cut: 'locked',
+	rundown: 'locked',
+	script: 'locked',
+	shots: 'locked',
+	notes: 'published',
+	chapters: 'published',
+	cards: 'published'
+};
+
+/** Why each kind of work is fixed, at picture lock and once published, in the crew's words. */
+const WHY: Record<Lockable, { locked: string; published: string }> = {
+	cut: {
+		locked: "The picture is locked, so the cut's length is final.",
+		published:
+			'This episode is published: its chapters are in the live description and the cut is final.'
+	},
+	rundown: {
+		locked:
+			'The picture is locked, so the rundown (its segments, their order and lengths) is final.',
+		published: 'This episode is published: its rundown is the video viewers watch.'
+	},
+	script: {
+		locked: 'The picture is locked, so the script is what was said on camera.',
+		published: 'This episode is published: its script is what was said on camera and approved.'
+	},
+	shots: {
+		locked: 'The picture is locked, so the shot list is what was filmed.',
+		published: 'This episode is published: its shot list is what was filmed.'
+	},
+	notes: {
+		locked: '',
+		published:
+			'This episode is published: its notes and the parts linked to them are in the live description.'
+	},
+	chapters: {
+		locked: '',
+		published:
+			'This episode is published: its chapters are in the live description and the cut is final.'
+	},
+	cards: {
+		locked: '',
+		published: 'This episode is published: its spec and caution cards are in the live video.'
+	}
+};
+
+/** The stage a producer moves an episode back to so that this kind of work opens again. */
+export function reopensAt(what: Lockable): Stage {
+	return STAGES[stageIndex(FIXED_FROM[what]) - 1];
+}
+
+/**
+ * Why this kind of work may not change at this stage, with how to open it again; null when it may.
+ * The one rule table every write path asks (server: episodes/stage-locks.ts; pages: to disable
+ * their controls).
+ */
+export function stageLock(stage: Stage, what: Lockable): string | null {
+	if (stageIndex(stage) < stageIndex(FIXED_FROM[what])) return null;
+	const why = WHY[what][stage === 'published' ? 'published' : 'locked'];
+	return `${why} A producer can move it back to ${STAGE_LABELS[reopensAt(what)]} to change it.`;
+}
+
+/** Every kind of work with its lock at this stage (null: open), for a page that shows several. */
+export function stageLocks(stage: Stage): Record<Lockable, string | null> {
+	return Object.fromEntries(LOCKABLE.map((what) => [what, stageLock(stage, what)])) as Record<
+		Lockable,
+		string | null
+	>;
+}
+
 /**
  * What the edit page may still change at a stage, as the reason it may not (null: it may).
  * Picture lock fixes the cut's length; publishing fixes the chapters too, because they are in the
  * live description. A producer who moves the episode back opens them again.
  */
 export function editLocks(stage: Stage): { cut: string | null; chapters: string | null } {
-	const back = (to: Stage) => `A producer can move it back to ${STAGE_LABELS[to]} to change it.`;
-	if (stage === 'published') {
-		const why =
-			'This episode is published: its chapters are in the live description and the cut is final.';
-		return { cut: `${why} ${back('edit')}`, chapters: `${why} ${back('locked')}` };
-	}
-	if (stage === 'locked')
-		return {
-			cut: `The picture is locked, so the cut's length is final. ${back('edit')}`,
-			chapters: null
-		};
-	return { cut: null, chapters: null };
+	return { cut: stageLock(stage, 'cut'), chapters: stageLock(stage, 'chapters') };
 }

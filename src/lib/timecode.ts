@@ -404,3 +404,151 @@ export function formatMilliseconds(
 	}
 	return `${minutes}:${pad2(secondsPart)}${fraction}`;
 }
+
+/** The label of a cut's first frame unless an episode says otherwise. */
+export const DEFAULT_TIMECODE_START = '00:00:00:00';
+
+/**
+ * How an episode labels positions in its cut (its programme timecode): the rate, drop-frame or
+ * non-drop, and the label its first frame carries (many edit systems start a sequence at
+ * 01:00:00:00, common practice). Plain data, so a load can hand it to a page.
+ */
+export interface ProgrammeTimecode {
+	frameRate: FrameRate;
+	dropFrame: boolean;
+	/** The first frame's label, written `HH:MM:SS:FF` with a colon whatever the form. */
+	start: string;
+}
+
+/**
+ * An episode's programme timecode from its stored setting: a drop-frame flag of null means the
+ * rate's usual form (drop-frame at 29.97 and 59.94), and no start means 00:00:00:00.
+ */
+export function programmeTimecode(episode: {
+	frameRate: FrameRate;
+	timecodeDropFrame?: boolean | null;
+	timecodeStart?: string | null;
+}): ProgrammeTimecode {
+	const dropFrame = episode.timecodeDropFrame ?? defaultDropFrame(episode.frameRate);
+	return {
+		frameRate: episode.frameRate,
+		dropFrame: dropFrame && isDropFrameCapable(episode.frameRate),
+		start: episode.timecodeStart || DEFAULT_TIMECODE_START
+	};
+}
+
+/**
+ * Reads and writes an episode's programme time. Positions stay frame counts from the start of the
+ * cut (frame 0); only their labels carry the start offset. Typed timecode names a label, so the
+ * offset is taken off; a clock time (4:30, 0:04:30.500) counts real time from the start of the cut,
+ * as published chapters do, so it is read without the offset.
+ */
+export interface ProgrammeClock {
+	readonly timecode: ProgrammeTimecode;
+	readonly rate: FrameRate;
+	readonly dropFrame: boolean;
+	/** The absolute label count of the cut's first frame (108000 for 01:00:00:00 at 29.97 non-drop). */
+	readonly startFrame: number;
+	/** The first frame's label in this form, e.g. `01:00:00;00` in drop-frame. */
+	readonly startLabel: string;
+	/** The label a position in the cut carries (its frame count plus the start). */
+	format(position: number): string;
+	/** A length (a cut's, a segment's) as timecode in this form, without the start. */
+	formatLength(frames: number): string;
+	/** The position typed timecode or clock text names; a label before the start is a TimecodeError. */
+	parse(text: string): number;
+	/** A length typed as timecode or clock text, read in this form, without the start. */
+	parseLength(text: string): number;
+	/**
+	 * A placeholder or hint: the label as far into the cut as `length` (written `HH:MM:SS:FF`) says,
+	 * in this form and with the start, e.g. `01:04:07:12` for `00:04:07:12` from 01:00:00:00.
+	 */
+	example(length: string): string;
+}
+
+/**
+ * Reads a start label (`01:00:00:00`) at a rate and form: its absolute label count. Throws a
+ * TimecodeError in plain words when the label can't be a start (a clock time, a skipped
+ * drop-frame label, frames past the rate).
+ */
+export function timecodeStartFrame(start: string, rate: FrameRate, dropFrame: boolean): number {
+	const trimmed = String(start ?? '').trim();
+	if (!TIMECODE_PATTERN.exec(trimmed)) {
+		throw new TimecodeError(
+			`“${trimmed}” isn't a start timecode: write it as HH:MM:SS:FF, e.g. 01:00:00:00 (or 00:00:00:00 for none).`
+		);
+	}
+	const frames = parseTimecodeInForm(trimmed, rate, dropFrame && isDropFrameCapable(rate));
+	if (frames >= 24 * 3600 * nominalFps(rate)) {
+		throw new TimecodeError(
+			`“${trimmed}” is past a day: a start timecode runs from 00:00:00:00 to 23:59:59, e.g. 01:00:00:00.`
+		);
+	}
+	return frames;
+}
+
+/** The one reader and writer of an episode's programme time; every page and export goes through it. */
+export function programmeClock(timecode: ProgrammeTimecode): ProgrammeClock {
+	const rate = timecode.frameRate;
+	const dropFrame = timecode.dropFrame && isDropFrameCapable(rate);
+	const startFrame = timecodeStartFrame(timecode.start, rate, dropFrame);
+	const label = (frames: number) => formatTimecode(frames, rate, { dropFrame });
+	const startLabel = label(startFrame);
+
+	function readLabel(text: string): number {
+		const trimmed = String(text ?? '').trim();
+		const match = TIMECODE_PATTERN.exec(trimmed);
+		if (match && match[4] === ';' && !dropFrame && isDropFrameCapable(rate)) {
+			throw new TimecodeError(
+				`“${trimmed}” is written as drop-frame (the “;” before the frames), but this episode's programme timecode is non-drop. Write ${trimmed.replace(/;(\d{2})$/, ':$1')}, or set drop-frame in the episode's details.`
+			);
+		}
+		return parseTimecode(trimmed, rate, { dropFrame });
+	}
+
+	return {
+		timecode: { frameRate: rate, dropFrame, start: timecode.start },
+		rate,
+		dropFrame,
+		startFrame,
+		startLabel,
+		format: (position) => {
+			assertFrameCount(position);
+			return label(position + startFrame);
+		},
+		formatLength: (frames) => label(frames),
+		parse(text) {
+			const trimmed = String(text ?? '').trim();
+			const frames = readLabel(trimmed);
+			if (!TIMECODE_PATTERN.test(trimmed) || startFrame === 0) return frames;
+			if (frames < startFrame) {
+				throw new TimecodeError(
+					`“${trimmed}” is before the start of this cut's timecode (${startLabel}): its first frame is ${startLabel}, so type ${label(startFrame)} or later, or a clock time such as 4:30 counted from the start of the cut.`
+				);
+			}
+			return frames - startFrame;
+		},
+		parseLength: (text) => readLabel(text),
+		example: (length) => label(startFrame + parseTimecodeInForm(length, rate, dropFrame))
+	};
+}
+
+/** A programme clock as given, or the usual one for a bare rate (its usual form from 00:00:00:00). */
+export function clockOrUsual(clockOrRate: ProgrammeClock | FrameRate): ProgrammeClock {
+	return typeof clockOrRate === 'string'
+		? programmeClock(programmeTimecode({ frameRate: clockOrRate }))
+		: clockOrRate;
+}
+
+/** The programme clock of a page's episode heading (rate, drop-frame flag and start label). */
+export function clockOfHeading(episode: {
+	frameRate: FrameRate;
+	dropFrame: boolean;
+	timecodeStart: string;
+}): ProgrammeClock {
+	return programmeClock({
+		frameRate: episode.frameRate,
+		dropFrame: episode.dropFrame,
+		start: episode.timecodeStart
+	});
+}

@@ -102,6 +102,9 @@ test('the editor adds a tyre-change card and a torque card, sees the right numbe
 		.getByLabel('Segment')
 		.selectOption({ label: '3. The numbers: diameter and clearance' });
 	await page.getByLabel('Program time').fill('3:00');
+	// The card puts 629 characters on screen: 37 s to read at 17 a second (tests/REFERENCES.md,
+	// "Reading speed"), so the 6 s the form starts with would be refused.
+	await page.getByLabel('On screen (s)').fill('37');
 	// 180 s × 30000/1001 = 5394.6 → frame 5395.
 	await page.getByText(`Reads as ${dropFrameLabel(5395)} at 29.97 fps drop-frame.`).waitFor();
 	await page.getByRole('button', { name: 'Add card' }).click();

@@ -540,7 +540,7 @@ describe('another channel sees none of these records', () => {
 	});
 
 	test('the other channel’s episode list and follow-ups never show this channel’s episodes', async () => {
-		const titles = (await other.api('/api/episodes')).body.episodes.map(
+		const titles = (await other.api('/api/episodes')).body.items.map(
 			(e: { title: string }) => e.title
 		);
 		expect(titles).toContain('Sandpiper brake refresh');

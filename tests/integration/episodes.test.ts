@@ -152,7 +152,7 @@ describe('an episode from idea to shoot and on', () => {
 
 		// The host writes the segment; [[directions]] and Markdown marks are not spoken words.
 		const script = await host.api(`/api/segments/${brakesId}/script`);
-		const words = Array.from({ length: 150 }, (_, i) => `word${i}`).join(' ');
+		const words = Array.from({ length: 150 }, () => `bolt`).join(' ');
 		const saved = await host.api(`/api/segments/${brakesId}/script`, {
 			method: 'PUT',
 			json: {
@@ -321,37 +321,46 @@ describe('an episode from idea to shoot and on', () => {
 		).toBe(200);
 		await mailMatching(demo.editor, /Edit is yours: Brake line swap/, editAt);
 
-		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced; each named.
+		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced with no
+		// time on screen; each named.
 		const lock = await editor.api(`/api/episodes/${episode.id}/stage`, {
 			method: 'POST',
 			json: { from: 'edit', to: 'locked' }
 		});
 		expect(lock.status).toBe(422);
 		const lockRules = lock.body.gate.reasons.map((r: { rule: string }) => r.rule);
-		expect(lockRules).toEqual(['chapters-missing', 'caution-unplaced', 'caution-unplaced']);
+		expect(lockRules).toEqual([
+			'chapters-missing',
+			'caution-unplaced',
+			'caution-duration-missing',
+			'caution-unplaced',
+			'caution-duration-missing'
+		]);
 		expect(lock.body.gate.reasons[0].message).toBe(
 			'Mark at least three chapters on the edit timeline.'
 		);
-		expect(lock.body.gate.reasons[2]).toMatchObject({
+		expect(lock.body.gate.reasons[3]).toMatchObject({
 			subject: 'Segment 1 “Swap the rear brake hose”',
 			fixedBy: 'editor'
 		});
-		expect(lock.body.gate.reasons[2].message).toMatch(/“Brakes” caution is not placed/);
+		expect(lock.body.gate.reasons[3].message).toMatch(/“Brakes” caution is not placed/);
 
-		// The editor places both by typing timecode and clock time at 29.97 drop-frame.
+		// The editor places both by typing timecode and clock time at 29.97 drop-frame, each shown
+		// for 9 s (the longest card, 140 characters, needs 140 ÷ 17 = 8.2 → 9 s; tests/REFERENCES.md,
+		// "Reading speed").
 		const cautions = (await editor.api(`/api/segments/${brakesId}`)).body.segment.cautions as {
 			hazard: string;
 			version: number;
 		}[];
 		const placedA = await editor.api(`/api/segments/${brakesId}/cautions/raised-vehicle`, {
 			method: 'PATCH',
-			json: { at: '00:00:10;00', version: cautions[0].version }
+			json: { at: '00:00:10;00', seconds: 9, version: cautions[0].version }
 		});
 		expect(placedA.status).toBe(200);
 		expect(placedA.body.caution.atFrame).toBe(300); // 10 s × 30 labels, no drops in minute 0 (SMPTE ST 12-1)
 		const placedB = await editor.api(`/api/segments/${brakesId}/cautions/brakes`, {
 			method: 'PATCH',
-			json: { at: '1:00', version: cautions[1].version }
+			json: { at: '1:00', seconds: 9, version: cautions[1].version }
 		});
 		// 60 s at 30000/1001 fps is 1798.2 frames, nearest 1798 = label 00:00:59;28
 		// (tests/REFERENCES.md, "Frame rates").
@@ -361,8 +370,11 @@ describe('an episode from idea to shoot and on', () => {
 			method: 'POST',
 			json: { from: 'edit', to: 'locked' }
 		});
+		// This episode has no cut yet, so its segment has no in and out points to check them against.
 		expect(lock2.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
-			'chapters-missing'
+			'chapters-missing',
+			'segment-span-missing',
+			'segment-span-missing'
 		]);
 
 		// The editor may not move it back; a producer may, without a gate, and the host is told why.
@@ -446,7 +458,7 @@ describe('an episode from idea to shoot and on', () => {
 
 describe('episode list and details', () => {
 	test('filters by stage, assignee and publish dates, and sorts', async () => {
-		const all = (await producer.api('/api/episodes?sort=title')).body.episodes as {
+		const all = (await producer.api('/api/episodes?sort=title')).body.items as {
 			title: string;
 			stage: string;
 		}[];
@@ -454,18 +466,18 @@ describe('episode list and details', () => {
 		expect(titles).toEqual(
 			[...titles].sort((a, b) => a.toLowerCase().localeCompare(b.toLowerCase()))
 		);
-		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.episodes as {
+		const inEdit = (await producer.api('/api/episodes?stage=edit')).body.items as {
 			stage: string;
 		}[];
 		expect(inEdit.length).toBeGreaterThan(0);
 		expect(inEdit.every((e) => e.stage === 'edit')).toBe(true);
-		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.episodes as {
+		const priyas = (await producer.api(`/api/episodes?assignee=${people.merch}`)).body.items as {
 			assignments: { personId: string }[];
 		}[];
 		expect(priyas.length).toBeGreaterThan(0);
 		expect(priyas.every((e) => e.assignments.some((a) => a.personId === people.merch))).toBe(true);
 		const march = (await producer.api('/api/episodes?from=2027-03-01&to=2027-03-31')).body
-			.episodes as { publishDate: string }[];
+			.items as { publishDate: string }[];
 		expect(march.length).toBeGreaterThan(0);
 		expect(march.every((e) => e.publishDate >= '2027-03-01' && e.publishDate <= '2027-03-31')).toBe(
 			true
@@ -734,7 +746,7 @@ describe('rundown', () => {
 		expect(refused.body.error).toMatch(/1 logged take/);
 	});
 
-	test('the editor sets a segment’s length in the cut, and the host’s pace is measured from it', async () => {
+	test('the editor sets a segment’s length in the cut, which is not taken as the host’s pace', async () => {
 		const episode = await newEpisode();
 		const segment = (
 			await host.api(`/api/episodes/${episode.id}/segments`, {
@@ -772,9 +784,14 @@ describe('rundown', () => {
 		// 00:02:00;04 at 29.97 DF = (120 × 30 + 4) − 2 × 2 = 3600 frames
 		// (SMPTE ST 12-1 formula; tests/REFERENCES.md, "Timecode").
 		expect(recorded.body.segment.recordedFrames).toBe(3600);
+		// A segment's length in the cut is mostly work, not speech: the pace comes only from a timed
+		// reading (tests/integration/speaking-pace.test.ts), so without one it stays the default.
 		const rundown = (await host.api(`/api/episodes/${episode.id}/segments`)).body;
-		expect(rundown.pace.calibrated).toBe(true);
-		expect(rundown.pace.basedOn).toBeGreaterThanOrEqual(1);
+		expect(rundown.pace).toMatchObject({
+			calibrated: false,
+			basis: 'default',
+			wordsPerMinute: 150
+		});
 	});
 });
 

@@ -18,6 +18,7 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, baseUrl, demo, signedIn, sql } from '../helpers/http';
 import { hostileObject, hostileString, hostileValue, mutated, notJson } from '../helpers/hostile';
 import { HAZARD_IDS } from '$lib/cautions';
+import { MEDIA_KINDS } from '$lib/media';
 import { SEGMENT_KINDS } from '$lib/rundown';
 
 const SEED = Number(process.env.FUZZ_SEED ?? 4_031_977);
@@ -60,6 +61,7 @@ const PARAM_KINDS: Record<string, string> = {
 	'takes/[id]': 'take',
 	'tokens/[id]': 'api_token',
 	'cautions/[hazard]': 'hazard',
+	'media/[kind]': 'media_kind',
 	// pages
 	'rundown/[segmentId]': 'segment',
 	'script/[segmentId]': 'segment',
@@ -184,6 +186,7 @@ async function poolsFor(channelId: string, excludePerson: string): Promise<Pools
 			)),
 			...HAZARD_IDS.map((id) => ({ id }))
 		],
+		media_kind: MEDIA_KINDS.map((id) => ({ id })),
 		part: await q(`SELECT id FROM part WHERE channel_id = $1`),
 		shoot_day: await q(`SELECT id FROM shoot_day WHERE channel_id = $1`),
 		pull_item: await q(
@@ -578,6 +581,7 @@ const VALID_BODIES: Record<string, (ids: Ids, n: number) => unknown> = {
 			rearSuspension: 'leaf',
 			method: { front: null, rear: null }
 		},
+		durationSeconds: 45,
 		atFrame: 300
 	}),
 	'POST /api/episodes/[id]/stage': () => ({ from: 'script', to: 'shoot', note: 'Ready.' }),
@@ -621,6 +625,11 @@ const VALID_BODIES: Record<string, (ids: Ids, n: number) => unknown> = {
 	'PATCH /api/segments/[id]/cautions/[hazard]': (ids) => ({
 		text: 'Support the vehicle on rated stands.',
 		at: '0:05',
+		version: ids.version()
+	}),
+	'PATCH /api/segments/[id]/span': (ids) => ({
+		in: '0:05',
+		out: '1:10',
 		version: ids.version()
 	}),
 	'PUT /api/segments/[id]/script': (ids) => ({

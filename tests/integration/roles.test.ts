@@ -188,7 +188,7 @@ describe('channels see only their own records', () => {
 
 	test('the crew list of one channel never shows the other channel’s people', async () => {
 		const other = await signedIn(demo.otherProducer);
-		const crew = (await other.api('/api/crew')).body.crew.map((m: { email: string }) => m.email);
+		const crew = (await other.api('/api/crew')).body.items.map((m: { email: string }) => m.email);
 		expect(crew).toContain(demo.editor);
 		expect(crew).not.toContain(demo.host);
 	});
@@ -213,7 +213,7 @@ describe('channels see only their own records', () => {
 		).toBe(303);
 		const after = await editor.api('/api/me');
 		expect(after.body.channel.name).toBe('Dune Wagon Weekly');
-		const crew = (await editor.api('/api/crew')).body.crew.map((m: { email: string }) => m.email);
+		const crew = (await editor.api('/api/crew')).body.items.map((m: { email: string }) => m.email);
 		expect(crew).not.toContain(demo.host);
 	});
 
@@ -456,7 +456,7 @@ const specCardActionCases: Case[] = [
 				to: '285/70R17',
 				segmentId: '',
 				at: '3:00',
-				durationSeconds: '6'
+				durationSeconds: '40'
 			})
 	},
 	{

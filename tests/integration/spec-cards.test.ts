@@ -402,14 +402,14 @@ describe('changing, placing and removing cards', () => {
 		const path = `${cardsPath(episode.id)}/${created.id}`;
 		const placed = await editor().api(path, {
 			method: 'PATCH',
-			json: { version: 1, atFrame: 17982, segmentId: episode.segments[1], durationSeconds: 8 }
+			json: { version: 1, atFrame: 17982, segmentId: episode.segments[1], durationSeconds: 40 }
 		});
 		expect(placed.status).toBe(200);
 		// 17982 frames are exactly 10 minutes of 29.97 drop-frame (SMPTE ST 12-1).
 		expect(placed.body.atTimecode).toBe('00:10:00;00');
 		expect(placed.body.segment.title).toBe('Mount and torque');
-		// 8 s × 30000/1001 = 239.76 → 240 frames.
-		expect(placed.body.durationFrames).toBe(240);
+		// 40 s × 30000/1001 = 1198.8 → 1199 frames (the card's 629 characters need 37 s to read).
+		expect(placed.body.durationFrames).toBe(1199);
 		const cleared = await editor().api(path, {
 			method: 'PATCH',
 			json: { version: 2, at: null, segmentId: null }
@@ -506,8 +506,10 @@ describe('the export for the graphics', () => {
 			line_5_metric: '103.5 km/h'
 		});
 		expect(tyres.start_seconds).toBe('129.997');
-		// 6 s default × 30000/1001 = 179.82 → 180 frames = 6.006 s.
-		expect(tyres.duration_seconds).toBe('6.006');
+		// No time typed: the card's reading time, longer than the 6 s default: 629 characters ÷ 17
+		// = 37 s (tests/REFERENCES.md, "Reading speed"); 37 s × 30000/1001 = 1108.9 → 1109 frames
+		// = 37.004 s.
+		expect(tyres.duration_seconds).toBe('37.004');
 		expect(tyres.cautions.split('\n')[0]).toMatch(/speedometer and odometer read low/);
 
 		// 00:08:00;02 (;00 and ;01 are skipped at minute 8): 480 × 30 + 2 − 2 × 8 = 14386 frames (SMPTE ST 12-1) = 480.013 s.

@@ -22,6 +22,9 @@ function segment(overrides: Partial<GateSegment> = {}): GateSegment {
 		needsFootage: true,
 		words: 120,
 		hazards: [],
+		// The whole cut of ready() (2 × 17982 frames = 00:20:00;00 at 29.97 DF).
+		inFrame: 0,
+		outFrame: 17982 * 2,
 		shots: [
 			{
 				id: 'shot-1',
@@ -283,7 +286,9 @@ describe('edit → locked', () => {
 
 	test('a flagged segment with an unplaced caution is refused, naming the segment and the hazard', () => {
 		const reasons = gateChecksFor(
-			flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: null }]),
+			flagged([
+				{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: null, durationFrames: 300 }
+			]),
 			'locked'
 		);
 		expect(reasons).toHaveLength(1);
@@ -298,7 +303,14 @@ describe('edit → locked', () => {
 	test('a placed caution passes', () => {
 		expect(
 			gateChecksFor(
-				flagged([{ hazard: 'brakes', text: 'Have brake work inspected.', atFrame: 1800 }]),
+				flagged([
+					{
+						hazard: 'brakes',
+						text: 'Have brake work inspected.',
+						atFrame: 1800,
+						durationFrames: 300
+					}
+				]),
 				'locked'
 			)
 		).toEqual([]);
@@ -306,7 +318,14 @@ describe('edit → locked', () => {
 
 	test('a caution placed after the end of the cut is refused with both timecodes (SMPTE ST 12-1 drop-frame labels)', () => {
 		const snapshot = {
-			...flagged([{ hazard: 'brakes' as const, text: 'Inspect it.', atFrame: 17982 + 1800 }]),
+			...flagged([
+				{
+					hazard: 'brakes' as const,
+					text: 'Inspect it.',
+					atFrame: 17982 + 1800,
+					durationFrames: 300
+				}
+			]),
 			cutDurationFrames: 17982
 		};
 		const reasons = gateChecksFor(snapshot, 'locked');
@@ -322,7 +341,10 @@ describe('edit → locked', () => {
 			{ rule: 'caution-text-missing', fixedBy: 'host' }
 		]);
 		expect(
-			gateChecksFor(flagged([{ hazard: 'brakes', text: '   ', atFrame: 10 }]), 'locked')
+			gateChecksFor(
+				flagged([{ hazard: 'brakes', text: '   ', atFrame: 10, durationFrames: 300 }]),
+				'locked'
+			)
 		).toMatchObject([{ rule: 'caution-text-missing' }]);
 	});
 
@@ -330,7 +352,10 @@ describe('edit → locked', () => {
 		const snapshot = ready({
 			stage: 'edit',
 			segments: [
-				segment({ hazards: [], cautions: [{ hazard: 'steering', text: 'x', atFrame: null }] })
+				segment({
+					hazards: [],
+					cautions: [{ hazard: 'steering', text: 'x', atFrame: null, durationFrames: 300 }]
+				})
 			]
 		});
 		expect(gateChecksFor(snapshot, 'locked')).toEqual([]);
@@ -343,8 +368,8 @@ describe('edit → locked', () => {
 				segment({
 					hazards: ['raised-vehicle', 'brakes'],
 					cautions: [
-						{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: 30 },
-						{ hazard: 'brakes', text: 'Inspect.', atFrame: null }
+						{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: 30, durationFrames: 300 },
+						{ hazard: 'brakes', text: 'Inspect.', atFrame: null, durationFrames: 300 }
 					]
 				})
 			]
@@ -352,6 +377,95 @@ describe('edit → locked', () => {
 		const reasons = gateChecksFor(snapshot, 'locked');
 		expect(reasons).toHaveLength(1);
 		expect(reasons[0].message).toMatch(/Brakes/);
+	});
+});
+
+describe('edit → locked: a caution on screen inside its segment, long enough to read', () => {
+	// Frames at 29.97 DF (tests/REFERENCES.md, "Timecode", SMPTE ST 12-1): 1800 ↔ 00:01:00;02,
+	// 3600 ↔ 00:02:00;04, 17982 ↔ 00:10:00;00. Reading time: characters ÷ 17, rounded up
+	// (common practice for subtitles, from memory; tests/REFERENCES.md, "Reading speed").
+	const STANDS =
+		'Use rated jack stands on solid, level ground. Never work under a vehicle held up only by a jack.';
+	// 96 characters ÷ 17 = 5.6 → 6 s; 6 s at 30000/1001 fps = 179.8 → 180 frames.
+	const jackedUp = (
+		caution: Partial<GateSegment['cautions'][number]>,
+		span = { inFrame: 1800, outFrame: 3600 }
+	) =>
+		ready({
+			stage: 'edit',
+			segments: [
+				segment({
+					position: 2,
+					title: 'Jack it up',
+					hazards: ['raised-vehicle'],
+					...span,
+					cautions: [
+						{
+							hazard: 'raised-vehicle',
+							text: STANDS,
+							atFrame: 1900,
+							durationFrames: 180,
+							...caution
+						}
+					]
+				})
+			]
+		});
+
+	test('the default stands caution is 96 characters: 6 s to read (96 ÷ 17 = 5.6)', () => {
+		expect(STANDS.length).toBe(96);
+		expect(gateChecksFor(jackedUp({}), 'locked')).toEqual([]);
+	});
+
+	test('a caution placed in the end credits, outside its segment, is refused naming the segment and both spans', () => {
+		const reasons = gateChecksFor(jackedUp({ atFrame: 17000 }), 'locked');
+		expect(reasons).toHaveLength(1);
+		expect(reasons[0]).toMatchObject({
+			rule: 'caution-outside-segment',
+			subject: 'Segment 2 “Jack it up”',
+			fixedBy: 'editor'
+		});
+		expect(reasons[0].message).toContain('“Vehicle raised on stands” caution');
+		expect(reasons[0].message).toContain('00:01:00;02–00:02:00;04'); // the segment's span
+	});
+
+	test('a caution that starts inside the segment but runs past its out point is refused', () => {
+		expect(rules(jackedUp({ atFrame: 3500 }), 'locked')).toEqual(['caution-outside-segment']);
+		// Ending exactly on the out point (exclusive) is inside: 3420 + 180 = 3600.
+		expect(rules(jackedUp({ atFrame: 3420 }), 'locked')).toEqual([]);
+		expect(rules(jackedUp({ atFrame: 1799 }), 'locked')).toEqual(['caution-outside-segment']);
+	});
+
+	test('a caution shown shorter than its reading time is refused with the seconds it needs', () => {
+		const reasons = gateChecksFor(jackedUp({ durationFrames: 60 }), 'locked');
+		expect(reasons).toHaveLength(1);
+		expect(reasons[0].rule).toBe('caution-too-short');
+		// 60 frames at 29.97 = 2.002 s → "2 s"; 96 characters need 6 s.
+		expect(reasons[0].message).toContain('on screen for 2 s');
+		expect(reasons[0].message).toContain('96 characters need 6 s');
+		// 179 frames is 5.97 s: still a frame short of 6 s.
+		expect(rules(jackedUp({ durationFrames: 179 }), 'locked')).toEqual(['caution-too-short']);
+	});
+
+	test('a caution with no time on screen is refused', () => {
+		expect(rules(jackedUp({ durationFrames: null }), 'locked')).toEqual([
+			'caution-duration-missing'
+		]);
+	});
+
+	test('a segment with no in and out points is refused for its caution, for the editor', () => {
+		const reasons = gateChecksFor(
+			jackedUp({}, { inFrame: null, outFrame: null } as never),
+			'locked'
+		);
+		expect(reasons).toMatchObject([
+			{ rule: 'segment-span-missing', subject: 'Segment 2 “Jack it up”', fixedBy: 'editor' }
+		]);
+	});
+
+	test('the same rules hold at the publish gate', () => {
+		const snapshot = { ...jackedUp({ atFrame: 17000 }), stage: 'locked' as const };
+		expect(rules(snapshot, 'published')).toEqual(['caution-outside-segment']);
 	});
 });
 
@@ -363,7 +477,9 @@ describe('locked → published', () => {
 				segment({
 					title: 'Jack it up',
 					hazards: ['raised-vehicle'],
-					cautions: [{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: null }]
+					cautions: [
+						{ hazard: 'raised-vehicle', text: 'Stands.', atFrame: null, durationFrames: 300 }
+					]
 				})
 			]
 		});

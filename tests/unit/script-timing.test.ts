@@ -20,10 +20,12 @@ describe('countSpokenWords', () => {
 		expect(countSpokenWords(prose)).toBe(12);
 	});
 
-	test('numbers are words; hyphenated and slash-joined tokens are one word', () => {
-		expect(countSpokenWords('torque to 95 ft-lbs')).toBe(4);
-		// use the 1/2-inch drive and/or the breaker bar: 8 whitespace-separated tokens.
-		expect(countSpokenWords('use the 1/2-inch drive and/or the breaker bar')).toBe(8);
+	test('figures and units count as read aloud; hyphenated and slash-joined words are one word', () => {
+		// torque to (2) + ninety-five (2) + foot pounds (2); common practice, from memory
+		// (tests/unit/spoken-numbers.test.ts has the rules).
+		expect(countSpokenWords('torque to 95 ft-lbs')).toBe(6);
+		// use the (2) + one half inch (3) + drive and/or the breaker bar (5)
+		expect(countSpokenWords('use the 1/2-inch drive and/or the breaker bar')).toBe(10);
 	});
 
 	test('heading markers, emphasis, bullets and blockquote markers are not words', () => {
@@ -121,7 +123,8 @@ describe('countSpokenWords', () => {
 
 	test('tables: cell text counts, pipes and the delimiter row do not', () => {
 		const table = '| Part | Torque |\n|---|---:|\n| lug nut | 95 ft-lbs |';
-		expect(countSpokenWords(table)).toBe(6);
+		// Part Torque lug nut (4) + ninety-five foot pounds (4)
+		expect(countSpokenWords(table)).toBe(8);
 	});
 
 	test('task-list boxes are not words', () => {
@@ -179,7 +182,11 @@ describe('calibratePace', () => {
 		];
 		// Hand-worked: 400 words ÷ (150 s = 2.5 min) = 160 wpm.
 		// (A mean of ratios would give (180 + 120) ÷ 2 = 150, which is not what we want.)
-		expect(calibratePace(samples)).toEqual({ wordsPerMinute: 160, basedOn: 2, calibrated: true });
+		expect(calibratePace(samples)).toMatchObject({
+			wordsPerMinute: 160,
+			basedOn: 2,
+			calibrated: true
+		});
 	});
 
 	test('ignores takes under 10 s or under 20 words', () => {
@@ -189,36 +196,65 @@ describe('calibratePace', () => {
 			{ words: 19, recordedSeconds: 30 }
 		];
 		// Hand-worked: only the first is usable: 300 ÷ 2 min = 150 wpm.
-		expect(calibratePace(samples)).toEqual({ wordsPerMinute: 150, basedOn: 1, calibrated: true });
+		expect(calibratePace(samples)).toMatchObject({
+			wordsPerMinute: 150,
+			basedOn: 1,
+			calibrated: true
+		});
 	});
 
 	test('takes exactly at 10 s and 20 words are usable', () => {
 		// Hand-worked: 20 words ÷ (10/60 min) = 120 wpm.
-		expect(calibratePace([{ words: 20, recordedSeconds: 10 }])).toEqual({
+		expect(calibratePace([{ words: 20, recordedSeconds: 10 }])).toMatchObject({
 			wordsPerMinute: 120,
 			basedOn: 1,
 			calibrated: true
 		});
 	});
 
-	test('clamps implausible rates to 80–260 wpm', () => {
-		// Hand-worked: 600 words in 60 s = 600 wpm → clamped to 260.
-		expect(calibratePace([{ words: 600, recordedSeconds: 60 }]).wordsPerMinute).toBe(
-			CALIBRATED_PACE_RANGE.maximum
-		);
-		// Hand-worked: 20 words in 60 s = 20 wpm → clamped to 80.
-		expect(calibratePace([{ words: 20, recordedSeconds: 60 }]).wordsPerMinute).toBe(
-			CALIBRATED_PACE_RANGE.minimum
-		);
+	test('400 words in 30 s is refused as not a speaking pace, never "260, calibrated"', () => {
+		// Hand-worked: 400 words ÷ 0.5 min = 800 wpm, three times radio-bulletin speed (160–180 wpm,
+		// Rodero 2012; common practice, from memory). The old rule clamped it to 260 and called it
+		// calibrated.
+		const result = calibratePace([{ words: 400, recordedSeconds: 30 }]);
+		expect(result.calibrated).toBe(false);
+		expect(result.refused).toBe(true);
+		expect(result.wordsPerMinute).toBe(DEFAULT_WORDS_PER_MINUTE);
+		expect(result.measuredWordsPerMinute).toBe(800);
+	});
+
+	test('a pace below the speaking range is refused too, never raised to 80', () => {
+		// Hand-worked: 20 words in 60 s = 20 wpm (a reading timed with a long pause, or wordless work).
+		const result = calibratePace([{ words: 20, recordedSeconds: 60 }]);
+		expect(result).toMatchObject({ calibrated: false, refused: true, measuredWordsPerMinute: 20 });
+		expect(result.wordsPerMinute).toBe(DEFAULT_WORDS_PER_MINUTE);
+	});
+
+	test('the edges of the speaking range are accepted (our own range, 80–260 wpm)', () => {
 		expect(CALIBRATED_PACE_RANGE).toEqual({ minimum: 80, maximum: 260 });
+		// Hand-worked: 130 words in 30 s = 260 wpm; 40 words in 30 s = 80 wpm.
+		expect(calibratePace([{ words: 130, recordedSeconds: 30 }])).toMatchObject({
+			wordsPerMinute: 260,
+			calibrated: true
+		});
+		expect(calibratePace([{ words: 40, recordedSeconds: 30 }])).toMatchObject({
+			wordsPerMinute: 80,
+			calibrated: true
+		});
 	});
 
 	test('falls back to the default, or the given fallback, when nothing is usable', () => {
-		expect(calibratePace([])).toEqual({ wordsPerMinute: 150, basedOn: 0, calibrated: false });
-		expect(calibratePace([{ words: 5, recordedSeconds: 3 }], 140)).toEqual({
+		expect(calibratePace([])).toMatchObject({
+			wordsPerMinute: 150,
+			basedOn: 0,
+			calibrated: false,
+			refused: false
+		});
+		expect(calibratePace([{ words: 5, recordedSeconds: 3 }], 140)).toMatchObject({
 			wordsPerMinute: 140,
 			basedOn: 0,
-			calibrated: false
+			calibrated: false,
+			refused: false
 		});
 	});
 
@@ -228,7 +264,11 @@ describe('calibratePace', () => {
 			{ words: 150, recordedSeconds: Number.POSITIVE_INFINITY },
 			{ words: 180, recordedSeconds: 60 }
 		];
-		expect(calibratePace(samples)).toEqual({ wordsPerMinute: 180, basedOn: 1, calibrated: true });
+		expect(calibratePace(samples)).toMatchObject({
+			wordsPerMinute: 180,
+			basedOn: 1,
+			calibrated: true
+		});
 	});
 });
 

@@ -14,9 +14,11 @@
 
 import {
 	formatMilliseconds,
-	formatTimecode,
+	programmeClock,
+	programmeTimecode,
 	framesToMilliseconds,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeClock
 } from '../timecode';
 import { nameChapter, sortChapters, type Chapter } from './rules';
 import { csvText } from '../csv';
@@ -34,7 +36,13 @@ export const CHAPTER_FORMATS: readonly ChapterFormat[] = Object.freeze([
 export interface ChapterExportOptions {
 	rate: FrameRate;
 	cutEndFrame: number;
-	/** Only for the CSV timecode column; defaults to drop-frame at 29.97 and 59.94. */
+	/**
+	 * Only for the CSV timecode column: the episode's programme timecode (its form and start
+	 * offset). Left out: the rate's usual form from 00:00:00:00. Every other format, and the CSV's
+	 * seconds, count real time from the start of the cut, as video platforms read chapters.
+	 */
+	programme?: ProgrammeClock;
+	/** Without `programme`: the CSV's form; defaults to drop-frame at 29.97 and 59.94. */
 	dropFrame?: boolean;
 }
 
@@ -64,7 +72,10 @@ interface TimedChapter {
 
 /** The normalisation every format shares (see the module comment). */
 export function normaliseTitle(title: string): string {
-	return String(title ?? '')
+	const text = String(title ?? '');
+	// Most titles hold no control character at all: then trimming is the whole job.
+	if (!/[\u0000-\u001F\u007F]/.test(text)) return text.trim();
+	return text
 		.replace(/\r\n?/g, '\n')
 		.replace(/\t/g, ' ')
 		.replace(/[\u0000-\u0008\u000B-\u001F\u007F]/g, '')
@@ -73,8 +84,12 @@ export function normaliseTitle(title: string): string {
 
 /** A title on one line: each line break and the spaces around it become one space (txt, vtt). */
 export function singleLineTitle(title: string): string {
-	return normaliseTitle(title).replace(/[ ]*\n[ \n]*/g, ' ');
+	return oneLine(normaliseTitle(title));
 }
+
+/** singleLineTitle of a title already normalised (normalising twice changes nothing). */
+const oneLine = (normalised: string) =>
+	normalised.includes('\n') ? normalised.replace(/[ ]*\n[ \n]*/g, ' ') : normalised;
 
 function isWebAddress(text: string): boolean {
 	try {
@@ -97,37 +112,46 @@ function timeChapters(chapters: readonly Chapter[], options: ChapterExportOption
 		throw new ChapterExportError('There are no chapters to export yet; add at least one.');
 	}
 	// Keep each chapter's position in the list as given, so messages name the chapter the crew sees.
-	const sorted = sortChapters(chapters.map((chapter, position) => ({ ...chapter, position })));
+	// A list read in start order (as the server reads it) is used as it is, without a sorted copy.
+	const inOrder = chapters.every(
+		(chapter, index) => index === 0 || chapters[index - 1].startFrame <= chapter.startFrame
+	);
+	const sorted = inOrder
+		? chapters
+		: sortChapters(chapters.map((chapter, position) => ({ ...chapter, position })));
+	const positionOf = (index: number) =>
+		inOrder ? index : (sorted[index] as Chapter & { position: number }).position;
 	return sorted.map((chapter, index) => {
-		const name = nameChapter(chapter.position, chapter.title);
+		const position = positionOf(index);
+		const name = () => nameChapter(position, chapter.title);
 		const start = chapter.startFrame;
 		if (!Number.isSafeInteger(start) || start < 0) {
 			throw new ChapterExportError(
-				`${name} has no usable start time; set it to a frame inside the cut.`
+				`${name()} has no usable start time; set it to a frame inside the cut.`
 			);
 		}
 		if (start >= cutEndFrame) {
 			throw new ChapterExportError(
-				`${name} starts at or after the end of the cut; move it earlier or remove it before exporting.`
+				`${name()} starts at or after the end of the cut; move it earlier or remove it before exporting.`
 			);
 		}
 		const next = sorted[index + 1];
 		if (next && next.startFrame === start) {
 			throw new ChapterExportError(
-				`${name} and ${nameChapter(next.position, next.title).replace(/^Chapter/, 'chapter')} start on the same frame; move one of them.`
+				`${name()} and ${nameChapter(positionOf(index + 1), next.title).replace(/^Chapter/, 'chapter')} start on the same frame; move one of them.`
 			);
 		}
 		const title = normaliseTitle(chapter.title);
 		if (title === '') {
 			throw new ChapterExportError(
-				`Chapter ${chapter.position + 1} has no title; give it one before exporting.`
+				`Chapter ${position + 1} has no title; give it one before exporting.`
 			);
 		}
 		const url =
 			typeof chapter.url === 'string' && chapter.url.trim() !== '' ? chapter.url.trim() : null;
 		if (url !== null && !isWebAddress(url)) {
 			throw new ChapterExportError(
-				`${name} links to “${url}”, which isn't a web address (http:// or https://); fix the link or clear it.`
+				`${name()} links to “${url}”, which isn't a web address (http:// or https://); fix the link or clear it.`
 			);
 		}
 		const endFrame = next ? next.startFrame : cutEndFrame;
@@ -148,7 +172,7 @@ function toDescriptionText(chapters: TimedChapter[], cutEndMilliseconds: number)
 	return chapters
 		.map(
 			(chapter) =>
-				`${formatMilliseconds(chapter.startMilliseconds, { hours })} ${singleLineTitle(chapter.title)}\n`
+				`${formatMilliseconds(chapter.startMilliseconds, { hours })} ${oneLine(chapter.title)}\n`
 		)
 		.join('');
 }
@@ -159,6 +183,7 @@ function toDescriptionText(chapters: TimedChapter[], cutEndMilliseconds: number)
  * which would otherwise be read as a cue timing line.
  */
 function escapeWebVttText(text: string): string {
+	if (!/[&<>]/.test(text)) return text;
 	return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;');
 }
 
@@ -168,7 +193,7 @@ function toWebVtt(chapters: TimedChapter[]): string {
 		formatMilliseconds(milliseconds, { hours: 'always', millis: true });
 	const cues = chapters.map(
 		(chapter) =>
-			`${timestamp(chapter.startMilliseconds)} --> ${timestamp(chapter.endMilliseconds)}\n${escapeWebVttText(singleLineTitle(chapter.title))}\n`
+			`${timestamp(chapter.startMilliseconds)} --> ${timestamp(chapter.endMilliseconds)}\n${escapeWebVttText(oneLine(chapter.title))}\n`
 	);
 	return `WEBVTT\n\n${cues.join('\n')}`;
 }
@@ -180,6 +205,7 @@ function toWebVtt(chapters: TimedChapter[]): string {
  * one, so a title ending in `\` would swallow the next line: such a title gets one trailing space.
  */
 function escapeFfmetadataValue(text: string): string {
+	if (!/[=;#\\\n]/.test(text)) return text;
 	const escaped = text.replace(/[=;#\\\n]/g, '\\$&');
 	return text.endsWith('\\') ? `${escaped} ` : escaped;
 }
@@ -215,10 +241,15 @@ function secondsText(milliseconds: number): string {
 
 /** CSV with a header row and CRLF line ends (RFC 4180); the timecode is at the episode's rate. */
 function toCsv(chapters: TimedChapter[], options: ChapterExportOptions): string {
+	const programme =
+		options.programme ??
+		programmeClock(
+			programmeTimecode({ frameRate: options.rate, timecodeDropFrame: options.dropFrame })
+		);
 	const rows = [['start_timecode', 'start_seconds', 'end_seconds', 'title']];
 	for (const chapter of chapters) {
 		rows.push([
-			formatTimecode(chapter.startFrame, options.rate, { dropFrame: options.dropFrame }),
+			programme.format(chapter.startFrame),
 			secondsText(chapter.startMilliseconds),
 			secondsText(chapter.endMilliseconds),
 			chapter.title

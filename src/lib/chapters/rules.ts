@@ -41,7 +41,9 @@ export function sortChapters<T extends Chapter>(chapters: readonly T[]): T[] {
 
 /** Title length in Unicode code points, so a Japanese or Cyrillic letter counts as one character. */
 export function titleLength(title: string): number {
-	return [...title.trim()].length;
+	const trimmed = title.trim();
+	// Without surrogate pairs every UTF-16 unit is one code point, so the length needs no copy.
+	return /[\uD800-\uDFFF]/.test(trimmed) ? [...trimmed].length : trimmed.length;
 }
 
 /** A clock time for a message: `1:05`, or `1:05.040` when the frame doesn't fall on a whole second. */
@@ -111,14 +113,15 @@ export function validateChapters(
 	}
 
 	chapters.forEach((chapter, index) => {
-		const name = nameChapter(index, chapter.title);
+		// Named only when a message needs it: most chapters have no problem, and long lists are checked on every export.
+		const name = () => nameChapter(index, chapter.title);
 		const start = chapter.startFrame;
 
 		if (!isUsableStart(start)) {
 			problems.push({
 				index,
 				field: 'start',
-				message: `${name} has no usable start time; set it to a frame inside the cut.`
+				message: `${name()} has no usable start time; set it to a frame inside the cut.`
 			});
 		} else {
 			const startsInsideCut = !cutIsSet || start < cutEndFrame;
@@ -126,7 +129,7 @@ export function validateChapters(
 				problems.push({
 					index,
 					field: 'start',
-					message: `${name} starts at ${describeTime(start, rate)}; the first chapter has to start at 0:00.`
+					message: `${name()} starts at ${describeTime(start, rate)}; the first chapter has to start at 0:00.`
 				});
 			}
 			const previous = index > 0 ? chapters[index - 1] : undefined;
@@ -134,14 +137,14 @@ export function validateChapters(
 				problems.push({
 					index,
 					field: 'start',
-					message: `${name} starts at ${describeTime(start, rate)}, which isn't after ${nameChapter(index - 1, previous.title).replace(/^Chapter/, 'chapter')} (${describeTime(previous.startFrame, rate)}); each chapter has to start after the one before.`
+					message: `${name()} starts at ${describeTime(start, rate)}, which isn't after ${nameChapter(index - 1, previous.title).replace(/^Chapter/, 'chapter')} (${describeTime(previous.startFrame, rate)}); each chapter has to start after the one before.`
 				});
 			}
 			if (!startsInsideCut) {
 				problems.push({
 					index,
 					field: 'start',
-					message: `${name} starts at ${describeTime(start, rate)}, at or after the end of the cut (${describeTime(cutEndFrame, rate)}); move it earlier or remove it.`
+					message: `${name()} starts at ${describeTime(start, rate)}, at or after the end of the cut (${describeTime(cutEndFrame, rate)}); move it earlier or remove it.`
 				});
 			}
 			if (cutIsSet && startsInsideCut) {
@@ -157,7 +160,7 @@ export function validateChapters(
 						problems.push({
 							index,
 							field: 'start',
-							message: `${name} is ${describeLength(length, rate)} long${runsTo}; chapters need at least ${MIN_CHAPTER_SECONDS} s.`
+							message: `${name()} is ${describeLength(length, rate)} long${runsTo}; chapters need at least ${MIN_CHAPTER_SECONDS} s.`
 						});
 					}
 				}
@@ -175,7 +178,7 @@ export function validateChapters(
 			problems.push({
 				index,
 				field: 'title',
-				message: `${name} has a ${titleLength(title)}-character title; keep it to ${MAX_CHAPTER_TITLE_CHARACTERS} characters or fewer.`
+				message: `${name()} has a ${titleLength(title)}-character title; keep it to ${MAX_CHAPTER_TITLE_CHARACTERS} characters or fewer.`
 			});
 		}
 	});

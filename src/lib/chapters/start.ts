@@ -1,22 +1,28 @@
 /**
  * Reading a typed chapter start. Pure module: no I/O, safe in the browser and on the server.
  */
-import { defaultDropFrame, exactFps, parseTimecode, type FrameRate } from '../timecode';
+import { clockOrUsual, exactFps, type FrameRate, type ProgrammeClock } from '../timecode';
 
 // M:SS, H:MM:SS, with an optional decimal fraction: the clock forms parseTimecode accepts.
 const CLOCK_TIME = /^(?:(\d+):)?(\d+):(\d{2})(?:\.(\d+))?$/;
 
 /**
- * The frame a typed chapter start names. Timecode names its frame exactly (read drop-frame at
- * 29.97 and 59.94, as the page shows it). A clock time goes to the first frame at or after it,
- * not the nearest: description timestamps are cut off to the second, so "11:30" must not land
- * on 11:29.993 and be pasted as 11:29.
+ * The frame a typed chapter start names. Timecode names its frame exactly (read in the episode's
+ * programme timecode, start offset taken off; a bare rate means the usual form from 00:00:00:00).
+ * A clock time counts from the start of the cut and goes to the first frame at or after it, not
+ * the nearest: description timestamps are cut off to the second, so "11:30" must not land on
+ * 11:29.993 and be pasted as 11:29.
  */
-export function chapterStartFromText(text: string, rate: FrameRate): number {
-	const nearest = parseTimecode(text, rate, { dropFrame: defaultDropFrame(rate) });
-	const clock = CLOCK_TIME.exec(String(text).trim());
-	if (!clock) return nearest;
-	const [, hours = '0', minutes, seconds, fraction = ''] = clock;
+export function chapterStartFromText(
+	text: string,
+	clockOrRate: ProgrammeClock | FrameRate
+): number {
+	const clock = clockOrUsual(clockOrRate);
+	const rate = clock.rate;
+	const nearest = clock.parse(text);
+	const typedClock = CLOCK_TIME.exec(String(text).trim());
+	if (!typedClock) return nearest;
+	const [, hours = '0', minutes, seconds, fraction = ''] = typedClock;
 	const scale = 10n ** BigInt(fraction.length);
 	const typedScaled =
 		(BigInt(hours) * 3600n + BigInt(minutes) * 60n + BigInt(seconds)) * scale +

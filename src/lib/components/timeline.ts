@@ -31,6 +31,17 @@ export interface TimelineChapter {
 	flagged: boolean;
 }
 
+/** A rundown segment's span in the cut as the timeline draws it; unplaced ones are not drawn. */
+export interface TimelineSegment {
+	id: string;
+	position: number;
+	title: string;
+	inFrame: number | null;
+	outFrame: number | null;
+	/** Flagged hazards: the span is drawn with the caution colour. */
+	hazards: readonly string[];
+}
+
 export type TimelineAction =
 	| { kind: 'seek-seconds'; seconds: number }
 	| { kind: 'seek-frames'; frames: number }

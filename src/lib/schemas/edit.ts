@@ -96,3 +96,36 @@ export const chapterFormatSchema = z.enum(
 export type CutUpdate = z.infer<typeof cutUpdateSchema>;
 export type ChapterCreate = z.infer<typeof chapterCreateSchema>;
 export type ChapterUpdate = z.infer<typeof chapterUpdateSchema>;
+
+/** One end of a segment's span on the timeline as typed; '' (or null from JSON) clears it. */
+const spanPointSchema = z.preprocess(
+	(value) => (value === null ? '' : value),
+	text('Type a timecode or a clock time, e.g. 00:04:05;00 or 4:05.')
+		.trim()
+		.max(40, 'That time is far too long; type it as HH:MM:SS:FF or M:SS.')
+);
+
+/**
+ * Where a rundown segment sits in the cut: its in and out points on the edit timeline (timecode
+ * or clock text at the episode's rate, out exclusive). Both, or neither to take it off the
+ * timeline; the server checks in before out and both inside the cut.
+ */
+export const segmentSpanSchema = z
+	.object({ version: recordVersion, in: spanPointSchema, out: spanPointSchema })
+	.strict()
+	.superRefine((span, context) => {
+		if (span.in === '' && span.out !== '')
+			context.addIssue({
+				code: 'custom',
+				path: ['in'],
+				message: 'Type the in point too, or clear both to take the segment off the timeline.'
+			});
+		if (span.out === '' && span.in !== '')
+			context.addIssue({
+				code: 'custom',
+				path: ['out'],
+				message: 'Type the out point too, or clear both to take the segment off the timeline.'
+			});
+	});
+
+export type SegmentSpanUpdate = z.infer<typeof segmentSpanSchema>;

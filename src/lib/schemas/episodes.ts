@@ -3,7 +3,7 @@
  * and builds: shared by the form actions, the API routes and the client.
  */
 import { z } from 'zod';
-import { HAZARD_IDS, CAUTION_MAX_CHARACTERS } from '$lib/cautions';
+import { HAZARD_IDS, CAUTION_MAX_CHARACTERS, CAUTION_SECONDS_LIMITS } from '$lib/cautions';
 import { SEGMENT_KINDS, parseDurationText } from '$lib/rundown';
 import { STAGES } from '$lib/stages';
 import { SUSPENSION_TYPES, LIFT_METHODS, MAX_LIFT_IN } from '$lib/specs/lift';
@@ -11,6 +11,7 @@ import { parseTyreSize } from '$lib/specs/tyres';
 import { isSpecError } from '$lib/specs/errors';
 import { FRAME_RATE_VALUES } from './people';
 import { MAX_FRAMES, calendarDate, text, recordVersion, wholeNumber } from './fields';
+import { pageQueryFields } from './paging';
 
 import { SCRIPT_CHARACTER_LIMIT } from './episodes-constants';
 export { SCRIPT_CHARACTER_LIMIT };
@@ -99,6 +100,19 @@ const episodeFields = {
 		'Give the episode a target runtime above 0, e.g. 12:00.'
 	),
 	frameRate: z.enum(FRAME_RATE_VALUES, { error: 'Pick one of the listed frame rates.' }),
+	/** Programme timecode form: true drop-frame, false non-drop, null the rate's usual form. */
+	timecodeDropFrame: z
+		.boolean({ error: 'Pick drop-frame or non-drop for the programme timecode.' })
+		.nullable()
+		.optional(),
+	/** The label of the cut's first frame; whether it fits the rate is the domain's check. */
+	timecodeStart: text()
+		.trim()
+		.regex(
+			/^\d{2}:\d{2}:\d{2}[:;]\d{2}$/,
+			'Write the start timecode as HH:MM:SS:FF, e.g. 01:00:00:00 (00:00:00:00 for none).'
+		)
+		.optional(),
 	publishDate: publishDate.optional(),
 	buildIds: z
 		.array(uuid('a build'), { error: 'Pick builds from the list.' })
@@ -126,9 +140,27 @@ export const episodeListQuerySchema = z.object({
 	from: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
 	to: calendarDate('Enter the date as YYYY-MM-DD.').optional(),
 	sort: z.enum(EPISODE_SORTS).default('publish'),
-	direction: z.enum(['asc', 'desc']).default('asc')
+	direction: z.enum(['asc', 'desc']).default('asc'),
+	...pageQueryFields
 });
 export type EpisodeListQuery = z.infer<typeof episodeListQuerySchema>;
+
+/** How many episodes the picker offers at once. */
+export const EPISODE_PICKER_LIMIT = 20;
+
+/** `?q=&except=&limit=` of the episode picker's search. */
+export const episodePickerQuerySchema = z.object({
+	q: text().trim().max(120, 'Type at most 120 characters to find an episode.').optional(),
+	except: uuid('an episode').optional(),
+	limit: wholeNumber({
+		coerce: true,
+		error: 'Ask for a number of episodes, such as 20.',
+		min: 1,
+		max: 50,
+		tooBig: 'Ask for at most 50 episodes at a time.'
+	}).default(EPISODE_PICKER_LIMIT)
+});
+export type EpisodePickerQuery = z.infer<typeof episodePickerQuerySchema>;
 
 const hazards = z
 	.array(z.enum(HAZARD_IDS, { error: 'Pick hazards from the list.' }))
@@ -233,6 +265,31 @@ export const cautionUpdateSchema = z
 			tooBig: 'That frame is far past any cut.'
 		})
 			.nullable()
+			.optional(),
+		/**
+		 * How long the card stays on screen, in seconds (a number, or text from a form; '' or null
+		 * clears it). The server refuses less than the words need to be read ($lib/reading-time).
+		 */
+		seconds: z
+			.preprocess(
+				(value) =>
+					typeof value === 'string'
+						? value.trim() === ''
+							? null
+							: Number(value.trim().replace(',', '.'))
+						: value,
+				z
+					.number({ error: 'Type how many seconds the card stays on screen, e.g. 8.' })
+					.min(
+						CAUTION_SECONDS_LIMITS.min,
+						`A caution card needs at least ${CAUTION_SECONDS_LIMITS.min} s on screen.`
+					)
+					.max(
+						CAUTION_SECONDS_LIMITS.max,
+						`Keep a caution card on screen for ${CAUTION_SECONDS_LIMITS.max} s or less.`
+					)
+					.nullable()
+			)
 			.optional(),
 		version: recordVersion
 	})

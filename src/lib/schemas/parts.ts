@@ -4,6 +4,7 @@
  * status, currency) are the same for a typed form, a JSON call and a CSV row, so a value accepted
  * in one is accepted in all three.
  */
+import { pageQueryFields } from './paging';
 import { z } from 'zod';
 import {
 	MAX_FRAMES,
@@ -16,36 +17,15 @@ import {
 
 import {
 	PART_STATUSES,
-	PART_STATUS_LABELS,
 	PART_SORTS,
-	PART_PAGE_SIZES,
 	MAX_PART_PAGE_SIZE,
 	PART_LIMITS,
 	MAX_PRICE_CENTS,
 	IMPORT_FIELDS,
-	IMPORT_FIELD_LABELS,
-	REQUIRED_IMPORT_FIELDS,
-	type PartStatusValue,
-	type PartSort,
-	type ImportField,
-	type ImportMapping
+	type PartStatusValue
 } from './parts-constants';
-export {
-	PART_STATUSES,
-	PART_STATUS_LABELS,
-	PART_SORTS,
-	PART_PAGE_SIZES,
-	MAX_PART_PAGE_SIZE,
-	PART_LIMITS,
-	MAX_PRICE_CENTS,
-	IMPORT_FIELDS,
-	IMPORT_FIELD_LABELS,
-	REQUIRED_IMPORT_FIELDS,
-	type PartStatusValue,
-	type PartSort,
-	type ImportField,
-	type ImportMapping
-};
+// The constants live apart from zod so pages can import them without it (DEVELOPERS "JavaScript budget").
+export * from './parts-constants';
 
 export type FieldReading<T> = { ok: true; value: T } | { ok: false; message: string };
 
@@ -273,7 +253,9 @@ export const partSearchSchema = z.object({
 			tooSmall: 'pageSize is 1 or more.',
 			tooBig: `pageSize is at most ${MAX_PART_PAGE_SIZE}.`
 		}).default(25)
-	)
+	),
+	/** The `next` of the previous answer: the page after its last part (`page` then only numbers it). */
+	after: pageQueryFields.after
 });
 export type PartSearch = z.infer<typeof partSearchSchema>;
 

@@ -21,11 +21,14 @@
  *   Markdown is read, so they may hold anything; write `\[\[` for literal
  *   double brackets.
  * - A word is a run of characters between whitespace (or an em dash) holding
- *   at least one letter or digit. Numbers are words ("95"); hyphenated and
- *   slash-joined tokens are one word ("ft-lbs", "and/or"); a lone "&" is one
- *   word because it is read as "and".
+ *   at least one letter or digit. Hyphenated and slash-joined words are one
+ *   word ("and/or"); a lone "&" is one word because it is read as "and".
+ * - Figures and units count as they are read aloud (`spokenWordsInToken` in
+ *   ./spoken-numbers): "285/70R17" is seven words, "95 ft-lbs" four, "35 psi"
+ *   five.
  */
 import { Lexer, type Token, type Tokens } from 'marked';
+import { spokenWordsInToken } from './spoken-numbers';
 
 /**
  * Presented speech runs about 150 words per minute (common practice; Lucas,
@@ -35,14 +38,15 @@ import { Lexer, type Token, type Tokens } from 'marked';
  */
 export const DEFAULT_WORDS_PER_MINUTE = 150;
 
-/** Calibration ignores takes shorter than this: lead-in and pauses dominate a very short take. */
+/** Calibration ignores readings shorter than this: the start and stop clicks dominate a very short one. */
 export const CALIBRATION_MIN_SECONDS = 10;
-/** Calibration ignores takes with fewer words than this, for the same reason. */
+/** Calibration ignores readings with fewer words than this, for the same reason. */
 export const CALIBRATION_MIN_WORDS = 20;
 /**
- * Our own sanity range for a measured pace. Outside it the sample is almost
- * certainly wrong (a take linked to the wrong script, a recording with long
- * silences, a script edited after the take) rather than a real host's pace.
+ * Our own range of speaking paces. Outside it a reading is almost certainly mistimed (stopped late,
+ * started late, a long pause) rather than a real host's pace: it is refused as "not a speaking
+ * pace", never clamped. Presented speech runs 125–150 wpm and radio bulletins 160–180 wpm (common
+ * practice, from memory; tests/REFERENCES.md, "Narration pace"); the range leaves room either side.
  */
 export const CALIBRATED_PACE_RANGE = { minimum: 80, maximum: 260 } as const;
 
@@ -183,7 +187,11 @@ export function countSpokenWords(markdown: string): number {
 	const withoutDirections = markdown.replace(/\r\n?/g, '\n').replace(directionPattern, ' ');
 	const tokens = Lexer.lex(withoutDirections, lexerOptions);
 	const spokenText = decodeCharacterReferences(spokenTextOfBlocks(tokens));
-	return spokenText.split(/[\s—]+/u).filter(isSpokenWord).length;
+	let words = 0;
+	for (const token of spokenText.split(/[\s—]+/u)) {
+		if (isSpokenWord(token)) words += spokenWordsInToken(token);
+	}
+	return words;
 }
 
 /**
@@ -264,7 +272,7 @@ export function roughSpokenWords(markdown: string): number {
 	const text = withoutDirectionsInOnePass(markdown.replace(/\r\n?/g, '\n'));
 	let words = 0;
 	for (const token of decodeCharacterReferences(text).split(/[\s—]+/u)) {
-		if (isSpokenWordInOnePass(token)) words += 1;
+		if (isSpokenWordInOnePass(token)) words += spokenWordsInToken(token);
 	}
 	return words;
 }
@@ -284,29 +292,31 @@ export function estimateSpokenSeconds(words: number, wordsPerMinute: number): nu
 	return (words / wordsPerMinute) * 60;
 }
 
-/** One recorded take of a scripted passage: how many words it had and how long the host took. */
+/** One timed reading aloud: how many spoken words it had and how long the host took. */
 export interface PaceSample {
 	words: number;
 	recordedSeconds: number;
 }
 
-/** A host's pace measured from takes, or the default when there is nothing usable to measure. */
+/** A host's pace measured from readings, or the fallback when there is nothing usable or plausible. */
 export interface CalibratedPace {
 	wordsPerMinute: number;
 	/** How many samples were used (after dropping short or broken ones). */
 	basedOn: number;
-	/** False when no sample was usable and `wordsPerMinute` is the fallback. */
+	/** False when `wordsPerMinute` is the fallback: nothing usable, or a refused measurement. */
 	calibrated: boolean;
+	/** The measured pace, when there was anything usable to measure (even if refused). */
+	measuredWordsPerMinute: number | null;
+	/** True when the measurement lies outside CALIBRATED_PACE_RANGE: not a speaking pace. */
+	refused: boolean;
 }
 
 /**
- * Measures a host's pace as total words ÷ total recorded minutes over usable takes, clamped to 80–260 wpm.
+ * Measures a pace as total words ÷ total minutes over usable samples; a result outside
+ * CALIBRATED_PACE_RANGE is refused (the fallback is kept, `refused` says why), never clamped.
  *
- * Pooled rather than a mean of per-take rates: the pooled rate is the one that
- * reproduces the total recorded time from the total words, and it weights each
- * take by its length, so a 15-second pickup with a long pause cannot pull the
- * estimate as hard as a six-minute segment does. A mean of ratios gives every
- * take the same vote however short it is.
+ * Pooled rather than a mean of per-sample rates: the pooled rate is the one that reproduces the
+ * total time from the total words, and it weights each sample by its length.
  */
 export function calibratePace(
 	samples: readonly PaceSample[],
@@ -320,17 +330,21 @@ export function calibratePace(
 			sample.recordedSeconds >= CALIBRATION_MIN_SECONDS &&
 			sample.words >= CALIBRATION_MIN_WORDS
 	);
-	if (usable.length === 0) {
-		return { wordsPerMinute: fallback, basedOn: 0, calibrated: false };
-	}
+	const uncalibrated = { wordsPerMinute: fallback, basedOn: 0, calibrated: false };
+	if (usable.length === 0) return { ...uncalibrated, measuredWordsPerMinute: null, refused: false };
 	const totalWords = usable.reduce((sum, sample) => sum + sample.words, 0);
 	const totalMinutes = usable.reduce((sum, sample) => sum + sample.recordedSeconds, 0) / 60;
-	const pooled = totalWords / totalMinutes;
-	const clamped = Math.min(
-		CALIBRATED_PACE_RANGE.maximum,
-		Math.max(CALIBRATED_PACE_RANGE.minimum, pooled)
-	);
-	return { wordsPerMinute: clamped, basedOn: usable.length, calibrated: true };
+	const measured = totalWords / totalMinutes;
+	if (measured < CALIBRATED_PACE_RANGE.minimum || measured > CALIBRATED_PACE_RANGE.maximum) {
+		return { ...uncalibrated, measuredWordsPerMinute: measured, refused: true };
+	}
+	return {
+		wordsPerMinute: measured,
+		basedOn: usable.length,
+		calibrated: true,
+		measuredWordsPerMinute: measured,
+		refused: false
+	};
 }
 
 /** How an estimate compares with a target runtime. */

@@ -26,6 +26,8 @@ export interface SpecCardView {
 	atTimecode: string | null;
 	durationFrames: number;
 	durationSeconds: number;
+	/** Whole seconds the card's words need to be read ($lib/reading-time); null if it no longer renders. */
+	neededSeconds: number | null;
 	/** True when the cut's length is known and the card starts at or after its end. */
 	pastCutEnd: boolean;
 	position: number;
@@ -44,6 +46,8 @@ export interface SpecCardBoard {
 		slug: string;
 		frameRate: FrameRate;
 		dropFrame: boolean;
+		/** The label of the cut's first frame in the programme timecode, e.g. 01:00:00:00. */
+		timecodeStart: string;
 		cutDurationFrames: number | null;
 		cutTimecode: string | null;
 	};

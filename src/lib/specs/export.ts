@@ -7,7 +7,12 @@
  *
  * Pure module: no I/O, safe in the browser and on the server.
  */
-import { formatTimecode, framesToMilliseconds, type FrameRate } from '../timecode';
+import {
+	clockOrUsual,
+	framesToMilliseconds,
+	type FrameRate,
+	type ProgrammeClock
+} from '../timecode';
 import { csvText } from '../csv';
 import type { SpecCard, SpecCardInput, SpecCardKind } from './cards';
 import { liftSummary } from './lift';
@@ -105,23 +110,33 @@ function secondsText(frames: number, rate: FrameRate): string {
 	return `${Math.floor(milliseconds / 1000)}.${String(milliseconds % 1000).padStart(3, '0')}`;
 }
 
-function pointOf(frame: number, rate: FrameRate) {
-	return { frame, timecode: formatTimecode(frame, rate), seconds: secondsText(frame, rate) };
+/** A point in the cut: its frame and seconds from the start of the cut, its label in the episode's programme timecode. */
+function pointOf(frame: number, programme: ProgrammeClock) {
+	return {
+		frame,
+		timecode: programme.format(frame),
+		seconds: secondsText(frame, programme.rate)
+	};
 }
 
-/** The cards as export rows, in the order given; each ends its time on screen after it starts. */
+/**
+ * The cards as export rows, in the order given; each ends its time on screen after it starts.
+ * Timecodes are in the episode's programme timecode (a bare rate: its usual form from 00:00:00:00).
+ */
 export function specCardExportRows(
 	cards: readonly ExportableSpecCard[],
-	rate: FrameRate
+	clockOrRate: ProgrammeClock | FrameRate
 ): SpecCardExportRow[] {
+	const programme = clockOrUsual(clockOrRate);
+	const rate = programme.rate;
 	return cards.map((view) => {
 		const card = view.card;
 		return {
 			id: view.id,
 			kind: view.kind,
 			segment: view.segment && { position: view.segment.position, title: view.segment.title },
-			start: view.atFrame === null ? null : pointOf(view.atFrame, rate),
-			end: view.atFrame === null ? null : pointOf(view.atFrame + view.durationFrames, rate),
+			start: view.atFrame === null ? null : pointOf(view.atFrame, programme),
+			end: view.atFrame === null ? null : pointOf(view.atFrame + view.durationFrames, programme),
 			durationSeconds: secondsText(view.durationFrames, rate),
 			heading: card.heading,
 			body: card.body ?? null,
@@ -180,7 +195,15 @@ export function specCardsCsv(rows: SpecCardExportRow[]): string {
 
 /** The JSON file: the episode's identity and rate, then the rows, two-space indented with a final newline. */
 export function specCardsJson(
-	episode: { id: string; slug: string; title: string; frameRate: FrameRate; dropFrame: boolean },
+	episode: {
+		id: string;
+		slug: string;
+		title: string;
+		frameRate: FrameRate;
+		dropFrame: boolean;
+		/** The label of the cut's first frame; the rows' timecodes count from it. */
+		timecodeStart?: string;
+	},
 	rows: SpecCardExportRow[]
 ): string {
 	const document = {
@@ -189,7 +212,8 @@ export function specCardsJson(
 			slug: episode.slug,
 			title: episode.title,
 			frameRate: episode.frameRate,
-			dropFrame: episode.dropFrame
+			dropFrame: episode.dropFrame,
+			timecodeStart: episode.timecodeStart ?? '00:00:00:00'
 		},
 		cards: rows
 	};

@@ -3,6 +3,14 @@ import { sql, type Transaction } from 'kysely';
 import { db } from '../db';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
+import {
+	keysetAfter,
+	keysetOrderBy,
+	keysetPage,
+	keysetSelections,
+	type SortKey
+} from '../http/keyset';
+import type { PageQuery } from '$lib/schemas/paging';
 import { hashSecret, newSecret } from '../auth/secrets';
 import { queueMail } from '../mail/outbox';
 import { inviteMail, resetMail } from '../mail/messages';
@@ -34,6 +42,34 @@ export async function listCrew(channelId: string) {
 }
 
 export type CrewMember = Awaited<ReturnType<typeof listCrew>>[number];
+
+const crewOrder: SortKey[] = [
+	{ expression: sql`person.name`, direction: 'asc', kind: 'text' },
+	{ expression: sql`person.id`, direction: 'asc', kind: 'uuid' }
+];
+
+/** One page of the crew by name (keyset-paged: `query.after` is the previous page's `next`). */
+export async function crewPage(channelId: string, query: PageQuery) {
+	const rows = await db
+		.selectFrom('membership')
+		.innerJoin('person', 'person.id', 'membership.personId')
+		.select([
+			'person.id',
+			'person.name',
+			'person.email',
+			'membership.roles',
+			'membership.disabledAt',
+			'membership.createdAt',
+			sql<boolean>`person.password_hash IS NOT NULL`.as('hasPassword')
+		])
+		.select(keysetSelections(crewOrder))
+		.where('membership.channelId', '=', channelId)
+		.where(keysetAfter('name:asc', crewOrder, query.after))
+		.orderBy(keysetOrderBy(crewOrder))
+		.limit(query.limit + 1)
+		.execute();
+	return keysetPage('name:asc', crewOrder, rows, query.limit);
+}
 
 /** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */
 export async function activeCrew(channelId: string) {

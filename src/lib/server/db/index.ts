@@ -3,6 +3,7 @@ import { CamelCasePlugin, Kysely, PostgresDialect } from 'kysely';
 import pg from 'pg';
 import { env } from '$env/dynamic/private';
 import type { Database } from './types';
+import { queryCountLog } from './query-count';
 
 // PostgreSQL bigint and numeric come back as strings by default; counts here stay well inside 2^53.
 pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
@@ -28,7 +29,9 @@ function createDatabase(): Kysely<Database> {
 	pool.on('error', (failure) => console.error('database connection lost:', failure.message));
 	return new Kysely<Database>({
 		dialect: new PostgresDialect({ pool }),
-		plugins: [new CamelCasePlugin()]
+		plugins: [new CamelCasePlugin()],
+		// Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): see query-count.ts.
+		...(queryCountLog ? { log: queryCountLog } : {})
 	});
 }
 

@@ -11,6 +11,7 @@ import type { ShootTables } from './tables/shoot';
 import type { PartsTables } from './tables/parts';
 import type { SpecCardTables } from './tables/spec-cards';
 import type { MediaTables } from './tables/media';
+import type { SpeakingPaceTables } from './tables/speaking-pace';
 export type { Role } from '$lib/roles';
 export type { Stage } from '$lib/stages';
 
@@ -160,6 +161,10 @@ export interface EpisodeTable {
 	publishDate: ColumnType<string | null, string | null | undefined, string | null>;
 	stage: ColumnType<Stage, Stage | undefined, Stage>;
 	cutDurationFrames: number | null;
+	/** Programme timecode form: null is the rate's usual one (drop-frame at 29.97 and 59.94). */
+	timecodeDropFrame: boolean | null;
+	/** The cut's first frame's label, `HH:MM:SS:FF` (episode_timecode_start check). */
+	timecodeStart: Generated<string>;
 	scriptStatus: ColumnType<ScriptStatus, ScriptStatus | undefined, ScriptStatus>;
 	/** Fingerprint of the script text as approved; a later edit makes it differ from the current one. */
 	scriptApprovedFingerprint: string | null;
@@ -181,7 +186,14 @@ export interface EpisodeAssignmentTable {
 }
 
 export interface Database
-	extends EpisodeWorkTables, EditTables, ShootTables, PartsTables, SpecCardTables, MediaTables {
+	extends
+		EpisodeWorkTables,
+		EditTables,
+		ShootTables,
+		PartsTables,
+		SpecCardTables,
+		SpeakingPaceTables,
+		MediaTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

@@ -8,6 +8,7 @@ import { DomainError } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeNotFound } from '../episodes/episodes';
 import { episodeWithChapters, problemsOf } from './edit';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import { ChapterExportError, exportChapters, type ChapterFormat } from '$lib/chapters';
 
 export interface ChapterDownload {
@@ -51,7 +52,9 @@ export async function chapterDownloadFor(
 	try {
 		const exported = exportChapters(format, row.chapters, {
 			rate,
-			cutEndFrame: row.cutDurationFrames ?? 0
+			cutEndFrame: row.cutDurationFrames ?? 0,
+			// The CSV's timecode column only; description, WebVTT, FFmpeg and JSON count from 0:00.
+			programme: clockOfEpisode(row)
 		});
 		return {
 			body: exported.body,

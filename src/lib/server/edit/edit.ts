@@ -12,16 +12,18 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeNotFound, type EpisodeHeading, type Executor } from '../episodes/episodes';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
 import { chapterStartFromText, validateChapters, type ChapterProblem } from '$lib/chapters';
-import { defaultDropFrame, formatTimecode, parseTypedTime, type FrameRate } from '$lib/timecode';
+import type { FrameRate, ProgrammeClock } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import type { ChapterCreate, ChapterUpdate, CutUpdate } from '$lib/schemas/edit';
 import { editLocks, type Stage } from '$lib/stages';
 
 export interface EditChapter {
 	id: string;
 	startFrame: number;
-	/** The start as timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	/** The start as the episode's programme timecode (its form, plus its start offset). */
 	startTimecode: string;
 	title: string;
 	url: string | null;
@@ -61,6 +63,8 @@ export function episodeWithChapters(channelId: string, episodeId: string, execut
 			'episode.slug',
 			'episode.stage',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.cutDurationFrames',
 			jsonArrayFrom(
 				eb
@@ -96,12 +100,12 @@ function toEditChapter(
 		partId: string | null;
 		version: number;
 	},
-	rate: FrameRate
+	clock: ProgrammeClock
 ): EditChapter {
 	return {
 		id: row.id,
 		startFrame: row.startFrame,
-		startTimecode: formatTimecode(row.startFrame, rate),
+		startTimecode: clock.format(row.startFrame),
 		title: row.title,
 		url: row.url,
 		partId: row.partId,
@@ -124,7 +128,8 @@ export function problemsOf(
 
 function stateOf(row: EpisodeWithChapters): EditState {
 	const rate = row.frameRate;
-	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, rate));
+	const clock = clockOfEpisode(row);
+	const chapters = row.chapters.map((chapter) => toEditChapter(chapter, clock));
 	return {
 		episode: {
 			id: row.id,
@@ -132,11 +137,13 @@ function stateOf(row: EpisodeWithChapters): EditState {
 			slug: row.slug,
 			stage: row.stage,
 			frameRate: rate,
-			dropFrame: defaultDropFrame(rate)
+			dropFrame: clock.dropFrame,
+			timecodeStart: clock.startLabel
 		},
 		cut: {
 			durationFrames: row.cutDurationFrames,
-			timecode: row.cutDurationFrames === null ? null : formatTimecode(row.cutDurationFrames, rate)
+			// A length, so without the start offset.
+			timecode: row.cutDurationFrames === null ? null : clock.formatLength(row.cutDurationFrames)
 		},
 		chapters,
 		problems: problemsOf(row.chapters, row.cutDurationFrames, rate),
@@ -180,30 +187,27 @@ export async function chapterProblemsFor(
 	return state.problems.map((problem) => problem.message);
 }
 
-async function scopedEpisode(channelId: string, episodeId: string) {
-	if (!isUuid(episodeId)) throw episodeNotFound();
-	const episode = await db
-		.selectFrom('episode')
-		.select(['id', 'frameRate', 'cutDurationFrames', 'stage'])
-		.where('id', '=', episodeId)
-		.where('channelId', '=', channelId)
-		.executeTakeFirst();
-	if (!episode) throw episodeNotFound();
-	return { ...episode, rate: episode.frameRate, locks: editLocks(episode.stage as Stage) };
-}
-
-/** 409 when the episode's stage has fixed what this change would touch (see editLocks). */
-function refuseLocked(reason: string | null): void {
-	if (reason) throw new DomainError(409, reason);
+/**
+ * The episode, locked for the change's transaction; 409 when its stage has fixed what the change
+ * would touch (the one guard, episodes/stage-locks.ts).
+ */
+async function scopedEpisode(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	what: 'cut' | 'chapters'
+) {
+	const episode = await episodeOpenFor(trx, channelId, what, { episodeId });
+	return { ...episode, rate: episode.frameRate, clock: clockOfEpisode(episode) };
 }
 
 function startFrameOf(
 	input: { start?: string; startFrame?: number },
-	rate: FrameRate
+	clock: ProgrammeClock
 ): number | undefined {
 	if (input.startFrame !== undefined) return input.startFrame;
 	if (input.start !== undefined)
-		return frameFromTyped('start', () => chapterStartFromText(input.start!, rate));
+		return frameFromTyped('start', () => chapterStartFromText(input.start!, clock));
 	return undefined;
 }
 
@@ -213,18 +217,25 @@ export async function setCutDuration(
 	episodeId: string,
 	input: CutUpdate
 ): Promise<EditState> {
-	const episode = await scopedEpisode(channelId, episodeId);
-	refuseLocked(episode.locks.cut);
-	// The page shows drop-frame timecode at 29.97 and 59.94, so typed timecode is read the same way.
-	const frames = frameFromTyped('duration', () => parseTypedTime(input.duration, episode.rate));
+	return db.transaction().execute((trx) => setCutDurationIn(trx, channelId, episodeId, input));
+}
+
+async function setCutDurationIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	input: CutUpdate
+): Promise<EditState> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'cut');
+	// A length, read in the episode's programme timecode form (drop-frame or not), without its start.
+	const frames = frameFromTyped('duration', () => episode.clock.parseLength(input.duration));
 	if (frames <= 0) {
-		const message =
-			'A cut has to run longer than 0 frames; type its length, e.g. 00:13:40;00 or 13:40.';
+		const message = `A cut has to run longer than 0 frames; type its length, e.g. 00:13:40${episode.clock.dropFrame ? ';' : ':'}00 or 13:40.`;
 		throw new DomainError(400, message, { duration: [message] });
 	}
 	// Only the cut length changes: the episode's own version is left alone, so a producer editing the
 	// episode's details at the same time is not told about a conflict that doesn't touch their fields.
-	let update = db
+	let update = trx
 		.updateTable('episode')
 		.set({ cutDurationFrames: frames })
 		.where('id', '=', episode.id)
@@ -236,7 +247,7 @@ export async function setCutDuration(
 	}
 	const result = await update.executeTakeFirst();
 	if (Number(result.numUpdatedRows) !== 1) {
-		const state = await editStateFor(channelId, episodeId);
+		const state = await editStateFor(channelId, episodeId, trx);
 		throw new DomainError(
 			409,
 			`Someone set the cut's length to ${state.cut.timecode ?? 'nothing'} while you were working. Check it, then set yours again if it should change.`,
@@ -244,16 +255,17 @@ export async function setCutDuration(
 			{ current: state.cut, state }
 		);
 	}
-	return editStateFor(channelId, episodeId);
+	return editStateFor(channelId, episodeId, trx);
 }
 
 /** A chapter may name a part only from its own channel's catalogue. */
 async function checkChapterPart(
+	trx: Executor,
 	channelId: string,
 	partId: string | null | undefined
 ): Promise<void> {
 	if (!partId) return;
-	const part = await db
+	const part = await trx
 		.selectFrom('part')
 		.select('id')
 		.where('id', '=', partId)
@@ -272,11 +284,19 @@ export async function addChapter(
 	episodeId: string,
 	input: ChapterCreate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
-	refuseLocked(episode.locks.chapters);
-	await checkChapterPart(channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate)!;
-	const row = await db
+	return db.transaction().execute((trx) => addChapterIn(trx, channelId, episodeId, input));
+}
+
+async function addChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	input: ChapterCreate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
+	await checkChapterPart(trx, channelId, input.partId);
+	const startFrame = startFrameOf(input, episode.clock)!;
+	const row = await trx
 		.insertInto('chapter')
 		.values({
 			episodeId: episode.id,
@@ -288,13 +308,13 @@ export async function addChapter(
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirstOrThrow();
 	return {
-		chapter: toEditChapter(row, episode.rate),
-		state: await editStateFor(channelId, episodeId)
+		chapter: toEditChapter(row, episode.clock),
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
 
-async function chapterOf(episodeId: string, chapterId: string) {
-	return db
+async function chapterOf(trx: Executor, episodeId: string, chapterId: string) {
+	return trx
 		.selectFrom('chapter')
 		.select(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.where('id', '=', chapterId)
@@ -303,18 +323,19 @@ async function chapterOf(episodeId: string, chapterId: string) {
 }
 
 async function staleVersion(
+	trx: Executor,
 	channelId: string,
 	episodeId: string,
 	chapterId: string,
-	rate: FrameRate
+	clock: ProgrammeClock
 ): Promise<never> {
-	const current = await chapterOf(episodeId, chapterId);
+	const current = await chapterOf(trx, episodeId, chapterId);
 	if (!current) throw chapterNotFound();
 	throw new DomainError(
 		409,
 		`Someone changed chapter “${current.title}” while you were working on it. Their version is shown now; make your change again on top of it.`,
 		undefined,
-		{ current: toEditChapter(current, rate), state: await editStateFor(channelId, episodeId) }
+		{ current: toEditChapter(current, clock), state: await editStateFor(channelId, episodeId, trx) }
 	);
 }
 
@@ -325,12 +346,23 @@ export async function updateChapter(
 	chapterId: string,
 	input: ChapterUpdate
 ): Promise<{ chapter: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => updateChapterIn(trx, channelId, episodeId, chapterId, input));
+}
+
+async function updateChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	input: ChapterUpdate
+): Promise<{ chapter: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	if (!isUuid(chapterId)) throw chapterNotFound();
-	refuseLocked(episode.locks.chapters);
-	await checkChapterPart(channelId, input.partId);
-	const startFrame = startFrameOf(input, episode.rate);
-	const row = await db
+	await checkChapterPart(trx, channelId, input.partId);
+	const startFrame = startFrameOf(input, episode.clock);
+	const row = await trx
 		.updateTable('chapter')
 		.set((eb) => ({
 			...(startFrame !== undefined ? { startFrame } : {}),
@@ -344,10 +376,10 @@ export async function updateChapter(
 		.where('version', '=', input.version)
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
-		chapter: toEditChapter(row, episode.rate),
-		state: await editStateFor(channelId, episodeId)
+		chapter: toEditChapter(row, episode.clock),
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }
 
@@ -358,10 +390,21 @@ export async function deleteChapter(
 	chapterId: string,
 	version?: number
 ): Promise<{ removed: EditChapter; state: EditState }> {
-	const episode = await scopedEpisode(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => deleteChapterIn(trx, channelId, episodeId, chapterId, version));
+}
+
+async function deleteChapterIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	chapterId: string,
+	version?: number
+): Promise<{ removed: EditChapter; state: EditState }> {
+	const episode = await scopedEpisode(trx, channelId, episodeId, 'chapters');
 	if (!isUuid(chapterId)) throw chapterNotFound();
-	refuseLocked(episode.locks.chapters);
-	let removal = db
+	let removal = trx
 		.deleteFrom('chapter')
 		.where('id', '=', chapterId)
 		.where('episodeId', '=', episode.id);
@@ -369,9 +412,9 @@ export async function deleteChapter(
 	const row = await removal
 		.returning(['id', 'startFrame', 'title', 'url', 'partId', 'version'])
 		.executeTakeFirst();
-	if (!row) return staleVersion(channelId, episode.id, chapterId, episode.rate);
+	if (!row) return staleVersion(trx, channelId, episode.id, chapterId, episode.clock);
 	return {
-		removed: toEditChapter(row, episode.rate),
-		state: await editStateFor(channelId, episodeId)
+		removed: toEditChapter(row, episode.clock),
+		state: await editStateFor(channelId, episodeId, trx)
 	};
 }

@@ -13,8 +13,15 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { frameFromTyped } from './typed-time';
-import type { SpecCardInput } from '$lib/specs';
+import type { SpecCard, SpecCardInput } from '$lib/specs';
+import {
+	READING_CHARACTERS_PER_SECOND,
+	onScreenText,
+	readableCharacters,
+	readingSeconds
+} from '$lib/reading-time';
 import type { SpecCardBoard, SpecCardSegment, SpecCardView } from '$lib/specs/board';
 import {
 	specCardExportRows,
@@ -23,15 +30,16 @@ import {
 	type SpecCardExportRow
 } from '$lib/specs/export';
 import {
-	defaultDropFrame,
-	formatTimecode,
+	clockOfHeading,
 	framesToMilliseconds,
-	parseTypedTime,
 	secondsToFrames,
-	type FrameRate
+	type FrameRate,
+	type ProgrammeClock
 } from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import {
 	DEFAULT_ON_SCREEN_SECONDS,
+	ON_SCREEN_SECONDS_LIMITS,
 	SPEC_CARD_KIND_LABELS,
 	checkSpecCard,
 	type SpecCardCreate,
@@ -88,9 +96,10 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 				? null
 				: { id: row.segmentId, position: row.segmentPosition!, title: row.segmentTitle! },
 		atFrame: row.atFrame,
-		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		atTimecode: row.atFrame === null ? null : clockOfEpisode(episode).format(row.atFrame),
 		durationFrames,
 		durationSeconds: framesToMilliseconds(durationFrames, rate) / 1000,
+		neededSeconds: checked.ok ? readingSeconds(onScreenText(checked.card)) : null,
 		pastCutEnd:
 			row.atFrame !== null &&
 			episode.cutDurationFrames !== null &&
@@ -108,7 +117,7 @@ function toView(row: CardRow, episode: Episode, rate: FrameRate): SpecCardView {
 async function segmentsOf(
 	executor: Executor,
 	episodeId: string,
-	rate: FrameRate
+	programme: ProgrammeClock
 ): Promise<SpecCardSegment[]> {
 	const rows = await executor
 		.selectFrom('segment')
@@ -123,7 +132,7 @@ async function segmentsOf(
 			position: row.position,
 			title: row.title,
 			startsAtFrame: startsAt,
-			startsAtTimecode: startsAt === null ? null : formatTimecode(startsAt, rate)
+			startsAtTimecode: startsAt === null ? null : programme.format(startsAt)
 		};
 		startsAt =
 			startsAt === null || row.recordedFrames === null ? null : startsAt + row.recordedFrames;
@@ -132,15 +141,18 @@ async function segmentsOf(
 }
 
 function boardEpisode(episode: Episode, rate: FrameRate): SpecCardBoard['episode'] {
+	const programme = clockOfEpisode(episode);
 	return {
 		id: episode.id,
 		title: episode.title,
 		slug: episode.slug,
 		frameRate: rate,
-		dropFrame: defaultDropFrame(rate),
+		dropFrame: programme.dropFrame,
+		timecodeStart: programme.startLabel,
 		cutDurationFrames: episode.cutDurationFrames,
+		// A length, so without the start offset.
 		cutTimecode:
-			episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+			episode.cutDurationFrames === null ? null : programme.formatLength(episode.cutDurationFrames)
 	};
 }
 
@@ -153,7 +165,7 @@ export async function specCardsFor(
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const [segments, rows] = await Promise.all([
-		segmentsOf(executor, episode.id, rate),
+		segmentsOf(executor, episode.id, clockOfEpisode(episode)),
 		cardsQuery(executor, episode.id).execute()
 	]);
 	return {
@@ -205,20 +217,22 @@ async function checkSegment(
 /** The frame a placement names: typed text read at the episode's rate, or a frame count; undefined leaves it as it is. */
 function placedFrame(
 	input: { at?: string | null; atFrame?: number | null },
-	episode: Episode,
-	rate: FrameRate
+	episode: Episode
 ): number | null | undefined {
 	let frame: number | null | undefined;
 	if (input.atFrame !== undefined) frame = input.atFrame;
 	else if (input.at !== undefined)
-		frame = input.at === null ? null : frameFromTyped('at', () => parseTypedTime(input.at!, rate));
+		frame =
+			input.at === null
+				? null
+				: frameFromTyped('at', () => clockOfEpisode(episode).parse(input.at!));
 	if (
 		frame !== null &&
 		frame !== undefined &&
 		episode.cutDurationFrames !== null &&
 		frame >= episode.cutDurationFrames
 	) {
-		const message = `That is at or after the end of the cut (${formatTimecode(episode.cutDurationFrames, rate)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
+		const message = `That is at or after the end of the cut (${clockOfEpisode(episode).format(episode.cutDurationFrames)}). Place the card inside the cut, or change the cut’s length on the edit timeline first.`;
 		throw new DomainError(400, message, { at: [message] });
 	}
 	return frame;
@@ -226,6 +240,30 @@ function placedFrame(
 
 const durationFramesOf = (seconds: number | undefined, rate: FrameRate) =>
 	seconds === undefined ? undefined : Math.max(1, secondsToFrames(seconds, rate));
+
+/**
+ * A card must stay on screen long enough to be read: about 17 characters a second ($lib/reading-time,
+ * subtitle practice, a figure from memory). A shorter time is a 400 on the time field saying how many
+ * seconds the card needs; a card that needs more than a card may stay up is told to split.
+ */
+function refuseUnreadable(card: SpecCard, durationFrames: number, rate: FrameRate): void {
+	const text = onScreenText(card);
+	const needed = readingSeconds(text);
+	if (durationFrames >= secondsToFrames(needed, rate)) return;
+	const characters = readableCharacters(text);
+	const message =
+		needed > ON_SCREEN_SECONDS_LIMITS.max
+			? `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second, longer than a card may stay up (${ON_SCREEN_SECONDS_LIMITS.max} s). Split it into two cards.`
+			: `This card puts ${characters} characters on screen: it needs ${needed} s to read at about ${READING_CHARACTERS_PER_SECOND} characters a second. Show it for at least ${needed} s.`;
+	throw new DomainError(400, message, { durationSeconds: [message] });
+}
+
+/** The card's lines as they read on screen (its input was checked by checkedInput). */
+function renderedCard(input: SpecCardInput): SpecCard {
+	const checked = checkSpecCard(input);
+	if (!checked.ok) throw new DomainError(400, checked.message);
+	return checked.card;
+}
 
 /** Adds a card to the episode, checked by the spec parsers, at the end of the episode's card order. */
 export async function createSpecCard(
@@ -235,12 +273,21 @@ export async function createSpecCard(
 	input: SpecCardCreate
 ): Promise<SpecCardView> {
 	const cardInput = checkedInput(input.input);
+	const card = renderedCard(cardInput);
 	return db.transaction().execute(async (trx) => {
 		// Locked so two cards added at once get different positions.
-		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 		const rate = episode.frameRate;
 		const segmentId = await checkSegment(trx, episode.id, input.segmentId ?? null);
-		const atFrame = placedFrame(input, episode, rate) ?? null;
+		const atFrame = placedFrame(input, episode) ?? null;
+		// Without a time typed, the default, or the card's reading time when that is longer.
+		const durationFrames =
+			durationFramesOf(input.durationSeconds, rate) ??
+			Math.max(
+				defaultDurationFrames(rate),
+				secondsToFrames(readingSeconds(onScreenText(card)), rate)
+			);
+		refuseUnreadable(card, durationFrames, rate);
 		const last = await trx
 			.selectFrom('specCard')
 			.select((eb) => eb.fn.max('position').as('position'))
@@ -254,8 +301,7 @@ export async function createSpecCard(
 				kind: cardInput.kind,
 				input: JSON.stringify(cardInput),
 				atFrame,
-				durationFrames:
-					durationFramesOf(input.durationSeconds, rate) ?? defaultDurationFrames(rate),
+				durationFrames,
 				position: (last?.position ?? 0) + 1,
 				createdBy: actor.id
 			})
@@ -284,15 +330,45 @@ export async function updateSpecCard(
 	cardId: string,
 	input: SpecCardUpdate
 ): Promise<SpecCardView> {
-	const episode = await episodeInChannel(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => updateSpecCardIn(trx, channelId, episodeId, cardId, input));
+}
+
+async function updateSpecCardIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	input: SpecCardUpdate
+): Promise<SpecCardView> {
+	const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 	if (!isUuid(cardId)) throw cardNotFound();
 	const rate = episode.frameRate;
 	const cardInput = input.input === undefined ? undefined : checkedInput(input.input);
 	const segmentId =
-		input.segmentId === undefined ? undefined : await checkSegment(db, episode.id, input.segmentId);
-	const atFrame = placedFrame(input, episode, rate);
+		input.segmentId === undefined
+			? undefined
+			: await checkSegment(trx, episode.id, input.segmentId);
+	const atFrame = placedFrame(input, episode);
 	const durationFrames = durationFramesOf(input.durationSeconds, rate);
-	const row = await db
+	// A change of figures or of time on screen is checked against the reading time of the card as
+	// it will be; moving a card along the timeline is not (the board marks one left too short).
+	if (cardInput !== undefined || durationFrames !== undefined) {
+		const stored = await trx
+			.selectFrom('specCard')
+			.select(['input', 'durationFrames'])
+			.where('id', '=', cardId)
+			.where('episodeId', '=', episode.id)
+			.executeTakeFirst();
+		if (!stored) throw cardNotFound();
+		refuseUnreadable(
+			renderedCard(cardInput ?? stored.input),
+			durationFrames ?? stored.durationFrames ?? defaultDurationFrames(rate),
+			rate
+		);
+	}
+	const row = await trx
 		.updateTable('specCard')
 		.set((eb) => ({
 			...(cardInput !== undefined
@@ -309,8 +385,8 @@ export async function updateSpecCard(
 		.where('version', '=', input.version)
 		.returning('id')
 		.executeTakeFirst();
-	if (!row) return staleCard(db, episode, cardId);
-	return (await cardView(db, episode, row.id))!;
+	if (!row) return staleCard(trx, episode, cardId);
+	return (await cardView(trx, episode, row.id))!;
 }
 
 /** Places a card at a program time (typed text or a frame), or takes it off the cut with null: what the timeline calls. */
@@ -330,17 +406,29 @@ export async function deleteSpecCard(
 	cardId: string,
 	version?: number
 ): Promise<{ removed: SpecCardView }> {
-	const episode = await episodeInChannel(channelId, episodeId);
+	return db
+		.transaction()
+		.execute((trx) => deleteSpecCardIn(trx, channelId, episodeId, cardId, version));
+}
+
+async function deleteSpecCardIn(
+	trx: Executor,
+	channelId: string,
+	episodeId: string,
+	cardId: string,
+	version?: number
+): Promise<{ removed: SpecCardView }> {
+	const episode = await episodeOpenFor(trx, channelId, 'cards', { episodeId });
 	if (!isUuid(cardId)) throw cardNotFound();
-	const removed = await cardView(db, episode, cardId);
+	const removed = await cardView(trx, episode, cardId);
 	if (!removed) throw cardNotFound();
-	let removal = db
+	let removal = trx
 		.deleteFrom('specCard')
 		.where('id', '=', cardId)
 		.where('episodeId', '=', episode.id);
 	if (version !== undefined) removal = removal.where('version', '=', version);
 	const row = await removal.returning('id').executeTakeFirst();
-	if (!row) return staleCard(db, episode, cardId);
+	if (!row) return staleCard(trx, episode, cardId);
 	return { removed };
 }
 
@@ -356,7 +444,7 @@ function exportRowsOf(board: SpecCardBoard): SpecCardExportRow[] {
 		);
 	}
 	const cards = board.cards.map((view) => ({ ...view, card: view.card! }));
-	return specCardExportRows(cards, board.episode.frameRate);
+	return specCardExportRows(cards, clockOfHeading(board.episode));
 }
 
 export interface SpecCardDownload {

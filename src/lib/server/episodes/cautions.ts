@@ -1,7 +1,10 @@
 /**
  * Caution cards: the caution of every hazard a segment is flagged with, its words (the host's or a
- * producer's) and its place in the cut (the editor's or a producer's), and the placed ones as marks
- * on the edit timeline. A caution carries a version; a save that names a stale one answers 409 with
+ * producer's), its place in the cut and its time on screen (the editor's or a producer's), and the
+ * placed ones as marks on the edit timeline. A time on screen shorter than the words need to be
+ * read ($lib/reading-time) is refused on save; words changed later that outgrow a time already set
+ * are kept (the host can't change the time), and the lock gate names the card until the editor
+ * shows it longer. A caution carries a version; a save that names a stale one answers 409 with
  * the current caution in `current`.
  */
 import { error } from '@sveltejs/kit';
@@ -10,9 +13,16 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { segmentInChannel } from './segment-in-channel';
-import { framesFromText } from './typed-timecode';
+import { episodeOpenFor } from './stage-locks';
+import { positionFromText } from './typed-timecode';
+import { clockOfEpisode } from './programme-timecode';
 import { HAZARDS, hazardById, isHazardId, type HazardId } from '$lib/cautions';
-import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import {
+	READING_CHARACTERS_PER_SECOND,
+	readableCharacters,
+	readingSeconds
+} from '$lib/reading-time';
+import { formatClock, framesToSeconds, secondsToFrames, type ProgrammeClock } from '$lib/timecode';
 import type { CautionUpdate } from '$lib/schemas/episodes';
 import type { Role } from '../db/types';
 
@@ -23,9 +33,14 @@ export interface CautionView {
 	text: string;
 	defaultText: string;
 	atFrame: number | null;
-	/** Timecode at the episode's rate (drop-frame at 29.97 and 59.94), null when not placed. */
+	/** The episode's programme timecode (its form and start offset), null when not placed. */
 	atTimecode: string | null;
 	atClock: string | null;
+	/** Time on screen in frames and seconds; null until set. */
+	durationFrames: number | null;
+	durationSeconds: number | null;
+	/** Whole seconds the words need to be read (about 17 characters a second). */
+	neededSeconds: number;
 	version: number;
 }
 
@@ -39,9 +54,17 @@ export function inHazardOrder(hazards: readonly HazardId[]): HazardId[] {
 }
 
 export function cautionView(
-	row: { id: string; hazard: HazardId; text: string; atFrame: number | null; version: number },
-	rate: FrameRate
+	row: {
+		id: string;
+		hazard: HazardId;
+		text: string;
+		atFrame: number | null;
+		durationFrames: number | null;
+		version: number;
+	},
+	programme: ProgrammeClock
 ): CautionView {
+	const rate = programme.rate;
 	const hazard = hazardById(row.hazard);
 	return {
 		id: row.id,
@@ -50,11 +73,17 @@ export function cautionView(
 		text: row.text,
 		defaultText: hazard?.defaultCaution ?? '',
 		atFrame: row.atFrame,
-		atTimecode: row.atFrame === null ? null : formatTimecode(row.atFrame, rate),
+		atTimecode: row.atFrame === null ? null : programme.format(row.atFrame),
 		atClock:
 			row.atFrame === null
 				? null
 				: formatClock(framesToSeconds(row.atFrame, rate), { millis: true }),
+		durationFrames: row.durationFrames,
+		durationSeconds:
+			row.durationFrames === null
+				? null
+				: Math.round(framesToSeconds(row.durationFrames, rate) * 10) / 10,
+		neededSeconds: readingSeconds(row.text),
 		version: row.version
 	};
 }
@@ -89,7 +118,8 @@ export async function updateCaution(
 ): Promise<CautionView> {
 	if (!isHazardId(hazard)) throw notFound('That caution');
 	const changesText = input.text !== undefined;
-	const changesPlace = input.at !== undefined || input.atFrame !== undefined;
+	const changesPlace =
+		input.at !== undefined || input.atFrame !== undefined || input.seconds !== undefined;
 	if (changesText && !CAUTION_TEXT_ROLES.some((role) => actor.roles.includes(role)))
 		error(
 			403,
@@ -101,8 +131,10 @@ export async function updateCaution(
 			'Placing a caution in the cut is the editor’s or a producer’s job. You can change its words.'
 		);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'cards', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId);
-		const rate = segment.frameRate;
+		const programme = clockOfEpisode(segment);
+		const rate = programme.rate;
 		const caution = await trx
 			.selectFrom('caution')
 			.selectAll()
@@ -116,33 +148,45 @@ export async function updateCaution(
 				409,
 				'Someone changed this caution while you were editing. Their version is shown; yours is still in the form.',
 				undefined,
-				{ current: cautionView(caution, rate) }
+				{ current: cautionView(caution, programme) }
 			);
 		}
 		let atFrame = caution.atFrame;
 		if (input.atFrame !== undefined) atFrame = input.atFrame;
 		else if (input.at !== undefined)
-			atFrame = input.at === null || input.at === '' ? null : framesFromText(input.at, rate, 'at');
+			atFrame =
+				input.at === null || input.at === '' ? null : positionFromText(input.at, programme, 'at');
 		if (
 			atFrame !== null &&
 			segment.cutDurationFrames !== null &&
 			atFrame >= segment.cutDurationFrames
 		) {
-			const message = `${formatTimecode(atFrame, rate)} is after the end of the cut (${formatTimecode(segment.cutDurationFrames, rate)}): place the caution inside the cut.`;
+			const message = `${programme.format(atFrame)} is after the end of the cut (${programme.format(segment.cutDurationFrames)}): place the caution inside the cut.`;
 			throw new DomainError(400, message, { at: [message] });
+		}
+		const text = input.text ?? caution.text;
+		let durationFrames = caution.durationFrames;
+		if (input.seconds !== undefined) {
+			durationFrames = input.seconds === null ? null : secondsToFrames(input.seconds, rate);
+			const needed = readingSeconds(text);
+			if (durationFrames !== null && durationFrames < secondsToFrames(needed, rate)) {
+				const message = `These words need ${needed} s on screen to be read (${readableCharacters(text)} characters at about ${READING_CHARACTERS_PER_SECOND} a second): show the card for at least ${needed} s, or shorten the words.`;
+				throw new DomainError(400, message, { seconds: [message] });
+			}
 		}
 		const updated = await trx
 			.updateTable('caution')
 			.set({
-				text: input.text ?? caution.text,
+				text,
 				atFrame,
+				durationFrames,
 				version: caution.version + 1,
 				updatedAt: new Date()
 			})
 			.where('id', '=', caution.id)
 			.returningAll()
 			.executeTakeFirstOrThrow();
-		return cautionView(updated, rate);
+		return cautionView(updated, programme);
 	});
 }
 

@@ -6,11 +6,23 @@ import { sql } from 'kysely';
 import { db } from '../db';
 import { withAssignments, withBuilds } from './episodes';
 import { STAGES } from '$lib/stages';
+import { scriptChangedSinceApproval } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
 import type { EpisodeListQuery } from '$lib/schemas/episodes';
+import {
+	keysetAfter,
+	keysetOrderBy,
+	keysetPage,
+	keysetSelections,
+	type SortKey
+} from '../http/keyset';
 
 const stageOrder = sql<number>`array_position(ARRAY[${sql.join(STAGES.map((stage) => sql.lit(stage)))}]::text[], episode.stage)`;
 
-/** The episode list with filters and sort; each row carries what the list shows at a glance. */
+/**
+ * One page of the episode list with filters and sort (keyset-paged: `query.after` is the cursor of
+ * the previous page's last row); each row carries what the list shows at a glance.
+ */
 export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 	let select = db
 		.selectFrom('episode')
@@ -23,6 +35,7 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 			'episode.publishDate',
 			'episode.targetRuntimeSeconds',
 			'episode.scriptStatus',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.createdAt',
 			'episode.version',
 			withAssignments(eb),
@@ -58,29 +71,54 @@ export async function listEpisodes(channelId: string, query: EpisodeListQuery) {
 	}
 	if (query.from) select = select.where('episode.publishDate', '>=', query.from);
 	if (query.to) select = select.where('episode.publishDate', '<=', query.to);
-	const direction = query.direction;
-	const nulls = sql.raw(direction === 'asc' ? 'NULLS LAST' : 'NULLS FIRST');
-	switch (query.sort) {
-		case 'title':
-			select = select.orderBy(sql`lower(episode.title) ${sql.raw(direction)}`);
-			break;
-		case 'stage':
-			select = select
-				.orderBy(sql`${stageOrder} ${sql.raw(direction)}`)
-				.orderBy('episode.publishDate', (order) => order.asc().nullsLast());
-			break;
-		case 'created':
-			select = select.orderBy('episode.createdAt', direction);
-			break;
-		default:
-			select = select.orderBy(sql`episode.publish_date ${sql.raw(direction)} ${nulls}`);
-	}
-	const rows = await select.orderBy('episode.title').orderBy('episode.id').execute();
-	return rows.map((row) => ({
-		...row,
-		segmentCount: Number(row.segmentCount ?? 0),
-		plannedSeconds: Number(row.plannedSeconds ?? 0)
-	}));
+	const order = `${query.sort}:${query.direction}`;
+	const keys = sortKeys(query);
+	const rows = await select
+		.select(keysetSelections(keys))
+		.where(keysetAfter(order, keys, query.after))
+		.orderBy(keysetOrderBy(keys))
+		.limit(query.limit + 1)
+		.execute();
+	const page = keysetPage(order, keys, rows, query.limit);
+	return {
+		next: page.next,
+		items: page.items.map(({ scriptChanged, ...row }) => ({
+			...row,
+			scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged),
+			segmentCount: Number(row.segmentCount ?? 0),
+			plannedSeconds: Number(row.plannedSeconds ?? 0)
+		}))
+	};
 }
 
-export type EpisodeListRow = Awaited<ReturnType<typeof listEpisodes>>[number];
+/** A publish date, with "no date yet" after every date. */
+const publishKey = sql`coalesce(episode.publish_date, 'infinity'::date)`;
+
+/**
+ * The list's order as keyset sort keys: the chosen sort, then the title, then the id, so episodes
+ * with the same date or stage still come in one stable order across pages. Episodes without a
+ * publish date come last going up and first going down.
+ */
+function sortKeys(query: EpisodeListQuery): SortKey[] {
+	const direction = query.direction;
+	const tail: SortKey[] = [
+		{ expression: sql`episode.title`, direction: 'asc', kind: 'text' },
+		{ expression: sql`episode.id`, direction: 'asc', kind: 'uuid' }
+	];
+	switch (query.sort) {
+		case 'title':
+			return [{ expression: sql`lower(episode.title)`, direction, kind: 'text' }, ...tail];
+		case 'stage':
+			return [
+				{ expression: stageOrder, direction, kind: 'integer' },
+				{ expression: publishKey, direction: 'asc', kind: 'date' },
+				...tail
+			];
+		case 'created':
+			return [{ expression: sql`episode.created_at`, direction, kind: 'timestamp' }, ...tail];
+		default:
+			return [{ expression: publishKey, direction, kind: 'date' }, ...tail];
+	}
+}
+
+export type EpisodeListRow = Awaited<ReturnType<typeof listEpisodes>>['items'][number];

@@ -4,16 +4,19 @@
  * episode-crew.ts, the host's speaking pace in host-pace.ts. Every function takes the channel id and
  * filters by it: another channel's episode is "not found".
  */
-import type { ExpressionBuilder, Kysely } from 'kysely';
+import { type ExpressionBuilder, type Kysely } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
+import { scriptChangedSinceApproval } from './script-status';
+import { shownScriptStatus } from '$lib/script/status';
 import { activeCrew } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
+import { checkedProgrammeTimecode } from './programme-timecode';
 import type { Stage } from '$lib/stages';
-import type { FrameRate } from '$lib/timecode';
+import { isDropFrameCapable, type FrameRate } from '$lib/timecode';
 import type { EpisodeCreate, EpisodeUpdate } from '$lib/schemas/episodes';
 
 /** The shared instance or an open transaction (a Transaction is a Kysely). */
@@ -32,8 +35,10 @@ export interface EpisodeHeading {
 	slug: string;
 	stage: string;
 	frameRate: FrameRate;
-	/** Drop-frame timecode (29.97 and 59.94). */
+	/** Drop-frame programme timecode (only possible at 29.97 and 59.94). */
 	dropFrame: boolean;
+	/** The label of the cut's first frame, e.g. 01:00:00:00 (`programmeClock` in $lib/timecode). */
+	timecodeStart: string;
 }
 
 export const episodeNotFound = () =>
@@ -107,11 +112,14 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 			'episode.logline',
 			'episode.targetRuntimeSeconds',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.publishDate',
 			'episode.stage',
 			'episode.cutDurationFrames',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.scriptApprovedAt',
 			'approver.name as scriptApprovedByName',
 			'episode.version',
@@ -123,29 +131,27 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 		.where('episode.channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!row) throw episodeNotFound();
-	return row;
+	const { scriptChanged, ...detail } = row;
+	return { ...detail, scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged) };
 }
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
-/** What the episode forms offer: the channel's builds and its active crew with their roles. */
+/**
+ * What the episode forms offer: the channel's builds and its active crew with their roles. Other
+ * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts).
+ */
 export async function episodeFormOptions(channelId: string) {
-	const [builds, crew, episodes] = await Promise.all([
+	const [builds, crew] = await Promise.all([
 		db
 			.selectFrom('build')
 			.select(['id', 'name', 'year', 'vehicleType'])
 			.where('channelId', '=', channelId)
 			.orderBy('name')
 			.execute(),
-		activeCrew(channelId),
-		db
-			.selectFrom('episode')
-			.select(['id', 'title', 'stage'])
-			.where('channelId', '=', channelId)
-			.orderBy('title')
-			.execute()
+		activeCrew(channelId)
 	]);
-	return { builds, crew, episodes };
+	return { builds, crew };
 }
 
 /** A URL slug from a title: lower case, ASCII letters and digits joined by single hyphens. */
@@ -227,6 +233,11 @@ export async function createEpisode(
 				`Another episode already uses the slug “${slug}”. Pick another, or leave it empty to make one from the title.`,
 				{ slug: ['Already used by another episode.'] }
 			);
+		const timecode = checkedProgrammeTimecode(
+			input.frameRate,
+			input.timecodeDropFrame ?? null,
+			input.timecodeStart ?? '00:00:00:00'
+		);
 		const episode = await trx
 			.insertInto('episode')
 			.values({
@@ -236,6 +247,7 @@ export async function createEpisode(
 				logline: input.logline ?? '',
 				targetRuntimeSeconds: input.targetRuntimeSeconds,
 				frameRate: input.frameRate,
+				...timecode,
 				publishDate: input.publishDate ?? null,
 				stage: 'script'
 			})
@@ -293,6 +305,18 @@ export async function updateEpisode(
 				{ frameRate: ['Fixed after the script stage.'] }
 			);
 		}
+		// The timecode form and start only change how positions are labelled (positions are frames
+		// from the start of the cut), so they stay editable at every stage.
+		const frameRate = input.frameRate ?? episode.frameRate;
+		const timecode = checkedProgrammeTimecode(
+			frameRate,
+			input.timecodeDropFrame !== undefined
+				? input.timecodeDropFrame
+				: isDropFrameCapable(frameRate)
+					? episode.timecodeDropFrame
+					: null,
+			input.timecodeStart ?? episode.timecodeStart
+		);
 		if (input.buildIds) await checkBuilds(trx, channelId, input.buildIds);
 		if (input.assignments) await checkAssignments(trx, channelId, input.assignments);
 		let slug = episode.slug;
@@ -323,7 +347,8 @@ export async function updateEpisode(
 				slug,
 				logline: input.logline ?? episode.logline,
 				targetRuntimeSeconds: input.targetRuntimeSeconds ?? episode.targetRuntimeSeconds,
-				frameRate: input.frameRate ?? episode.frameRate,
+				frameRate,
+				...timecode,
 				publishDate: input.publishDate === undefined ? episode.publishDate : input.publishDate,
 				version: episode.version + 1
 			})

@@ -5,7 +5,7 @@
 import { sql } from 'kysely';
 import { db } from '../db';
 import { DomainError } from '../http/api';
-import { episodeInChannel } from './episodes';
+import { episodeOpenFor, refuseIfFixed } from './stage-locks';
 import { segmentInChannel, segmentNotFound } from './segment-in-channel';
 
 /** Puts the rundown in a new order; the list must name every segment of the episode exactly once. */
@@ -15,7 +15,7 @@ export async function reorderSegments(
 	order: readonly string[]
 ): Promise<{ order: string[] }> {
 	return db.transaction().execute(async (trx) => {
-		await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		await episodeOpenFor(trx, channelId, 'rundown', { episodeId });
 		const existing = (
 			await trx
 				.selectFrom('segment')
@@ -73,6 +73,8 @@ export async function moveSegment(
 ): Promise<{ order: string[] }> {
 	const segment = await segmentInChannel(db, channelId, segmentId);
 	if (segment.episodeId !== episodeId) throw segmentNotFound();
+	// Refused here too, so a step past either end doesn't read as done on a fixed rundown.
+	refuseIfFixed(segment.stage, 'rundown');
 	const ids = (
 		await db
 			.selectFrom('segment')

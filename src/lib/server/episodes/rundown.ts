@@ -14,7 +14,7 @@ import type { HazardId } from '$lib/cautions';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { spokenWords, spokenWordsEach } from '$lib/server/episodes/script-reader';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
-import { formatTimecode } from '$lib/timecode';
+import { clockOfEpisode } from './programme-timecode';
 
 export interface ShotView {
 	id: string;
@@ -83,6 +83,8 @@ function segmentsQuery(executor: Executor, channelId: string) {
 			'segment.promiseTitle',
 			'segment.version',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'segmentScript.body as scriptBody',
 			'segmentScript.version as scriptVersion',
 			'segmentScript.updatedAt as scriptUpdatedAt',
@@ -95,6 +97,7 @@ function segmentsQuery(executor: Executor, channelId: string) {
 						'caution.hazard',
 						'caution.text',
 						'caution.atFrame',
+						'caution.durationFrames',
 						'caution.version'
 					])
 					.whereRef('caution.segmentId', '=', 'segment.id')
@@ -142,7 +145,7 @@ type SegmentRow = Awaited<ReturnType<ReturnType<typeof segmentsQuery>['execute']
 
 /** `words` is the script's spoken-word count, read beforehand through `script-reader`. */
 function toView(row: SegmentRow, wordsPerMinute: number, words: number): SegmentView {
-	const rate = row.frameRate;
+	const programme = clockOfEpisode(row);
 	const flagged = new Set(row.hazards);
 	return {
 		id: row.id,
@@ -157,7 +160,9 @@ function toView(row: SegmentRow, wordsPerMinute: number, words: number): Segment
 		needsFootage: row.needsFootage,
 		hazards: [...row.hazards].sort((a, b) => (hazardOrder.get(a) ?? 0) - (hazardOrder.get(b) ?? 0)),
 		recordedFrames: row.recordedFrames,
-		recordedTimecode: row.recordedFrames === null ? null : formatTimecode(row.recordedFrames, rate),
+		// A length, so in the episode's form without its start offset.
+		recordedTimecode:
+			row.recordedFrames === null ? null : programme.formatLength(row.recordedFrames),
 		promiseEpisodeId: row.promiseEpisodeId,
 		promiseEpisodeTitle: row.promiseEpisodeTitle,
 		promiseEpisodeStage: row.promiseEpisodeStage,
@@ -173,7 +178,7 @@ function toView(row: SegmentRow, wordsPerMinute: number, words: number): Segment
 		spokenSeconds: estimateSpokenSeconds(words, wordsPerMinute),
 		cautions: row.cautionRows
 			.filter((caution) => flagged.has(caution.hazard))
-			.map((caution) => cautionView(caution, rate))
+			.map((caution) => cautionView(caution, programme))
 			.sort((a, b) => (hazardOrder.get(a.hazard) ?? 0) - (hazardOrder.get(b.hazard) ?? 0)),
 		shots: row.shotRows.map((shot) => ({
 			...shot,
@@ -196,10 +201,19 @@ export async function rundownFor(channelId: string, episodeId: string, executor:
 	]);
 	const words = await spokenWordsEach(rows.map((row) => row.scriptBody));
 	const segments = rows.map((row, index) => toView(row, pace.wordsPerMinute, words[index]));
+	// Spoken time is compared with the planned time of the segments that are spoken (they have
+	// script words); wordless work segments are counted apart, not against the speech.
+	const spoken = segments.filter((segment) => segment.words > 0);
 	const totals = {
 		plannedSeconds: segments.reduce((sum, segment) => sum + segment.plannedSeconds, 0),
 		words: segments.reduce((sum, segment) => sum + segment.words, 0),
-		spokenSeconds: segments.reduce((sum, segment) => sum + segment.spokenSeconds, 0)
+		spokenSeconds: segments.reduce((sum, segment) => sum + segment.spokenSeconds, 0),
+		spokenSegments: spoken.length,
+		spokenPlannedSeconds: spoken.reduce((sum, segment) => sum + segment.plannedSeconds, 0),
+		wordlessSegments: segments.length - spoken.length,
+		wordlessPlannedSeconds: segments
+			.filter((segment) => segment.words === 0)
+			.reduce((sum, segment) => sum + segment.plannedSeconds, 0)
 	};
 	return {
 		episode: {

@@ -6,8 +6,16 @@
 import { error } from '@sveltejs/kit';
 import { db } from '../db';
 import { DomainError } from '../http/api';
-import { episodeInChannel, type Actor, type Executor } from './episodes';
+import {
+	episodeDetail,
+	episodeInChannel,
+	type Actor,
+	type EpisodeDetail,
+	type Executor
+} from './episodes';
 import { currentScriptFingerprint } from './stage-moves';
+import { refuseIfFixed } from './stage-locks';
+import { shownScriptStatus } from '$lib/script/status';
 import { queueMail } from '../mail/outbox';
 import { scriptReviewedMail, scriptSubmittedMail } from '../mail/episode-messages';
 import type { ScriptReviewInput } from '$lib/schemas/episodes';
@@ -86,6 +94,8 @@ export async function reviewScript(
 		error(403, WORDS[input.action]);
 	return db.transaction().execute(async (trx) => {
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		// Comments stay open; sending, approving and returning change the script's state.
+		if (input.action !== 'comment') refuseIfFixed(episode.stage, 'script');
 		const fingerprint = await currentScriptFingerprint(episodeId, trx);
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
@@ -192,27 +202,36 @@ export async function reviewScript(
 	});
 }
 
-/** The script's approval state as the pages show it. */
+/** The script's approval state as the pages show it: the episode and its script, two queries. */
 export async function scriptStateFor(
 	channelId: string,
 	episodeId: string,
 	executor: Executor = db
 ) {
-	const episode = await episodeInChannel(channelId, episodeId, executor);
-	const fingerprint = await currentScriptFingerprint(episodeId, executor);
-	const approver = episode.scriptApprovedBy
-		? await executor
-				.selectFrom('person')
-				.select('name')
-				.where('id', '=', episode.scriptApprovedBy)
-				.executeTakeFirst()
-		: undefined;
+	const [episode, fingerprint] = await Promise.all([
+		episodeDetail(channelId, episodeId, executor),
+		currentScriptFingerprint(episodeId, executor)
+	]);
+	return scriptStateOf(episode, fingerprint);
+}
+
+/** The approval state from the episode already read and the fingerprint of its script as saved now. */
+export function scriptStateOf(
+	episode: Pick<
+		EpisodeDetail,
+		'scriptStatus' | 'scriptApprovedFingerprint' | 'scriptApprovedAt' | 'scriptApprovedByName'
+	>,
+	fingerprint: string
+) {
+	// The same rule as script-status.ts's SQL (IS DISTINCT FROM): approved, and the text differs.
+	const changed =
+		episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint;
 	return {
 		status: episode.scriptStatus,
 		fingerprint,
-		changedSinceApproval:
-			episode.scriptStatus === 'approved' && episode.scriptApprovedFingerprint !== fingerprint,
+		changedSinceApproval: changed,
+		shown: shownScriptStatus(episode.scriptStatus, changed),
 		approvedAt: episode.scriptApprovedAt ? new Date(episode.scriptApprovedAt).toISOString() : null,
-		approvedByName: approver?.name ?? null
+		approvedByName: episode.scriptApprovedByName ?? null
 	};
 }

@@ -7,6 +7,7 @@ import { DomainError } from '../http/api';
 import type { Actor, Executor } from './episodes';
 import { hostPaceFor } from './host-pace';
 import { segmentInChannel } from './segment-in-channel';
+import { episodeOpenFor } from './stage-locks';
 import { estimateSpokenSeconds } from '$lib/script/timing';
 import { spokenWords } from '$lib/server/episodes/script-reader';
 
@@ -47,6 +48,7 @@ export async function saveScript(
 	// Counted while the save runs, outside the transaction.
 	const wordsOfInput = spokenWords(input.body);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'script', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId);
 		const updated = await trx
 			.updateTable('segmentScript')

@@ -23,6 +23,8 @@ export async function segmentInChannel(
 		.selectAll('segment')
 		.select([
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.stage',
 			'episode.cutDurationFrames',
 			'episode.title as episodeTitle'

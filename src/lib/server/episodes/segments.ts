@@ -7,11 +7,13 @@
 import { error } from '@sveltejs/kit';
 import { db } from '../db';
 import { DomainError } from '../http/api';
-import { episodeInChannel, type Executor } from './episodes';
+import { type Executor } from './episodes';
+import { episodeOpenFor } from './stage-locks';
 import { segmentView, type SegmentView } from './rundown';
 import { segmentInChannel } from './segment-in-channel';
 import { ensureCautions, inHazardOrder } from './cautions';
-import { framesFromText } from './typed-timecode';
+import { lengthFromText } from './typed-timecode';
+import { clockOfEpisode } from './programme-timecode';
 import { SEGMENT_KIND_INFO, type SegmentKind } from '$lib/rundown';
 import {
 	MAX_SEGMENTS_PER_EPISODE,
@@ -79,7 +81,7 @@ export async function createSegment(
 ): Promise<SegmentView> {
 	return db.transaction().execute(async (trx) => {
 		// Locking the episode serialises position numbers between two people adding at once.
-		await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		await episodeOpenFor(trx, channelId, 'rundown', { episodeId });
 		await checkBuild(trx, channelId, input.buildId);
 		await checkPromise(
 			trx,
@@ -167,6 +169,7 @@ export async function updateSegment(
 	input: SegmentUpdate
 ): Promise<SegmentView> {
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'rundown', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId, { lock: true });
 		if (segment.version !== input.version) throw await staleSegment(channelId, segmentId, trx);
 		const kind = input.kind ?? segment.kind;
@@ -188,14 +191,13 @@ export async function updateSegment(
 				input.promiseTitle
 			);
 		if (input.buildId !== undefined) await checkBuild(trx, channelId, input.buildId);
-		const rate = segment.frameRate;
 		let recordedFrames = segment.recordedFrames;
 		if (input.recordedFrames !== undefined) recordedFrames = input.recordedFrames;
 		else if (input.recorded !== undefined)
 			recordedFrames =
 				input.recorded === null || input.recorded === ''
 					? null
-					: framesFromText(input.recorded, rate, 'recorded');
+					: lengthFromText(input.recorded, clockOfEpisode(segment), 'recorded');
 		const hazards = input.hazards ? inHazardOrder(input.hazards) : segment.hazards;
 		await trx
 			.updateTable('segment')
@@ -226,8 +228,8 @@ export async function deleteSegment(
 	version: number
 ): Promise<{ id: string }> {
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'rundown', { segmentId });
 		const segment = await segmentInChannel(trx, channelId, segmentId, { lock: true });
-		await episodeInChannel(channelId, segment.episodeId, trx, { lock: true });
 		if (segment.version !== version) throw await staleSegment(channelId, segmentId, trx);
 		const takes = await trx
 			.selectFrom('take')

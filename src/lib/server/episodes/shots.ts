@@ -5,6 +5,7 @@
 import { db } from '../db';
 import { segmentView, type ShotView } from './rundown';
 import { segmentInChannel } from './segment-in-channel';
+import { episodeOpenFor } from './stage-locks';
 import type { ShotCreate } from '$lib/schemas/episodes';
 
 /** The shot list of one segment, in order. */
@@ -19,6 +20,7 @@ export async function addShot(
 	input: ShotCreate
 ): Promise<ShotView> {
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'shots', { segmentId });
 		await segmentInChannel(trx, channelId, segmentId, { lock: true });
 		const { last } = await trx
 			.selectFrom('shot')

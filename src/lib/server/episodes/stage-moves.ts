@@ -7,17 +7,19 @@
 import { chapterProblemsFor as editChapterProblems } from '../edit/edit';
 import { featuredPartProblemsFor as featuredPartProblems } from '../merch/featured-parts';
 import { error } from '@sveltejs/kit';
+import { sql } from 'kysely';
 import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
 import { scriptFingerprint } from './fingerprint';
+import { scriptFingerprintOf } from './script-status';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { assignmentMap } from './episode-crew';
 import { queueMail } from '../mail/outbox';
 import { stageArrivalMail } from '../mail/episode-messages';
-import { gateChecksFor, type GateReason, type GateSnapshot, type ScriptStatus } from '$lib/gates';
-import { isHazardId, type HazardId } from '$lib/cautions';
-import { spokenWordsEach } from '$lib/server/episodes/script-reader';
+import { gateChecksFor, type GateReason, type GateSnapshot } from '$lib/gates';
+import { gateMaterialsFor, type GateMaterials } from './gate-snapshot';
+import { isUuid } from '../auth/identity';
 import {
 	mayMoveStage,
 	moveDirection,
@@ -38,14 +40,10 @@ export async function currentScriptFingerprint(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<string> {
-	const rows = await executor
-		.selectFrom('segment')
-		.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
-		.select(['segment.id', 'segmentScript.body'])
-		.where('segment.episodeId', '=', episodeId)
-		.orderBy('segment.position')
-		.execute();
-	return scriptFingerprint(rows);
+	const row = await executor
+		.selectNoFrom(scriptFingerprintOf(sql.val(episodeId)).as('fingerprint'))
+		.executeTakeFirstOrThrow();
+	return row.fingerprint;
 }
 
 /** Chapter rule violations for the lock gate (null: no chapters yet); the edit module owns the rules. */
@@ -55,134 +53,15 @@ export const chapterProblemsFor = editChapterProblems;
 export const featuredPartProblemsFor = featuredPartProblems;
 
 /**
- * The channel's disclosure and how many tracked links the publish kit carries: one per part linked
- * on the episode's notes (merch/publish-kit.ts makes a link for each).
+ * Everything the gate checks read, gathered in the caller's transaction: one query
+ * (gate-snapshot.ts, which the home page also uses for many episodes at once).
  */
-async function publishingFactsFor(channelId: string, episodeId: string, trx: Executor) {
-	const row = await trx
-		.selectFrom('channel')
-		.select((eb) => [
-			'channel.disclosure',
-			eb
-				.selectFrom('segmentNotePart')
-				.innerJoin('segmentNote', 'segmentNote.id', 'segmentNotePart.noteId')
-				.select((inner) => inner.fn.count<string>('segmentNotePart.partId').distinct().as('n'))
-				.where('segmentNote.episodeId', '=', episodeId)
-				.as('trackedLinks')
-		])
-		.where('channel.id', '=', channelId)
-		.executeTakeFirstOrThrow();
-	return { disclosure: row.disclosure, trackedLinks: Number(row.trackedLinks ?? 0) };
-}
-
-/** Everything the gate checks read, gathered in the caller's transaction. */
 export async function gateSnapshotFor(
 	channelId: string,
 	episodeId: string,
 	trx: Executor = db
 ): Promise<GateSnapshot> {
-	const episode = await episodeInChannel(channelId, episodeId, trx);
-	const [assignments, segments, cautions, shots, takes, chapterProblems, featuredPartProblems] =
-		await Promise.all([
-			trx
-				.selectFrom('episodeAssignment')
-				.innerJoin('person', 'person.id', 'episodeAssignment.personId')
-				.select(['episodeAssignment.role', 'person.name'])
-				.where('episodeAssignment.episodeId', '=', episodeId)
-				.execute(),
-			trx
-				.selectFrom('segment')
-				.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
-				.select([
-					'segment.id',
-					'segment.position',
-					'segment.title',
-					'segment.needsFootage',
-					'segment.hazards',
-					'segmentScript.body'
-				])
-				.where('segment.episodeId', '=', episodeId)
-				.orderBy('segment.position')
-				.execute(),
-			trx
-				.selectFrom('caution')
-				.innerJoin('segment', 'segment.id', 'caution.segmentId')
-				.select(['caution.segmentId', 'caution.hazard', 'caution.text', 'caution.atFrame'])
-				.where('segment.episodeId', '=', episodeId)
-				.execute(),
-			trx
-				.selectFrom('shot')
-				.innerJoin('segment', 'segment.id', 'shot.segmentId')
-				.select(['shot.id', 'shot.segmentId', 'shot.what'])
-				.where('segment.episodeId', '=', episodeId)
-				.orderBy('shot.position')
-				.execute(),
-			trx
-				.selectFrom('take')
-				.innerJoin('shot', 'shot.id', 'take.shotId')
-				.innerJoin('segment', 'segment.id', 'shot.segmentId')
-				.leftJoin('footage', 'footage.id', 'take.footageId')
-				.select([
-					'take.shotId',
-					'take.clipName',
-					'take.good',
-					'take.footageId',
-					'footage.frameRate as footageFrameRate',
-					'footage.variableFrameRate as footageVariableRate'
-				])
-				.where('segment.episodeId', '=', episodeId)
-				.orderBy('take.createdAt')
-				.execute(),
-			chapterProblemsFor(channelId, episodeId, trx),
-			featuredPartProblemsFor(channelId, episodeId, trx)
-		]);
-	const words = await spokenWordsEach(segments.map((segment) => segment.body));
-	const publishing = await publishingFactsFor(channelId, episodeId, trx);
-	return {
-		stage: episode.stage,
-		frameRate: episode.frameRate,
-		cutDurationFrames: episode.cutDurationFrames,
-		publishDate: episode.publishDate,
-		assignments: Object.fromEntries(assignments.map((row) => [row.role, row.name])),
-		script: {
-			status: episode.scriptStatus as ScriptStatus,
-			approvedFingerprint: episode.scriptApprovedFingerprint,
-			currentFingerprint: scriptFingerprint(segments)
-		},
-		segments: segments.map((segment, index) => ({
-			id: segment.id,
-			position: segment.position,
-			title: segment.title,
-			needsFootage: segment.needsFootage,
-			words: words[index],
-			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
-			shots: shots
-				.filter((shot) => shot.segmentId === segment.id)
-				.map((shot) => ({
-					id: shot.id,
-					what: shot.what,
-					takes: takes
-						.filter((take) => take.shotId === shot.id)
-						.map((take) => ({
-							clipName: take.clipName,
-							good: take.good,
-							hasFootage: take.footageId !== null,
-							footageFrameRate: take.footageFrameRate,
-							footageVariableRate: take.footageVariableRate
-						}))
-				})),
-			cautions: cautions
-				.filter((caution) => caution.segmentId === segment.id)
-				.map((caution) => ({
-					hazard: caution.hazard,
-					text: caution.text,
-					atFrame: caution.atFrame
-				}))
-		})),
-		chapterProblems,
-		featuredPartProblems,
-		publishing: { title: episode.title, ...publishing }
-	};
+	return (await gateMaterialsFor(channelId, episodeId, trx)).snapshot;
 }
 
 export interface StageReport {
@@ -210,25 +89,29 @@ async function assignmentsOf(
 	);
 }
 
-/** Where the episode stands, what its next gate says, and what this person may do about it. */
+/** Where the episode stands, what its next gate says, and what this person may do about it: one query. */
 export async function stageReportFor(
 	channelId: string,
 	episodeId: string,
 	viewer: { id: string; roles: readonly Role[] },
 	executor: Executor = db
 ): Promise<StageReport> {
-	const episode = await episodeInChannel(channelId, episodeId, executor);
-	const stage = episode.stage;
+	return stageReportOf(await gateMaterialsFor(channelId, episodeId, executor), viewer);
+}
+
+/** The stage report from gate materials already read (the episode page reads them once for this and the script state). */
+export function stageReportOf(
+	materials: Pick<GateMaterials, 'snapshot' | 'assignedIds'>,
+	viewer: { id: string; roles: readonly Role[] }
+): StageReport {
+	const stage = materials.snapshot.stage;
 	const next = nextStage(stage);
-	const assignments = await assignmentsOf(executor, episodeId);
+	const assignments = materials.assignedIds;
 	const mover = { personId: viewer.id, roles: viewer.roles };
-	const reasons = next
-		? gateChecksFor(await gateSnapshotFor(channelId, episodeId, executor), next)
-		: [];
 	return {
 		stage,
 		next,
-		reasons,
+		reasons: next ? gateChecksFor(materials.snapshot, next) : [],
 		mayMoveForward: next !== null && mayMoveStage(mover, assignments, stage, next),
 		mayMoveBackTo: previousStages(stage).filter((to) =>
 			mayMoveStage(mover, assignments, stage, to)
@@ -237,11 +120,15 @@ export async function stageReportFor(
 	};
 }
 
-/** The history of moves, newest first. */
+/**
+ * The history of moves, newest first, in one query scoped by the episode's channel: an episode of
+ * another channel has none ([]). Callers pair it with a read of the episode that answers 404.
+ */
 export async function stageHistory(channelId: string, episodeId: string, executor: Executor = db) {
-	await episodeInChannel(channelId, episodeId, executor);
+	if (!isUuid(episodeId)) return [];
 	const rows = await executor
 		.selectFrom('stageMove')
+		.innerJoin('episode', 'episode.id', 'stageMove.episodeId')
 		.leftJoin('person', 'person.id', 'stageMove.personId')
 		.select([
 			'stageMove.id',
@@ -252,6 +139,7 @@ export async function stageHistory(channelId: string, episodeId: string, executo
 			'person.name as personName'
 		])
 		.where('stageMove.episodeId', '=', episodeId)
+		.where('episode.channelId', '=', channelId)
 		.orderBy('stageMove.createdAt', 'desc')
 		.orderBy('stageMove.id', 'desc')
 		.execute();

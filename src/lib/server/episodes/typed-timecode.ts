@@ -1,11 +1,17 @@
 /**
- * Typed timecode or clock text read at an episode's frame rate, for every form and route that takes a
- * time in the cut (segments, cautions). A typo answers 400 naming the field.
+ * Typed timecode or clock text read in an episode's programme timecode, for every form and route
+ * that takes a time in the cut (cautions) or a length (a segment's recorded length). A typo answers
+ * 400 naming the field.
  */
 import { frameFromTyped } from '../edit/typed-time';
-import { parseTypedTime, type FrameRate } from '$lib/timecode';
+import type { ProgrammeClock } from '$lib/timecode';
 
-/** Reads typed timecode or clock text at the episode's rate the way the pages show it (drop-frame at 29.97/59.94). */
-export function framesFromText(text: string, rate: FrameRate, field: string): number {
-	return frameFromTyped(field, () => parseTypedTime(text, rate));
+/** A position in the cut: timecode in the episode's form with its start taken off, or a clock time from 0. */
+export function positionFromText(text: string, programme: ProgrammeClock, field: string): number {
+	return frameFromTyped(field, () => programme.parse(text));
+}
+
+/** A length: timecode in the episode's form (no start offset), or a clock time. */
+export function lengthFromText(text: string, programme: ProgrammeClock, field: string): number {
+	return frameFromTyped(field, () => programme.parseLength(text));
 }

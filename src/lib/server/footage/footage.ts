@@ -31,7 +31,7 @@ export async function listFootage(
 	if (!isUuid(episodeId)) throw notFound('That episode');
 	const episode = await db
 		.selectFrom('episode')
-		.select(['id', 'title', 'slug', 'frameRate'])
+		.select(['id', 'title', 'slug', 'frameRate', 'timecodeDropFrame', 'timecodeStart'])
 		.where('id', '=', episodeId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();

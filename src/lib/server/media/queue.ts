@@ -91,6 +91,27 @@ function expiryFor(durationSeconds: number | null): number {
 	return Math.min(20 * 3600, Math.round(600 + 6 * (durationSeconds ?? 60)));
 }
 
+/** Sends one job per output and notes each job's id on its row. */
+async function sendJobs(
+	footageId: string,
+	kinds: readonly MediaKind[],
+	durationSeconds: number | null
+): Promise<void> {
+	const instance = await queue();
+	for (const kind of kinds) {
+		const jobId = await instance.send(MEDIA_QUEUE, { footageId, kind } satisfies JobData, {
+			expireInSeconds: expiryFor(durationSeconds)
+		});
+		if (jobId)
+			await db
+				.updateTable('mediaOutput')
+				.set({ jobId })
+				.where('footageId', '=', footageId)
+				.where('kind', '=', kind)
+				.execute();
+	}
+}
+
 /**
  * Records what will be made from a finished upload and sends one job per output. Without ffmpeg
  * on the server the rows say so (with the install line) and no job is sent.
@@ -119,19 +140,7 @@ export async function queueMediaOutputs(footageId: string, probe: ProbeResult): 
 		.execute();
 	if (missing || make.length === 0) return;
 	try {
-		const instance = await queue();
-		for (const kind of make) {
-			const jobId = await instance.send(MEDIA_QUEUE, { footageId, kind } satisfies JobData, {
-				expireInSeconds: expiryFor(probe.durationSeconds)
-			});
-			if (jobId)
-				await db
-					.updateTable('mediaOutput')
-					.set({ jobId })
-					.where('footageId', '=', footageId)
-					.where('kind', '=', kind)
-					.execute();
-		}
+		await sendJobs(footageId, make, probe.durationSeconds);
 	} catch (failure) {
 		// The footage is saved either way; the rows say the outputs could not be queued.
 		await db
@@ -160,19 +169,11 @@ export async function requeueOutputs(
 		.returning(['kind'])
 		.execute();
 	if (failed.length === 0) return 0;
-	const instance = await queue();
-	for (const { kind } of failed) {
-		const jobId = await instance.send(MEDIA_QUEUE, { footageId, kind } satisfies JobData, {
-			expireInSeconds: expiryFor(durationSeconds)
-		});
-		if (jobId)
-			await db
-				.updateTable('mediaOutput')
-				.set({ jobId })
-				.where('footageId', '=', footageId)
-				.where('kind', '=', kind)
-				.execute();
-	}
+	await sendJobs(
+		footageId,
+		failed.map(({ kind }) => kind),
+		durationSeconds
+	);
 	return failed.length;
 }
 

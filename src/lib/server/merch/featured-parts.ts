@@ -10,7 +10,14 @@
 import { sql, type Expression } from 'kysely';
 import { db } from '../db';
 import { episodeInChannel, type Executor } from '../episodes/episodes';
-import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import {
+	clockOrUsual,
+	formatClock,
+	framesToSeconds,
+	type FrameRate,
+	type ProgrammeClock
+} from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
 import type { Role } from '$lib/roles';
 
 export interface FeaturedAppearance {
@@ -106,7 +113,13 @@ export const clockAt = (frame: number, rate: FrameRate) =>
 	formatClock(framesToSeconds(frame, rate));
 
 /** Groups (note, part) rows into parts ordered by first appearance; parts never placed come last, by SKU. */
-export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): FeaturedPart[] {
+export function groupFeatured(
+	rows: readonly FeaturedRow[],
+	clockOrRate: ProgrammeClock | FrameRate
+): FeaturedPart[] {
+	// Appearances carry the episode's programme timecode; a bare rate means its usual form from 0.
+	const programme = clockOrUsual(clockOrRate);
+	const rate = programme.rate;
 	const parts = new Map<string, FeaturedPart>();
 	for (const row of rows) {
 		let part = parts.get(row.partId);
@@ -133,7 +146,7 @@ export function groupFeatured(rows: readonly FeaturedRow[], rate: FrameRate): Fe
 			part.appearances.push({
 				noteId: row.noteId,
 				programFrame: row.programFrame,
-				timecode: formatTimecode(row.programFrame, rate),
+				timecode: programme.format(row.programFrame),
 				clock: clockAt(row.programFrame, rate)
 			});
 			part.firstFrame =
@@ -234,13 +247,21 @@ async function partsNamedInScript(executor: Executor, channelId: string, episode
 		.execute();
 	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
 	if (phrases.length === 0) return [];
-	// One pass over the catalogue with hashed lookups in the phrase list, instead of a text search per part.
+	// Each phrase is looked up in the (channel_id, lower(sku)) and (channel_id, lower(name)) indexes
+	// (migration 2026-12-03-40): a LATERAL subquery runs once per phrase as an index probe, so the
+	// work follows the script's length, not the catalogue's size (a plain join or = ANY lets the
+	// planner read every part and compute lower() on each instead).
 	const named = await sql<{ id: string; sku: string; name: string }>`
 		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
-		SELECT part.id, part.sku, part.name FROM part
-		WHERE part.channel_id = ${channelId}
-		  AND (lower(part.sku) IN (SELECT text FROM phrase) OR lower(part.name) IN (SELECT text FROM phrase))
-		ORDER BY part.sku`.execute(executor);
+		SELECT DISTINCT found.id, found.sku, found.name FROM phrase
+		CROSS JOIN LATERAL (
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.sku) = phrase.text
+			UNION ALL
+			SELECT part.id, part.sku, part.name FROM part
+			WHERE part.channel_id = ${channelId} AND lower(part.name) = phrase.text
+		) AS found
+		ORDER BY found.sku`.execute(executor);
 	return named.rows;
 }
 
@@ -256,7 +277,7 @@ export async function featuredPartsFor(
 		featuredRows(executor, episode.id),
 		partsNamedInScript(executor, channelId, episode.id)
 	]);
-	const parts = groupFeatured(rows, rate);
+	const parts = groupFeatured(rows, clockOfEpisode(episode));
 	const featured = new Set(parts.map((part) => part.partId));
 	const warnings = lockWarnings(parts);
 	for (const part of named) {

@@ -6,13 +6,8 @@ import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { episodeInChannel, type EpisodeHeading, type Executor } from '../episodes/episodes';
-import {
-	defaultDropFrame,
-	formatClock,
-	formatTimecode,
-	framesToSeconds,
-	type FrameRate
-} from '$lib/timecode';
+import { clockOfEpisode } from '../episodes/programme-timecode';
+import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
 
 export interface NotePart {
 	id: string;
@@ -28,7 +23,7 @@ export interface NoteView {
 	segmentTitle: string | null;
 	segmentPosition: number | null;
 	programFrame: number | null;
-	/** Timecode at the episode's rate (drop-frame at 29.97 and 59.94). */
+	/** The episode's programme timecode (its form and start offset). */
 	programTimecode: string | null;
 	/** M:SS as a description shows it. */
 	programClock: string | null;
@@ -68,7 +63,12 @@ function notesQuery(executor: Executor, episodeId: string) {
 		.leftJoin('segment', 'segment.id', 'segmentNote.segmentId')
 		.leftJoin('take', 'take.id', 'segmentNote.takeId')
 		.leftJoin('person', 'person.id', 'segmentNote.authorId')
+		.innerJoin('episode', 'episode.id', 'segmentNote.episodeId')
 		.select((eb) => [
+			// How the episode labels programme time, so every view of a note shows it the same way.
+			'episode.frameRate as episodeFrameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'segmentNote.id',
 			'segmentNote.segmentId',
 			'segment.title as segmentTitle',
@@ -101,10 +101,15 @@ function notesQuery(executor: Executor, episodeId: string) {
 type NoteRow = Awaited<ReturnType<ReturnType<typeof notesQuery>['execute']>>[number];
 
 function toView(row: NoteRow, rate: FrameRate): NoteView {
-	const { sourceDropFrame, ...note } = row;
+	const { sourceDropFrame, episodeFrameRate, timecodeDropFrame, timecodeStart, ...note } = row;
+	const programme = clockOfEpisode({
+		frameRate: episodeFrameRate,
+		timecodeDropFrame,
+		timecodeStart
+	});
 	return {
 		...note,
-		programTimecode: row.programFrame === null ? null : formatTimecode(row.programFrame, rate),
+		programTimecode: row.programFrame === null ? null : programme.format(row.programFrame),
 		programClock:
 			row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
 		sourceTimecode:
@@ -123,6 +128,7 @@ export async function notesPageFor(
 ): Promise<NotesPage> {
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
+	const programme = clockOfEpisode(episode);
 	const [segments, takes, notes] = await Promise.all([
 		executor
 			.selectFrom('segment')
@@ -158,10 +164,14 @@ export async function notesPageFor(
 			slug: episode.slug,
 			stage: episode.stage,
 			frameRate: rate,
-			dropFrame: defaultDropFrame(rate),
+			dropFrame: programme.dropFrame,
+			timecodeStart: programme.startLabel,
 			cutDurationFrames: episode.cutDurationFrames,
+			// A length, so without the start offset.
 			cutTimecode:
-				episode.cutDurationFrames === null ? null : formatTimecode(episode.cutDurationFrames, rate)
+				episode.cutDurationFrames === null
+					? null
+					: programme.formatLength(episode.cutDurationFrames)
 		},
 		segments,
 		takes: takes.map((take) => ({

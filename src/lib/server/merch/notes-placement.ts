@@ -2,8 +2,8 @@
  * Where a segment note sits: its segment, its take and the source time in it, and its program
  * time in the cut, read from what the person typed and checked against the episode.
  *
- * Times: program time is a frame of the cut at the episode's rate, typed as timecode (read
- * drop-frame at 29.97 and 59.94, as the pages show it) or as a clock time (the first frame at or
+ * Times: program time is a frame of the cut at the episode's rate, typed as the episode's
+ * programme timecode (its form, start offset taken off) or as a clock time (the first frame at or
  * after it, so a timestamp copied into a description never lands before the moment). Source time
  * is the take's camera timecode at the same rate, read and shown in the take's own form (drop-frame
  * when the take was logged with ";"), whichever separator the note's time is typed with.
@@ -13,13 +13,19 @@ import { frameFromTyped } from '../edit/typed-time';
 import { isUuid } from '../auth/identity';
 import type { Executor } from '../episodes/episodes';
 import { chapterStartFromText } from '$lib/chapters';
-import { TimecodeError, formatTimecode, parseTimecodeInForm, type FrameRate } from '$lib/timecode';
+import {
+	TimecodeError,
+	formatTimecode,
+	parseTimecodeInForm,
+	type FrameRate,
+	type ProgrammeClock
+} from '$lib/timecode';
 import type { NoteUpdate } from '$lib/schemas/parts';
 
 /** The program frame the input names: undefined = unchanged, null = cleared. */
 export function programFrameOf(
 	input: Partial<NoteUpdate>,
-	rate: FrameRate,
+	clock: ProgrammeClock,
 	cutDurationFrames: number | null
 ): number | null | undefined {
 	let frame: number | null | undefined = input.programFrame;
@@ -27,7 +33,7 @@ export function programFrameOf(
 		frame =
 			input.programTime === null || input.programTime === ''
 				? null
-				: frameFromTyped('programTime', () => chapterStartFromText(input.programTime!, rate));
+				: frameFromTyped('programTime', () => chapterStartFromText(input.programTime!, clock));
 	}
 	if (
 		frame !== null &&
@@ -35,7 +41,7 @@ export function programFrameOf(
 		cutDurationFrames !== null &&
 		frame >= cutDurationFrames
 	) {
-		const message = `${formatTimecode(frame, rate)} is past the end of the cut (${formatTimecode(cutDurationFrames, rate)}); place the note inside the cut.`;
+		const message = `${clock.format(frame)} is past the end of the cut (${clock.format(cutDurationFrames)}); place the note inside the cut.`;
 		throw new DomainError(400, message, { programTime: [message] });
 	}
 	return frame;

@@ -14,7 +14,9 @@ import { db } from '../db';
 import type { Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { episodeInChannel, type Actor, type Executor } from '../episodes/episodes';
+import { type Actor, type Executor } from '../episodes/episodes';
+import { clockOfEpisode } from '../episodes/programme-timecode';
+import { episodeOpenFor } from '../episodes/stage-locks';
 import { ensureTrackedLinks } from './tracked-links';
 import { viewOf, type NoteView } from './notes-page';
 import { checkPlacement, programFrameOf, sourceTimeOf } from './notes-placement';
@@ -132,14 +134,15 @@ export async function createNote(
 ): Promise<NoteView> {
 	assertNoteRights(actor.roles, input, true);
 	return db.transaction().execute(async (trx) => {
-		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
+		const episode = await episodeOpenFor(trx, channelId, 'notes', { episodeId });
 		const rate = episode.frameRate;
 		const placement = await checkPlacement(trx, episode.id, rate, {
 			segmentId: input.segmentId ?? null,
 			takeId: input.takeId ?? null,
 			source: sourceTimeOf(input) ?? null
 		});
-		const programFrame = programFrameOf(input, rate, episode.cutDurationFrames) ?? null;
+		const programFrame =
+			programFrameOf(input, clockOfEpisode(episode), episode.cutDurationFrames) ?? null;
 		const partIds = await checkParts(trx, channelId, input.partIds ?? []);
 		const note = await trx
 			.insertInto('segmentNote')
@@ -171,6 +174,8 @@ async function scopedNote(trx: Executor, channelId: string, noteId: string) {
 			'segmentNote.sourceFrame',
 			'segmentNote.version',
 			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
 			'episode.cutDurationFrames'
 		])
 		.where('segmentNote.id', '=', noteId)
@@ -203,6 +208,7 @@ export async function updateNote(
 ): Promise<NoteView> {
 	assertNoteRights(actor.roles, input);
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'notes', { noteId });
 		const note = await scopedNote(trx, channelId, noteId);
 		if (note.version !== input.version) return refuseStale(trx, note);
 		const changes: Record<string, unknown> = {};
@@ -227,7 +233,7 @@ export async function updateNote(
 				})
 			);
 		}
-		const programFrame = programFrameOf(input, note.rate, note.cutDurationFrames);
+		const programFrame = programFrameOf(input, clockOfEpisode(note), note.cutDurationFrames);
 		if (programFrame !== undefined) changes.programFrame = programFrame;
 		if (input.partIds !== undefined)
 			await replaceParts(
@@ -256,6 +262,7 @@ export async function deleteNote(
 	if (!noteRightsFor(actor.roles).write)
 		error(403, 'Not with your roles: the camera operator (or the producer) removes notes.');
 	return db.transaction().execute(async (trx) => {
+		await episodeOpenFor(trx, channelId, 'notes', { noteId });
 		const note = await scopedNote(trx, channelId, noteId);
 		if (version !== undefined && note.version !== version) return refuseStale(trx, note);
 		const removed = await viewOf(trx, note.episodeId, note.id, note.rate);

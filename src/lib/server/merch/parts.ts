@@ -17,6 +17,14 @@ import { isUuid } from '../auth/identity';
 import type { Executor } from '../episodes/episodes';
 import type { PartCreate, PartSearch, PartSort, PartUpdate } from '$lib/schemas/parts';
 import { textProblem } from '$lib/schemas/fields';
+import {
+	keysetAfter,
+	keysetOrderBy,
+	keysetPage,
+	keysetSelections,
+	type KeyKind,
+	type SortKey
+} from '../http/keyset';
 
 export const partNotFound = () => notFound('That part');
 
@@ -52,7 +60,11 @@ export type CatalogPart = Pick<
 
 export interface PartPage {
 	parts: CatalogPart[];
+	/** How many parts match, counted up to PART_COUNT_CAP (then `totalCapped`: "1,000+"). */
 	total: number;
+	totalCapped: boolean;
+	/** The cursor of the page after this one (`?after=`), null on the last page. */
+	next: string | null;
 	page: number;
 	pageSize: number;
 	pages: number;
@@ -81,12 +93,27 @@ const sortColumns: Record<
 	status: 'part.status'
 };
 
+const sortKinds: Record<PartSort, KeyKind> = {
+	sku: 'text',
+	name: 'text',
+	brand: 'text',
+	category: 'text',
+	price: 'integer',
+	status: 'text'
+};
+
+/** A search counts matching parts up to this many and then says "1,000+": an exact count of a big catalogue reads every match. */
+export const PART_COUNT_CAP = 1000;
+
 /** The words of a search, at most 8 of them (more add nothing but work). */
 export function searchWords(q: string | undefined): string[] {
 	return (q ?? '').split(/\s+/).filter(Boolean).slice(0, 8);
 }
 
-/** One page of the catalogue and how many parts match in all; the page and the count run side by side. */
+/**
+ * One page of the catalogue (keyset-paged through `query.after`) and how many parts match, counted
+ * up to PART_COUNT_CAP; the page and the count run side by side.
+ */
 export async function searchParts(
 	channelId: string,
 	query: PartSearch,
@@ -99,24 +126,50 @@ export async function searchParts(
 	if (query.category) matching = matching.where('part.category', '=', query.category);
 	if (query.status) matching = matching.where('part.status', '=', query.status);
 
-	const direction = query.dir;
-	const column = sortColumns[query.sort];
-	let page = matching.select(partColumns).orderBy(column, direction);
-	if (column !== 'part.sku') page = page.orderBy('part.sku', direction);
-	const [parts, counted] = await Promise.all([
-		page
-			.limit(query.pageSize)
-			.offset((query.page - 1) * query.pageSize)
-			.execute(),
-		matching.select((eb) => eb.fn.countAll<number>().as('total')).executeTakeFirstOrThrow()
+	const order = `${query.sort}:${query.dir}`;
+	const keys: SortKey[] = [
+		{
+			expression: sql`${sql.ref(sortColumns[query.sort])}`,
+			direction: query.dir,
+			kind: sortKinds[query.sort]
+		},
+		{ expression: sql`part.sku`, direction: query.dir, kind: 'text' }
+	];
+	if (query.sort === 'sku') keys.pop();
+	// With a cursor the page starts after it (keyset); a bare `page` number still skips rows, for
+	// links made before cursors existed.
+	let page = matching
+		.select(partColumns)
+		.select(keysetSelections(keys))
+		.where(keysetAfter(order, keys, query.after))
+		.orderBy(keysetOrderBy(keys))
+		.limit(query.pageSize + 1);
+	if (!query.after && query.page > 1) page = page.offset((query.page - 1) * query.pageSize);
+	const [rows, counted] = await Promise.all([
+		page.execute(),
+		executor
+			.selectFrom(
+				matching
+					.select(sql`1`.as('one'))
+					.limit(PART_COUNT_CAP + 1)
+					.as('capped')
+			)
+			.select((eb) => eb.fn.countAll<number>().as('total'))
+			.executeTakeFirstOrThrow()
 	]);
-	const total = Number(counted.total);
+	const { items, next } = keysetPage(order, keys, rows, query.pageSize);
+	const counting = Number(counted.total);
+	const totalCapped = counting > PART_COUNT_CAP;
+	const total = Math.min(counting, PART_COUNT_CAP);
+	const pages = Math.max(1, Math.ceil(total / query.pageSize));
 	return {
-		parts,
+		parts: items,
 		total,
+		totalCapped,
+		next,
 		page: query.page,
 		pageSize: query.pageSize,
-		pages: Math.max(1, Math.ceil(total / query.pageSize)),
+		pages: totalCapped && next ? Math.max(pages, query.page + 1) : pages,
 		query
 	};
 }

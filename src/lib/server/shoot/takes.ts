@@ -42,7 +42,7 @@ export async function shotListFor(channelId: string, episodeId: string) {
 			.execute(),
 		db
 			.selectFrom('footage')
-			.select(['id', 'clipName', 'cameraLabel'])
+			.select(['id', 'clipName', 'fileName', 'cameraLabel'])
 			.where('episodeId', '=', episode.id)
 			.where('purpose', '=', 'footage')
 			.orderBy('clipName')

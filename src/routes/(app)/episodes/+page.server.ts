@@ -1,25 +1,26 @@
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { episodeFormOptions } from '$lib/server/episodes/episodes';
+import { activeCrew } from '$lib/server/channel/crew';
 import { listEpisodes } from '$lib/server/episodes/episode-list';
 import { episodeListQuerySchema } from '$lib/schemas/episodes';
 import { fieldIssues } from '$lib/server/http/api';
 import type { PageServerLoad } from './$types';
 
-/** The episode list: filters and sort come from the query string, so a plain GET form drives them. */
+/**
+ * The episode list: filters and sort come from the query string, so a plain GET form drives them.
+ * One page at a time; "More episodes" links to the page after the last row shown (`after`).
+ */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const raw = Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''));
 	const parsed = episodeListQuerySchema.safeParse(raw);
 	const query = parsed.success ? parsed.data : episodeListQuerySchema.parse({});
-	const [episodes, options] = await Promise.all([
-		listEpisodes(channel.id, query),
-		episodeFormOptions(channel.id)
-	]);
+	const [page, crew] = await Promise.all([listEpisodes(channel.id, query), activeCrew(channel.id)]);
 	return {
-		episodes,
+		episodes: page.items,
+		next: page.next,
 		query,
 		filterErrors: parsed.success ? null : fieldIssues(parsed.error),
-		crew: options.crew.filter((member) => member.roles.some((role) => role !== 'producer')),
+		crew: crew.filter((member) => member.roles.some((role) => role !== 'producer')),
 		canCreate: hasRole(event.locals, 'producer')
 	};
 }) satisfies PageServerLoad;

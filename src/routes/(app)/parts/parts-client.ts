@@ -14,6 +14,7 @@ export function searchParams(query: {
 	dir?: string;
 	page?: number;
 	pageSize?: number;
+	after?: string | null;
 }): URLSearchParams {
 	const params = new URLSearchParams();
 	if (query.q) params.set('q', query.q);
@@ -23,6 +24,7 @@ export function searchParams(query: {
 	if (query.dir && query.dir !== 'asc') params.set('dir', query.dir);
 	if (query.page && query.page > 1) params.set('page', String(query.page));
 	if (query.pageSize && query.pageSize !== 25) params.set('pageSize', String(query.pageSize));
+	if (query.after) params.set('after', query.after);
 	return params;
 }
 

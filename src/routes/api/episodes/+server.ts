@@ -6,11 +6,14 @@ import { listEpisodes } from '$lib/server/episodes/episode-list';
 import { episodeCreateSchema, episodeListQuerySchema } from '$lib/schemas/episodes';
 import type { RequestHandler } from './$types';
 
-/** Every crew member sees the episode list (filter with ?stage=&assignee=&from=&to=&sort=&direction=). */
+/**
+ * Every crew member sees the episode list (filter with ?stage=&assignee=&from=&to=&sort=&direction=),
+ * one page at a time: `{ items, next }`; `?after=<next>&limit=` asks for the following page.
+ */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const query = parseWith(episodeListQuerySchema, Object.fromEntries(event.url.searchParams));
-	return json({ episodes: await listEpisodes(channel.id, query) });
+	return json(await listEpisodes(channel.id, query));
 });
 
 /** A producer creates an episode; it starts at the script stage. */

@@ -19,6 +19,9 @@ export interface SegmentTable {
 	hazards: ColumnType<HazardId[], HazardId[] | undefined, HazardId[]>;
 	/** Length of the segment in the cut (episode frame rate), set by the editor. */
 	recordedFrames: number | null;
+	/** In and out points of the segment on the edit timeline (programme frames, out exclusive); null until placed. */
+	cutInFrame: number | null;
+	cutOutFrame: number | null;
 	promiseEpisodeId: string | null;
 	promiseTitle: string | null;
 	version: Generated<number>;
@@ -41,6 +44,8 @@ export interface CautionTable {
 	text: string;
 	/** Frame in the cut where the caution card appears; null until the editor places it. */
 	atFrame: number | null;
+	/** How long the card stays on screen, in frames at the episode's rate; null until set. */
+	durationFrames: number | null;
 	version: Generated<number>;
 	createdAt: CreatedAt;
 	updatedAt: UpdatedAt;

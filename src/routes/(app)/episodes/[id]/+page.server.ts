@@ -1,8 +1,10 @@
 import { redirect } from '@sveltejs/kit';
 import { requireRole, hasRole } from '$lib/server/auth/guard';
-import { episodeDetail, episodeFormOptions, updateEpisode } from '$lib/server/episodes/episodes';
-import { moveStage, stageHistory, stageReportFor } from '$lib/server/episodes/stage-moves';
-import { scriptStateFor } from '$lib/server/episodes/script-reviews';
+import { episodeFormOptions, updateEpisode } from '$lib/server/episodes/episodes';
+import { requestEpisode } from '$lib/server/episodes/request-episode';
+import { gateMaterialsFor } from '$lib/server/episodes/gate-snapshot';
+import { moveStage, stageHistory, stageReportOf } from '$lib/server/episodes/stage-moves';
+import { scriptStateOf } from '$lib/server/episodes/script-reviews';
 import { episodeUpdateSchema, stageMoveSchema } from '$lib/schemas/episodes';
 import { forPage, runForm, text } from '$lib/server/http/forms';
 import { episodeFormValues } from '../episode-form';
@@ -12,20 +14,21 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel, person, roles } = requireRole(event);
 	const id = event.params.id;
-	const [episode, stage, history, script, options] = await forPage(
+	// The episode (shared with the layout), everything its gate reads, and the history: a few
+	// queries however big the episode (tests/integration/query-counts.test.ts).
+	const [episode, materials, history, options] = await forPage(
 		Promise.all([
-			episodeDetail(channel.id, id),
-			stageReportFor(channel.id, id, { id: person.id, roles }),
+			requestEpisode(event.locals, channel.id, id),
+			gateMaterialsFor(channel.id, id),
 			stageHistory(channel.id, id),
-			scriptStateFor(channel.id, id),
 			hasRole(event.locals, 'producer') ? episodeFormOptions(channel.id) : Promise.resolve(null)
 		])
 	);
 	return {
 		episode,
-		stage,
+		stage: stageReportOf(materials, { id: person.id, roles }),
 		history,
-		script,
+		script: scriptStateOf(episode, materials.snapshot.script.currentFingerprint),
 		options,
 		canEditDetails: hasRole(event.locals, 'producer')
 	};

@@ -7,9 +7,16 @@ import {
 	setCutDuration,
 	updateChapter
 } from '$lib/server/edit/edit';
-import { forPage, runForm, text } from '$lib/server/http/forms';
+import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { versionOnlySchema } from '$lib/schemas/fields';
-import { chapterCreateSchema, chapterUpdateSchema, cutUpdateSchema } from '$lib/schemas/edit';
+import {
+	chapterCreateSchema,
+	chapterUpdateSchema,
+	cutUpdateSchema,
+	segmentSpanSchema
+} from '$lib/schemas/edit';
+import { segmentSpansFor, setSegmentSpan } from '$lib/server/edit/segment-spans';
+import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
 import type { TimelineMark } from '$lib/components/timeline';
 import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
@@ -23,9 +30,10 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await forPage(editStateFor(channel.id, event.params.id));
-	const [cutVideoUrl, marks] = await Promise.all([
+	const [cutVideoUrl, marks, segments] = await Promise.all([
 		cutVideoUrlFor(channel.id, event.params.id),
-		timelineMarksFor(channel.id, event.params.id)
+		timelineMarksFor(channel.id, event.params.id),
+		forPage(segmentSpansFor(channel.id, event.params.id))
 	]);
 	return {
 		state,
@@ -33,7 +41,9 @@ export const load = (async (event) => {
 		/** The newest uploaded proxy or final cut, played under the timeline. */
 		cutVideoUrl,
 		/** Placed cautions, segment notes, featured parts and spec cards. */
-		marks: marks as TimelineMark[]
+		marks: marks as TimelineMark[],
+		/** The rundown's segments with their in and out points on the timeline. */
+		segments
 	};
 }) satisfies PageServerLoad;
 
@@ -44,6 +54,26 @@ export const actions = {
 		const values = { duration: text(form, 'duration') };
 		const result = await runForm('setCut', cutUpdateSchema, values, (data) =>
 			setCutDuration(channel.id, event.params.id, data)
+		);
+		if (!result.ok) return result.failure;
+		redirect(303, safeRedirectPath(event.url.pathname));
+	},
+	setSpan: async (event) => {
+		const { channel } = requireRole(event, 'editor', 'producer');
+		const form = await event.request.formData();
+		const segmentId = text(form, 'segmentId');
+		const values = {
+			version: text(form, 'version'),
+			in: text(form, 'in'),
+			out: text(form, 'out')
+		};
+		const tag = { action: 'setSpan' as const, segmentId };
+		const owned = await attempt(tag, values, () =>
+			assertSegmentOfEpisode(channel.id, event.params.id, segmentId)
+		);
+		if (!owned.ok) return owned.failure;
+		const result = await runForm(tag, segmentSpanSchema, values, (data) =>
+			setSegmentSpan(channel.id, segmentId, data)
 		);
 		if (!result.ok) return result.failure;
 		redirect(303, safeRedirectPath(event.url.pathname));

@@ -7,6 +7,7 @@ import { notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import { versionOnlySchema } from '$lib/schemas/fields';
+import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -17,9 +18,11 @@ import { safeRedirectPath } from '$lib/safe-redirect';
  */
 export const load = (async (event) => {
 	const { channel, roles } = requireRole(event);
+	// The stage's lock takes every editing control away (the layout says why).
+	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'notes') === null;
 	return {
 		...(await forPage(() => notesPageFor(channel.id, event.params.id))),
-		rights: noteRightsFor(roles)
+		rights: noteRightsFor(open ? roles : [])
 	};
 }) satisfies PageServerLoad;
 

@@ -3,22 +3,31 @@ import { createSegment } from '$lib/server/episodes/segments';
 import { moveSegment } from '$lib/server/episodes/rundown-order';
 import { rundownFor } from '$lib/server/episodes/rundown';
 import { episodeFormOptions } from '$lib/server/episodes/episodes';
-import { segmentCreateSchema } from '$lib/schemas/episodes';
+import { pickEpisodes } from '$lib/server/episodes/episode-picker';
+import { EPISODE_PICKER_LIMIT, segmentCreateSchema } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { segmentFormValues } from './segment-form';
+import { stageLock, type Lockable, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [rundown, options] = await forPage(
-		Promise.all([rundownFor(channel.id, event.params.id), episodeFormOptions(channel.id)])
+	const { episodeHeader } = await event.parent();
+	// The stage's locks take the editing controls away (the layout says why).
+	const open = (what: Lockable) => stageLock(episodeHeader.stage as Stage, what) === null;
+	const [rundown, options, episodes] = await forPage(
+		Promise.all([
+			rundownFor(channel.id, event.params.id),
+			episodeFormOptions(channel.id),
+			pickEpisodes(channel.id, { except: event.params.id, limit: EPISODE_PICKER_LIMIT })
+		])
 	);
 	return {
 		rundown,
 		builds: options.builds,
-		episodes: options.episodes.filter((episode) => episode.id !== event.params.id),
-		canPlan: hasRole(event.locals, 'producer', 'host'),
-		canPlanShots: hasRole(event.locals, 'producer', 'camera')
+		episodes,
+		canPlan: open('rundown') && hasRole(event.locals, 'producer', 'host'),
+		canPlanShots: open('shots') && hasRole(event.locals, 'producer', 'camera')
 	};
 }) satisfies PageServerLoad;
 

@@ -4,11 +4,14 @@ import { reviewScript, reviewsFor, scriptStateFor } from '$lib/server/episodes/s
 import { scriptHtml } from '$lib/server/episodes/script-reader';
 import { scriptReviewSchema } from '$lib/schemas/episodes';
 import { forPage, runForm, text } from '$lib/server/http/forms';
+import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The whole script to read, with its approval state and review trail; the producer approves here. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
+	// The stage's lock takes the writing and approval controls away (the layout says why).
+	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'script') === null;
 	const [rundown, state, reviews] = await forPage(
 		Promise.all([
 			rundownFor(channel.id, event.params.id),
@@ -27,9 +30,9 @@ export const load = (async (event) => {
 		state,
 		reviews,
 		can: {
-			write: hasRole(event.locals, 'producer', 'host'),
-			approve: hasRole(event.locals, 'producer'),
-			submit: hasRole(event.locals, 'producer', 'host')
+			write: open && hasRole(event.locals, 'producer', 'host'),
+			approve: open && hasRole(event.locals, 'producer'),
+			submit: open && hasRole(event.locals, 'producer', 'host')
 		}
 	};
 }) satisfies PageServerLoad;

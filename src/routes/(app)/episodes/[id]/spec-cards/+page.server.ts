@@ -19,6 +19,7 @@ import {
 	specCardInputFromForm,
 	specCardUpdateSchema
 } from '$lib/schemas/spec-cards';
+import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -29,12 +30,14 @@ import { safeRedirectPath } from '$lib/safe-redirect';
  */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
+	// The stage's lock takes the editing controls away (the layout says why).
+	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'cards') === null;
 	const board = await forPage(() => specCardsFor(channel.id, event.params.id));
 	const editId = event.url.searchParams.get('edit');
 	return {
 		board,
 		editing: board.cards.find((card) => card.id === editId) ?? null,
-		canEdit: hasRole(event.locals, 'editor', 'producer')
+		canEdit: open && hasRole(event.locals, 'editor', 'producer')
 	};
 }) satisfies PageServerLoad;
 

@@ -10,48 +10,60 @@ import { segmentView } from '$lib/server/episodes/rundown';
 import { updateCaution } from '$lib/server/episodes/cautions';
 import { addShot } from '$lib/server/episodes/shots';
 import { episodeFormOptions, episodeInChannel } from '$lib/server/episodes/episodes';
+import { pickEpisodes } from '$lib/server/episodes/episode-picker';
 import {
+	EPISODE_PICKER_LIMIT,
 	cautionUpdateSchema,
 	segmentDeleteSchema,
 	segmentUpdateSchema,
 	shotCreateSchema
 } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
-import { defaultDropFrame, formatTimecode } from '$lib/timecode';
+import { clockOfEpisode } from '$lib/server/episodes/programme-timecode';
 import { segmentFormValues } from '../segment-form';
 import { shotFormValues } from '../../shot-form';
+import { stageLock, type Lockable, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
-	const [segment, episode, options] = await forPage(
+	const { episodeHeader } = await event.parent();
+	// The stage's locks take the editing controls away (the layout says why).
+	const open = (what: Lockable) => stageLock(episodeHeader.stage as Stage, what) === null;
+	const [segment, episode, options, episodes] = await forPage(
 		Promise.all([
 			segmentView(channel.id, event.params.segmentId),
 			episodeInChannel(channel.id, event.params.id),
-			episodeFormOptions(channel.id)
+			episodeFormOptions(channel.id),
+			pickEpisodes(channel.id, { except: event.params.id, limit: EPISODE_PICKER_LIMIT })
 		])
 	);
 	if (segment.episodeId !== episode.id) error(404, 'That segment is not in this episode.');
+	const programme = clockOfEpisode(episode);
 	return {
 		segment,
 		episode: {
 			id: episode.id,
 			title: episode.title,
 			frameRate: episode.frameRate,
-			dropFrame: defaultDropFrame(episode.frameRate),
+			dropFrame: programme.dropFrame,
+			timecodeStart: programme.startLabel,
+			/** The cut's length (no start offset), and the label where it ends. */
 			cut:
 				episode.cutDurationFrames === null
 					? null
-					: formatTimecode(episode.cutDurationFrames, episode.frameRate)
+					: programme.formatLength(episode.cutDurationFrames),
+			cutEnd:
+				episode.cutDurationFrames === null ? null : programme.format(episode.cutDurationFrames)
 		},
 		builds: options.builds,
-		episodes: options.episodes.filter((other) => other.id !== episode.id),
+		episodes,
 		can: {
-			plan: hasRole(event.locals, 'producer', 'host'),
-			word: hasRole(event.locals, 'producer', 'host'),
-			place: hasRole(event.locals, 'producer', 'editor'),
-			shots: hasRole(event.locals, 'producer', 'camera')
+			plan: open('rundown') && hasRole(event.locals, 'producer', 'host'),
+			word: open('cards') && hasRole(event.locals, 'producer', 'host'),
+			place: open('cards') && hasRole(event.locals, 'producer', 'editor'),
+			shots: open('shots') && hasRole(event.locals, 'producer', 'camera')
 		}
 	};
 }) satisfies PageServerLoad;
@@ -100,6 +112,7 @@ export const actions = {
 		const values: Record<string, string> = { version: text(form, 'version') };
 		if (form.has('text')) values.text = text(form, 'text');
 		if (form.has('at')) values.at = text(form, 'at');
+		if (form.has('seconds')) values.seconds = text(form, 'seconds');
 		const result = await runForm(
 			{ action: 'caution', hazard },
 			cautionUpdateSchema,

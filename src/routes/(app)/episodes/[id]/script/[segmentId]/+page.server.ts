@@ -7,11 +7,14 @@ import { scriptHtml, spokenWords } from '$lib/server/episodes/script-reader';
 import { reviewsFor } from '$lib/server/episodes/script-reviews';
 import { SCRIPT_CHARACTER_LIMIT, scriptSaveSchema } from '$lib/schemas/episodes';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
+import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 
 /** One segment's script editor, with what the live timing needs: the pace and the rest of the episode's spoken time. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
+	// The stage's lock takes the editor away (the layout says why).
+	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'script') === null;
 	const rundown = await forPage(rundownFor(channel.id, event.params.id));
 	const index = rundown.segments.findIndex((segment) => segment.id === event.params.segmentId);
 	if (index === -1) error(404, 'That segment is not in this episode.');
@@ -37,8 +40,11 @@ export const load = (async (event) => {
 			? { id: rundown.segments[index + 1].id, title: rundown.segments[index + 1].title }
 			: null,
 		otherSpokenSeconds: rundown.totals.spokenSeconds - segment.spokenSeconds,
+		// The planned time of the other spoken segments (the editor counts this one as spoken).
+		otherSpokenPlannedSeconds:
+			rundown.totals.spokenPlannedSeconds - (segment.words > 0 ? segment.plannedSeconds : 0),
 		previewHtml,
-		canWrite: hasRole(event.locals, 'producer', 'host')
+		canWrite: open && hasRole(event.locals, 'producer', 'host')
 	};
 }) satisfies PageServerLoad;
 

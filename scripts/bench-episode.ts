@@ -1,0 +1,167 @@
+/**
+ * Episode page and episode API benchmark (not a test): at a real channel's size (npm run
+ * bench:seed's data: 10,000 episodes, 200,000 parts, an episode of 10,000 chapters), 50
+ * connections ask for one episode's page and its API for a while, and the same number ask a bare
+ * node:http + pg server (scripts/lib/bare-episode-server.ts) that runs the same reads and answers
+ * them as JSON. Prints throughput and latency and exits 1 when a target is missed.
+ *
+ * Targets: throughput at least 0.6 of the bare server's, p99 at most 2× the bare p99.
+ *
+ *   npm run bench episode        (npm run bench builds first when the build is stale)
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { Agent, request } from 'node:http';
+import path from 'node:path';
+import { projectRoot } from './lib/config.ts';
+import { freePort, openBenchWorld, signInCookie, waitForHttp } from './lib/bench-world.ts';
+import { fillBenchChannel } from './lib/scale-data.ts';
+
+const CONNECTIONS = 50;
+const WARM_UP_MS = 3_000;
+const MEASURE_MS = 12_000;
+const THROUGHPUT_TARGET = 0.6;
+const P99_TARGET = 2;
+
+/** Nearest-rank percentile (the value at rank ⌈p·n⌉ of the sorted samples). */
+function percentile(samples: number[], fraction: number): number {
+	const sorted = [...samples].sort((a, b) => a - b);
+	return sorted[Math.max(0, Math.ceil(fraction * sorted.length) - 1)];
+}
+
+interface Load {
+	requests: number;
+	perSecond: number;
+	p50: number;
+	p99: number;
+	failures: number;
+}
+
+/** CONNECTIONS loops on kept-alive connections, each asking again as soon as an answer is read. */
+async function load(url: string, headers: Record<string, string>): Promise<Load> {
+	const agent = new Agent({ keepAlive: true, maxSockets: CONNECTIONS });
+	const once = () =>
+		new Promise<number>((resolve, reject) => {
+			const started = performance.now();
+			const outgoing = request(url, { agent, headers }, (incoming) => {
+				incoming.resume();
+				incoming.on('end', () =>
+					incoming.statusCode === 200
+						? resolve(performance.now() - started)
+						: reject(incoming.statusCode)
+				);
+			});
+			outgoing.on('error', reject);
+			outgoing.end();
+		});
+	const run = async (milliseconds: number) => {
+		const latencies: number[] = [];
+		let failures = 0;
+		const until = performance.now() + milliseconds;
+		await Promise.all(
+			Array.from({ length: CONNECTIONS }, async () => {
+				while (performance.now() < until)
+					await once().then(
+						(latency) => latencies.push(latency),
+						() => failures++
+					);
+			})
+		);
+		return { latencies, failures };
+	};
+	await run(WARM_UP_MS);
+	const started = performance.now();
+	const { latencies, failures } = await run(MEASURE_MS);
+	const seconds = (performance.now() - started) / 1000;
+	agent.destroy();
+	return {
+		requests: latencies.length,
+		perSecond: latencies.length / seconds,
+		p50: percentile(latencies, 0.5),
+		p99: percentile(latencies, 0.99),
+		failures
+	};
+}
+
+async function main() {
+	const world = await openBenchWorld('bench-episode');
+	let bare: ChildProcess | null = null;
+	let ok: boolean;
+	try {
+		const filling = performance.now();
+		await fillBenchChannel(world.pool, 'Torquehaven Garage');
+		console.log(
+			`bench:seed data written in ${((performance.now() - filling) / 1000).toFixed(0)} s.`
+		);
+		// The demo's episode with the most work on it (segments and notes), as the crew would open it.
+		const [episode] = (
+			await world.pool.query<{ id: string; title: string }>(
+				`SELECT e.id, e.title FROM episode e JOIN channel c ON c.id = e.channel_id
+				 WHERE c.name = 'Torquehaven Garage' AND e.title NOT LIKE '% · %' AND e.slug <> 'bench-ten-thousand-chapters'
+				 ORDER BY (SELECT count(*) FROM segment s WHERE s.episode_id = e.id)
+				        + (SELECT count(*) FROM segment_note n WHERE n.episode_id = e.id) DESC
+				 LIMIT 1`
+			)
+		).rows;
+		const baseUrl = await world.startServer();
+		const cookie = await signInCookie(baseUrl, 'dana@torquehaven.test');
+		const [session] = (
+			await world.pool.query<{ id: string }>(
+				`SELECT s.id FROM person_session s JOIN person p ON p.id = s.person_id
+				 WHERE p.email = 'dana@torquehaven.test' ORDER BY s.expires_at DESC LIMIT 1`
+			)
+		).rows;
+		const barePort = await freePort();
+		bare = spawn(
+			path.join(projectRoot, 'node_modules/.bin/tsx'),
+			[path.join(projectRoot, 'scripts/lib/bare-episode-server.ts')],
+			{
+				env: { ...process.env, DATABASE_URL: world.cluster.url, PORT: String(barePort) },
+				stdio: ['ignore', 'ignore', 'inherit']
+			}
+		);
+		const bareBase = `http://127.0.0.1:${barePort}`;
+		const bareQuery = `session=${session.id}&episode=${episode.id}`;
+		await waitForHttp(`${bareBase}/api?${bareQuery}`, 30_000);
+		console.log(
+			`Wrenchroll episode bench on ${process.platform} ${process.arch}, Node ${process.version}: “${episode.title}” as the producer, ${CONNECTIONS} connections, ${WARM_UP_MS / 1000} s warm-up then ${MEASURE_MS / 1000} s measured each`
+		);
+		const pairs = [
+			{
+				label: 'episode API (GET /api/episodes/[id])',
+				app: await load(`${baseUrl}/api/episodes/${episode.id}`, { cookie }),
+				bare: await load(`${bareBase}/api?${bareQuery}`, {})
+			},
+			{
+				label: 'episode page (GET /episodes/[id], HTML)',
+				app: await load(`${baseUrl}/episodes/${episode.id}`, { cookie, accept: 'text/html' }),
+				bare: await load(`${bareBase}/page?${bareQuery}`, {})
+			}
+		];
+		const ms = (value: number) => `${value.toFixed(1)} ms`;
+		console.log('');
+		const rows = pairs.map(({ label, app, bare: baseline }) => {
+			const throughput = app.perSecond / baseline.perSecond;
+			const p99 = app.p99 / baseline.p99;
+			const met = throughput >= THROUGHPUT_TARGET && p99 <= P99_TARGET && app.failures === 0;
+			console.log(label);
+			console.log(
+				`  app   ${app.perSecond.toFixed(0).padStart(6)} req/s  p50 ${ms(app.p50).padStart(9)}  p99 ${ms(app.p99).padStart(9)}  (${app.requests} requests, ${app.failures} failed)`
+			);
+			console.log(
+				`  bare  ${baseline.perSecond.toFixed(0).padStart(6)} req/s  p50 ${ms(baseline.p50).padStart(9)}  p99 ${ms(baseline.p99).padStart(9)}  (${baseline.requests} requests, ${baseline.failures} failed)`
+			);
+			console.log(
+				`  throughput ${throughput.toFixed(2)} of bare (target ≥ ${THROUGHPUT_TARGET}), p99 ${p99.toFixed(2)}× bare (target ≤ ${P99_TARGET}): ${met ? 'met' : 'MISSED'}\n`
+			);
+			return met;
+		});
+		ok = rows.every(Boolean);
+		console.log(ok ? 'all targets met' : 'TARGET MISSED');
+	} finally {
+		bare?.kill('SIGTERM');
+		await world.close();
+	}
+	process.exit(ok ? 0 : 1);
+}
+
+await main();

@@ -1,0 +1,318 @@
+/**
+ * Paging benchmarks (not tests): lists at a real channel's size. Prints a table per bench and
+ * exits 1 when a target is missed.
+ *
+ *   npm run bench "episode list"   the episode list (API and page) at 10 and at 10,000 episodes,
+ *                                  and how much the server's memory grows while serving it
+ *   npm run bench "parts search"   catalogue search at 20,000 and at 200,000 parts, and featured
+ *                                  parts ("named in the script") at 200,000
+ *   npm run bench "chapter export at scale"   every export format at 1,000 and 10,000 chapters
+ *
+ * Each bench starts its own throwaway PostgreSQL (scripts/lib/bench-world.ts), runs the real
+ * migrate and seed scripts, adds its data in channels of its own (scripts/lib/bench-paging-seed.ts)
+ * and starts the built server. Times are medians of the whole request over loopback (sign-in
+ * hooks included) unless a row says "server": then the route's Server-Timing `total`.
+ */
+import { readFileSync } from 'node:fs';
+import { openBenchWorld, signedInSession, type BenchSession } from './lib/bench-world.ts';
+import {
+	addChapteredEpisode,
+	addEpisodes,
+	addParts,
+	addScriptedEpisode,
+	benchChannel
+} from './lib/bench-paging-seed.ts';
+
+const WARM_UP = 20;
+const MEASURED = 100;
+const GROWTH_LIMIT = 2;
+const MEMORY_LIMIT_MB = 50;
+const PARTS_MEDIAN_TARGET_MS = 10;
+const FEATURED_TARGET_MS = 20;
+const CHAPTER_TARGETS_MS: Record<number, number> = { 1000: 5, 10000: 40 };
+
+interface Row {
+	label: string;
+	cells: string[];
+	ok: boolean;
+}
+
+function median(samples: number[]): number {
+	const sorted = [...samples].sort((a, b) => a - b);
+	return sorted[Math.floor((sorted.length - 1) / 2)];
+}
+const ms = (value: number) => `${value.toFixed(2)} ms`;
+
+function serverTotal(headers: Headers): number {
+	const match = /(?:^|,)\s*total;dur=([0-9.]+)/.exec(headers.get('server-timing') ?? '');
+	if (!match) throw new Error('no Server-Timing total');
+	return Number(match[1]);
+}
+
+/** Median wall time (or Server-Timing total) of `paths` asked round-robin after a warm-up. */
+async function measure(
+	session: BenchSession,
+	paths: string[],
+	{ server = false, measured = MEASURED } = {}
+): Promise<number> {
+	for (let index = 0; index < WARM_UP; index++) await session.get(paths[index % paths.length]);
+	const samples: number[] = [];
+	for (let index = 0; index < measured; index++) {
+		const answer = await session.get(paths[index % paths.length]);
+		if (answer.status !== 200)
+			throw new Error(`${paths[index % paths.length]} answered ${answer.status}`);
+		samples.push(server ? serverTotal(answer.headers) : answer.wallMilliseconds);
+	}
+	return median(samples);
+}
+
+/** Resident and peak resident memory of a process, in MB (Linux /proc). */
+function memoryOf(pid: number): { rss: number; peak: number } {
+	const status = readFileSync(`/proc/${pid}/status`, 'utf8');
+	const read = (key: string) => Number(new RegExp(`${key}:\\s+(\\d+) kB`).exec(status)?.[1] ?? 0);
+	return { rss: read('VmRSS') / 1024, peak: read('VmHWM') / 1024 };
+}
+
+function print(title: string, target: string, columns: string[], rows: Row[], notes: string[]) {
+	const table = [
+		columns,
+		...rows.map((row) => [row.label, ...row.cells, row.ok ? 'met' : 'MISSED'])
+	];
+	const widths = table[0].map((_, index) => Math.max(...table.map((line) => line[index].length)));
+	const line = (cells: string[]) =>
+		cells
+			.map((cell, i) => (i === 0 ? cell.padEnd(widths[i]) : cell.padStart(widths[i])))
+			.join('  ');
+	console.log(`\n${title}\ntarget: ${target}\n`);
+	console.log(line(table[0]));
+	console.log(widths.map((width) => '─'.repeat(width)).join('  '));
+	for (const cells of table.slice(1)) console.log(line(cells));
+	for (const note of notes) console.log(`• ${note}`);
+	const ok = rows.every((row) => row.ok);
+	console.log(`\n${ok ? 'all targets met' : 'TARGET MISSED'}\n`);
+	return ok;
+}
+
+async function episodeListBench(): Promise<boolean> {
+	const world = await openBenchWorld('paging-episodes');
+	try {
+		const small = await benchChannel(world.pool, 'Bench small bay', 'small@bench.test');
+		const big = await benchChannel(world.pool, 'Bench big bay', 'big@bench.test');
+		await addEpisodes(world.pool, small.channelId, small.personId, 10);
+		await addEpisodes(world.pool, big.channelId, big.personId, 10_000);
+		const baseUrl = await world.startServer();
+		const sessions = {
+			10: await signedInSession(baseUrl, 'small@bench.test'),
+			10_000: await signedInSession(baseUrl, 'big@bench.test')
+		};
+		const kinds = [
+			{ label: 'API, default order', paths: ['/api/episodes'] },
+			{
+				label: 'API, every sort',
+				paths: ['publish', 'title', 'stage', 'created'].flatMap((sort) =>
+					['asc', 'desc'].map((direction) => `/api/episodes?sort=${sort}&direction=${direction}`)
+				)
+			},
+			{ label: 'page /episodes', paths: ['/episodes', '/episodes?sort=title'] }
+		];
+		const rows: Row[] = [];
+		const pid = world.serverPid()!;
+		// Every list at 10 episodes first, so the server is warm when its memory is read.
+		const atSmall = [];
+		for (const kind of kinds) atSmall.push(await measure(sessions[10], kind.paths));
+		const before = memoryOf(pid);
+		for (const [index, kind] of kinds.entries()) {
+			const atBig = await measure(sessions[10_000], kind.paths);
+			rows.push({
+				label: kind.label,
+				cells: [ms(atSmall[index]), ms(atBig), `${(atBig / atSmall[index]).toFixed(2)}×`],
+				ok: atBig <= GROWTH_LIMIT * atSmall[index]
+			});
+		}
+		// A deep page: the 150th page of 50 (rows 7,451–7,500), reached by following `next`.
+		let next: string | null = null;
+		for (let page = 1; page < 150; page++) {
+			const answer = await sessions[10_000].get(
+				`/api/episodes${next ? `?after=${encodeURIComponent(next)}` : ''}`
+			);
+			next = (JSON.parse(answer.body) as { next: string | null }).next;
+		}
+		const deep = await measure(sessions[10_000], [
+			`/api/episodes?after=${encodeURIComponent(next!)}`
+		]);
+		const first = await measure(sessions[10_000], ['/api/episodes']);
+		rows.push({
+			label: 'API, page 150 vs page 1 (10,000)',
+			cells: [ms(first), ms(deep), `${(deep / first).toFixed(2)}×`],
+			ok: deep <= GROWTH_LIMIT * first
+		});
+		const after = memoryOf(pid);
+		const growth = after.peak - before.rss;
+		rows.push({
+			label: 'server memory (peak − before)',
+			cells: [
+				`${before.rss.toFixed(0)} MB`,
+				`${after.peak.toFixed(0)} MB`,
+				`+${growth.toFixed(0)} MB`
+			],
+			ok: growth <= MEMORY_LIMIT_MB
+		});
+		return print(
+			`Episode list, one page of 50, at 10 and 10,000 episodes (${MEASURED} requests each after ${WARM_UP} warm-up)`,
+			`at 10,000 at most ${GROWTH_LIMIT}× the time at 10; the server's memory grows by at most ${MEMORY_LIMIT_MB} MB`,
+			['', '10 episodes', '10,000 episodes', 'growth', ''],
+			rows,
+			[
+				'Times are whole requests over loopback (sign-in hooks included), medians.',
+				'Memory: the server process’s resident size once warm (after every list at 10 episodes) and its peak (VmHWM) after the lists at 10,000.'
+			]
+		);
+	} finally {
+		await world.close();
+	}
+}
+
+/** Searches of every kind the catalogue page makes; cursors are followed for deep pages. */
+const SEARCHES = [
+	'/api/parts',
+	'/api/parts?sort=name&dir=desc',
+	'/api/parts?sort=price',
+	'/api/parts?q=coil',
+	'/api/parts?q=spacer%20pair',
+	'/api/parts?q=forged%203%20in',
+	'/api/parts?q=kestrelmark',
+	'/api/parts?q=BN-LB',
+	'/api/parts?q=BN-SHK-0019',
+	'/api/parts?q=coil&status=active&sort=price&dir=desc',
+	'/api/parts?category=Steering&sort=name',
+	'/api/parts?q=nothing-like-this'
+];
+
+async function partsSearchBench(): Promise<boolean> {
+	const world = await openBenchWorld('paging-parts');
+	try {
+		const small = await benchChannel(world.pool, 'Bench small catalogue', 'small@bench.test');
+		const big = await benchChannel(world.pool, 'Bench big catalogue', 'big@bench.test');
+		await addParts(world.pool, small.channelId, 20_000);
+		await addParts(world.pool, big.channelId, 200_000);
+		const scripted = await addScriptedEpisode(world.pool, big.channelId);
+		const baseUrl = await world.startServer();
+		const sessions = {
+			20_000: await signedInSession(baseUrl, 'small@bench.test'),
+			200_000: await signedInSession(baseUrl, 'big@bench.test')
+		};
+		// Deep pages of a category filter: the 40th page of 25, reached through the cursors.
+		const deepPaths: Record<number, string> = {};
+		for (const size of [20_000, 200_000] as const) {
+			let next: string | null = null;
+			for (let page = 1; page < 40; page++) {
+				const answer = await sessions[size].get(
+					`/api/parts?category=Steering&sort=name${next ? `&after=${encodeURIComponent(next)}` : ''}`
+				);
+				next = (JSON.parse(answer.body) as { next: string | null }).next;
+			}
+			deepPaths[size] = `/api/parts?category=Steering&sort=name&after=${encodeURIComponent(next!)}`;
+		}
+		const rows: Row[] = [];
+		const medians: Record<number, number> = {};
+		for (const size of [20_000, 200_000] as const) {
+			const wall = await measure(sessions[size], [...SEARCHES, deepPaths[size]]);
+			const server = await measure(sessions[size], [...SEARCHES, deepPaths[size]], {
+				server: true
+			});
+			medians[size] = wall;
+			rows.push({
+				label: `${size.toLocaleString('en')} parts`,
+				cells: [ms(wall), ms(server)],
+				ok: size === 20_000 || wall <= PARTS_MEDIAN_TARGET_MS
+			});
+		}
+		rows.push({
+			label: 'growth 20k → 200k',
+			cells: [`${(medians[200_000] / medians[20_000]).toFixed(2)}×`, ''],
+			ok: medians[200_000] <= GROWTH_LIMIT * medians[20_000]
+		});
+		const featured = await measure(sessions[200_000], [`/api/episodes/${scripted}/featured-parts`]);
+		rows.push({
+			label: 'featured parts at 200,000',
+			cells: [ms(featured), ''],
+			ok: featured <= FEATURED_TARGET_MS
+		});
+		return print(
+			`Catalogue search at 20,000 and 200,000 parts (${MEASURED} searches of ${SEARCHES.length + 1} kinds each, after ${WARM_UP} warm-up)`,
+			`median under ${PARTS_MEDIAN_TARGET_MS} ms at 200,000 and at most ${GROWTH_LIMIT}× the 20,000 median; featured parts under ${FEATURED_TARGET_MS} ms`,
+			['', 'median (request)', 'median (server)', ''],
+			rows,
+			[
+				'Counts stop at 1,000 ("1,000+"); deep pages follow the cursor instead of skipping rows.',
+				'Featured parts looks the script’s phrases up in the per-channel lower(sku) and lower(name) indexes.'
+			]
+		);
+	} finally {
+		await world.close();
+	}
+}
+
+async function chapterExportBench(): Promise<boolean> {
+	const world = await openBenchWorld('paging-chapters');
+	try {
+		const bay = await benchChannel(world.pool, 'Bench chapter bay', 'chapters@bench.test');
+		const episodes = {
+			1000: await addChapteredEpisode(world.pool, bay.channelId, 1000),
+			10000: await addChapteredEpisode(world.pool, bay.channelId, 10_000)
+		};
+		const baseUrl = await world.startServer();
+		const session = await signedInSession(baseUrl, 'chapters@bench.test');
+		const rows: Row[] = [];
+		for (const count of [1000, 10000] as const) {
+			const paths = ['txt', 'vtt', 'ffmetadata', 'json', 'csv'].map(
+				(format) => `/api/episodes/${episodes[count]}/chapters?format=${format}`
+			);
+			const first = await session.get(paths[0]);
+			if (first.status !== 200) throw new Error(`export answered ${first.status}: ${first.body}`);
+			const server = await measure(session, paths, { server: true });
+			const wall = await measure(session, paths);
+			rows.push({
+				label: `${count.toLocaleString('en')} chapters`,
+				cells: [ms(server), ms(wall)],
+				ok: server <= CHAPTER_TARGETS_MS[count]
+			});
+		}
+		return print(
+			'Chapter export at 1,000 and 10,000 chapters, every format round-robin',
+			'server median at most 5 ms at 1,000 and 40 ms at 10,000',
+			['', 'median (server)', 'median (request)', ''],
+			rows,
+			['"server" is the route’s Server-Timing total: the one query and writing the file.']
+		);
+	} finally {
+		await world.close();
+	}
+}
+
+const BENCHES: Record<string, () => Promise<boolean>> = {
+	'episode list': episodeListBench,
+	'parts search': partsSearchBench,
+	'chapter export at scale': chapterExportBench
+};
+
+async function main() {
+	const named = process.argv.slice(2);
+	const unknown = named.filter((name) => !(name in BENCHES));
+	if (unknown.length) throw new Error(`no paging bench named ${unknown.join(', ')}`);
+	let ok = true;
+	for (const [name, bench] of Object.entries(BENCHES)) {
+		if (named.length && !named.includes(name)) continue;
+		try {
+			ok = (await bench()) && ok;
+		} catch (failure) {
+			console.error(
+				`\n${name}: FAILED TO RUN\n${failure instanceof Error ? failure.stack : failure}\n`
+			);
+			ok = false;
+		}
+	}
+	process.exit(ok ? 0 : 1);
+}
+
+await main();

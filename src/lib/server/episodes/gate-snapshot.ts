@@ -1,0 +1,267 @@
+/**
+ * Everything the gate checks read ($lib/gates), for one episode or for many, in one query: the
+ * episode's own columns and, as JSON arrays beside them, its crew, segments with their scripts,
+ * cautions, shots, takes, chapters and featured-part links (Kysely's relations recipe). The home
+ * page asks for every unpublished episode of a channel at once, so its number of queries does not
+ * grow with the number of episodes.
+ *
+ * Spoken words are counted by the script readers (Markdown in worker threads); the counts of a
+ * whole script are remembered by its fingerprint, so an unchanged script is not read again.
+ */
+import { sql } from 'kysely';
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import { db } from '../db';
+import type { Role } from '../db/types';
+import { episodeNotFound, type Executor } from './episodes';
+import { isUuid } from '../auth/identity';
+import { scriptFingerprint } from './fingerprint';
+import { spokenWordsEach } from './script-reader';
+import { problemsOf } from '../edit/edit';
+import { featuredLinks, groupFeatured, lockWarnings } from '../merch/featured-parts';
+import { assignmentMap } from './episode-crew';
+import type { GateSnapshot, ScriptStatus } from '$lib/gates';
+import { isHazardId, type HazardId } from '$lib/cautions';
+import { programmeClock, programmeTimecode } from '$lib/timecode';
+
+function materialsQuery(executor: Executor, channelId: string) {
+	return executor
+		.selectFrom('episode')
+		.innerJoin('channel', 'channel.id', 'episode.channelId')
+		.select((eb) => [
+			'episode.id',
+			'episode.title',
+			'episode.stage',
+			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
+			'episode.cutDurationFrames',
+			'episode.publishDate',
+			'episode.scriptStatus',
+			'episode.scriptApprovedFingerprint',
+			'channel.disclosure',
+			jsonArrayFrom(
+				eb
+					.selectFrom('episodeAssignment')
+					.innerJoin('person', 'person.id', 'episodeAssignment.personId')
+					.select(['episodeAssignment.role', 'episodeAssignment.personId', 'person.name'])
+					.whereRef('episodeAssignment.episodeId', '=', 'episode.id')
+			).as('assignments'),
+			jsonArrayFrom(
+				eb
+					.selectFrom('segment')
+					.innerJoin('segmentScript', 'segmentScript.segmentId', 'segment.id')
+					.select([
+						'segment.id',
+						'segment.position',
+						'segment.title',
+						'segment.needsFootage',
+						'segment.hazards',
+						'segment.cutInFrame',
+						'segment.cutOutFrame',
+						'segmentScript.body'
+					])
+					.whereRef('segment.episodeId', '=', 'episode.id')
+					.orderBy('segment.position')
+			).as('segments'),
+			jsonArrayFrom(
+				eb
+					.selectFrom('caution')
+					.innerJoin('segment', 'segment.id', 'caution.segmentId')
+					.select([
+						'caution.segmentId',
+						'caution.hazard',
+						'caution.text',
+						'caution.atFrame',
+						'caution.durationFrames'
+					])
+					.whereRef('segment.episodeId', '=', 'episode.id')
+			).as('cautions'),
+			jsonArrayFrom(
+				eb
+					.selectFrom('shot')
+					.innerJoin('segment', 'segment.id', 'shot.segmentId')
+					.select(['shot.id', 'shot.segmentId', 'shot.what'])
+					.whereRef('segment.episodeId', '=', 'episode.id')
+					.orderBy('shot.position')
+			).as('shots'),
+			jsonArrayFrom(
+				eb
+					.selectFrom('take')
+					.innerJoin('shot', 'shot.id', 'take.shotId')
+					.innerJoin('segment', 'segment.id', 'shot.segmentId')
+					.leftJoin('footage', 'footage.id', 'take.footageId')
+					.select([
+						'take.shotId',
+						'take.clipName',
+						'take.good',
+						'take.footageId',
+						'footage.frameRate as footageFrameRate',
+						'footage.variableFrameRate as footageVariableRate'
+					])
+					.whereRef('segment.episodeId', '=', 'episode.id')
+					.orderBy('take.createdAt')
+			).as('takes'),
+			jsonArrayFrom(
+				eb
+					.selectFrom('chapter')
+					.select(['chapter.id', 'chapter.startFrame', 'chapter.title', 'chapter.url'])
+					.whereRef('chapter.episodeId', '=', 'episode.id')
+					// The edit page's order (edit.ts): ties keep the order they were made in.
+					.orderBy('chapter.startFrame')
+					.orderBy('chapter.createdAt')
+					.orderBy('chapter.id')
+			).as('chapters'),
+			jsonArrayFrom(
+				featuredLinks(executor, eb.ref('episode.id'))
+					.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
+					.orderBy('segmentNote.createdAt')
+			).as('featured')
+		])
+		.where('episode.channelId', '=', channelId);
+}
+
+type Materials = Awaited<ReturnType<ReturnType<typeof materialsQuery>['execute']>>[number];
+
+/** What the gate reads, and what the stage report and the script state need beside it. */
+export interface GateMaterials {
+	id: string;
+	title: string;
+	scriptStatus: string;
+	publishDate: string | null;
+	snapshot: GateSnapshot;
+	/** Role → id of the assigned person (who may move the episode on). */
+	assignedIds: Partial<Record<Role, string>>;
+}
+
+const WORDS_REMEMBERED = 500;
+const wordsByFingerprint = new Map<string, Promise<number[]>>();
+
+/**
+ * Spoken words of each segment of a script, remembered by the script's fingerprint: reading the
+ * same script again costs a hash, not a Markdown parse per segment, and requests arriving together
+ * share one read. The oldest entry goes first; a read that fails is forgotten.
+ */
+export function spokenWordsOfScript(
+	segments: readonly { id: string; body: string }[],
+	fingerprint = scriptFingerprint(segments)
+): Promise<number[]> {
+	const known = wordsByFingerprint.get(fingerprint);
+	if (known) return known;
+	const words = spokenWordsEach(segments.map((segment) => segment.body));
+	if (wordsByFingerprint.size >= WORDS_REMEMBERED)
+		wordsByFingerprint.delete(wordsByFingerprint.keys().next().value!);
+	wordsByFingerprint.set(fingerprint, words);
+	words.catch(() => wordsByFingerprint.delete(fingerprint));
+	return words;
+}
+
+function groupBy<T, K>(rows: readonly T[], key: (row: T) => K): Map<K, T[]> {
+	const groups = new Map<K, T[]>();
+	for (const row of rows) {
+		const group = groups.get(key(row));
+		if (group) group.push(row);
+		else groups.set(key(row), [row]);
+	}
+	return groups;
+}
+
+async function materialsOf(row: Materials): Promise<GateMaterials> {
+	const fingerprint = scriptFingerprint(row.segments);
+	const words = await spokenWordsOfScript(row.segments, fingerprint);
+	const shotsBySegment = groupBy(row.shots, (shot) => shot.segmentId);
+	const takesByShot = groupBy(row.takes, (take) => take.shotId);
+	const cautionsBySegment = groupBy(row.cautions, (caution) => caution.segmentId);
+	const timecode = programmeTimecode(row);
+	const featured = groupFeatured(row.featured, programmeClock(timecode));
+	const snapshot: GateSnapshot = {
+		stage: row.stage,
+		frameRate: row.frameRate,
+		timecode,
+		cutDurationFrames: row.cutDurationFrames,
+		publishDate: row.publishDate,
+		assignments: Object.fromEntries(row.assignments.map((a) => [a.role, a.name])),
+		script: {
+			status: row.scriptStatus as ScriptStatus,
+			approvedFingerprint: row.scriptApprovedFingerprint,
+			currentFingerprint: fingerprint
+		},
+		segments: row.segments.map((segment, index) => ({
+			id: segment.id,
+			position: segment.position,
+			title: segment.title,
+			needsFootage: segment.needsFootage,
+			words: words[index],
+			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
+			inFrame: segment.cutInFrame,
+			outFrame: segment.cutOutFrame,
+			shots: (shotsBySegment.get(segment.id) ?? []).map((shot) => ({
+				id: shot.id,
+				what: shot.what,
+				takes: (takesByShot.get(shot.id) ?? []).map((take) => ({
+					clipName: take.clipName,
+					good: take.good,
+					hasFootage: take.footageId !== null,
+					footageFrameRate: take.footageFrameRate,
+					footageVariableRate: take.footageVariableRate
+				}))
+			})),
+			cautions: (cautionsBySegment.get(segment.id) ?? []).map((caution) => ({
+				hazard: caution.hazard,
+				text: caution.text,
+				atFrame: caution.atFrame,
+				durationFrames: caution.durationFrames
+			}))
+		})),
+		chapterProblems:
+			row.chapters.length === 0
+				? null
+				: problemsOf(row.chapters, row.cutDurationFrames, row.frameRate).map(
+						(problem) => problem.message
+					),
+		// A note without a program time is the editor's to place; a part that isn't active is merch's to replace.
+		featuredPartProblems: lockWarnings(featured).map((warning) => ({
+			message: warning.message,
+			fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch'
+		})),
+		publishing: {
+			title: row.title,
+			disclosure: row.disclosure,
+			// The publish kit makes one tracked link per part linked on the episode's notes.
+			trackedLinks: new Set(row.featured.map((link) => link.partId)).size
+		}
+	};
+	return {
+		id: row.id,
+		title: row.title,
+		scriptStatus: row.scriptStatus,
+		publishDate: row.publishDate,
+		snapshot,
+		assignedIds: assignmentMap(row.assignments)
+	};
+}
+
+/** The gate materials of one episode of the channel, in one query; 404 otherwise. */
+export async function gateMaterialsFor(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+): Promise<GateMaterials> {
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	const row = await materialsQuery(executor, channelId)
+		.where('episode.id', '=', episodeId)
+		.executeTakeFirst();
+	if (!row) throw episodeNotFound();
+	return materialsOf(row);
+}
+
+/** The gate materials of every episode of the channel not yet published, by publish date (undated last), in one query. */
+export async function unpublishedGateMaterials(
+	channelId: string,
+	executor: Executor = db
+): Promise<GateMaterials[]> {
+	const rows = await materialsQuery(executor, channelId)
+		.where('episode.stage', '!=', 'published')
+		.orderBy(sql`episode.publish_date ASC NULLS LAST`)
+		.execute();
+	return Promise.all(rows.map(materialsOf));
+}
