@@ -10,6 +10,7 @@
  *   npm run bench episode              only the episode page and API bench (scripts/bench-episode.ts)
  *   npm run bench "episode list"       "parts search", "chapter export at scale": the paging benches
  *                                      (scripts/bench-paging.ts), lists at a real channel's size
+ *   npm run bench storage              the storage view at 10,000 episodes (scripts/bench-storage.ts)
  *   npm run bench "chapter export"     any other name: that bench of scripts/bench.ts
  */
 import { spawnSync } from 'node:child_process';
@@ -31,7 +32,8 @@ const SCRIPTS: BenchScript[] = [
 	{
 		script: 'scripts/bench-paging.ts',
 		names: ['episode list', 'parts search', 'chapter export at scale']
-	}
+	},
+	{ script: 'scripts/bench-storage.ts', names: ['storage'] }
 ];
 
 /** What the build is made from: a change to any of these makes the build stale. */

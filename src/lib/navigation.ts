@@ -14,6 +14,7 @@ export const NAV_ITEMS: NavItem[] = [
 	{ href: '/builds', label: 'Builds', roles: 'all' },
 	{ href: '/parts', label: 'Parts', roles: 'all' },
 	{ href: '/follow-ups', label: 'Follow-ups', roles: 'all' },
+	{ href: '/storage', label: 'Storage', roles: 'all' },
 	{ href: '/crew', label: 'Crew', roles: ['producer'] },
 	{ href: '/channel', label: 'Channel', roles: ['producer'] },
 	{ href: '/account', label: 'Account', roles: 'all' }
