@@ -23,7 +23,8 @@ import { personByAddress, type MailLinkRequest } from '../auth/unlock';
 const INVITE_DAYS = 7;
 const RESET_HOURS = 1;
 
-export async function listCrew(channelId: string) {
+/** The channel's members with what the crew page and API show of each. */
+function crewQuery(channelId: string) {
 	return db
 		.selectFrom('membership')
 		.innerJoin('person', 'person.id', 'membership.personId')
@@ -36,9 +37,11 @@ export async function listCrew(channelId: string) {
 			'membership.createdAt',
 			sql<boolean>`person.password_hash IS NOT NULL`.as('hasPassword')
 		])
-		.where('membership.channelId', '=', channelId)
-		.orderBy('person.name')
-		.execute();
+		.where('membership.channelId', '=', channelId);
+}
+
+export async function listCrew(channelId: string) {
+	return crewQuery(channelId).orderBy('person.name').execute();
 }
 
 export type CrewMember = Awaited<ReturnType<typeof listCrew>>[number];
@@ -50,20 +53,8 @@ const crewOrder: SortKey[] = [
 
 /** One page of the crew by name (keyset-paged: `query.after` is the previous page's `next`). */
 export async function crewPage(channelId: string, query: PageQuery) {
-	const rows = await db
-		.selectFrom('membership')
-		.innerJoin('person', 'person.id', 'membership.personId')
-		.select([
-			'person.id',
-			'person.name',
-			'person.email',
-			'membership.roles',
-			'membership.disabledAt',
-			'membership.createdAt',
-			sql<boolean>`person.password_hash IS NOT NULL`.as('hasPassword')
-		])
+	const rows = await crewQuery(channelId)
 		.select(keysetSelections(crewOrder))
-		.where('membership.channelId', '=', channelId)
 		.where(keysetAfter('name:asc', crewOrder, query.after))
 		.orderBy(keysetOrderBy(crewOrder))
 		.limit(query.limit + 1)
