@@ -7,19 +7,11 @@
  */
 import pg from 'pg';
 import { migrateToLatest } from './lib/migrator.ts';
-import { startCluster } from './lib/postgres.ts';
 import { seedDemo } from './lib/seed.ts';
-import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT } from './lib/config.ts';
+import { scriptDatabase } from './lib/script-database.ts';
 import { fillBenchChannel } from './lib/scale-data.ts';
 
-const cluster = process.env.DATABASE_URL
-	? null
-	: await startCluster({
-			dataDir: EMBEDDED_PG_DIR,
-			port: EMBEDDED_PG_PORT,
-			database: EMBEDDED_DATABASE
-		});
-const url = process.env.DATABASE_URL ?? cluster!.url;
+const { url, done } = await scriptDatabase();
 await migrateToLatest(url);
 await seedDemo(url);
 const pool = new pg.Pool({ connectionString: url, max: 1 });
@@ -43,5 +35,5 @@ try {
 		console.log(`  ${table.padEnd(14)} ${rows.toLocaleString('en').padStart(9)}`);
 } finally {
 	await pool.end();
-	if (cluster?.startedHere) cluster.stop();
+	done();
 }

@@ -1,17 +1,9 @@
 /** npm run migrate: migrates DATABASE_URL, or the embedded cluster when DATABASE_URL is unset. */
 import { migrateToLatest } from './lib/migrator.ts';
-import { startCluster } from './lib/postgres.ts';
-import { EMBEDDED_DATABASE, EMBEDDED_PG_DIR, EMBEDDED_PG_PORT } from './lib/config.ts';
+import { scriptDatabase } from './lib/script-database.ts';
 
-const cluster = process.env.DATABASE_URL
-	? null
-	: await startCluster({
-			dataDir: EMBEDDED_PG_DIR,
-			port: EMBEDDED_PG_PORT,
-			database: EMBEDDED_DATABASE
-		});
-const url = process.env.DATABASE_URL ?? cluster!.url;
+const { url, done } = await scriptDatabase();
 await migrateToLatest(url);
 console.log('database is up to date');
 // Leave a cluster that npm start is using alone; stop one this script started.
-if (cluster?.startedHere) cluster.stop();
+done();
