@@ -11,13 +11,9 @@
  */
 import { createServer } from 'node:http';
 import pg from 'pg';
+import { IDENTITY } from './bare-identity.ts';
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 10 });
-
-const IDENTITY = `SELECT p.id AS person_id, p.email, p.name AS person_name, p.last_channel_id, c.id, c.name, c.frame_rate, m.roles
-FROM person_session s JOIN person p ON p.id = s.person_id JOIN membership m ON m.person_id = p.id
-JOIN channel c ON c.id = m.channel_id
-WHERE s.id = $1 AND s.expires_at > now() AND m.disabled_at IS NULL ORDER BY c.name`;
 
 const agg = (select: string) => `(SELECT coalesce(json_agg(agg), '[]') FROM (${select}) AS agg)`;
 
