@@ -31,7 +31,8 @@ import pg from 'pg';
 import S3rver from 's3rver';
 import { GetObjectCommand, HeadObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { Visitor, demo } from '../helpers/http';
+import { DEMO_PASSWORD, Visitor, demo } from '../helpers/http';
+import { openBrowser } from '../helpers/browser';
 import { startServer, stopServer } from '../helpers/global-setup';
 import { freePort, waitForHttp } from '../helpers/net';
 import { dropScratchDatabase, scratchDatabase } from '../helpers/scratch-database';
@@ -51,6 +52,7 @@ let db: pg.Client;
 let s3: S3Client;
 let endpoint = '';
 let base = '';
+let databaseUrl = '';
 
 const query = async (text: string, params: unknown[]) => (await db.query(text, params)).rows;
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
@@ -94,7 +96,7 @@ beforeAll(async () => {
 	const credentials = { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' }; // s3rver's own test key
 	s3 = new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials });
 
-	const databaseUrl = await scratchDatabase(DATABASE, ['scripts/migrate.ts', 'scripts/seed.ts']);
+	databaseUrl = await scratchDatabase(DATABASE, ['scripts/migrate.ts', 'scripts/seed.ts']);
 	db = new pg.Client({ connectionString: databaseUrl });
 	await db.connect();
 	const port = await freePort();
@@ -228,6 +230,35 @@ describe.skipIf(!existsSync(FFMPEG))('footage in a bucket', () => {
 		expect(policy).toContain(`img-src 'self' ${endpoint}`);
 	}, 60_000);
 
+	test('in Chromium the footage page plays the proxy from the bucket, with no CSP refusal', async () => {
+		expect(footageId, 'the upload test ran first').not.toBe('');
+		const browser = await openBrowser();
+		try {
+			const { page } = browser;
+			const refusals: string[] = [];
+			page.on('console', (message) => {
+				if (/Content.Security.Policy/i.test(message.text())) refusals.push(message.text());
+			});
+			await page.goto(`${base}/signin`);
+			await page.getByLabel('E-mail').fill(demo.camera);
+			await page.getByLabel('Password').fill(DEMO_PASSWORD);
+			await page.getByRole('button', { name: 'Sign in' }).click();
+			await page.waitForURL((url) => !url.pathname.startsWith('/signin'));
+			const [clip] = await query(`SELECT episode_id FROM footage WHERE id = $1`, [footageId]);
+			await page.goto(`${base}/episodes/${clip.episode_id}/footage`);
+			const row = page.locator('tr', { hasText: 'BCAM_0412' });
+			await row.getByRole('button', { name: 'Play' }).click();
+			const video = page.getByTestId('clip-player').locator('video');
+			await expect
+				.poll(() => video.evaluate((v: HTMLVideoElement) => v.readyState), { timeout: 20_000 })
+				.toBeGreaterThanOrEqual(2);
+			expect(await video.evaluate((v: HTMLVideoElement) => v.videoWidth)).toBe(320);
+			expect(refusals).toEqual([]);
+		} finally {
+			await browser.close();
+		}
+	}, 90_000);
+
 	test('a caller of another channel gets 404 and no address', async () => {
 		expect(footageId, 'the upload test ran first').not.toBe('');
 		const outsider = new Visitor(undefined, base);
@@ -264,4 +295,63 @@ describe.skipIf(!existsSync(FFMPEG))('footage in a bucket', () => {
 		expect(await query(`SELECT id FROM footage WHERE id = $1`, [footageId])).toEqual([]);
 		expect(filesUnder(uploads)).toEqual([]);
 	});
+});
+
+describe.skipIf(!existsSync(FFMPEG))('a bucket out of reach when an upload finishes', () => {
+	let other: ChildProcess | null = null;
+	afterAll(async () => {
+		if (other) await stopServer(other);
+	});
+
+	test('the clip stays on disk, is recorded as such and served by the app with Range', async () => {
+		// Nothing listens on this port: every request to the "store" is refused.
+		const deadEndpoint = `http://127.0.0.1:${await freePort()}`;
+		const port = await freePort();
+		const there = `http://127.0.0.1:${port}`;
+		other = startServer({
+			...inject('serverEnv'),
+			PORT: String(port),
+			ORIGIN: there,
+			DATABASE_URL: databaseUrl,
+			UPLOAD_DIR: uploads,
+			WRENCHROLL_MEDIA_WORKER: 'off',
+			S3_ENDPOINT: deadEndpoint,
+			S3_BUCKET: BUCKET,
+			S3_ACCESS_KEY_ID: 'S3RVER',
+			S3_SECRET_ACCESS_KEY: 'S3RVER',
+			S3_FORCE_PATH_STYLE: 'true',
+			AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
+		});
+		await waitForHttp(`${there}/healthz`, 30_000);
+		const camera = new Visitor(undefined, there);
+		expect((await camera.signIn(demo.camera)).status).toBe(303);
+		const [episode] = await query(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`, []);
+		const clip = makeClip(path.join(work, 'BCAM_0413.mp4'), {
+			seconds: 1,
+			size: '160x120',
+			rate: '25',
+			video: ['-c:v', 'libx264', '-preset', 'ultrafast']
+		});
+		const original = readFileSync(clip);
+		const answered = await uploadClip(camera, there, clip, {
+			episodeId: episode.id,
+			clipName: 'BCAM_0413'
+		});
+		const [row] = await query(
+			`SELECT id, upload_id, sha256, stored_in FROM footage WHERE upload_id = $1 OR id::text = $1`,
+			[answered]
+		);
+		expect(row.stored_in).toBe('disk');
+		expect(row.sha256).toBe(sha256(original)); // FIPS 180-4 through node:crypto
+		expect(filesUnder(uploads)).toContain(row.upload_id);
+
+		// RFC 9110 §14: the app answers the range itself, as for any clip on disk.
+		const ranged = await camera.request(`/api/footage/${row.id}/file`, {
+			headers: { Range: 'bytes=0-99' }
+		});
+		expect(ranged.status).toBe(206);
+		expect(ranged.headers.get('location')).toBeNull();
+		expect(ranged.headers.get('content-range')).toBe(`bytes 0-99/${original.length}`);
+		expect(sha256(Buffer.from(await ranged.arrayBuffer()))).toBe(sha256(original.subarray(0, 100)));
+	}, 120_000);
 });
