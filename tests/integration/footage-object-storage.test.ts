@@ -15,7 +15,7 @@
  * - The AWS SDK for JavaScript v3 (a general-purpose S3 client) reads the bucket independently.
  */
 import { createHash } from 'node:crypto';
-import type { ChildProcess } from 'node:child_process';
+import { spawn, type ChildProcess } from 'node:child_process';
 import {
 	existsSync,
 	mkdirSync,
@@ -34,6 +34,7 @@ import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { DEMO_PASSWORD, Visitor, demo } from '../helpers/http';
 import { openBrowser } from '../helpers/browser';
 import { startServer, stopServer } from '../helpers/global-setup';
+import { serverProcessArgs } from '../../scripts/lib/server-entry';
 import { freePort, waitForHttp } from '../helpers/net';
 import { dropScratchDatabase, scratchDatabase } from '../helpers/scratch-database';
 import { FFMPEG, makeClip, probe, uploadClip, waitForOutputs } from '../helpers/media';
@@ -355,3 +356,31 @@ describe.skipIf(!existsSync(FFMPEG))('a bucket out of reach when an upload finis
 		expect(sha256(Buffer.from(await ranged.arrayBuffer()))).toBe(sha256(original.subarray(0, 100)));
 	}, 120_000);
 });
+
+test('object storage settings with mistakes stop the server at start, naming each setting', async () => {
+	const buildDir = path.resolve(
+		import.meta.dirname,
+		'../..',
+		process.env.WRENCHROLL_BUILD_DIR ?? 'build'
+	);
+	const child = spawn(process.execPath, serverProcessArgs(buildDir), {
+		env: {
+			...inject('serverEnv'),
+			PORT: String(await freePort()),
+			UPLOAD_DIR: uploads,
+			S3_ENDPOINT: 'the bay store',
+			S3_BUCKET: BUCKET,
+			S3_FORCE_PATH_STYLE: 'yes',
+			AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true'
+		},
+		stdio: ['ignore', 'ignore', 'pipe']
+	});
+	let errors = '';
+	child.stderr!.setEncoding('utf8').on('data', (text: string) => (errors += text));
+	const code = await new Promise<number | null>((done) => child.once('exit', done));
+	expect(code).not.toBe(0);
+	expect(errors).toContain('S3_ENDPOINT must be the address of the store');
+	expect(errors).toContain('S3_ACCESS_KEY_ID is required');
+	expect(errors).toContain('S3_SECRET_ACCESS_KEY is required');
+	expect(errors).toContain('S3_FORCE_PATH_STYLE must be true or false');
+}, 60_000);

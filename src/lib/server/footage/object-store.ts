@@ -101,13 +101,22 @@ class DiskStore implements ObjectStore {
 	}
 }
 
+/** A setting that must be there, named in its message. */
+const required = (name: string) =>
+	z.string({ error: `${name} is required` }).min(1, `${name} is required`);
+
 const bucketSettings = z.object({
-	S3_ENDPOINT: z.url({ error: 'S3_ENDPOINT must be a URL such as https://s3.example.net' }),
-	S3_BUCKET: z.string().min(1, 'S3_BUCKET is required'),
+	S3_ENDPOINT: z.url({
+		protocol: /^https?$/,
+		error: 'S3_ENDPOINT must be the address of the store, such as https://s3.example.net'
+	}),
+	S3_BUCKET: required('S3_BUCKET'),
 	S3_REGION: z.string().min(1).default('us-east-1'),
-	S3_ACCESS_KEY_ID: z.string().min(1, 'S3_ACCESS_KEY_ID is required'),
-	S3_SECRET_ACCESS_KEY: z.string().min(1, 'S3_SECRET_ACCESS_KEY is required'),
-	S3_FORCE_PATH_STYLE: z.enum(['true', 'false']).default('false')
+	S3_ACCESS_KEY_ID: required('S3_ACCESS_KEY_ID'),
+	S3_SECRET_ACCESS_KEY: required('S3_SECRET_ACCESS_KEY'),
+	S3_FORCE_PATH_STYLE: z
+		.enum(['true', 'false'], { error: 'S3_FORCE_PATH_STYLE must be true or false' })
+		.default('false')
 });
 
 /** How long a presigned download or playback address stays valid. */
