@@ -19,6 +19,8 @@ import { offerNodeRoutes } from '$lib/server/footage/node-uploads';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
 import { startMediaWorker, stopMedia } from '$lib/server/media/queue';
 import { withSecurityHeaders } from '$lib/server/http/security-headers';
+import { withBucketMedia } from '$lib/server/http/object-response';
+import { configuredBucket } from '$lib/server/footage/object-store';
 import { isDatabaseUnavailable } from '$lib/server/db/outage';
 import {
 	asOutage,
@@ -37,6 +39,8 @@ import { countingQueries, countQueries } from '$lib/server/db/query-count';
 offerNodeRoutes();
 
 export const init: ServerInit = async () => {
+	// Object storage settings with a mistake stop the start here, naming the setting.
+	configuredBucket();
 	if (env.WRENCHROLL_PROCESS === 'worker') {
 		// worker.js: this process only makes media (no HTTP, no mail); it stops on SIGTERM/SIGINT.
 		await startMediaWorker();
@@ -203,9 +207,11 @@ const uploadHandle: Handle = async ({ event, resolve }) => {
 
 /** Security headers on every answer the app makes, Auth.js's and tus's included. */
 const securityHeadersHandle: Handle = async ({ event, resolve }) =>
-	withSecurityHeaders(
-		await resolve(event),
-		Boolean(event.locals.person) || event.url.pathname.startsWith('/api/')
+	withBucketMedia(
+		withSecurityHeaders(
+			await resolve(event),
+			Boolean(event.locals.person) || event.url.pathname.startsWith('/api/')
+		)
 	);
 
 /**

@@ -5,6 +5,10 @@ import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { uploadDir } from './tus-server';
+import { storeOf } from './object-store';
+import { storageKeyFor } from '../media/makers';
+import { MEDIA_KINDS } from '$lib/media';
+import type { StoredFile } from '../http/object-response';
 
 export const FOOTAGE_SORTS = ['created', 'clip', 'camera', 'size', 'duration'] as const;
 export type FootageSort = (typeof FOOTAGE_SORTS)[number];
@@ -61,6 +65,7 @@ export async function listFootage(
 			'footage.startTimecode',
 			'footage.audioChannels',
 			'footage.createdAt',
+			'footage.storedIn',
 			'footage.shootDayId',
 			'shootDay.shootDate',
 			'person.name as uploadedByName'
@@ -76,14 +81,17 @@ export async function listFootage(
 		.orderBy('footage.id')
 		.execute();
 	// Whether the file behind each row is on this server, so the page offers Play and Download only
-	// where they can work (the demo's rows, or a file removed from disk, have none).
+	// where they can work (the demo's rows, or a file removed from disk, have none). A clip moved to
+	// the bucket was there when it was recorded; no request to the store per row.
 	const footage = await Promise.all(
-		rows.map(async ({ uploadId, ...row }) => ({
+		rows.map(async ({ uploadId, storedIn, ...row }) => ({
 			...row,
-			onDisk: await access(path.join(uploadDir(), uploadId)).then(
-				() => true,
-				() => false
-			)
+			onDisk:
+				storedIn === 'bucket' ||
+				(await access(path.join(uploadDir(), uploadId)).then(
+					() => true,
+					() => false
+				))
 		}))
 	);
 	return { episode, footage };
@@ -93,15 +101,20 @@ export async function footageFile(channelId: string, footageId: string) {
 	if (!isUuid(footageId)) throw notFound('That clip');
 	const row = await db
 		.selectFrom('footage')
-		.select(['id', 'uploadId', 'fileName', 'fileType', 'sizeBytes'])
+		.select(['id', 'uploadId', 'fileName', 'fileType', 'sizeBytes', 'storedIn'])
 		.where('id', '=', footageId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
 	if (!row) throw notFound('That clip');
-	return { ...row, path: path.join(uploadDir(), row.uploadId) };
+	const stored: StoredFile = {
+		storedIn: row.storedIn,
+		key: row.uploadId,
+		missing: 'The file behind this clip is not on the server (demo data, or removed from disk).'
+	};
+	return { ...row, stored, path: path.join(uploadDir(), row.uploadId) };
 }
 
-/** Deletes the row and its file in one go: if the file cannot be removed, the row stays. */
+/** Deletes the row and its files in one go: if the clip's file cannot be removed, the row stays. */
 export async function deleteFootage(channelId: string, footageId: string): Promise<void> {
 	const file = await footageFile(channelId, footageId);
 	await db.transaction().execute(async (trx) => {
@@ -111,6 +124,21 @@ export async function deleteFootage(channelId: string, footageId: string): Promi
 			.where('channelId', '=', channelId)
 			.execute();
 		await trx.deleteFrom('upload').where('id', '=', file.uploadId).execute();
+		if (file.storedIn === 'bucket') {
+			// The clip and everything made from it, in one request to the store.
+			try {
+				await storeOf('bucket').remove([
+					file.uploadId,
+					...MEDIA_KINDS.map((kind) => storageKeyFor(file.id, kind))
+				]);
+			} catch {
+				throw new DomainError(
+					409,
+					'The file could not be removed from object storage; nothing was deleted. Try again.'
+				);
+			}
+			return;
+		}
 		try {
 			await unlink(file.path);
 		} catch (failure) {

@@ -30,6 +30,7 @@ import { probeMedia } from './probe';
 import { queueMediaOutputs } from '../media/queue';
 import { reserveUpload, uploadExpiryMs } from './upload-limits';
 import { bodySizeLimit, checkPatchBody } from './patch-body';
+import { keepFinishedUpload } from './object-store';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -283,6 +284,8 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 	const file = path.join(uploadDir(), uploadId);
 	const running = takeRunningHash(uploadId, sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
+	// With object storage set up, the finished file moves to the bucket now (object-store.ts).
+	const storedIn = await keepFinishedUpload(uploadId, upload.fileType);
 	const inserted = await db.transaction().execute(async (trx) => {
 		const row = await trx
 			.insertInto('footage')
@@ -310,6 +313,7 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 				startTimecode: probe.startTimecode,
 				audioChannels: probe.audioChannels,
 				bitRate: probe.bitRate,
+				storedIn,
 				uploadedBy: upload.personId
 			})
 			.onConflict((oc) => oc.column('uploadId').doNothing())

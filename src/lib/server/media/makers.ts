@@ -7,14 +7,17 @@
  * - peaks: the loudest sample in each tenth of a second of the first audio stream, 0–255 of full
  *   scale, as JSON for the waveform.
  * Files are written beside the upload under `derived/<footage id>/` and renamed into place when
- * complete, so a half-made file is never served.
+ * complete, so a half-made file is never served. A clip in a bucket (footage/object-store.ts) is
+ * downloaded to a temporary file, its output made in a temporary folder and uploaded under the same
+ * key, and every local file removed.
  */
 import { spawn } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { mkdir, readdir, rename, rm, stat, writeFile } from 'node:fs/promises';
+import { writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { db } from '../db';
 import { uploadDir } from '../footage/tus-server';
+import { derivedKey, storeOf } from '../footage/object-store';
 import { peaksPerSecond, spriteGridFor, type MediaKind } from '$lib/media';
 
 const FFMPEG = process.env.FFMPEG_PATH ?? '/usr/bin/ffmpeg';
@@ -41,8 +44,15 @@ const FILE_NAMES: Record<MediaKind, string> = {
 	peaks: 'peaks.json'
 };
 
+export const OUTPUT_TYPES: Record<MediaKind, string> = {
+	proxy: 'video/mp4',
+	poster: 'image/jpeg',
+	sprite: 'image/jpeg',
+	peaks: 'application/json'
+};
+
 export function storageKeyFor(footageId: string, kind: MediaKind): string {
-	return `derived/${footageId}/${FILE_NAMES[kind]}`;
+	return derivedKey(footageId, FILE_NAMES[kind]);
 }
 
 /** The folder of everything made from one clip (removed with the clip). */
@@ -56,20 +66,14 @@ interface Source {
 	startTimecode: string | null;
 }
 
-async function sourceOf(footageId: string): Promise<Source> {
+async function clipOf(footageId: string) {
 	const row = await db
 		.selectFrom('footage')
-		.select(['uploadId', 'durationSeconds', 'startTimecode'])
+		.select(['uploadId', 'durationSeconds', 'startTimecode', 'storedIn'])
 		.where('id', '=', footageId)
 		.executeTakeFirst();
 	if (!row) throw new Error('the clip was deleted');
-	const file = path.join(uploadDir(), row.uploadId);
-	if (!existsSync(file)) throw new Error('the uploaded file is no longer on the server');
-	return {
-		path: file,
-		durationSeconds: row.durationSeconds ?? 0,
-		startTimecode: row.startTimecode
-	};
+	return row;
 }
 
 export async function makeOutput(
@@ -77,22 +81,26 @@ export async function makeOutput(
 	kind: MediaKind,
 	context: MakeContext
 ): Promise<Made> {
-	const source = await sourceOf(footageId);
+	const clip = await clipOf(footageId);
+	const store = storeOf(clip.storedIn);
 	const key = storageKeyFor(footageId, kind);
-	const final = path.join(uploadDir(), key);
-	await mkdir(path.dirname(final), { recursive: true });
-	// A worker killed mid-job leaves its half-made file behind: this run starts afresh.
-	const prefix = `${path.basename(final)}.part-`;
-	for (const name of await readdir(path.dirname(final)))
-		if (name.startsWith(prefix)) await rm(path.join(path.dirname(final), name), { force: true });
-	const partial = `${final}.part-${process.pid}`;
+	const local = await store.localCopy(clip.uploadId);
 	try {
-		const details = await MAKERS[kind](source, partial, context);
-		await rename(partial, final);
-		const { size } = await stat(final);
-		return { storageKey: key, bytes: size, details };
+		const work = await store.workFile(key);
+		try {
+			const source: Source = {
+				path: local.path,
+				durationSeconds: clip.durationSeconds ?? 0,
+				startTimecode: clip.startTimecode
+			};
+			const details = await MAKERS[kind](source, work.path, context);
+			const bytes = await store.moveIn(key, work.path, OUTPUT_TYPES[kind]);
+			return { storageKey: key, bytes, details };
+		} finally {
+			await work.release();
+		}
 	} finally {
-		await rm(partial, { force: true });
+		await local.release();
 	}
 }
 

@@ -1,10 +1,9 @@
 /** What the crew sees of the media outputs: their state per clip, the files, and trying again. */
-import { stat } from 'node:fs/promises';
-import path from 'node:path';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
-import { uploadDir } from '../footage/tus-server';
+import type { StoredFile } from '../http/object-response';
+import { OUTPUT_TYPES } from './makers';
 import type { MediaKind, MediaState } from '$lib/media';
 import { requeueOutputs } from './queue';
 
@@ -45,20 +44,13 @@ export async function mediaOutputsFor(
 	return byClip;
 }
 
-const TYPES: Record<MediaKind, string> = {
-	proxy: 'video/mp4',
-	poster: 'image/jpeg',
-	sprite: 'image/jpeg',
-	peaks: 'application/json'
-};
-
 /** The file of a finished output: 404 for another channel's clip, or one not made (yet). */
 export async function mediaFile(channelId: string, footageId: string, kind: MediaKind) {
 	if (!isUuid(footageId)) throw notFound('That clip');
 	const row = await db
 		.selectFrom('mediaOutput')
 		.innerJoin('footage', 'footage.id', 'mediaOutput.footageId')
-		.select(['mediaOutput.state', 'mediaOutput.storageKey', 'footage.clipName'])
+		.select(['mediaOutput.state', 'mediaOutput.storageKey', 'footage.clipName', 'footage.storedIn'])
 		.where('footage.channelId', '=', channelId)
 		.where('footage.id', '=', footageId)
 		.where('mediaOutput.kind', '=', kind)
@@ -66,14 +58,17 @@ export async function mediaFile(channelId: string, footageId: string, kind: Medi
 	if (!row) throw notFound('That clip');
 	if (row.state !== 'done' || !row.storageKey)
 		throw new DomainError(404, `This clip's ${kind} is not made yet (${row.state}).`);
-	const file = path.join(uploadDir(), row.storageKey);
-	const size = await stat(file).then(
-		(info) => info.size,
-		() => {
-			throw new DomainError(404, `This clip's ${kind} is no longer on the server.`);
-		}
-	);
-	return { path: file, size, type: TYPES[kind], clipName: row.clipName };
+	const stored: StoredFile = {
+		storedIn: row.storedIn,
+		key: row.storageKey,
+		missing: `This clip's ${kind} is no longer on the server.`
+	};
+	return {
+		stored,
+		type: OUTPUT_TYPES[kind],
+		clipName: row.clipName,
+		extension: row.storageKey.slice(row.storageKey.lastIndexOf('.'))
+	};
 }
 
 /** Queues the clip's failed outputs again; 404 for another channel's clip. */

@@ -132,6 +132,8 @@ export interface FootageTable {
 	startTimecode: string | null;
 	audioChannels: number | null;
 	bitRate: number | null;
+	/** Where the file and what is made from it live (2026-12-04-10): the upload folder or the bucket. */
+	storedIn: Generated<'disk' | 'bucket'>;
 	uploadedBy: string | null;
 	createdAt: CreatedAt;
 }

@@ -1,24 +1,17 @@
-import { stat } from 'node:fs/promises';
-import { fileResponse } from '$lib/server/http/file-response';
-import { api, DomainError } from '$lib/server/http/api';
+import { storedFileResponse } from '$lib/server/http/object-response';
+import { api } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
 import { footageFile } from '$lib/server/footage/footage';
 import { INLINE_TYPE } from '$lib/upload-rules';
 import type { RequestHandler } from './$types';
 
-/** Serves a clip with HTTP range requests (http/file-response.ts) so a video element can seek. */
+/**
+ * Serves a clip with HTTP range requests (http/file-response.ts) so a video element can seek, or
+ * redirects to a short-lived address in the bucket holding it (http/object-response.ts).
+ */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
 	const file = await footageFile(channel.id, event.params.footageId);
-	const size = await stat(file.path).then(
-		(info) => info.size,
-		() => {
-			throw new DomainError(
-				404,
-				'The file behind this clip is not on the server (demo data, or removed from disk).'
-			);
-		}
-	);
 	// The type was the uploader's word. Only media a browser plays or shows in place is served as
 	// that type and inline; anything else is a plain download. Either way the browser may not
 	// guess another type (nosniff), and a file opened on its own runs no script (CSP sandbox).
@@ -30,5 +23,5 @@ export const GET: RequestHandler = api(async (event) => {
 		'X-Content-Type-Options': 'nosniff',
 		'Content-Security-Policy': "sandbox; default-src 'none'"
 	};
-	return fileResponse(file.path, size, event.request, headers);
+	return storedFileResponse(file.stored, event.request, headers);
 });

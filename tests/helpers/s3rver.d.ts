@@ -1,0 +1,17 @@
+/** The part of s3rver 3.7's API the tests use (the package ships no types). */
+declare module 's3rver' {
+	import type { AddressInfo } from 'node:net';
+	interface S3rverOptions {
+		address?: string;
+		port?: number;
+		silent?: boolean;
+		directory?: string;
+		resetOnClose?: boolean;
+		configureBuckets?: { name: string; configs?: (string | Buffer)[] }[];
+	}
+	export default class S3rver {
+		constructor(options: S3rverOptions);
+		run(): Promise<AddressInfo>;
+		close(): Promise<void>;
+	}
+}
