@@ -9,7 +9,8 @@
  */
 import { sql, type Expression } from 'kysely';
 import { db } from '../db';
-import { episodeInChannel, type Executor } from '../episodes/episodes';
+import { episodeInChannel, episodeNotFound, type Executor } from '../episodes/episodes';
+import { isUuid } from '../auth/identity';
 import {
 	clockOrUsual,
 	formatClock,
@@ -286,20 +287,13 @@ function firstWords(text: string): string[] {
 
 /**
  * Catalogue parts whose SKU or exact name is in the episode's script text (see scriptPhrases), in
- * three queries whatever the script's length or the catalogue's size: the script; which of its
+ * two queries whatever the script's length or the catalogue's size: which of its
  * words begin a SKU or a name of the channel (one probe of the byte-ordered lower(sku) and
  * lower(name) indexes per distinct word, migration 2026-12-04-10); then only the phrases that
  * start with such a word, one index probe each. Most words of a script begin no part at all, so
  * the phrases looked up are a few dozen instead of twelve per word.
  */
-async function partsNamedInScript(executor: Executor, channelId: string, episodeId: string) {
-	const scripts = await executor
-		.selectFrom('segmentScript')
-		.innerJoin('segment', 'segment.id', 'segmentScript.segmentId')
-		.select('segmentScript.body')
-		.where('segment.episodeId', '=', episodeId)
-		.execute();
-	const text = scripts.map((script) => script.body).join('\n');
+async function partsNamedInScript(executor: Executor, channelId: string, text: string) {
 	const candidates = firstWords(text);
 	if (candidates.length === 0) return [];
 	// A SKU or name begins with the word when it is the word, or the word and a space: in byte
@@ -346,11 +340,36 @@ export async function featuredPartsFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<FeaturedParts> {
-	const episode = await episodeInChannel(channelId, episodeId, executor);
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	// The episode and its script text (every segment's, as one text) in one query.
+	const episode = await executor
+		.selectFrom('episode')
+		.select((eb) => [
+			'episode.id',
+			'episode.title',
+			'episode.slug',
+			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
+			eb
+				.selectFrom('segmentScript')
+				.innerJoin('segment', 'segment.id', 'segmentScript.segmentId')
+				.select(
+					sql<string | null>`string_agg(segment_script.body, E'\n' ORDER BY segment.position)`.as(
+						'text'
+					)
+				)
+				.whereRef('segment.episodeId', '=', 'episode.id')
+				.as('scriptText')
+		])
+		.where('episode.id', '=', episodeId)
+		.where('episode.channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!episode) throw episodeNotFound();
 	const rate = episode.frameRate;
 	const [rows, named] = await Promise.all([
 		featuredRows(executor, episode.id),
-		partsNamedInScript(executor, channelId, episode.id)
+		partsNamedInScript(executor, channelId, episode.scriptText ?? '')
 	]);
 	const parts = groupFeatured(rows, clockOfEpisode(episode));
 	const featured = new Set(parts.map((part) => part.partId));
