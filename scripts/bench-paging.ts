@@ -245,7 +245,7 @@ async function partsSearchBench(): Promise<boolean> {
 			rows,
 			[
 				'Counts stop at 1,000 ("1,000+"); deep pages follow the cursor instead of skipping rows.',
-				'Featured parts looks the script’s phrases up in the per-channel lower(sku) and lower(name) indexes.'
+				'Featured parts asks which script words begin a SKU or name, then looks up only the phrases starting with one (byte-ordered lower(sku) and lower(name) indexes).'
 			]
 		);
 	} finally {

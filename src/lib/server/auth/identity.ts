@@ -1,6 +1,7 @@
 /** Who is calling and in which channel: from the session cookie or a personal API token. */
 import { sql } from 'kysely';
 import { db } from '../db';
+import { compiledOnce } from '../db/compiled-once';
 import type { Role } from '../db/types';
 import { hashSecret } from './secrets';
 
@@ -56,16 +57,9 @@ function identityOf(
 	};
 }
 
-/**
- * The person behind a live session with their active channels, in one query (it runs on every
- * request): no row when the session is gone or expired, or every membership is disabled.
- */
-export async function identityFromSession(
-	sessionId: string | undefined,
-	wantedChannel: string | undefined
-): Promise<Identity> {
-	if (!isUuid(sessionId)) return nobody;
-	const rows = await db
+/** Who is calling, read on every request: compiled once (db/compiled-once.ts). */
+const identityQuery = compiledOnce(['sessionId'], ({ sessionId }) =>
+	db
 		.selectFrom('personSession')
 		.innerJoin('person', 'person.id', 'personSession.personId')
 		.innerJoin('membership', 'membership.personId', 'person.id')
@@ -84,7 +78,18 @@ export async function identityFromSession(
 		.where('personSession.expiresAt', '>', sql<Date>`now()`)
 		.where('membership.disabledAt', 'is', null)
 		.orderBy('channel.name')
-		.execute();
+);
+
+/**
+ * The person behind a live session with their active channels, in one query (it runs on every
+ * request): no row when the session is gone or expired, or every membership is disabled.
+ */
+export async function identityFromSession(
+	sessionId: string | undefined,
+	wantedChannel: string | undefined
+): Promise<Identity> {
+	if (!isUuid(sessionId)) return nobody;
+	const rows = (await identityQuery(db, { sessionId })).rows;
 	if (rows.length === 0) return nobody;
 	const { personId, email, personName, lastChannelId } = rows[0];
 	// This browser's choice first; a browser without one (a new sign-in) starts in the last chosen.

@@ -7,6 +7,7 @@
 import { type ExpressionBuilder, type Kysely } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
+import { compiledOnce } from '../db/compiled-once';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
@@ -99,10 +100,9 @@ export function withBuilds<Extra extends 'build.year' | 'build.vehicleType' = ne
 	).as('builds');
 }
 
-/** One episode with its builds and crew, for the episode pages and GET /api/episodes/[id]. */
-export async function episodeDetail(channelId: string, episodeId: string, executor: Executor = db) {
-	if (!isUuid(episodeId)) throw episodeNotFound();
-	const row = await executor
+/** The episode's details: read on every episode page and API call, so compiled once. */
+const episodeDetailQuery = compiledOnce(['channelId', 'episodeId'], ({ channelId, episodeId }) =>
+	db
 		.selectFrom('episode')
 		.leftJoin('person as approver', 'approver.id', 'episode.scriptApprovedBy')
 		.select((eb) => [
@@ -129,7 +129,12 @@ export async function episodeDetail(channelId: string, episodeId: string, execut
 		])
 		.where('episode.id', '=', episodeId)
 		.where('episode.channelId', '=', channelId)
-		.executeTakeFirst();
+);
+
+/** One episode with its builds and crew, for the episode pages and GET /api/episodes/[id]. */
+export async function episodeDetail(channelId: string, episodeId: string, executor: Executor = db) {
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	const [row] = (await episodeDetailQuery(executor, { channelId, episodeId })).rows;
 	if (!row) throw episodeNotFound();
 	const { scriptChanged, ...detail } = row;
 	return { ...detail, scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged) };

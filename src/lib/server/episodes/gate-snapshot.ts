@@ -11,6 +11,7 @@
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
+import { compiledOnce } from '../db/compiled-once';
 import type { Role } from '../db/types';
 import { episodeNotFound, type Executor } from './episodes';
 import { isUuid } from '../auth/identity';
@@ -241,15 +242,18 @@ async function materialsOf(row: Materials): Promise<GateMaterials> {
 }
 
 /** The gate materials of one episode of the channel, in one query; 404 otherwise. */
+/** One episode's materials: read on every episode page and API call, so compiled once. */
+const materialsOfEpisode = compiledOnce(['channelId', 'episodeId'], ({ channelId, episodeId }) =>
+	materialsQuery(db, channelId).where('episode.id', '=', episodeId)
+);
+
 export async function gateMaterialsFor(
 	channelId: string,
 	episodeId: string,
 	executor: Executor = db
 ): Promise<GateMaterials> {
 	if (!isUuid(episodeId)) throw episodeNotFound();
-	const row = await materialsQuery(executor, channelId)
-		.where('episode.id', '=', episodeId)
-		.executeTakeFirst();
+	const [row] = (await materialsOfEpisode(executor, { channelId, episodeId })).rows;
 	if (!row) throw episodeNotFound();
 	return materialsOf(row);
 }

@@ -9,7 +9,8 @@
  */
 import { sql, type Expression } from 'kysely';
 import { db } from '../db';
-import { episodeInChannel, type Executor } from '../episodes/episodes';
+import { episodeInChannel, episodeNotFound, type Executor } from '../episodes/episodes';
+import { isUuid } from '../auth/identity';
 import {
 	clockOrUsual,
 	formatClock,
@@ -214,52 +215,120 @@ export function lockWarnings(parts: readonly FeaturedPart[]): FeaturedWarning[] 
 /** Sentence punctuation and Markdown emphasis around a word, which a part number or name doesn't include. */
 const LEADING = /^[("'“‘*_[]+/u;
 const TRAILING = /[.,;:!?)"'”’*_\]]+$/u;
+const MAX_PHRASE_WORDS = 12;
+
+/** The script's words, lower-cased, split at white space, each with its punctuation-trimmed forms. */
+function scriptWords(text: string) {
+	return text
+		.toLowerCase()
+		.split(/\s+/u)
+		.filter(Boolean)
+		.map((word) => {
+			const led = word.replace(LEADING, '');
+			// A one-word run loses punctuation at both ends; a longer run's first word only in front.
+			return { word, led, trimmed: led.replace(TRAILING, '') };
+		});
+}
 
 /**
  * Every run of 1 to `maxWords` consecutive words of the text, lower-cased, joined by one space,
  * with the punctuation around the run taken off (and also as written). A part is "named" when its
  * SKU or its whole name is one of these: whole words only, so "KBS-LB-300" is not named by
  * "KBS-LB-300T", and case and line breaks don't matter.
+ *
+ * `startsWith`, when given, keeps only the runs whose first word (the text before the first
+ * space, as the run is written) is in it: a run can only equal a name or SKU that begins with
+ * that word.
  */
-export function scriptPhrases(text: string, maxWords = 12): string[] {
-	const words = text.toLowerCase().split(/\s+/u).filter(Boolean);
+export function scriptPhrases(
+	text: string,
+	maxWords = MAX_PHRASE_WORDS,
+	startsWith?: ReadonlySet<string>
+): string[] {
+	const words = scriptWords(text);
 	const phrases = new Set<string>();
 	for (let start = 0; start < words.length; start++) {
-		for (let length = 1; length <= maxWords && start + length <= words.length; length++) {
-			const run = words.slice(start, start + length);
-			phrases.add(run.join(' '));
-			run[0] = run[0].replace(LEADING, '');
-			run[run.length - 1] = run[run.length - 1].replace(TRAILING, '');
-			const trimmed = run.join(' ');
-			if (trimmed) phrases.add(trimmed);
+		const first = words[start];
+		const keepRaw = !startsWith || startsWith.has(first.word);
+		const keepLed = !startsWith || startsWith.has(first.led);
+		if (!keepRaw && !keepLed && !startsWith?.has(first.trimmed)) continue;
+		// One word: as written, and with punctuation off both ends.
+		if (keepRaw) phrases.add(first.word);
+		if (first.trimmed && (!startsWith || startsWith.has(first.trimmed))) phrases.add(first.trimmed);
+		// Longer runs, grown one word at a time: as written, and with the first word's leading and
+		// the last word's trailing punctuation off.
+		let written = first.word;
+		let led = first.led;
+		const end = Math.min(words.length, start + maxWords);
+		for (let next = start + 1; next < end; next++) {
+			const { word } = words[next];
+			if (keepRaw) phrases.add(`${written} ${word}`);
+			if (keepLed) {
+				const trimmed = `${led} ${word.replace(TRAILING, '')}`;
+				if (trimmed) phrases.add(trimmed);
+			}
+			written = `${written} ${word}`;
+			led = `${led} ${word}`;
 		}
 	}
 	return [...phrases];
 }
 
-/** Catalogue parts whose SKU or exact name is in the episode's script text (see scriptPhrases). */
-async function partsNamedInScript(executor: Executor, channelId: string, episodeId: string) {
-	const scripts = await executor
-		.selectFrom('segmentScript')
-		.innerJoin('segment', 'segment.id', 'segmentScript.segmentId')
-		.select('segmentScript.body')
-		.where('segment.episodeId', '=', episodeId)
-		.execute();
-	const phrases = scriptPhrases(scripts.map((script) => script.body).join('\n'));
+/** Every word a run of the script can begin with (see scriptPhrases), once each. */
+function firstWords(text: string): string[] {
+	const words = new Set<string>();
+	for (const { word, led, trimmed } of scriptWords(text)) {
+		words.add(word);
+		words.add(led);
+		if (trimmed) words.add(trimmed);
+	}
+	return [...words];
+}
+
+/**
+ * Catalogue parts whose SKU or exact name is in the episode's script text (see scriptPhrases), in
+ * two queries whatever the script's length or the catalogue's size: which of its
+ * words begin a SKU or a name of the channel (one probe of the byte-ordered lower(sku) and
+ * lower(name) indexes per distinct word, migration 2026-12-04-10); then only the phrases that
+ * start with such a word, one index probe each. Most words of a script begin no part at all, so
+ * the phrases looked up are a few dozen instead of twelve per word.
+ */
+async function partsNamedInScript(executor: Executor, channelId: string, text: string) {
+	const candidates = firstWords(text);
+	if (candidates.length === 0) return [];
+	// A SKU or name begins with the word when it is the word, or the word and a space: in byte
+	// order that is the range [word, word || '!') (a character below '!' after the word only
+	// widens the set, never narrows it).
+	const starting = await sql<{ word: string }>`
+		WITH candidate AS MATERIALIZED (SELECT DISTINCT unnest(${candidates}::text[]) AS word)
+		SELECT candidate.word FROM candidate
+		WHERE EXISTS (
+			SELECT FROM part WHERE part.channel_id = ${channelId}
+			AND (lower(part.sku) COLLATE "C") >= candidate.word
+			AND (lower(part.sku) COLLATE "C") < candidate.word || '!'
+		) OR EXISTS (
+			SELECT FROM part WHERE part.channel_id = ${channelId}
+			AND (lower(part.name) COLLATE "C") >= candidate.word
+			AND (lower(part.name) COLLATE "C") < candidate.word || '!'
+		)`.execute(executor);
+	if (starting.rows.length === 0) return [];
+	const phrases = scriptPhrases(
+		text,
+		MAX_PHRASE_WORDS,
+		new Set(starting.rows.map((row) => row.word))
+	);
 	if (phrases.length === 0) return [];
-	// Each phrase is looked up in the (channel_id, lower(sku)) and (channel_id, lower(name)) indexes
-	// (migration 2026-12-03-40): a LATERAL subquery runs once per phrase as an index probe, so the
-	// work follows the script's length, not the catalogue's size (a plain join or = ANY lets the
-	// planner read every part and compute lower() on each instead).
+	// Each phrase is one probe of each index (a LATERAL subquery per phrase; a plain join or = ANY
+	// lets the planner read every part and compute lower() on each instead).
 	const named = await sql<{ id: string; sku: string; name: string }>`
 		WITH phrase AS MATERIALIZED (SELECT unnest(${phrases}::text[]) AS text)
 		SELECT DISTINCT found.id, found.sku, found.name FROM phrase
 		CROSS JOIN LATERAL (
 			SELECT part.id, part.sku, part.name FROM part
-			WHERE part.channel_id = ${channelId} AND lower(part.sku) = phrase.text
+			WHERE part.channel_id = ${channelId} AND (lower(part.sku) COLLATE "C") = phrase.text
 			UNION ALL
 			SELECT part.id, part.sku, part.name FROM part
-			WHERE part.channel_id = ${channelId} AND lower(part.name) = phrase.text
+			WHERE part.channel_id = ${channelId} AND (lower(part.name) COLLATE "C") = phrase.text
 		) AS found
 		ORDER BY found.sku`.execute(executor);
 	return named.rows;
@@ -271,11 +340,36 @@ export async function featuredPartsFor(
 	episodeId: string,
 	executor: Executor = db
 ): Promise<FeaturedParts> {
-	const episode = await episodeInChannel(channelId, episodeId, executor);
+	if (!isUuid(episodeId)) throw episodeNotFound();
+	// The episode and its script text (every segment's, as one text) in one query.
+	const episode = await executor
+		.selectFrom('episode')
+		.select((eb) => [
+			'episode.id',
+			'episode.title',
+			'episode.slug',
+			'episode.frameRate',
+			'episode.timecodeDropFrame',
+			'episode.timecodeStart',
+			eb
+				.selectFrom('segmentScript')
+				.innerJoin('segment', 'segment.id', 'segmentScript.segmentId')
+				.select(
+					sql<string | null>`string_agg(segment_script.body, E'\n' ORDER BY segment.position)`.as(
+						'text'
+					)
+				)
+				.whereRef('segment.episodeId', '=', 'episode.id')
+				.as('scriptText')
+		])
+		.where('episode.id', '=', episodeId)
+		.where('episode.channelId', '=', channelId)
+		.executeTakeFirst();
+	if (!episode) throw episodeNotFound();
 	const rate = episode.frameRate;
 	const [rows, named] = await Promise.all([
 		featuredRows(executor, episode.id),
-		partsNamedInScript(executor, channelId, episode.id)
+		partsNamedInScript(executor, channelId, episode.scriptText ?? '')
 	]);
 	const parts = groupFeatured(rows, clockOfEpisode(episode));
 	const featured = new Set(parts.map((part) => part.partId));
