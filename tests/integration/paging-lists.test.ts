@@ -267,3 +267,61 @@ describe('footage paging', () => {
 		expect(new Set(html.match(/LB_\d+\.mov/g) ?? []).size).toBe(50);
 	});
 });
+
+describe('notes paging', () => {
+	const notesReference = async () =>
+		(
+			await sql<{ id: string }>(
+				`SELECT n.id FROM segment_note n LEFT JOIN segment s ON s.id = n.segment_id
+				 WHERE n.episode_id = $1
+				 ORDER BY n.program_frame ASC NULLS LAST, s.position ASC NULLS LAST, n.created_at, n.id`,
+				[episodeId]
+			)
+		).map((row) => row.id);
+
+	test('walking the notes 11 at a time gives every note once, in program-time order', async () => {
+		const { ids, pages } = await walk(
+			`/api/episodes/${episodeId}/notes?limit=11`,
+			(body) => body.notes
+		);
+		expect(pages).toBe(Math.ceil(NOTES / 11));
+		expect(new Set(ids).size).toBe(NOTES);
+		expect(ids).toEqual(await notesReference());
+	});
+
+	test('every page carries the episode’s counts, not the page’s', async () => {
+		const answer = await producer.api(`/api/episodes/${episodeId}/notes?limit=3`);
+		expect(answer.body.notes).toHaveLength(3);
+		const [{ placed }] = await sql<{ placed: number }>(
+			`SELECT count(*)::int AS placed FROM segment_note WHERE episode_id = $1 AND program_frame IS NOT NULL`,
+			[episodeId]
+		);
+		expect(answer.body.counts).toEqual({ notes: NOTES, placed });
+	});
+
+	test('a damaged or forged notes cursor is a 400 on after; another channel’s notes are not found', async () => {
+		const base = `/api/episodes/${episodeId}/notes`;
+		expect((await producer.api(`${base}?after=AAAA`)).body.issues.after).toBeDefined();
+		const forged = Buffer.from(
+			JSON.stringify({ o: 'program:asc', k: ['12a', '1', '2027-01-01 00:00:00+00', 'x'] })
+		).toString('base64url');
+		const answer = await producer.api(`${base}?after=${forged}`);
+		expect(answer.status).toBe(400);
+		expect(answer.body.issues.after[0]).toMatch(/first page/);
+		const demoProducer = await signedIn(demo.producer);
+		expect((await demoProducer.api(base)).status).toBe(404);
+	});
+
+	test('the notes page shows the first page and a “More notes” link to the rest', async () => {
+		const html = await page(`/episodes/${episodeId}/notes`);
+		const shown = new Set(html.match(/List note \d+\b/g) ?? []);
+		expect(shown.size).toBe(50);
+		expect(html).toContain(`${NOTES} notes`);
+		const next = moreLink(html, 'More notes');
+		expect(next).toMatch(/^\?after=/);
+		const second = await page(`/episodes/${episodeId}/notes${next}`);
+		const secondShown = new Set(second.match(/List note \d+\b/g) ?? []);
+		expect(secondShown.size).toBe(50);
+		expect([...secondShown].filter((text) => shown.has(text))).toEqual([]);
+	});
+});

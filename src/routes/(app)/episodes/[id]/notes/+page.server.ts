@@ -10,6 +10,8 @@ import { versionOnlySchema } from '$lib/schemas/fields';
 import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
+import { fieldIssues } from '$lib/server/http/api';
+import { pageQuerySchema } from '$lib/schemas/paging';
 
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
@@ -20,8 +22,15 @@ export const load = (async (event) => {
 	const { channel, roles } = requireRole(event);
 	// The stage's lock takes every editing control away (the layout says why).
 	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'notes') === null;
+	// One page of notes; "More notes" links to the page after the last one shown (`after`).
+	const parsed = pageQuerySchema.safeParse(
+		Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''))
+	);
+	const page = parsed.success ? parsed.data : pageQuerySchema.parse({});
 	return {
-		...(await forPage(() => notesPageFor(channel.id, event.params.id))),
+		...(await forPage(() => notesPageFor(channel.id, event.params.id, page))),
+		after: Boolean(page.after),
+		pageErrors: parsed.success ? null : fieldIssues(parsed.error),
 		rights: noteRightsFor(open ? roles : [])
 	};
 }) satisfies PageServerLoad;
