@@ -325,3 +325,38 @@ describe('notes paging', () => {
 		expect([...secondShown].filter((text) => shown.has(text))).toEqual([]);
 	});
 });
+
+describe('crew page paging', () => {
+	test('the crew page shows 50 people, the channel’s counts and a “More crew” link to the rest', async () => {
+		const reference = await sql<{ email: string }>(
+			`SELECT p.email FROM membership m JOIN person p ON p.id = m.person_id
+			 WHERE m.channel_id = $1 AND p.email LIKE 'lists.crew.%' ORDER BY p.name, p.id`,
+			[channelId]
+		);
+		const [{ active }] = await sql<{ active: number }>(
+			`SELECT count(*)::int AS active FROM membership WHERE channel_id = $1 AND disabled_at IS NULL`,
+			[channelId]
+		);
+		// Every third added member is disabled: 24 of 74, so the page's counts are not the page's rows.
+		expect(active).toBe(CREW - 24);
+		// In markup order (the page's data payload repeats them after the markup); the producer's
+		// own address is also in the page's header, so only the crew's other members count here.
+		const emailsIn = (html: string) => [
+			...new Set(html.match(/lists\.crew\.\d+@paging-lists\.test/g))
+		];
+		const html = await page('/crew');
+		expect(html).toContain(`${active} active · ${CREW} in all`);
+		const next = moreLink(html, 'More crew');
+		expect(next).toMatch(/^\?after=/);
+		const second = await page(`/crew${next}`);
+		expect(moreLink(second, 'More crew')).toBeNull();
+		expect(second).toContain(`${active} active · ${CREW} in all`);
+		expect([...emailsIn(html), ...emailsIn(second)]).toEqual(reference.map((row) => row.email));
+	});
+
+	test('a damaged crew cursor starts from the top and says why', async () => {
+		const html = await page('/crew?after=AAAA');
+		expect(html).toMatch(/first page and try again/);
+		expect(moreLink(html, 'More crew')).not.toBeNull();
+	});
+});
