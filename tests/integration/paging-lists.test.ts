@@ -324,6 +324,22 @@ describe('notes paging', () => {
 		expect(secondShown.size).toBe(50);
 		expect([...secondShown].filter((text) => shown.has(text))).toEqual([]);
 	});
+	test('a note written on a long list lands on the page that shows it', async () => {
+		// Without a program time it sorts after the 104 placed notes: on the third page of 50.
+		const result = await producer.action(`/episodes/${episodeId}/notes?/create`, {
+			text: 'Late list note for the anchor'
+		});
+		expect(result.type).toBe('redirect');
+		const [path, anchor] = result.location!.split('#');
+		const html = await page(path);
+		const [created] = await sql<{ id: string }>(
+			`SELECT id FROM segment_note WHERE episode_id = $1 AND text = 'Late list note for the anchor'`,
+			[episodeId]
+		);
+		expect(anchor).toBe(`note-${created.id}`);
+		expect(html).toContain(`id="note-${created.id}"`);
+		await sql(`DELETE FROM segment_note WHERE id = $1`, [created.id]);
+	});
 });
 
 describe('crew page paging', () => {

@@ -15,7 +15,7 @@ import {
 	keysetSelections,
 	type SortKey
 } from '../http/keyset';
-import { DEFAULT_PAGE_SIZE, type Cursor } from '$lib/schemas/paging';
+import { DEFAULT_PAGE_SIZE, encodeCursor, type Cursor } from '$lib/schemas/paging';
 
 export interface NotePart {
 	id: string;
@@ -256,4 +256,34 @@ export async function viewOf(
 		.where('segmentNote.id', '=', noteId)
 		.executeTakeFirstOrThrow();
 	return toView(row, rate);
+}
+
+/**
+ * The cursor of the notes page that starts with this note (the keys of the note just before it in
+ * program-time order), or null when it is the first; for the redirect after writing a note, so
+ * the page shown holds it however long the list is.
+ */
+export async function cursorBeforeNote(
+	channelId: string,
+	episodeId: string,
+	noteId: string,
+	executor: Executor = db
+): Promise<string | null> {
+	const keys = noteOrder.map((key) => key.expression);
+	const { rows } = await sql<Record<string, string>>`
+		WITH target AS (
+			SELECT ${sql.join(keys.map((key, index) => sql`${key} AS ${sql.ref(`k${index}`)}`))}
+			FROM segment_note LEFT JOIN segment ON segment.id = segment_note.segment_id
+			WHERE segment_note.id = ${noteId} AND segment_note.episode_id = ${episodeId})
+		SELECT ${sql.join(keys.map((key, index) => sql`(${key})::text AS ${sql.ref(`k${index}`)}`))}
+		FROM segment_note
+		LEFT JOIN segment ON segment.id = segment_note.segment_id
+		INNER JOIN episode ON episode.id = segment_note.episode_id
+		CROSS JOIN target
+		WHERE segment_note.episode_id = ${episodeId} AND episode.channel_id = ${channelId}
+			AND (${sql.join(keys)}) < (${sql.join(keys.map((_, index) => sql.ref(`target.k${index}`)))})
+		ORDER BY ${sql.join(keys.map((key) => sql`${key} DESC`))}
+		LIMIT 1`.execute(executor);
+	const before = rows[0];
+	return before ? encodeCursor(NOTE_ORDER, [before.k0, before.k1, before.k2, before.k3]) : null;
 }

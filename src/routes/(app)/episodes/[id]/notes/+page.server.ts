@@ -3,7 +3,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
 import { createNote, deleteNote, noteRightsFor, updateNote } from '$lib/server/merch/notes';
-import { notesPageFor } from '$lib/server/merch/notes-page';
+import { cursorBeforeNote, notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import { versionOnlySchema } from '$lib/schemas/fields';
@@ -84,7 +84,10 @@ export const actions = {
 			createNote(caller.channel.id, actorOf(caller), event.params.id, data)
 		);
 		if (!result.ok) return result.failure;
-		redirect(303, safeRedirectPath(`${event.url.pathname}#note-${result.value.id}`));
+		// The page of notes that starts with the new one, wherever it sorts in a long list.
+		const after = await cursorBeforeNote(caller.channel.id, event.params.id, result.value.id);
+		const page = after ? `?after=${encodeURIComponent(after)}` : '';
+		redirect(303, safeRedirectPath(`${event.url.pathname}${page}#note-${result.value.id}`));
 	},
 	place: (event) =>
 		change(event, 'place', ['editor', 'producer'], async (form) => ({
