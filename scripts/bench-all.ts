@@ -8,7 +8,8 @@
  *   npm run bench uploads              only the upload bench (scripts/bench-uploads.ts)
  *   npm run bench parts                only the parts bench (scripts/bench-parts.ts)
  *   npm run bench episode              only the episode page and API bench (scripts/bench-episode.ts)
- *   npm run bench "episode list"       "parts search", "chapter export at scale": the paging benches
+ *   npm run bench "episode list"       "parts search", "chapter export at scale", "footage and notes":
+ *                                      the paging benches
  *                                      (scripts/bench-paging.ts), lists at a real channel's size
  *   npm run bench storage              the storage view at 10,000 episodes (scripts/bench-storage.ts)
  *   npm run bench "chapter export"     any other name: that bench of scripts/bench.ts
@@ -31,7 +32,7 @@ const SCRIPTS: BenchScript[] = [
 	{ script: 'scripts/bench-episode.ts', names: ['episode'] },
 	{
 		script: 'scripts/bench-paging.ts',
-		names: ['episode list', 'parts search', 'chapter export at scale']
+		names: ['episode list', 'parts search', 'chapter export at scale', 'footage and notes']
 	},
 	{ script: 'scripts/bench-storage.ts', names: ['storage'] }
 ];

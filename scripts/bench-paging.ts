@@ -7,6 +7,8 @@
  *   npm run bench "parts search"   catalogue search at 20,000 and at 200,000 parts, and featured
  *                                  parts ("named in the script") at 200,000
  *   npm run bench "chapter export at scale"   every export format at 1,000 and 10,000 chapters
+ *   npm run bench "footage and notes"   an episode's footage and notes at 10,000 rows each: a
+ *                                  deep page (the 150th of 50) against the first
  *
  * Each bench starts its own throwaway PostgreSQL (scripts/lib/bench-world.ts), runs the real
  * migrate and seed scripts, adds its data in channels of its own (scripts/lib/bench-paging-seed.ts)
@@ -18,6 +20,7 @@ import { openBenchWorld, signedInSession, type BenchSession } from './lib/bench-
 import {
 	addChapteredEpisode,
 	addEpisodes,
+	addLoggedEpisode,
 	addParts,
 	addScriptedEpisode,
 	benchChannel
@@ -290,10 +293,76 @@ async function chapterExportBench(): Promise<boolean> {
 	}
 }
 
+/** Follows `next` from `path` until the page before `page`; answers the `page`th page's path. */
+async function pathOfPage(session: BenchSession, path: string, page: number): Promise<string> {
+	const separator = path.includes('?') ? '&' : '?';
+	let next: string | null = null;
+	for (let index = 1; index < page; index++) {
+		const answer = await session.get(
+			next ? `${path}${separator}after=${encodeURIComponent(next)}` : path
+		);
+		if (answer.status !== 200) throw new Error(`${path} answered ${answer.status}`);
+		next = (JSON.parse(answer.body) as { next: string | null }).next;
+		if (!next) throw new Error(`${path} has fewer than ${page} pages`);
+	}
+	return `${path}${separator}after=${encodeURIComponent(next!)}`;
+}
+
+const LOGGED_ROWS = 10_000;
+const DEEP_PAGE = 150;
+
+async function footageAndNotesBench(): Promise<boolean> {
+	const world = await openBenchWorld('paging-footage-notes');
+	try {
+		const bay = await benchChannel(world.pool, 'Bench logging bay', 'logged@bench.test');
+		const episode = await addLoggedEpisode(world.pool, bay.channelId, bay.personId, LOGGED_ROWS);
+		const baseUrl = await world.startServer();
+		const session = await signedInSession(baseUrl, 'logged@bench.test');
+		const lists = [
+			{ label: 'footage API, newest first', path: `/api/episodes/${episode}/footage` },
+			{ label: 'footage API, by clip', path: `/api/episodes/${episode}/footage?sort=clip` },
+			{
+				label: 'footage API, by length',
+				path: `/api/episodes/${episode}/footage?sort=duration&direction=desc`
+			},
+			{ label: 'notes API', path: `/api/episodes/${episode}/notes` },
+			{ label: 'footage page', path: `/episodes/${episode}/footage` },
+			{ label: 'notes page', path: `/episodes/${episode}/notes` }
+		];
+		const rows: Row[] = [];
+		for (const list of lists) {
+			const deepPath = list.path.startsWith('/api/')
+				? await pathOfPage(session, list.path, DEEP_PAGE)
+				: // A page's "More" link carries the same cursor as its API's `next`.
+					(await pathOfPage(session, `/api${list.path}`, DEEP_PAGE)).replace(/^\/api/, '');
+			const first = await measure(session, [list.path], { measured: 50 });
+			const deep = await measure(session, [deepPath], { measured: 50 });
+			rows.push({
+				label: list.label,
+				cells: [ms(first), ms(deep), `${(deep / first).toFixed(2)}×`],
+				ok: deep <= GROWTH_LIMIT * first
+			});
+		}
+		return print(
+			`An episode's footage and notes at ${LOGGED_ROWS.toLocaleString('en')} rows each, page ${DEEP_PAGE} of 50 against page 1 (50 requests each after ${WARM_UP} warm-up)`,
+			`a deep page at most ${GROWTH_LIMIT}× the first`,
+			['', 'page 1', `page ${DEEP_PAGE}`, 'ratio', ''],
+			rows,
+			[
+				'Times are whole requests over loopback (sign-in hooks included), medians.',
+				'Notes tie on program time in runs of 20 and every tenth is unplaced; within a tie they sort by segment position.'
+			]
+		);
+	} finally {
+		await world.close();
+	}
+}
+
 const BENCHES: Record<string, () => Promise<boolean>> = {
 	'episode list': episodeListBench,
 	'parts search': partsSearchBench,
-	'chapter export at scale': chapterExportBench
+	'chapter export at scale': chapterExportBench,
+	'footage and notes': footageAndNotesBench
 };
 
 async function main() {

@@ -135,3 +135,44 @@ export async function addChapteredEpisode(
 	await pool.query('ANALYZE chapter');
 	return id;
 }
+
+/**
+ * An episode with `count` footage rows (clip names, cameras and lengths repeating, so sorts tie)
+ * and `count` segment notes over 10 segments (program times in runs of 20, every tenth unplaced).
+ */
+export async function addLoggedEpisode(
+	pool: pg.Pool,
+	channelId: string,
+	personId: string,
+	count: number
+): Promise<string> {
+	const episode = await pool.query<{ id: string }>(
+		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage)
+		 VALUES ($1, $2, $3, 3600, '29.97', 'edit') RETURNING id`,
+		[channelId, `Bench: ${count} clips and notes`, `bench-logged-${count}`]
+	);
+	const id = episode.rows[0].id;
+	await pool.query(
+		`INSERT INTO segment (episode_id, position, kind, title) SELECT $1, i, 'install-step', 'Step ' || i FROM generate_series(1, 10) AS i`,
+		[id]
+	);
+	await pool.query(
+		`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, camera_label, clip_name, file_name,
+		   file_type, size_bytes, sha256, duration_seconds, uploaded_by, created_at)
+		 SELECT $1, $2, 'bench-clip-' || i, 'footage', (ARRAY['A cam','B cam','Lift cam'])[1 + i % 3],
+		   'BC_' || lpad((i % 2000)::text, 4, '0'), 'BC_' || i || '.mov', 'video/quicktime',
+		   50000000 + (i % 97) * 1000000, repeat('0', 64), CASE WHEN i % 11 = 0 THEN NULL ELSE 5 + (i % 300) * 0.5 END,
+		   $3, now() - i * interval '1 minute'
+		 FROM generate_series(1, ${count}) AS i`,
+		[channelId, id, personId]
+	);
+	await pool.query(
+		`INSERT INTO segment_note (episode_id, segment_id, program_frame, text, author_id)
+		 SELECT $1, (SELECT s.id FROM segment s WHERE s.episode_id = $1 AND s.position = 1 + i % 10),
+		   CASE WHEN i % 10 = 0 THEN NULL ELSE (i / 20) * 30 END, 'Bench note ' || i, $2
+		 FROM generate_series(1, ${count}) AS i`,
+		[id, personId]
+	);
+	await pool.query('ANALYZE footage; ANALYZE segment_note; ANALYZE segment');
+	return id;
+}

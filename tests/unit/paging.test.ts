@@ -72,6 +72,10 @@ describe('cursor values', () => {
 		expect(keyValueFits('integer', '-42')).toBe(true);
 		expect(keyValueFits('uuid', 'c0ffee00-0000-4000-8000-000000000001')).toBe(true);
 		expect(keyValueFits('text', 'any words at all')).toBe(true);
+		// double precision: shortest exact digits, exponent form for large and small values
+		// (PostgreSQL documentation, "Floating-Point Types", extra_float_digits).
+		for (const printed of ['12.5', '-1', '0', '1e+100', '1.5e-07', 'Infinity', '-Infinity'])
+			expect(keyValueFits('float', printed), printed).toBe(true);
 	});
 
 	test('refuses values the database would fail to cast', () => {
@@ -87,5 +91,9 @@ describe('cursor values', () => {
 		// PostgreSQL's text type refuses the NUL character (its documentation, "Character Types").
 		expect(keyValueFits('text', 'a\u0000b')).toBe(false);
 		expect(keyValueFits('text', null)).toBe(false);
+		// Beyond double precision's range PostgreSQL fails the cast ("out of range"); NaN never sorts
+		// a list here.
+		for (const value of ['1e999', '-1e999', '1e-999', 'NaN', '12.5x', '1,5', ''])
+			expect(keyValueFits('float', value), value).toBe(false);
 	});
 });

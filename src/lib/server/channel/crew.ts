@@ -40,11 +40,7 @@ function crewQuery(channelId: string) {
 		.where('membership.channelId', '=', channelId);
 }
 
-export async function listCrew(channelId: string) {
-	return crewQuery(channelId).orderBy('person.name').execute();
-}
-
-export type CrewMember = Awaited<ReturnType<typeof listCrew>>[number];
+export type CrewMember = Awaited<ReturnType<ReturnType<typeof crewQuery>['execute']>>[number];
 
 const crewOrder: SortKey[] = [
 	{ expression: sql`person.name`, direction: 'asc', kind: 'text' },
@@ -60,6 +56,41 @@ export async function crewPage(channelId: string, query: PageQuery) {
 		.limit(query.limit + 1)
 		.execute();
 	return keysetPage('name:asc', crewOrder, rows, query.limit);
+}
+
+/**
+ * The crew page's page: as `crewPage`, with how many members the channel has and how many are
+ * active, read in the same query (uncorrelated subqueries, so PostgreSQL counts once per page).
+ */
+export async function crewPageWithCounts(channelId: string, query: PageQuery) {
+	const rows = await crewQuery(channelId)
+		.select((eb) => [
+			eb
+				.selectFrom('membership as counted')
+				.select((inner) => inner.fn.countAll<string>().as('count'))
+				.where('counted.channelId', '=', channelId)
+				.as('memberCount'),
+			eb
+				.selectFrom('membership as counted')
+				.select((inner) => inner.fn.countAll<string>().as('count'))
+				.where('counted.channelId', '=', channelId)
+				.where('counted.disabledAt', 'is', null)
+				.as('activeCount')
+		])
+		.select(keysetSelections(crewOrder))
+		.where(keysetAfter('name:asc', crewOrder, query.after))
+		.orderBy(keysetOrderBy(crewOrder))
+		.limit(query.limit + 1)
+		.execute();
+	const page = keysetPage('name:asc', crewOrder, rows, query.limit);
+	return {
+		items: page.items.map(({ memberCount: _all, activeCount: _active, ...member }) => member),
+		next: page.next,
+		counts: {
+			members: Number(rows[0]?.memberCount ?? 0),
+			active: Number(rows[0]?.activeCount ?? 0)
+		}
+	};
 }
 
 /** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */

@@ -1,45 +1,110 @@
 /** Footage and uploaded cuts of an episode: listing, the file behind a row, and deleting both together. */
 import { access, rm, unlink } from 'node:fs/promises';
 import path from 'node:path';
+import { sql } from 'kysely';
 import { db } from '../db';
 import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
+import {
+	keysetAfter,
+	keysetOrderBy,
+	keysetPage,
+	keysetSelections,
+	type SortKey
+} from '../http/keyset';
+import { DEFAULT_PAGE_SIZE, type Cursor } from '$lib/schemas/paging';
+import type { FootageSort } from '$lib/schemas/footage-list';
 import { uploadDir } from './tus-server';
 import { storeOf } from './object-store';
 import { storageKeyFor } from '../media/makers';
 import { MEDIA_KINDS } from '$lib/media';
 import type { StoredFile } from '../http/object-response';
 
-export const FOOTAGE_SORTS = ['created', 'clip', 'camera', 'size', 'duration'] as const;
-export type FootageSort = (typeof FOOTAGE_SORTS)[number];
+export { FOOTAGE_SORTS, type FootageSort } from '$lib/schemas/footage-list';
 
-const sortColumn = {
-	created: 'footage.createdAt',
-	clip: 'footage.clipName',
-	camera: 'footage.cameraLabel',
-	size: 'footage.sizeBytes',
-	duration: 'footage.durationSeconds'
-} as const;
+/** Each sort's key: a non-null expression (a clip without a measured length sorts as -1 s). */
+const sortKey: Record<FootageSort, Omit<SortKey, 'direction'>> = {
+	created: { expression: sql`footage.created_at`, kind: 'timestamp' },
+	clip: { expression: sql`footage.clip_name`, kind: 'text' },
+	camera: { expression: sql`footage.camera_label`, kind: 'text' },
+	size: { expression: sql`footage.size_bytes`, kind: 'integer' },
+	duration: { expression: sql`coalesce(footage.duration_seconds, -1)`, kind: 'float' }
+};
 
+/**
+ * The list's order: the chosen column, then the id in the same direction, so rows that tie keep
+ * one order across pages and an index on (episode, column, id) reads either way.
+ */
+function footageOrder(sort: FootageSort, direction: 'asc' | 'desc'): SortKey[] {
+	return [
+		{ ...sortKey[sort], direction },
+		{ expression: sql`footage.id`, direction, kind: 'uuid' }
+	];
+}
+
+export interface FootageListOptions {
+	shootDayId?: string;
+	camera?: string;
+	purpose?: 'footage' | 'cut';
+	sort?: FootageSort;
+	direction?: 'asc' | 'desc';
+	/** The previous page's `next`, decoded. */
+	after?: Cursor;
+	limit?: number;
+}
+
+/**
+ * One page of an episode's footage and cuts (keyset-paged: `after` is the previous page's `next`),
+ * newest first unless sorted otherwise; with the episode's totals and camera names, read with the
+ * episode row, so filters and headings see the whole list.
+ */
 export async function listFootage(
 	channelId: string,
 	episodeId: string,
-	options: {
-		shootDayId?: string;
-		camera?: string;
-		purpose?: 'footage' | 'cut';
-		sort?: FootageSort;
-		direction?: 'asc' | 'desc';
-	} = {}
+	options: FootageListOptions = {}
 ) {
 	if (!isUuid(episodeId)) throw notFound('That episode');
-	const episode = await db
+	const found = await db
 		.selectFrom('episode')
-		.select(['id', 'title', 'slug', 'frameRate', 'timecodeDropFrame', 'timecodeStart'])
+		.select((eb) => [
+			'id',
+			'title',
+			'slug',
+			'frameRate',
+			'timecodeDropFrame',
+			'timecodeStart',
+			eb
+				.selectFrom('footage')
+				.select((inner) => inner.fn.countAll<string>().as('files'))
+				.whereRef('footage.episodeId', '=', 'episode.id')
+				.as('fileCount'),
+			eb
+				.selectFrom('footage')
+				.select(sql<string>`coalesce(sum(footage.size_bytes), 0)`.as('bytes'))
+				.whereRef('footage.episodeId', '=', 'episode.id')
+				.as('totalBytes'),
+			eb
+				.selectFrom('footage')
+				.select(
+					sql<
+						string[]
+					>`coalesce(array_agg(DISTINCT footage.camera_label ORDER BY footage.camera_label) FILTER (WHERE footage.camera_label <> ''), '{}')`.as(
+						'labels'
+					)
+				)
+				.whereRef('footage.episodeId', '=', 'episode.id')
+				.as('cameras')
+		])
 		.where('id', '=', episodeId)
 		.where('channelId', '=', channelId)
 		.executeTakeFirst();
-	if (!episode) throw notFound('That episode');
+	if (!found) throw notFound('That episode');
+	const { fileCount, totalBytes, cameras, ...episode } = found;
+	const sort = options.sort ?? 'created';
+	const direction = options.direction ?? (sort === 'created' || sort === 'size' ? 'desc' : 'asc');
+	const order = `${sort}:${direction}`;
+	const keys = footageOrder(sort, direction);
+	const limit = options.limit ?? DEFAULT_PAGE_SIZE;
 	let query = db
 		.selectFrom('footage')
 		.leftJoin('shootDay', 'shootDay.id', 'footage.shootDayId')
@@ -77,14 +142,17 @@ export async function listFootage(
 	if (options.camera) query = query.where('footage.cameraLabel', '=', options.camera);
 	if (options.purpose) query = query.where('footage.purpose', '=', options.purpose);
 	const rows = await query
-		.orderBy(sortColumn[options.sort ?? 'created'], options.direction ?? 'desc')
-		.orderBy('footage.id')
+		.select(keysetSelections(keys))
+		.where(keysetAfter(order, keys, options.after))
+		.orderBy(keysetOrderBy(keys))
+		.limit(limit + 1)
 		.execute();
+	const page = keysetPage(order, keys, rows, limit);
 	// Whether the file behind each row is on this server, so the page offers Play and Download only
 	// where they can work (the demo's rows, or a file removed from disk, have none). A clip moved to
 	// the bucket was there when it was recorded; no request to the store per row.
 	const footage = await Promise.all(
-		rows.map(async ({ uploadId, storedIn, ...row }) => ({
+		page.items.map(async ({ uploadId, storedIn, ...row }) => ({
 			...row,
 			onDisk:
 				storedIn === 'bucket' ||
@@ -94,7 +162,18 @@ export async function listFootage(
 				))
 		}))
 	);
-	return { episode, footage };
+	return {
+		episode,
+		totals: {
+			files: Number(fileCount ?? 0),
+			bytes: Number(totalBytes ?? 0),
+			cameras: cameras ?? []
+		},
+		sort,
+		direction,
+		footage,
+		next: page.next
+	};
 }
 
 export async function footageFile(channelId: string, footageId: string) {

@@ -16,7 +16,7 @@ import { isUuid } from '../auth/identity';
 import { dateProblem } from '$lib/schemas/fields';
 import { CURSOR_MESSAGE, encodeCursor, type Cursor, type Page } from '$lib/schemas/paging';
 
-export type KeyKind = 'text' | 'date' | 'uuid' | 'integer' | 'timestamp';
+export type KeyKind = 'text' | 'date' | 'uuid' | 'integer' | 'float' | 'timestamp';
 
 export interface SortKey {
 	/** A non-null expression (wrap nullable columns in coalesce). */
@@ -30,6 +30,7 @@ const castTo: Record<KeyKind, string> = {
 	date: 'date',
 	uuid: 'uuid',
 	integer: 'bigint',
+	float: 'double precision',
 	timestamp: 'timestamptz'
 };
 
@@ -47,6 +48,17 @@ export function keyValueFits(kind: KeyKind, value: unknown): value is string {
 			return isUuid(value);
 		case 'integer':
 			return /^-?\d{1,18}$/.test(value);
+		case 'float': {
+			// double precision as PostgreSQL prints it (shortest exact form, so it reads back equal).
+			if (value === 'Infinity' || value === '-Infinity') return true;
+			const match = /^-?(\d{1,400})(?:\.(\d{1,400}))?(?:e[+-]\d{1,4})?$/.exec(value);
+			if (!match) return false;
+			// PostgreSQL refuses what overflows or underflows to zero ("out of range").
+			const number = Number(value);
+			return (
+				Number.isFinite(number) && (number !== 0 || !/[1-9]/.test(match[1] + (match[2] ?? '')))
+			);
+		}
 		case 'date':
 			return value === 'infinity' || value === '-infinity' || dateProblem(value) === null;
 		case 'timestamp': {

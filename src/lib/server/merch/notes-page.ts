@@ -8,6 +8,14 @@ import { db } from '../db';
 import { episodeInChannel, type EpisodeHeading, type Executor } from '../episodes/episodes';
 import { clockOfEpisode } from '../episodes/programme-timecode';
 import { formatClock, formatTimecode, framesToSeconds, type FrameRate } from '$lib/timecode';
+import {
+	keysetAfter,
+	keysetOrderBy,
+	keysetPage,
+	keysetSelections,
+	type SortKey
+} from '../http/keyset';
+import { DEFAULT_PAGE_SIZE, encodeCursor, type Cursor } from '$lib/schemas/paging';
 
 export interface NotePart {
 	id: string;
@@ -53,8 +61,32 @@ export interface NotesPage {
 		sourceIn: string;
 		sourceOut: string;
 	}[];
+	/** One page of the notes, in program-time order. */
 	notes: NoteView[];
+	/** The cursor of the next page; null on the last. */
+	next: string | null;
+	/** Every note of the episode and those placed in the cut (not only this page's). */
+	counts: { notes: number; placed: number };
 }
+
+/** The largest integer: a note without a program time (or segment) sorts after every placed one. */
+const LAST = sql.lit(2147483647);
+
+/**
+ * Program-time order as keyset sort keys: program frame (unplaced last), segment position (no
+ * segment last), when the note was written, its id.
+ */
+const noteOrder: SortKey[] = [
+	{
+		expression: sql`coalesce(segment_note.program_frame, ${LAST})`,
+		direction: 'asc',
+		kind: 'integer'
+	},
+	{ expression: sql`coalesce(segment.position, ${LAST})`, direction: 'asc', kind: 'integer' },
+	{ expression: sql`segment_note.created_at`, direction: 'asc', kind: 'timestamp' },
+	{ expression: sql`segment_note.id`, direction: 'asc', kind: 'uuid' }
+];
+const NOTE_ORDER = 'program:asc';
 
 /** The notes of one episode, with their parts, in program-time order (unplaced ones last). */
 function notesQuery(executor: Executor, episodeId: string) {
@@ -91,11 +123,7 @@ function notesQuery(executor: Executor, episodeId: string) {
 					.orderBy('part.sku')
 			).as('parts')
 		])
-		.where('segmentNote.episodeId', '=', episodeId)
-		.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
-		.orderBy(sql`segment.position ASC NULLS LAST`)
-		.orderBy('segmentNote.createdAt')
-		.orderBy('segmentNote.id');
+		.where('segmentNote.episodeId', '=', episodeId);
 }
 
 type NoteRow = Awaited<ReturnType<ReturnType<typeof notesQuery>['execute']>>[number];
@@ -120,12 +148,17 @@ function toView(row: NoteRow, rate: FrameRate): NoteView {
 	};
 }
 
-/** Everything the notes page shows: the episode, its segments and takes to pick from, and its notes. */
+/**
+ * Everything the notes page shows: the episode, its segments and takes to pick from, and one page
+ * of its notes (keyset-paged: `page.after` is the previous page's `next`) with the episode's counts.
+ */
 export async function notesPageFor(
 	channelId: string,
 	episodeId: string,
+	page: { after?: Cursor; limit?: number } = {},
 	executor: Executor = db
 ): Promise<NotesPage> {
+	const limit = page.limit ?? DEFAULT_PAGE_SIZE;
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const programme = clockOfEpisode(episode);
@@ -155,8 +188,29 @@ export async function notesPageFor(
 			.orderBy('shot.position')
 			.orderBy('take.clipName')
 			.execute(),
-		notesQuery(executor, episode.id).execute()
+		notesQuery(executor, episode.id)
+			// Uncorrelated, so PostgreSQL reads each count once for the whole page, in this query.
+			.select((eb) => [
+				eb
+					.selectFrom('segmentNote as counted')
+					.select((inner) => inner.fn.countAll<string>().as('count'))
+					.where('counted.episodeId', '=', episode.id)
+					.as('noteCount'),
+				eb
+					.selectFrom('segmentNote as counted')
+					.select((inner) => inner.fn.countAll<string>().as('count'))
+					.where('counted.episodeId', '=', episode.id)
+					.where('counted.programFrame', 'is not', null)
+					.as('placedCount')
+			])
+			.select(keysetSelections(noteOrder))
+			.where(keysetAfter(NOTE_ORDER, noteOrder, page.after))
+			.orderBy(keysetOrderBy(noteOrder))
+			.limit(limit + 1)
+			.execute()
 	]);
+	const notesPage = keysetPage(NOTE_ORDER, noteOrder, notes, limit);
+	const first = notes[0];
 	return {
 		episode: {
 			id: episode.id,
@@ -183,7 +237,11 @@ export async function notesPageFor(
 			sourceIn: formatTimecode(take.sourceInFrames, rate, { dropFrame: take.sourceDropFrame }),
 			sourceOut: formatTimecode(take.sourceOutFrames, rate, { dropFrame: take.sourceDropFrame })
 		})),
-		notes: notes.map((row) => toView(row, rate))
+		notes: notesPage.items.map(({ noteCount: _notes, placedCount: _placed, ...row }) =>
+			toView(row, rate)
+		),
+		next: notesPage.next,
+		counts: { notes: Number(first?.noteCount ?? 0), placed: Number(first?.placedCount ?? 0) }
 	};
 }
 
@@ -198,4 +256,34 @@ export async function viewOf(
 		.where('segmentNote.id', '=', noteId)
 		.executeTakeFirstOrThrow();
 	return toView(row, rate);
+}
+
+/**
+ * The cursor of the notes page that starts with this note (the keys of the note just before it in
+ * program-time order), or null when it is the first; for the redirect after writing a note, so
+ * the page shown holds it however long the list is.
+ */
+export async function cursorBeforeNote(
+	channelId: string,
+	episodeId: string,
+	noteId: string,
+	executor: Executor = db
+): Promise<string | null> {
+	const keys = noteOrder.map((key) => key.expression);
+	const { rows } = await sql<Record<string, string>>`
+		WITH target AS (
+			SELECT ${sql.join(keys.map((key, index) => sql`${key} AS ${sql.ref(`k${index}`)}`))}
+			FROM segment_note LEFT JOIN segment ON segment.id = segment_note.segment_id
+			WHERE segment_note.id = ${noteId} AND segment_note.episode_id = ${episodeId})
+		SELECT ${sql.join(keys.map((key, index) => sql`(${key})::text AS ${sql.ref(`k${index}`)}`))}
+		FROM segment_note
+		LEFT JOIN segment ON segment.id = segment_note.segment_id
+		INNER JOIN episode ON episode.id = segment_note.episode_id
+		CROSS JOIN target
+		WHERE segment_note.episode_id = ${episodeId} AND episode.channel_id = ${channelId}
+			AND (${sql.join(keys)}) < (${sql.join(keys.map((_, index) => sql.ref(`target.k${index}`)))})
+		ORDER BY ${sql.join(keys.map((key) => sql`${key} DESC`))}
+		LIMIT 1`.execute(executor);
+	const before = rows[0];
+	return before ? encodeCursor(NOTE_ORDER, [before.k0, before.k1, before.k2, before.k3]) : null;
 }

@@ -1,12 +1,26 @@
 import { requireRole } from '$lib/server/auth/guard';
-import { invitePerson, listCrew, updateMember } from '$lib/server/channel/crew';
+import { crewPageWithCounts, invitePerson, updateMember } from '$lib/server/channel/crew';
 import { inviteSchema, crewUpdateSchema } from '$lib/schemas/people';
-import { runForm } from '$lib/server/http/forms';
+import { pageQuerySchema } from '$lib/schemas/paging';
+import { fieldIssues } from '$lib/server/http/api';
+import { forPage, runForm } from '$lib/server/http/forms';
 import type { Actions, PageServerLoad } from './$types';
 
+/** One page of the crew by name; "More crew" links to the page after the last person shown. */
 export const load = (async (event) => {
 	const { channel } = requireRole(event, 'producer');
-	return { crew: await listCrew(channel.id) };
+	const parsed = pageQuerySchema.safeParse(
+		Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''))
+	);
+	const query = parsed.success ? parsed.data : pageQuerySchema.parse({});
+	const page = await forPage(() => crewPageWithCounts(channel.id, query));
+	return {
+		crew: page.items,
+		next: page.next,
+		counts: page.counts,
+		after: Boolean(query.after),
+		pageErrors: parsed.success ? null : fieldIssues(parsed.error)
+	};
 }) satisfies PageServerLoad;
 
 export const actions = {

@@ -3,13 +3,15 @@ import { requireRole } from '$lib/server/auth/guard';
 import { attempt, forPage, runForm, text } from '$lib/server/http/forms';
 import { assertInEpisode } from '$lib/server/http/ownership';
 import { createNote, deleteNote, noteRightsFor, updateNote } from '$lib/server/merch/notes';
-import { notesPageFor } from '$lib/server/merch/notes-page';
+import { cursorBeforeNote, notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
 import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
 import { versionOnlySchema } from '$lib/schemas/fields';
 import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
+import { fieldIssues } from '$lib/server/http/api';
+import { pageQuerySchema } from '$lib/schemas/paging';
 
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
@@ -20,8 +22,15 @@ export const load = (async (event) => {
 	const { channel, roles } = requireRole(event);
 	// The stage's lock takes every editing control away (the layout says why).
 	const open = stageLock((await event.parent()).episodeHeader.stage as Stage, 'notes') === null;
+	// One page of notes; "More notes" links to the page after the last one shown (`after`).
+	const parsed = pageQuerySchema.safeParse(
+		Object.fromEntries([...event.url.searchParams].filter(([, value]) => value !== ''))
+	);
+	const page = parsed.success ? parsed.data : pageQuerySchema.parse({});
 	return {
-		...(await forPage(() => notesPageFor(channel.id, event.params.id))),
+		...(await forPage(() => notesPageFor(channel.id, event.params.id, page))),
+		after: Boolean(page.after),
+		pageErrors: parsed.success ? null : fieldIssues(parsed.error),
 		rights: noteRightsFor(open ? roles : [])
 	};
 }) satisfies PageServerLoad;
@@ -75,7 +84,10 @@ export const actions = {
 			createNote(caller.channel.id, actorOf(caller), event.params.id, data)
 		);
 		if (!result.ok) return result.failure;
-		redirect(303, safeRedirectPath(`${event.url.pathname}#note-${result.value.id}`));
+		// The page of notes that starts with the new one, wherever it sorts in a long list.
+		const after = await cursorBeforeNote(caller.channel.id, event.params.id, result.value.id);
+		const page = after ? `?after=${encodeURIComponent(after)}` : '';
+		redirect(303, safeRedirectPath(`${event.url.pathname}${page}#note-${result.value.id}`));
 	},
 	place: (event) =>
 		change(event, 'place', ['editor', 'producer'], async (form) => ({

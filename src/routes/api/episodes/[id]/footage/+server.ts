@@ -1,23 +1,19 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
 import { api, parseWith } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
-import { FOOTAGE_SORTS, listFootage } from '$lib/server/footage/footage';
-import { text } from '$lib/schemas/fields';
+import { listFootage } from '$lib/server/footage/footage';
+import { footageListQuerySchema } from '$lib/schemas/footage-list';
 import type { RequestHandler } from './$types';
 
-const querySchema = z.object({
-	shootDay: text().optional(),
-	camera: text().max(40, 'A camera name has at most 40 characters.').optional(),
-	purpose: z.enum(['footage', 'cut']).optional(),
-	sort: z.enum(FOOTAGE_SORTS).optional(),
-	direction: z.enum(['asc', 'desc']).optional()
-});
-
-/** Any crew member of the channel may see an episode's footage list. */
+/**
+ * Any crew member of the channel may see an episode's footage list, a page at a time:
+ * `{ episode, totals, sort, direction, footage, next }`; `?after=<next>&limit=` asks for the
+ * following page (filters and sort as on the first: `shootDay`, `camera`, `purpose`, `sort`,
+ * `direction`).
+ */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
-	const query = parseWith(querySchema, Object.fromEntries(event.url.searchParams));
+	const query = parseWith(footageListQuerySchema, Object.fromEntries(event.url.searchParams));
 	return json(
 		await listFootage(channel.id, event.params.id, { ...query, shootDayId: query.shootDay })
 	);

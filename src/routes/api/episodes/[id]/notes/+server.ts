@@ -1,15 +1,20 @@
 import { json } from '@sveltejs/kit';
-import { api, readJson } from '$lib/server/http/api';
+import { api, parseWith, readJson } from '$lib/server/http/api';
+import { pageQuerySchema } from '$lib/schemas/paging';
 import { requireRole } from '$lib/server/auth/guard';
 import { createNote } from '$lib/server/merch/notes';
 import { notesPageFor } from '$lib/server/merch/notes-page';
 import { noteCreateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 
-/** Any crew member reads an episode's segment notes, with the segments and takes to pick from. */
+/**
+ * Any crew member reads an episode's segment notes, with the segments and takes to pick from, a
+ * page of notes at a time: `notes` and `next`; `?after=<next>&limit=` asks for the following page.
+ */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
-	return json(await notesPageFor(channel.id, event.params.id));
+	const query = parseWith(pageQuerySchema, Object.fromEntries(event.url.searchParams));
+	return json(await notesPageFor(channel.id, event.params.id, query));
 });
 
 /**
