@@ -58,13 +58,20 @@ export function inMarkerOrder(markers: readonly Marker[]): Marker[] {
 	return [...markers].sort((a, b) => a.frame - b.frame || rank(a.kind) - rank(b.kind));
 }
 
-/** Text kept to one line without control characters, as a comment line or a marker name needs. */
+/**
+ * Text kept to one line without control characters, as a comment line or a marker name needs;
+ * half of a UTF-16 pair (a broken emoji) becomes U+FFFD, since it can't be stored as UTF-8.
+ */
 export function oneLine(text: string): string {
 	return text
-		.replace(/[\u0000-\u001f\u007f]+/g, ' ')
+		.replace(/[\u0000-\u001f\u007f-\u009f]+/g, ' ')
+		.replace(/[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g, '\uFFFD')
 		.replace(/\s+/g, ' ')
 		.trim();
 }
+
+/** The largest marker file the edit page takes: a marker list is a few kilobytes. */
+export const MARKER_FILE_LIMIT_BYTES = 512 * 1024;
 
 /** The longest marker name a chapter import accepts (the chapter title's hard limit). */
 export const IMPORTED_NAME_LIMIT = 500;
