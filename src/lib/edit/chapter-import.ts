@@ -99,6 +99,22 @@ export function planChapterImport(
 	};
 }
 
+/** A change of the preview with its labels in the episode's programme timecode. */
+export type ChapterChangeView = ChapterChange & { timecode: string; fromTimecode?: string };
+
+/** What the server answers for a file before anything is written (and with a confirm). */
+export interface MarkerImportPreview {
+	format: 'edl' | 'otio';
+	changes: ChapterChangeView[];
+	kept: { id: string; frame: number; title: string; timecode: string }[];
+	skipped: number;
+	counts: Record<ChapterChange['change'], number>;
+	/** Send it back with the confirm: the chapter list this preview was made from. */
+	basis: string;
+	/** Why the chapters can't change at this stage (null: they can). */
+	lock: string | null;
+}
+
 /** A short fingerprint of the chapter list a preview was made from, so a confirm can tell it changed. */
 export function chapterListBasis(existing: readonly ExistingChapter[]): string {
 	const text = existing

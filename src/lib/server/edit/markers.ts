@@ -24,8 +24,8 @@ import { readOtio, writeOtio } from '$lib/edit/otio';
 import {
 	chapterListBasis,
 	planChapterImport,
-	type ChapterChange,
-	type ExistingChapter
+	type ExistingChapter,
+	type MarkerImportPreview
 } from '$lib/edit/chapter-import';
 import type { MarkerFormat, MarkerImport } from '$lib/schemas/markers';
 
@@ -138,21 +138,6 @@ export async function markerDownloadFor(
 	const safe = episode.slug.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'episode';
 	const file = MARKER_FILES[format];
 	return { body, contentType: file.contentType, filename: `${safe}-markers.${file.extension}` };
-}
-
-/** A change of the preview with its labels in the episode's programme timecode. */
-export type ChapterChangeView = ChapterChange & { timecode: string; fromTimecode?: string };
-
-export interface MarkerImportPreview {
-	format: MarkerFormat;
-	changes: ChapterChangeView[];
-	kept: { id: string; frame: number; title: string; timecode: string }[];
-	skipped: number;
-	counts: Record<ChapterChange['change'], number>;
-	/** Send it back with the confirm: the chapter list this preview was made from. */
-	basis: string;
-	/** Why the chapters can't change at this stage (null: they can). */
-	lock: string | null;
 }
 
 /** The format a file is in: as asked, else by its name, else by its first character. */
