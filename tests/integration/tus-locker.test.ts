@@ -109,3 +109,33 @@ test('locks on different uploads do not wait on each other', async () => {
 	await b.lock(never(), () => undefined);
 	await Promise.all([a.unlock(), b.unlock()]);
 });
+
+test("a dead holder's late unlock does not drop the next holder's release callback", async () => {
+	const [first, second] = [processLocker(), processLocker(3_000)];
+	const dead = first.newLock(id(7));
+	await dead.lock(never(), () => undefined);
+	const admin = new pg.Client({ connectionString: inject('databaseUrl') });
+	await admin.connect();
+	try {
+		await admin.query(
+			`SELECT pg_terminate_backend(pid) FROM pg_locks
+			 WHERE locktype = 'advisory' AND granted AND objid = hashtext($1)::oid`,
+			[id(7)]
+		);
+	} finally {
+		await admin.end();
+	}
+	// The same process takes the upload again, then the dead request finally lets go.
+	const next = first.newLock(id(7));
+	let asked = 0;
+	await next.lock(never(), () => {
+		asked++;
+		void next.unlock();
+	});
+	await dead.unlock();
+	// Another process still reaches the new holder with its release request.
+	const other = second.newLock(id(7));
+	await other.lock(never(), () => undefined);
+	expect(asked).toBe(1);
+	await other.unlock();
+});

@@ -116,6 +116,7 @@ const quietly = (failure: Error) => console.error('upload lock connection lost:'
 
 class PostgresLock implements Lock {
 	private client: pg.PoolClient | null = null;
+	private release: RequestRelease | null = null;
 
 	constructor(
 		private readonly id: string,
@@ -160,6 +161,7 @@ class PostgresLock implements Lock {
 			throw broken ? LOCKS_UNREACHABLE : failure;
 		}
 		this.client = client;
+		this.release = requestRelease;
 		locker.held.set(id, requestRelease);
 	}
 
@@ -167,7 +169,9 @@ class PostgresLock implements Lock {
 		const client = this.client;
 		if (!client) throw new Error('Releasing an unlocked lock!');
 		this.client = null;
-		if (this.locker.held.get(this.id)) this.locker.held.delete(this.id);
+		// Only our own entry: after a lost session another request may already hold this id.
+		if (this.locker.held.get(this.id) === this.release) this.locker.held.delete(this.id);
+		this.release = null;
 		try {
 			await client.query('SELECT pg_advisory_unlock($1, hashtext($2))', [LOCK_SPACE, this.id]);
 			client.off('error', quietly);
