@@ -14,7 +14,7 @@ import { CHANNEL_COOKIE, identityFromSession, identityFromToken } from '$lib/ser
 import { sessionIdFromCookie } from '$lib/server/auth/session-cookie';
 import { startMailSender, stopMailSender } from '$lib/server/mail/outbox';
 import { db } from '$lib/server/db';
-import { handleUpload } from '$lib/server/footage/tus-server';
+import { closeUploadLocks, handleUpload } from '$lib/server/footage/tus-server';
 import { offerNodeRoutes } from '$lib/server/footage/node-uploads';
 import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sweep';
 import { startMediaWorker, stopMedia } from '$lib/server/media/queue';
@@ -64,11 +64,13 @@ export const init: ServerInit = async () => {
 	void startScriptReaders();
 	await standInHash(); // made now, so no sign-in pays for making it
 	// adapter-node emits this after it stops taking requests: stop the mail sender and the upload
-	// sweep, then close the pool so the process can exit.
+	// sweep, then close the upload locks and the pool so the process can exit.
 	process.on(
 		'sveltekit:shutdown',
 		() =>
-			void Promise.all([stopMailSender(), stopUploadSweep(), stopMedia()]).then(() => db.destroy())
+			void Promise.all([stopMailSender(), stopUploadSweep(), stopMedia()]).then(() =>
+				Promise.all([closeUploadLocks(), db.destroy()])
+			)
 	);
 };
 

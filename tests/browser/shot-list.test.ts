@@ -1,7 +1,7 @@
 /**
  * The shot list in a real browser: after the camera operator logs a take, the Log take form is
  * ready for the next take of the same shot (fields empty, the shot kept), so a take is not logged
- * twice by pressing the button again.
+ * twice by pressing the button again. A take with no clip linked is marked, and counted at the top.
  */
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
@@ -47,6 +47,13 @@ test('after a take is logged the Log take form empties its fields and keeps the 
 	await expect
 		.poll(() => page.getByRole('list', { name: 'Takes of this shot' }).textContent())
 		.toContain('ACAM_1001');
+	// No clip is linked yet: the take says so, and the list's header counts it.
+	const take = page.getByTestId('take').filter({ hasText: 'ACAM_1001' });
+	await expect.poll(() => take.getByTestId('no-clip').isVisible()).toBe(true);
+	expect(await take.getByTestId('no-clip').textContent()).toBe('no clip yet');
+	await expect
+		.poll(() => page.getByTestId('takes-without-clip').innerText())
+		.toBe('1 take has no clip yet');
 	await expect.poll(() => form.getByLabel('Clip').inputValue()).toBe('');
 	expect(await form.getByLabel('Source in').inputValue()).toBe('');
 	expect(await form.getByLabel('Source out').inputValue()).toBe('');

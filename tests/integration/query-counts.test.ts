@@ -37,7 +37,8 @@ const TAB_BUDGETS: Record<string, number> = {
 	shots: 8,
 	// The edit page also reads the segments' spans in the cut (caution checks), the footage page
 	// each clip's media outputs (proxy, thumbnails, waveform): one query each, not one per row.
-	edit: 12,
+	// The edit page's waveform lane reads the cut's peaks job: one more.
+	edit: 13,
 	footage: 6,
 	notes: 6,
 	parts: 8,

@@ -11,7 +11,7 @@ import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
 import { pipeline as pipe, Transform, type Readable } from 'node:stream';
 import type { RequestEvent } from '@sveltejs/kit';
-import { MemoryLocker, Server } from '@tus/server';
+import { Server } from '@tus/server';
 import { FileStore } from '@tus/file-store';
 import { Metadata } from '@tus/utils';
 import { z } from 'zod';
@@ -31,6 +31,7 @@ import { queueMediaOutputs } from '../media/queue';
 import { reserveUpload, uploadExpiryMs } from './upload-limits';
 import { bodySizeLimit, checkPatchBody } from './patch-body';
 import { keepFinishedUpload } from './object-store';
+import { PostgresLocker } from './tus-locker';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -118,8 +119,24 @@ function takeRunningHash(id: string, size: number): string | null {
 }
 
 let server: Server | null = null;
-/** tus's per-upload locks, shared with the sweep of expired uploads. */
-const locker = new MemoryLocker();
+/**
+ * tus's per-upload locks, shared with the sweep of expired uploads: PostgreSQL advisory locks, so
+ * every app process on the same database honours them (tus-locker.ts). Made on first use, so
+ * `vite build` needs no database.
+ */
+let locker: PostgresLocker | null = null;
+function uploadLocker(): PostgresLocker {
+	locker ??= new PostgresLocker({ connectionString: env.DATABASE_URL ?? '' });
+	return locker;
+}
+
+/** Lets go of the upload locks' connections (shutdown). */
+export async function closeUploadLocks(): Promise<void> {
+	const closing = locker;
+	locker = null;
+	await closing?.close();
+}
+
 function tusServer(): Server {
 	server ??= new Server({
 		path: UPLOAD_PATH,
@@ -128,7 +145,7 @@ function tusServer(): Server {
 			directory: uploadDir(),
 			expirationPeriodInMilliseconds: uploadExpiryMs()
 		}),
-		locker,
+		locker: uploadLocker,
 		maxSize: maxUploadBytes(),
 		relativeLocation: true,
 		respectForwardedHeaders: env.TRUST_PROXY === 'true',
@@ -155,7 +172,7 @@ function tusServer(): Server {
 
 /** What the sweep of expired uploads needs: the folder, tus's store and its locks. */
 export function sweepTools() {
-	return { directory: uploadDir(), store: tusServer().datastore, locker };
+	return { directory: uploadDir(), store: tusServer().datastore, locker: uploadLocker() };
 }
 
 export const tusError = (status: number, message: string) =>

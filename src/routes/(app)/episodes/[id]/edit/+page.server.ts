@@ -19,6 +19,7 @@ import { segmentSpansFor, setSegmentSpan } from '$lib/server/edit/segment-spans'
 import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
 import type { TimelineMark } from '$lib/components/timeline';
 import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
+import { cutWaveformFor } from '$lib/server/edit/cut-waveform';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -30,10 +31,11 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await forPage(editStateFor(channel.id, event.params.id));
-	const [cutVideoUrl, marks, segments] = await Promise.all([
+	const [cutVideoUrl, marks, segments, cutWaveform] = await Promise.all([
 		cutVideoUrlFor(channel.id, event.params.id),
 		timelineMarksFor(channel.id, event.params.id),
-		forPage(segmentSpansFor(channel.id, event.params.id))
+		forPage(segmentSpansFor(channel.id, event.params.id)),
+		cutWaveformFor(channel.id, event.params.id)
 	]);
 	return {
 		state,
@@ -43,7 +45,9 @@ export const load = (async (event) => {
 		/** Placed cautions, segment notes, featured parts and spec cards. */
 		marks: marks as TimelineMark[],
 		/** The rundown's segments with their in and out points on the timeline. */
-		segments
+		segments,
+		/** The cut's sound lane under the timeline (CutWaveform.svelte); null without a cut. */
+		cutWaveform
 	};
 }) satisfies PageServerLoad;
 
