@@ -5,6 +5,7 @@ import { addChapter, editStateFor } from '$lib/server/edit/edit';
 import { chapterDownloadFor } from '$lib/server/edit/chapter-download';
 import { chapterCreateSchema, chapterFormatSchema } from '$lib/schemas/edit';
 import type { RequestHandler } from './$types';
+import { attachment } from '$lib/server/http/attachment';
 
 /**
  * Any crew member reads the chapters. Without `format`: the edit state as JSON, with the rule
@@ -23,15 +24,9 @@ export const GET: RequestHandler = api(async (event) => {
 	}
 	const download = await chapterDownloadFor(channel.id, event.params.id, wanted.data);
 	const { queryMilliseconds, renderMilliseconds } = download.timing;
-	return new Response(download.body, {
-		headers: {
-			'content-type': download.contentType,
-			'content-disposition': `attachment; filename="${download.filename}"`,
-			'cache-control': 'private, no-store',
-			'x-content-type-options': 'nosniff',
-			// Server-side time inside this handler (the auth hooks before it are not included); read by scripts/bench.ts.
-			'server-timing': `db;dur=${queryMilliseconds.toFixed(3)};desc="1 query", render;dur=${renderMilliseconds.toFixed(3)}, total;dur=${(performance.now() - started).toFixed(3)}`
-		}
+	return attachment(download.body, download, {
+		// Server-side time inside this handler (the auth hooks before it are not included); read by scripts/bench.ts.
+		'server-timing': `db;dur=${queryMilliseconds.toFixed(3)};desc="1 query", render;dur=${renderMilliseconds.toFixed(3)}, total;dur=${(performance.now() - started).toFixed(3)}`
 	});
 });
 

@@ -8,6 +8,7 @@ import {
 } from '$lib/server/edit/markers';
 import { markerFormatSchema, markerImportSchema } from '$lib/schemas/markers';
 import type { RequestHandler } from './$types';
+import { attachment } from '$lib/server/http/attachment';
 
 /**
  * Any crew member downloads the markers for the edit system: `?format=edl` (CMX 3600) or
@@ -22,14 +23,7 @@ export const GET: RequestHandler = api(async (event) => {
 		throw new DomainError(400, message, { format: [message] });
 	}
 	const download = await markerDownloadFor(channel.id, event.params.id, wanted.data);
-	return new Response(download.body, {
-		headers: {
-			'content-type': download.contentType,
-			'content-disposition': `attachment; filename="${download.filename}"`,
-			'cache-control': 'private, no-store',
-			'x-content-type-options': 'nosniff'
-		}
-	});
+	return attachment(download.body, download);
 });
 
 /**

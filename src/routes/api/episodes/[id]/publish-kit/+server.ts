@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { api, parseWith } from '$lib/server/http/api';
 import { requireRole } from '$lib/server/auth/guard';
+import { attachment } from '$lib/server/http/attachment';
 import { publishKitFor, renderKit } from '$lib/server/merch/publish-kit';
 import { kitFormatSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
@@ -20,12 +21,12 @@ export const GET: RequestHandler = api(async (event) => {
 	};
 	if (format === null) return json(kit, { headers: timing });
 	const file = renderKit(kit, parseWith(kitFormatSchema, format));
-	return new Response(file.body, {
-		headers: {
-			...timing,
-			'content-type': file.contentType,
-			'content-disposition': `attachment; filename="${kit.episode.slug}-publish-kit.${file.extension}"`,
-			'x-content-type-options': 'nosniff'
-		}
-	});
+	return attachment(
+		file.body,
+		{
+			contentType: file.contentType,
+			filename: `${kit.episode.slug}-publish-kit.${file.extension}`
+		},
+		timing
+	);
 });

@@ -4,6 +4,7 @@ import { requireRole } from '$lib/server/auth/guard';
 import { createSpecCard, specCardDownloadFor, specCardsFor } from '$lib/server/edit/spec-cards';
 import { specCardCreateSchema, specCardExportFormatSchema } from '$lib/schemas/spec-cards';
 import type { RequestHandler } from './$types';
+import { attachment } from '$lib/server/http/attachment';
 
 /**
  * Any crew member reads the spec cards. Without `format`: the episode's cards with their lines as
@@ -21,14 +22,7 @@ export const GET: RequestHandler = api(async (event) => {
 		throw new DomainError(400, message, { format: [message] });
 	}
 	const download = await specCardDownloadFor(channel.id, event.params.id, wanted.data);
-	return new Response(download.body, {
-		headers: {
-			'content-type': download.contentType,
-			'content-disposition': `attachment; filename="${download.filename}"`,
-			'cache-control': 'private, no-store',
-			'x-content-type-options': 'nosniff'
-		}
-	});
+	return attachment(download.body, download);
 });
 
 /** The editor or the producer adds a card; its numbers are checked by the spec parsers (400 with their words). */
