@@ -1,22 +1,25 @@
 /**
  * What the edit timeline shows besides chapters, gathered from each area in one place:
- * placed cautions (rundown), segment notes and the parts they show, spec cards, and the uploaded cut.
+ * placed cautions (rundown), segment notes and the parts they show, spec cards, open review comments
+ * on the current version, and the current version of the cut.
  */
 import { db } from '../db';
 import type { TimelineMark } from '$lib/components/timeline';
 import { specCardsFor } from './spec-cards';
 import { cautionMarksFor } from '../episodes/cautions';
+import { secondsToFrames } from '$lib/timecode';
 
 export async function timelineMarksFor(
 	channelId: string,
 	episodeId: string
 ): Promise<TimelineMark[]> {
-	const [cautions, notes, specCards] = await Promise.all([
+	const [cautions, notes, specCards, comments] = await Promise.all([
 		cautionMarksFor(channelId, episodeId),
 		placedNotes(channelId, episodeId),
-		specCardMarksFor(channelId, episodeId)
+		specCardMarksFor(channelId, episodeId),
+		openCommentMarks(channelId, episodeId)
 	]);
-	return [...cautions, ...notes, ...specCards];
+	return [...cautions, ...notes, ...specCards, ...comments];
 }
 
 /** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
@@ -78,17 +81,57 @@ async function placedNotes(channelId: string, episodeId: string): Promise<Timeli
 	return marks;
 }
 
-/** The newest uploaded proxy or final cut of the episode, as a URL a video element can seek in. */
-export async function cutVideoUrlFor(channelId: string, episodeId: string): Promise<string | null> {
+/** Open review comments (they are all on the current version: they carry over), one query. */
+async function openCommentMarks(channelId: string, episodeId: string): Promise<TimelineMark[]> {
+	const rows = await db
+		.selectFrom('cutComment')
+		.innerJoin('episode', 'episode.id', 'cutComment.episodeId')
+		.innerJoin('cutVersion', 'cutVersion.id', 'cutComment.cutVersionId')
+		.select(['cutComment.id', 'cutComment.startFrame', 'cutComment.body', 'cutVersion.number'])
+		.where('episode.id', '=', episodeId)
+		.where('episode.channelId', '=', channelId)
+		.where('cutComment.state', '=', 'open')
+		.orderBy('cutComment.startFrame')
+		.execute();
+	return rows.map((row) => ({
+		kind: 'comment' as const,
+		atFrame: row.startFrame,
+		label: `v${row.number}: ${row.body.length > 80 ? row.body.slice(0, 79) + '…' : row.body}`,
+		href: `/episodes/${episodeId}/screening#comment-${row.id}`
+	}));
+}
+
+/**
+ * The current version of the cut (the newest upload, a numbered version) as a URL a video element
+ * can seek in, with its label and length: the edit timeline works on it.
+ */
+export async function currentCutFor(
+	channelId: string,
+	episodeId: string
+): Promise<{ url: string; label: string; lengthFrames: number | null } | null> {
 	const cut = await db
-		.selectFrom('footage')
-		.select('id')
-		.where('channelId', '=', channelId)
-		.where('episodeId', '=', episodeId)
-		.where('purpose', '=', 'cut')
-		.where('fileType', 'like', 'video/%')
-		.orderBy('createdAt', 'desc')
+		.selectFrom('cutVersion')
+		.innerJoin('footage', 'footage.id', 'cutVersion.footageId')
+		.innerJoin('episode', 'episode.id', 'cutVersion.episodeId')
+		.select([
+			'footage.id',
+			'footage.fileType',
+			'footage.durationSeconds',
+			'cutVersion.number',
+			'episode.frameRate'
+		])
+		.where('episode.channelId', '=', channelId)
+		.where('episode.id', '=', episodeId)
+		.orderBy('cutVersion.number', 'desc')
 		.limit(1)
 		.executeTakeFirst();
-	return cut ? `/api/footage/${cut.id}/file` : null;
+	if (!cut || !cut.fileType.startsWith('video/')) return null;
+	return {
+		url: `/api/footage/${cut.id}/file`,
+		label: `v${cut.number}`,
+		lengthFrames:
+			cut.durationSeconds === null
+				? null
+				: secondsToFrames(Number(cut.durationSeconds), cut.frameRate)
+	};
 }

@@ -18,7 +18,7 @@ import {
 import { segmentSpansFor, setSegmentSpan } from '$lib/server/edit/segment-spans';
 import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
 import type { TimelineMark } from '$lib/components/timeline';
-import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
+import { currentCutFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -30,17 +30,18 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await forPage(editStateFor(channel.id, event.params.id));
-	const [cutVideoUrl, marks, segments] = await Promise.all([
-		cutVideoUrlFor(channel.id, event.params.id),
+	const [currentCut, marks, segments] = await Promise.all([
+		currentCutFor(channel.id, event.params.id),
 		timelineMarksFor(channel.id, event.params.id),
 		forPage(segmentSpansFor(channel.id, event.params.id))
 	]);
 	return {
 		state,
 		canEdit: hasRole(event.locals, 'editor', 'producer'),
-		/** The newest uploaded proxy or final cut, played under the timeline. */
-		cutVideoUrl,
-		/** Placed cautions, segment notes, featured parts and spec cards. */
+		/** The current version of the cut (the newest), played under the timeline. */
+		cutVideoUrl: currentCut?.url ?? null,
+		currentCut,
+		/** Placed cautions, segment notes, featured parts, spec cards and open review comments. */
 		marks: marks as TimelineMark[],
 		/** The rundown's segments with their in and out points on the timeline. */
 		segments
