@@ -3,6 +3,7 @@
  * placed cautions (rundown), segment notes and the parts they show, spec cards, open review comments
  * on the current version, and the current version of the cut.
  */
+import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import type { TimelineMark } from '$lib/components/timeline';
 import { specCardsFor } from './spec-cards';
@@ -13,13 +14,12 @@ export async function timelineMarksFor(
 	channelId: string,
 	episodeId: string
 ): Promise<TimelineMark[]> {
-	const [cautions, notes, specCards, comments] = await Promise.all([
+	const [cautions, notes, specCards] = await Promise.all([
 		cautionMarksFor(channelId, episodeId),
 		placedNotes(channelId, episodeId),
-		specCardMarksFor(channelId, episodeId),
-		openCommentMarks(channelId, episodeId)
+		specCardMarksFor(channelId, episodeId)
 	]);
-	return [...cautions, ...notes, ...specCards, ...comments];
+	return [...cautions, ...notes, ...specCards];
 }
 
 /** The episode's placed spec cards as timeline marks, in program-time order; each links to the card on the spec-cards page. */
@@ -81,26 +81,6 @@ async function placedNotes(channelId: string, episodeId: string): Promise<Timeli
 	return marks;
 }
 
-/** Open review comments (they are all on the current version: they carry over), one query. */
-async function openCommentMarks(channelId: string, episodeId: string): Promise<TimelineMark[]> {
-	const rows = await db
-		.selectFrom('cutComment')
-		.innerJoin('episode', 'episode.id', 'cutComment.episodeId')
-		.innerJoin('cutVersion', 'cutVersion.id', 'cutComment.cutVersionId')
-		.select(['cutComment.id', 'cutComment.startFrame', 'cutComment.body', 'cutVersion.number'])
-		.where('episode.id', '=', episodeId)
-		.where('episode.channelId', '=', channelId)
-		.where('cutComment.state', '=', 'open')
-		.orderBy('cutComment.startFrame')
-		.execute();
-	return rows.map((row) => ({
-		kind: 'comment' as const,
-		atFrame: row.startFrame,
-		label: `v${row.number}: ${row.body.length > 80 ? row.body.slice(0, 79) + '…' : row.body}`,
-		href: `/episodes/${episodeId}/screening#comment-${row.id}`
-	}));
-}
-
 /**
  * The current version of the cut (the newest upload, a numbered version) as a URL a video element
  * can seek in, with its label and length: the edit timeline works on it.
@@ -108,30 +88,51 @@ async function openCommentMarks(channelId: string, episodeId: string): Promise<T
 export async function currentCutFor(
 	channelId: string,
 	episodeId: string
-): Promise<{ url: string; label: string; lengthFrames: number | null } | null> {
+): Promise<{
+	url: string | null;
+	label: string;
+	lengthFrames: number | null;
+	/** Open review comments (all on the current version: they carry over) as timeline marks. */
+	commentMarks: TimelineMark[];
+} | null> {
+	// One query for the version and its open comments: the edit tab's query budget has no room for two.
 	const cut = await db
 		.selectFrom('cutVersion')
 		.innerJoin('footage', 'footage.id', 'cutVersion.footageId')
 		.innerJoin('episode', 'episode.id', 'cutVersion.episodeId')
-		.select([
+		.select((eb) => [
 			'footage.id',
 			'footage.fileType',
 			'footage.durationSeconds',
 			'cutVersion.number',
-			'episode.frameRate'
+			'episode.frameRate',
+			jsonArrayFrom(
+				eb
+					.selectFrom('cutComment')
+					.select(['cutComment.id', 'cutComment.startFrame', 'cutComment.body'])
+					.whereRef('cutComment.episodeId', '=', 'episode.id')
+					.where('cutComment.state', '=', 'open')
+					.orderBy('cutComment.startFrame')
+			).as('openComments')
 		])
 		.where('episode.channelId', '=', channelId)
 		.where('episode.id', '=', episodeId)
 		.orderBy('cutVersion.number', 'desc')
 		.limit(1)
 		.executeTakeFirst();
-	if (!cut || !cut.fileType.startsWith('video/')) return null;
+	if (!cut) return null;
 	return {
-		url: `/api/footage/${cut.id}/file`,
+		url: cut.fileType.startsWith('video/') ? `/api/footage/${cut.id}/file` : null,
 		label: `v${cut.number}`,
 		lengthFrames:
 			cut.durationSeconds === null
 				? null
-				: secondsToFrames(Number(cut.durationSeconds), cut.frameRate)
+				: secondsToFrames(Number(cut.durationSeconds), cut.frameRate),
+		commentMarks: cut.openComments.map((row) => ({
+			kind: 'comment' as const,
+			atFrame: row.startFrame,
+			label: `v${cut.number}: ${row.body.length > 80 ? row.body.slice(0, 79) + '…' : row.body}`,
+			href: `/episodes/${episodeId}/screening#comment-${row.id}`
+		}))
 	};
 }

@@ -40,9 +40,9 @@ export const load = (async (event) => {
 		canEdit: hasRole(event.locals, 'editor', 'producer'),
 		/** The current version of the cut (the newest), played under the timeline. */
 		cutVideoUrl: currentCut?.url ?? null,
-		currentCut,
+		currentCut: currentCut && { label: currentCut.label, lengthFrames: currentCut.lengthFrames },
 		/** Placed cautions, segment notes, featured parts, spec cards and open review comments. */
-		marks: marks as TimelineMark[],
+		marks: [...marks, ...(currentCut?.commentMarks ?? [])] as TimelineMark[],
 		/** The rundown's segments with their in and out points on the timeline. */
 		segments
 	};
