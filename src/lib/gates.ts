@@ -22,6 +22,7 @@
  */
 import { hazardById, type HazardId } from './cautions';
 import type { Role } from './roles';
+import type { CutApproval } from './cut-review';
 import type { Stage } from './stages';
 import {
 	capturedRateFit,
@@ -99,6 +100,14 @@ export interface GateSnapshot {
 	/** Featured parts not linked to an active catalogue part, in words. */
 	/** Why the featured parts aren't ready, each with whose job it is (merch links parts, the editor places notes). */
 	featuredPartProblems: { message: string; fixedBy: Role }[];
+	/**
+	 * The cut review: the current (newest) version's number and the producer's answer (null: no cut
+	 * uploaded), and how many comments are still open.
+	 */
+	cutReview: {
+		current: { number: number; approval: CutApproval } | null;
+		openComments: number;
+	};
 	/** What the publish gate reads besides the lock's rules. */
 	publishing: {
 		title: string;
@@ -129,6 +138,9 @@ export type GateRule =
 	| 'caution-outside-segment'
 	| 'caution-duration-missing'
 	| 'caution-too-short'
+	| 'cut-missing'
+	| 'cut-not-approved'
+	| 'cut-comments-open'
 	| 'publish-date-missing'
 	| 'disclosure-missing'
 	| 'title-refused';
@@ -414,6 +426,43 @@ function lockRules(snapshot: GateSnapshot): GateReason[] {
 	return reasons;
 }
 
+/**
+ * Picture lock needs the current version approved with no open comments; each reason names who
+ * fixes it. Only at edit → locked: from then on no version arrives and the review is fixed.
+ */
+function cutReviewRules(snapshot: GateSnapshot): GateReason[] {
+	const { current, openComments } = snapshot.cutReview;
+	const reasons: GateReason[] = [];
+	if (!current) {
+		reasons.push({
+			rule: 'cut-missing',
+			subject: 'Cut',
+			message:
+				'No cut is uploaded for review: the editor uploads one on the footage page (it becomes v1).',
+			fixedBy: 'editor'
+		});
+		return reasons;
+	}
+	if (openComments > 0)
+		reasons.push({
+			rule: 'cut-comments-open',
+			subject: 'Cut review',
+			message: `${openComments} open comment${openComments === 1 ? '' : 's'} for the editor: resolve each one, or answer “won't change” with a reason, on the screening page.`,
+			fixedBy: 'editor'
+		});
+	if (current.approval !== 'approved')
+		reasons.push({
+			rule: 'cut-not-approved',
+			subject: 'Cut review',
+			message:
+				current.approval === 'changes'
+					? `The producer asked for changes to v${current.number}: the editor uploads a new version, or the producer approves v${current.number}.`
+					: `The producer has not approved v${current.number}: the producer watches it on the screening page and approves it.`,
+			fixedBy: current.approval === 'changes' ? 'editor' : 'producer'
+		});
+	return reasons;
+}
+
 /** A disclosure beside tracked links, and a title platforms take: the publish gate's own rules. */
 function publishingRules(snapshot: GateSnapshot): GateReason[] {
 	const reasons: GateReason[] = [];
@@ -453,7 +502,7 @@ export function gateChecksFor(snapshot: GateSnapshot, to: Stage): GateReason[] {
 				...assigneeRule(snapshot, 'editor', 'editor')
 			];
 		case 'locked':
-			return lockRules(snapshot);
+			return [...lockRules(snapshot), ...cutReviewRules(snapshot)];
 		case 'published': {
 			const reasons = lockRules(snapshot);
 			if (!snapshot.publishDate) {

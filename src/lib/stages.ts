@@ -139,7 +139,8 @@ const FIXED_FROM: Record<Lockable, Stage> = {
 /** Why each kind of work is fixed, at picture lock and once published, in the crew's words. */
 const WHY: Record<Lockable, { locked: string; published: string }> = {
 	cut: {
-		locked: "The picture is locked, so the cut's length is final.",
+		locked:
+			'The picture is locked, so the cut is final: its length, its approved version and its review.',
 		published:
 			'This episode is published: its chapters are in the live description and the cut is final.'
 	},

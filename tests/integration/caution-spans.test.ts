@@ -10,6 +10,7 @@
  */
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { approvedCutFixture } from '../helpers/cut-review';
 
 const STANDS =
 	'Use rated jack stands on solid, level ground. Never work under a vehicle held up only by a jack.';
@@ -54,6 +55,8 @@ async function flaggedEpisode(caution: { atFrame: number | null; durationFrames:
 		});
 		expect(added.status, JSON.stringify(added.body)).toBe(201);
 	}
+	// The cut review's own lock rules are tested in cut-review.test.ts: here v1 is approved.
+	await approvedCutFixture(episode.id);
 	return { episodeId: episode.id as string, segmentId: segment.id as string };
 }
 

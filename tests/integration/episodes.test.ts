@@ -322,7 +322,7 @@ describe('an episode from idea to shoot and on', () => {
 		await mailMatching(demo.editor, /Edit is yours: Brake line swap/, editAt);
 
 		// Edit → locked: no chapters yet, and both cautions of the flagged segment unplaced with no
-		// time on screen; each named.
+		// time on screen; each named; and no cut uploaded for review.
 		const lock = await editor.api(`/api/episodes/${episode.id}/stage`, {
 			method: 'POST',
 			json: { from: 'edit', to: 'locked' }
@@ -334,7 +334,8 @@ describe('an episode from idea to shoot and on', () => {
 			'caution-unplaced',
 			'caution-duration-missing',
 			'caution-unplaced',
-			'caution-duration-missing'
+			'caution-duration-missing',
+			'cut-missing'
 		]);
 		expect(lock.body.gate.reasons[0].message).toBe(
 			'Mark at least three chapters on the edit timeline.'
@@ -374,7 +375,8 @@ describe('an episode from idea to shoot and on', () => {
 		expect(lock2.body.gate.reasons.map((r: { rule: string }) => r.rule)).toEqual([
 			'chapters-missing',
 			'segment-span-missing',
-			'segment-span-missing'
+			'segment-span-missing',
+			'cut-missing'
 		]);
 
 		// The editor may not move it back; a producer may, without a gate, and the host is told why.
@@ -439,10 +441,12 @@ describe('an episode from idea to shoot and on', () => {
 		const [mule] = await sql(`SELECT id FROM episode WHERE slug = 'mule-rear-block-lift'`);
 		const report = await producer.api(`/api/episodes/${mule.id}/stage`);
 		expect(report.body.stage).toBe('edit');
-		// The demo leaves two things for the editor: one caution and one part note without a time in the cut.
-		expect(report.body.reasons).toHaveLength(2);
+		// The demo leaves two things for the editor: one caution and one part note without a time in
+		// the cut; and its cut has no approved version (none uploaded, or one another test uploaded).
+		expect(report.body.reasons).toHaveLength(3);
 		expect(report.body.reasons).toEqual(
 			expect.arrayContaining([
+				expect.objectContaining({ rule: expect.stringMatching(/^cut-(missing|not-approved)$/) }),
 				expect.objectContaining({
 					rule: 'caution-unplaced',
 					subject: 'Segment 6 “Matched rear shocks and the brake hose”'

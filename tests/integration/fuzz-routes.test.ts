@@ -62,6 +62,8 @@ const PARAM_KINDS: Record<string, string> = {
 	'tokens/[id]': 'api_token',
 	'cautions/[hazard]': 'hazard',
 	'media/[kind]': 'media_kind',
+	'versions/[versionId]': 'cut_version',
+	'comments/[commentId]': 'cut_comment',
 	// pages
 	'rundown/[segmentId]': 'segment',
 	'script/[segmentId]': 'segment',
@@ -155,7 +157,9 @@ const PARENT_KIND: Record<string, string> = {
 	spec_card: 'episode',
 	segment_note: 'episode',
 	segment: 'episode',
-	hazard: 'segment'
+	hazard: 'segment',
+	cut_version: 'episode',
+	cut_comment: 'episode'
 };
 
 async function poolsFor(channelId: string, excludePerson: string): Promise<Pools> {
@@ -197,6 +201,12 @@ async function poolsFor(channelId: string, excludePerson: string): Promise<Pools
 			 UNION ALL SELECT g.id FROM gear_item g JOIN shoot_day d ON d.id = g.shoot_day_id WHERE d.channel_id = $1`
 		),
 		footage: await q(`SELECT id FROM footage WHERE channel_id = $1`),
+		cut_version: await q(
+			`SELECT v.id, v.episode_id AS parent FROM cut_version v JOIN episode e ON e.id = v.episode_id WHERE e.channel_id = $1`
+		),
+		cut_comment: await q(
+			`SELECT c.id, c.episode_id AS parent FROM cut_comment c JOIN episode e ON e.id = c.episode_id WHERE e.channel_id = $1`
+		),
 		api_token: await q(`SELECT id FROM api_token WHERE channel_id = $1`),
 		build: await q(`SELECT id FROM build WHERE channel_id = $1`),
 		recording_profile: await q(`SELECT id FROM recording_profile WHERE channel_id = $1`),

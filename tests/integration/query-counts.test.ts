@@ -37,8 +37,9 @@ const TAB_BUDGETS: Record<string, number> = {
 	shots: 8,
 	// The edit page also reads the segments' spans in the cut (caution checks), the footage page
 	// each clip's media outputs (proxy, thumbnails, waveform): one query each, not one per row.
-	// The edit page's waveform lane reads the cut's peaks job: one more.
-	edit: 13,
+	// The current cut version comes with its open comments and its peaks job (the Sound lane)
+	// in the same query.
+	edit: 12,
 	footage: 6,
 	notes: 6,
 	parts: 8,

@@ -52,6 +52,7 @@ function ready(overrides: Partial<GateSnapshot> = {}): GateSnapshot {
 		],
 		chapterProblems: [],
 		featuredPartProblems: [],
+		cutReview: { current: { number: 1, approval: 'approved' }, openComments: 0 },
 		publishing: {
 			title: 'Coil spacer lift on the project pickup',
 			trackedLinks: 3,

@@ -61,7 +61,7 @@ describe('stageLock', () => {
 	test('stageLocks lists every kind of work; editLocks keeps its two reasons word for word', () => {
 		expect(Object.keys(stageLocks('published')).sort()).toEqual([...LOCKABLE].sort());
 		expect(editLocks('locked')).toEqual({
-			cut: "The picture is locked, so the cut's length is final. A producer can move it back to Edit to change it.",
+			cut: 'The picture is locked, so the cut is final: its length, its approved version and its review. A producer can move it back to Edit to change it.',
 			chapters: null
 		});
 		expect(editLocks('published')).toEqual({

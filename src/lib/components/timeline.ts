@@ -3,8 +3,8 @@
  * Timeline components, the edit page's key guide and the tests.
  */
 
-/** Kinds of marks other work feeds the timeline: cautions, segment notes, featured parts, spec cards. */
-export type TimelineMarkKind = 'caution' | 'note' | 'part' | 'spec-card';
+/** Kinds of marks other work feeds the timeline: cautions, segment notes, featured parts, spec cards, review comments. */
+export type TimelineMarkKind = 'caution' | 'note' | 'part' | 'spec-card' | 'comment';
 
 /** One mark at a frame of the cut; `href` makes it a link to where the mark is edited. */
 export interface TimelineMark {
@@ -19,7 +19,8 @@ export const MARK_KINDS: readonly { kind: TimelineMarkKind; lane: string; legend
 	{ kind: 'caution', lane: 'Cautions', legend: 'Caution card on screen' },
 	{ kind: 'note', lane: 'Notes', legend: 'Segment note' },
 	{ kind: 'part', lane: 'Parts', legend: 'Featured part appears' },
-	{ kind: 'spec-card', lane: 'Spec cards', legend: 'Spec card on screen' }
+	{ kind: 'spec-card', lane: 'Spec cards', legend: 'Spec card on screen' },
+	{ kind: 'comment', lane: 'Review', legend: 'Open review comment on the current version' }
 ];
 
 /** A chapter span as the timeline draws it. */

@@ -24,6 +24,8 @@ export interface UploadFields {
 	purpose: 'footage' | 'cut';
 	shootDayId?: string;
 	cameraLabel?: string;
+	/** A cut upload's change note: what is new in this version. */
+	changeNote?: string;
 }
 
 export class UploadQueue {
@@ -45,6 +47,7 @@ export class UploadQueue {
 		const metadata: Record<string, string> = { filename: file.name, filetype: file.type || 'application/octet-stream', episodeId: fields.episodeId, purpose: fields.purpose };
 		if (fields.shootDayId) metadata.shootDayId = fields.shootDayId;
 		if (fields.cameraLabel) metadata.cameraLabel = fields.cameraLabel;
+		if (fields.changeNote) metadata.changeNote = fields.changeNote;
 		const upload = new tus.Upload(file, {
 			endpoint: UPLOAD_PATH,
 			chunkSize: UPLOAD_CHUNK_BYTES,

@@ -12,6 +12,7 @@ import type { PartsTables } from './tables/parts';
 import type { SpecCardTables } from './tables/spec-cards';
 import type { MediaTables } from './tables/media';
 import type { SpeakingPaceTables } from './tables/speaking-pace';
+import type { CutReviewTables } from './tables/cut-review';
 export type { Role } from '$lib/roles';
 export type { Stage } from '$lib/stages';
 
@@ -193,7 +194,8 @@ export interface Database
 		PartsTables,
 		SpecCardTables,
 		SpeakingPaceTables,
-		MediaTables {
+		MediaTables,
+		CutReviewTables {
 	build: BuildTable;
 	part: PartTable;
 	episode: EpisodeTable;

@@ -23,6 +23,7 @@ import { assignmentMap } from './episode-crew';
 import type { GateSnapshot, ScriptStatus } from '$lib/gates';
 import { isHazardId, type HazardId } from '$lib/cautions';
 import { programmeClock, programmeTimecode } from '$lib/timecode';
+import type { CutApproval } from '$lib/cut-review';
 
 function materialsQuery(executor: Executor, channelId: string) {
 	return executor
@@ -112,6 +113,19 @@ function materialsQuery(executor: Executor, channelId: string) {
 					.orderBy('chapter.createdAt')
 					.orderBy('chapter.id')
 			).as('chapters'),
+			eb
+				.selectFrom('cutVersion')
+				.select(sql<string>`number || ':' || approval`.as('current'))
+				.whereRef('cutVersion.episodeId', '=', 'episode.id')
+				.orderBy('cutVersion.number', 'desc')
+				.limit(1)
+				.as('currentCut'),
+			eb
+				.selectFrom('cutComment')
+				.select(sql<number>`count(*)::integer`.as('open'))
+				.whereRef('cutComment.episodeId', '=', 'episode.id')
+				.where('cutComment.state', '=', 'open')
+				.as('openCutComments'),
 			jsonArrayFrom(
 				featuredLinks(executor, eb.ref('episode.id'))
 					.orderBy(sql`segment_note.program_frame ASC NULLS LAST`)
@@ -164,6 +178,16 @@ function groupBy<T, K>(rows: readonly T[], key: (row: T) => K): Map<K, T[]> {
 		else groups.set(key(row), [row]);
 	}
 	return groups;
+}
+
+/** `"2:approved"` (number and answer of the newest version) as the gate reads it; null: no cut. */
+function currentCutOf(text: string | null): GateSnapshot['cutReview']['current'] {
+	if (!text) return null;
+	const [number, approval] = text.split(':');
+	return {
+		number: Number(number),
+		approval: approval as CutApproval
+	};
 }
 
 async function materialsOf(row: Materials): Promise<GateMaterials> {
@@ -224,6 +248,10 @@ async function materialsOf(row: Materials): Promise<GateMaterials> {
 			message: warning.message,
 			fixedBy: warning.kind === 'no-program-time' ? 'editor' : 'merch'
 		})),
+		cutReview: {
+			current: currentCutOf(row.currentCut),
+			openComments: Number(row.openCutComments ?? 0)
+		},
 		publishing: {
 			title: row.title,
 			disclosure: row.disclosure,

@@ -32,6 +32,9 @@ import { reserveUpload, uploadExpiryMs } from './upload-limits';
 import { bodySizeLimit, checkPatchBody } from './patch-body';
 import { keepFinishedUpload } from './object-store';
 import { PostgresLocker } from './tus-locker';
+import { addCutVersion } from '../edit/cut-versions';
+import { changeNoteSchema } from '$lib/schemas/cut-review';
+import { stageLock } from '$lib/stages';
 
 export const uploadDir = () => path.resolve(env.UPLOAD_DIR ?? 'uploads');
 export const maxUploadBytes = () => Number(env.MAX_UPLOAD_BYTES ?? DEFAULT_MAX_UPLOAD_BYTES);
@@ -55,6 +58,7 @@ const metadataSchema = z.object({
 		),
 	clipName: text().trim().max(120).optional(),
 	cameraLabel: text().trim().max(40).optional(),
+	changeNote: changeNoteSchema.optional(),
 	shootDayId: z
 		.string()
 		.refine(isUuid, 'shootDayId must be a shoot day of this episode.')
@@ -69,6 +73,7 @@ interface UploadClaim {
 	purpose: 'footage' | 'cut';
 	clipName: string;
 	cameraLabel: string;
+	changeNote: string;
 	fileName: string;
 	fileType: string;
 }
@@ -222,11 +227,14 @@ export async function answerUpload(
 		}
 		const episode = await db
 			.selectFrom('episode')
-			.select('id')
+			.select(['id', 'stage'])
 			.where('id', '=', meta.episodeId)
 			.where('channelId', '=', channel.id)
 			.executeTakeFirst();
 		if (!episode) return tusError(404, 'That episode was not found in this channel.');
+		// Picture lock fixes the approved version: no new cut arrives until a producer moves it back.
+		const cutLock = meta.purpose === 'cut' ? stageLock(episode.stage, 'cut') : null;
+		if (cutLock) return tusError(409, cutLock);
 		if (meta.shootDayId) {
 			const day = await db
 				.selectFrom('shootDay')
@@ -245,6 +253,7 @@ export async function answerUpload(
 			purpose: meta.purpose,
 			clipName: meta.clipName || fileName.replace(/\.[^.]+$/, ''),
 			cameraLabel: meta.cameraLabel ?? '',
+			changeNote: meta.purpose === 'cut' ? (meta.changeNote ?? '') : '',
 			fileName,
 			fileType: meta.filetype.toLowerCase()
 		});
@@ -336,6 +345,9 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 			.onConflict((oc) => oc.column('uploadId').doNothing())
 			.returning('id')
 			.executeTakeFirst();
+		// Each cut upload is the episode's next numbered version; open comments move to it.
+		if (row && upload.purpose === 'cut')
+			await addCutVersion(trx, upload.episodeId, row.id, upload.changeNote);
 		await trx
 			.updateTable('upload')
 			.set({ completedAt: new Date(), sizeBytes })

@@ -97,6 +97,8 @@ export interface UploadTable {
 	fileType: string;
 	/** Null until known for an upload created with tus Upload-Defer-Length. */
 	sizeBytes: number | null;
+	/** The editor's change note for a cut upload ('' for footage); it moves to the cut version. */
+	changeNote: Generated<string>;
 	createdAt: CreatedAt;
 	completedAt: Date | null;
 }

@@ -18,8 +18,7 @@ import {
 import { segmentSpansFor, setSegmentSpan } from '$lib/server/edit/segment-spans';
 import { assertSegmentOfEpisode } from '$lib/server/episodes/segment-in-channel';
 import type { TimelineMark } from '$lib/components/timeline';
-import { cutVideoUrlFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
-import { cutWaveformFor } from '$lib/server/edit/cut-waveform';
+import { currentCutFor, timelineMarksFor } from '$lib/server/edit/timeline-marks';
 import type { Actions, PageServerLoad } from './$types';
 import { safeRedirectPath } from '$lib/safe-redirect';
 
@@ -31,23 +30,23 @@ import { safeRedirectPath } from '$lib/safe-redirect';
 export const load = (async (event) => {
 	const { channel } = requireRole(event);
 	const state = await forPage(editStateFor(channel.id, event.params.id));
-	const [cutVideoUrl, marks, segments, cutWaveform] = await Promise.all([
-		cutVideoUrlFor(channel.id, event.params.id),
+	const [currentCut, marks, segments] = await Promise.all([
+		currentCutFor(channel.id, event.params.id),
 		timelineMarksFor(channel.id, event.params.id),
-		forPage(segmentSpansFor(channel.id, event.params.id)),
-		cutWaveformFor(channel.id, event.params.id)
+		forPage(segmentSpansFor(channel.id, event.params.id))
 	]);
 	return {
 		state,
 		canEdit: hasRole(event.locals, 'editor', 'producer'),
-		/** The newest uploaded proxy or final cut, played under the timeline. */
-		cutVideoUrl,
-		/** Placed cautions, segment notes, featured parts and spec cards. */
-		marks: marks as TimelineMark[],
+		/** The current version of the cut (the newest), played under the timeline. */
+		cutVideoUrl: currentCut?.url ?? null,
+		currentCut: currentCut && { label: currentCut.label, lengthFrames: currentCut.lengthFrames },
+		/** Placed cautions, segment notes, featured parts, spec cards and open review comments. */
+		marks: [...marks, ...(currentCut?.commentMarks ?? [])] as TimelineMark[],
 		/** The rundown's segments with their in and out points on the timeline. */
 		segments,
-		/** The cut's sound lane under the timeline (CutWaveform.svelte); null without a cut. */
-		cutWaveform
+		/** The current version's sound lane under the timeline (CutWaveform.svelte); null without a video cut. */
+		cutWaveform: currentCut?.waveform ?? null
 	};
 }) satisfies PageServerLoad;
 
