@@ -14,6 +14,7 @@
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { approvedCutFixture } from '../helpers/cut-review';
 
 const smpte = createRequire(import.meta.url)('smpte-timecode') as (
 	timecode: number | string,
@@ -177,6 +178,39 @@ describe('export at 29.97 drop-frame from 01:00:00;00', () => {
 });
 
 describe('export at 25 fps from 01:00:00:00', () => {
+	test('open review comments travel as markers; answered ones stay home', async () => {
+		const id = await newEpisode('25', '01:00:00:00', 3000);
+		await approvedCutFixture(id);
+		const [version] = await sql(`SELECT id FROM cut_version WHERE episode_id = $1`, [id]);
+		const post = (json: Record<string, unknown>) =>
+			visitors.producer.api(`/api/episodes/${id}/cut/comments`, {
+				method: 'POST',
+				json: { versionId: version.id, ...json }
+			});
+		// A range from 01:00:10:00 to 01:00:12:12 on the programme clock: frames 250 to 312 at 25
+		// labels a second (SMPTE ST 12-1, hand-worked: 10 s × 25 = 250; 12 s 12 fr = 312).
+		const range = await post({ atFrame: 250, untilFrame: 312, body: 'Hold on the lug pattern' });
+		expect(range.status, JSON.stringify(range.body)).toBe(201);
+		const done = await post({ atFrame: 500, body: 'Already fixed' });
+		expect(done.status).toBe(201);
+		await sql(
+			`UPDATE cut_comment SET state = 'resolved' WHERE body = 'Already fixed' AND episode_id = $1`,
+			[id]
+		);
+		const edl = await (await visitors.editor.request(`${markersPath(id)}?format=edl`)).text();
+		const locators = edl.split('\n').filter((line) => line.startsWith('* LOC: '));
+		expect(locators).toHaveLength(1);
+		expect(locators[0]).toMatch(/^\* LOC: 01:00:10:00 COMMENT Review v1: /);
+		expect(smpte('01:00:10:00', 25, false).frameCount - 90000).toBe(250);
+		expect(edl).toContain('* NOTE: Hold on the lug pattern');
+		const otio = (await visitors.editor.api(`${markersPath(id)}?format=otio`)).body;
+		const markers = otio.tracks.markers;
+		expect(markers).toHaveLength(1);
+		// OpenTimelineIO: a marker's marked_range is a TimeRange of RationalTimes (start, duration).
+		expect(markers[0].marked_range.start_time).toMatchObject({ rate: 25, value: 250 });
+		expect(markers[0].marked_range.duration).toMatchObject({ rate: 25, value: 62 });
+	});
+
 	test('labels are non-drop from the one-hour start in both files', async () => {
 		const id = await newEpisode('25', '01:00:00:00', 3000);
 		await addChapters(id, [

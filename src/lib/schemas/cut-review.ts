@@ -43,7 +43,7 @@ export const commentCreateSchema = z
 	})
 	.strict()
 	.refine((input) => input.at !== undefined || input.atFrame !== undefined, {
-		message: 'Type where the comment is, e.g. 00:01:00;00, or press C at the playhead.',
+		message: 'Type where the comment is, e.g. 00:13:40;00 or 13:40, or press C at the playhead.',
 		path: ['at']
 	});
 export type CommentCreate = z.infer<typeof commentCreateSchema>;

@@ -1,7 +1,7 @@
 /**
  * Markers out to an edit system and chapter markers back in. `markersFor` gathers everything the
- * cut carries as one generic list (chapters, placed caution cards, placed spec cards; review
- * comments join with one more source in its Promise.all); the files are written by $lib/edit/edl.ts
+ * cut carries as one generic list (chapters, placed caution cards, placed spec cards, open review
+ * comments); the files are written by $lib/edit/edl.ts
  * and otio.ts at the episode's programme clock. An import reads a file the editor uploads, shows
  * what would change, and writes it on confirm in one transaction behind the stage lock.
  */
@@ -94,6 +94,36 @@ function specNote(card: SpecCard): string {
 		.join(' · ');
 }
 
+/**
+ * Open review comments (they all sit on the current version: open ones carry over), each at its
+ * frame or over its range, named by who wrote it, with its words as the note.
+ */
+async function commentMarkers(episodeId: string, executor: Executor): Promise<Marker[]> {
+	const rows = await executor
+		.selectFrom('cutComment')
+		.innerJoin('cutVersion', 'cutVersion.id', 'cutComment.cutVersionId')
+		.leftJoin('person', 'person.id', 'cutComment.authorId')
+		.select([
+			'cutComment.startFrame',
+			'cutComment.endFrame',
+			'cutComment.body',
+			'cutVersion.number',
+			'person.name'
+		])
+		.where('cutComment.episodeId', '=', episodeId)
+		.where('cutComment.state', '=', 'open')
+		.orderBy('cutComment.startFrame')
+		.orderBy('cutComment.createdAt')
+		.execute();
+	return rows.map((row) => ({
+		frame: row.startFrame,
+		durationFrames: Math.max(0, (row.endFrame ?? row.startFrame) - row.startFrame),
+		kind: 'comment',
+		name: `Review v${row.number}: ${row.name ?? 'former crew member'}`,
+		note: row.body
+	}));
+}
+
 /** The episode and every marker its cut carries; 404 for another channel's episode. */
 export async function markersFor(
 	channelId: string,
@@ -106,8 +136,8 @@ export async function markersFor(
 	const lists = await Promise.all([
 		chapterMarkers(episode),
 		cautionMarkers(episode.id, executor),
-		specMarkers(channelId, episode.id, executor)
-		// Review comments: one more source here, e.g. commentMarkers(episode.id, executor).
+		specMarkers(channelId, episode.id, executor),
+		commentMarkers(episode.id, executor)
 	]);
 	return { episode, clock: clockOfEpisode(episode), markers: lists.flat() };
 }
