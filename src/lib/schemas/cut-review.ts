@@ -32,9 +32,7 @@ const bodySchema = (empty: string) =>
 /** A comment at a typed time (`at`) or a frame (`atFrame`, from the player); `until` makes it a range. */
 export const commentCreateSchema = z
 	.object({
-		versionId: z
-			.string({ error: 'Pick the version you watched.' })
-			.min(1, 'Pick the version you watched.'),
+		versionId: z.uuid({ error: 'Pick the version you watched.' }),
 		at: timeTextSchema.optional(),
 		atFrame: frameSchema('frame').optional(),
 		until: z.union([z.literal(''), timeTextSchema]).optional(),

@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { MARKER_FILE_LIMIT_BYTES } from '$lib/edit/markers';
+import { text as storableText } from './fields';
 
 export const MARKER_FORMATS = ['edl', 'otio'] as const;
 export type MarkerFormat = (typeof MARKER_FORMATS)[number];
@@ -17,12 +18,10 @@ const limitInKilobytes = MARKER_FILE_LIMIT_BYTES / 1024;
 
 export const markerImportSchema = z
 	.object({
-		fileName: z
-			.string({ error: 'The file name is text.' })
+		fileName: storableText('The file name is text.')
 			.max(255, 'That file name is too long; rename the file and upload it again.')
 			.optional(),
-		text: z
-			.string({ error: 'Choose the EDL or OpenTimelineIO file exported from the edit system.' })
+		text: storableText('Choose the EDL or OpenTimelineIO file exported from the edit system.')
 			.min(1, 'That file is empty. Export the markers from the edit system again.')
 			// Characters, not bytes: the browser checks the bytes first; this bounds what the server reads.
 			.max(
@@ -33,8 +32,7 @@ export const markerImportSchema = z
 		/** Absent or false: only show what would change. True: write it. */
 		confirm: z.boolean({ error: 'confirm is true or false.' }).optional(),
 		/** The chapter list's fingerprint the preview was made from; a confirm needs it. */
-		basis: z
-			.string({ error: 'basis comes from the preview.' })
+		basis: storableText('basis comes from the preview.')
 			.max(40, 'basis comes from the preview.')
 			.optional()
 	})
