@@ -152,14 +152,24 @@ export async function signedIn(email: string, from?: string): Promise<Visitor> {
 	return visitor;
 }
 
-export async function mailTo(address: string, { after = 0, timeoutMs = 15_000 } = {}) {
+/**
+ * The first mail to `address` received at or after `after` (and whose subject contains `subject`,
+ * when given: other test files running at the same time may mail the same demo person).
+ */
+export async function mailTo(
+	address: string,
+	{ after = 0, timeoutMs = 15_000, subject = '' } = {}
+) {
 	const deadline = Date.now() + timeoutMs;
 	while (Date.now() < deadline) {
 		const response = await fetch(`${baseUrl()}/dev/mail/messages.json`);
 		const { messages } = (await response.json()) as {
 			messages: { to: string[]; subject: string; text: string; receivedAt: string }[];
 		};
-		const found = messages.find((m) => m.to.includes(address) && Date.parse(m.receivedAt) >= after);
+		const found = messages.find(
+			(m) =>
+				m.to.includes(address) && Date.parse(m.receivedAt) >= after && m.subject.includes(subject)
+		);
 		if (found) return found;
 		await new Promise((resolve) => setTimeout(resolve, 200));
 	}

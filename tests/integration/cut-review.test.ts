@@ -216,7 +216,10 @@ describe.skipIf(!existsSync(FFMPEG))('cut review', () => {
 		expect(await outboxTo('dana@torquehaven.test')).toBe(1);
 		expect(await outboxTo('priya@torquehaven.test')).toBe(1);
 		expect(await outboxTo('rico@torquehaven.test')).toBe(0);
-		const mail = await mailTo('dana@torquehaven.test', { after: before });
+		const mail = await mailTo('dana@torquehaven.test', {
+			after: before,
+			subject: 'mentioned you'
+		});
 		expect(mail.subject).toContain('mentioned you');
 		expect(mail.text).toContain('v1 00:00:02;00');
 		expect(mail.text).toContain(`/episodes/${episodeId}/screening`);

@@ -44,7 +44,9 @@ const TAB_BUDGETS: Record<string, number> = {
 	notes: 6,
 	parts: 8,
 	publish: 3,
-	'spec-cards': 5
+	'spec-cards': 5,
+	// Versions, their comments with replies, and the crew for mentions: one query each.
+	screening: 8
 };
 const ROLES = ['producer', 'host', 'camera', 'editor', 'merch'] as const;
 
