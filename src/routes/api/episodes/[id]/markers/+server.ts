@@ -12,7 +12,7 @@ import { attachment } from '$lib/server/http/attachment';
 
 /**
  * Any crew member downloads the markers for the edit system: `?format=edl` (CMX 3600) or
- * `?format=otio` (OpenTimelineIO), chapters, caution cards and spec cards at programme timecode.
+ * `?format=otio` (OpenTimelineIO), chapters, caution cards, spec cards and open review comments at programme timecode.
  */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
