@@ -16,6 +16,7 @@ import { frameFromTyped } from './typed-time';
 import { APPROVAL_LABELS, carriedFrames, versionLabel, type CutApproval } from '$lib/cut-review';
 import { secondsToFrames, TimecodeError, type ProgrammeClock } from '$lib/timecode';
 import type { ApprovalInput } from '$lib/schemas/cut-review';
+import { stageLock } from '$lib/stages';
 
 export interface CutVersionView {
 	id: string;
@@ -42,15 +43,26 @@ export interface CutVersionView {
 
 const versionNotFound = () => notFound('That version of the cut');
 
-/** Adds the next version for a finished cut upload and moves the episode's open comments to it. */
+/**
+ * Adds the next version for a finished cut upload and moves the episode's open comments to it;
+ * answers whether it did. An upload created before picture lock whose last bytes arrive after it
+ * stays a cut file of the episode (nothing sent is lost) but is no version: the lock fixes the
+ * approved one.
+ */
 export async function addCutVersion(
 	trx: Executor,
 	episodeId: string,
 	footageId: string,
 	changeNote: string
-): Promise<void> {
+): Promise<boolean> {
 	// The episode row first, as every write does: numbers never collide and a stage move waits.
-	await trx.selectFrom('episode').select('id').where('id', '=', episodeId).forUpdate().execute();
+	const episode = await trx
+		.selectFrom('episode')
+		.select('stage')
+		.where('id', '=', episodeId)
+		.forUpdate()
+		.executeTakeFirst();
+	if (!episode || stageLock(episode.stage, 'cut')) return false;
 	const added = await trx
 		.insertInto('cutVersion')
 		.values((eb) => ({
@@ -77,6 +89,7 @@ export async function addCutVersion(
 			AND cut_comment.state = 'open'
 			AND cut_comment.cut_version_id <> ${added.id}
 	`.execute(trx);
+	return true;
 }
 
 /** Every version of the episode's cut, newest first, with what a player needs: one query. */

@@ -345,7 +345,8 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 			.onConflict((oc) => oc.column('uploadId').doNothing())
 			.returning('id')
 			.executeTakeFirst();
-		// Each cut upload is the episode's next numbered version; open comments move to it.
+		// Each cut upload is the episode's next numbered version (unless the picture was locked while
+		// it arrived); open comments move to it.
 		if (row && upload.purpose === 'cut')
 			await addCutVersion(trx, upload.episodeId, row.id, upload.changeNote);
 		await trx
