@@ -96,7 +96,7 @@ describe.skipIf(!existsSync(FFMPEG))('the waveform lane', () => {
 		expect((await measure()).across).toBeCloseTo(0.5, 2);
 	});
 
-	test('while the peaks are not made, the lane says so in one quiet line', async () => {
+	test('while the peaks are not made, the lane says so in one quiet line, then draws them once made', async () => {
 		await sql(
 			`UPDATE media_output SET state = 'waiting' WHERE footage_id = $1 AND kind = 'peaks'`,
 			[footageId]
@@ -108,6 +108,19 @@ describe.skipIf(!existsSync(FFMPEG))('the waveform lane', () => {
 				.poll(() => page.getByTestId('cut-waveform-state').textContent())
 				.toContain('Waveform: waiting for the media worker.');
 			expect(await page.getByTestId('cut-waveform-shape').count()).toBe(0);
+
+			// The job finishes while the page stays open: the lane asks again every few seconds
+			// and draws the shape, with no reload (the marker set on this document survives).
+			await page.evaluate(() => ((window as unknown as { stayed: boolean }).stayed = true));
+			await sql(`UPDATE media_output SET state = 'done' WHERE footage_id = $1 AND kind = 'peaks'`, [
+				footageId
+			]);
+			await expect
+				.poll(() => page.getByTestId('cut-waveform-shape').count(), { timeout: 15_000 })
+				.toBe(1);
+			expect(await page.evaluate(() => (window as unknown as { stayed?: boolean }).stayed)).toBe(
+				true
+			);
 		} finally {
 			await sql(`UPDATE media_output SET state = 'done' WHERE footage_id = $1 AND kind = 'peaks'`, [
 				footageId
