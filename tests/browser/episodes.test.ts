@@ -11,6 +11,7 @@
 import { afterAll, beforeAll, beforeEach, describe, expect, test } from 'vitest';
 import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
 import { demo, signedIn, sql, type Visitor } from '../helpers/http';
+import { approvedCutFixture } from '../helpers/cut-review';
 
 let browser: BrowserSession;
 let producerApi: Visitor;
@@ -155,6 +156,8 @@ describe('the producer tries to lock', () => {
 			`UPDATE segment_note SET program_frame = 18000 WHERE episode_id = $1 AND program_frame IS NULL RETURNING id`,
 			[mule.id]
 		);
+		// And give it an approved cut version, so the review's own rule has nothing to say either.
+		await approvedCutFixture(mule.id);
 		try {
 			await signInAs(page, demo.producer);
 			await page.goto(`/episodes/${mule.id}`);
@@ -192,6 +195,16 @@ describe('the producer tries to lock', () => {
 		} finally {
 			// Leave the demo episode as seeded for the other tests.
 			await sql(`UPDATE caution SET at_frame = NULL WHERE id = $1`, [brakes.id]);
+			await sql(
+				`DELETE FROM cut_version WHERE footage_id IN (SELECT id FROM footage WHERE episode_id = $1 AND clip_name = 'fixture cut')`,
+				[mule.id]
+			);
+			await sql(`DELETE FROM footage WHERE episode_id = $1 AND clip_name = 'fixture cut'`, [
+				mule.id
+			]);
+			await sql(`DELETE FROM upload WHERE episode_id = $1 AND clip_name = 'fixture cut'`, [
+				mule.id
+			]);
 			await sql(`UPDATE segment_note SET program_frame = NULL WHERE id = ANY($1)`, [
 				unplacedNotes.map((n) => n.id)
 			]);

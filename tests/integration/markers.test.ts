@@ -351,8 +351,11 @@ describe('import chapter markers', () => {
 		});
 		expect(otio.status).toBe(422);
 		expect(otio.body.rows[0].where).toBe('tracks.markers[0].marked_range.start_time');
+		// A binary file is not text at all: refused on its field, as every text field refuses
+		// control characters (OWASP ASVS V5), before any row is read.
 		const garbage = await post({ fileName: 'photo.edl', text: '\u0000\u0001PNG garbage' });
-		expect(garbage.status).toBe(422);
+		expect(garbage.status).toBe(400);
+		expect(garbage.body.issues.text[0]).toMatch(/invisible control character/);
 		expect(await chaptersIn(id)).toEqual(before);
 	});
 
