@@ -15,18 +15,13 @@ import path from 'node:path';
 import { projectRoot } from './lib/config.ts';
 import { freePort, openBenchWorld, signInCookie, waitForHttp } from './lib/bench-world.ts';
 import { fillBenchChannel } from './lib/scale-data.ts';
+import { percentile } from './lib/percentile.ts';
 
 const CONNECTIONS = 50;
 const WARM_UP_MS = 3_000;
 const MEASURE_MS = 12_000;
 const THROUGHPUT_TARGET = 0.6;
 const P99_TARGET = 2;
-
-/** Nearest-rank percentile (the value at rank ⌈p·n⌉ of the sorted samples). */
-function percentile(samples: number[], fraction: number): number {
-	const sorted = [...samples].sort((a, b) => a - b);
-	return sorted[Math.max(0, Math.ceil(fraction * sorted.length) - 1)];
-}
 
 interface Load {
 	requests: number;

@@ -23,6 +23,7 @@ import {
 	signedInSession as signIn,
 	type BenchSession as Session
 } from './lib/bench-world.ts';
+import { percentile } from './lib/percentile.ts';
 
 const CATALOGUE_PARTS = 20_000;
 const WARM_UP_SEARCHES = 30;
@@ -33,11 +34,6 @@ const KIT_PARTS = 100;
 const KIT_REQUESTS = 50;
 const KIT_QUERY_TARGET = 2;
 
-/** Nearest-rank percentile (the value at rank ⌈p·n⌉ of the sorted samples). */
-function percentile(samples: number[], fraction: number): number {
-	const sorted = [...samples].sort((a, b) => a - b);
-	return sorted[Math.max(0, Math.ceil(fraction * sorted.length) - 1)];
-}
 const ms = (value: number) => `${value.toFixed(2)} ms`;
 
 function serverTiming(header: string | null): number {

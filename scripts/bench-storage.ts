@@ -32,6 +32,7 @@ import { projectRoot } from './lib/config.ts';
 import { freePort, openBenchWorld, signedInSession, waitForHttp } from './lib/bench-world.ts';
 import { storageQuery } from '../src/lib/server/footage/storage-query.ts';
 import { DEFAULT_MAX_UPLOAD_BYTES } from '../src/lib/upload-rules.ts';
+import { percentile } from './lib/percentile.ts';
 
 const EPISODES = 10_000;
 const WARM_UP = 10;
@@ -51,11 +52,6 @@ const compiler = new Kysely<never>({
 	}
 });
 const QUERY_TARGET = 1;
-
-const percentile = (samples: number[], fraction: number) => {
-	const sorted = [...samples].sort((a, b) => a - b);
-	return sorted[Math.max(0, Math.ceil(fraction * sorted.length) - 1)];
-};
 
 async function addEpisodes(pool: pg.Pool, channelId: string) {
 	const [{ id: personId }] = (

@@ -18,6 +18,7 @@ import {
 import { secondsToFrames } from '../src/lib/timecode.ts';
 import { renderScriptMarkdown } from '../src/lib/server/episodes/markdown.ts';
 import { countSpokenWords } from '../src/lib/script/timing.ts';
+import { percentile } from './lib/percentile.ts';
 
 // ---------------------------------------------------------------- the framework
 
@@ -47,12 +48,6 @@ interface BenchResult {
 interface Bench {
 	name: string;
 	run(context: BenchContext): Promise<BenchResult>;
-}
-
-/** Nearest-rank percentile (the value at rank ⌈p·n⌉ of the sorted samples). */
-function percentile(samples: number[], fraction: number): number {
-	const sorted = [...samples].sort((a, b) => a - b);
-	return sorted[Math.max(0, Math.ceil(fraction * sorted.length) - 1)];
 }
 
 const ms = (value: number) => `${value.toFixed(2)} ms`;
