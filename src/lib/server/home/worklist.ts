@@ -3,6 +3,7 @@ import { sql } from 'kysely';
 import { db } from '../db';
 import type { Role } from '../db/types';
 import { episodeWorklistFor } from './episode-worklist';
+import { dateFormat } from '$lib/date-format';
 
 export interface WorkItem {
 	title: string;
@@ -88,7 +89,7 @@ export async function worklistFor(
 }
 
 const dayName = (date: string) =>
-	new Intl.DateTimeFormat('en', {
+	dateFormat({
 		weekday: 'short',
 		day: 'numeric',
 		month: 'short',
