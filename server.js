@@ -50,8 +50,15 @@ const seconds = (name) => {
 	return value === undefined || value === '' ? undefined : Number(value) * 1000;
 };
 
+const notFound = (res) => () => {
+	res.statusCode = 404;
+	res.end('Not found');
+};
+
 const server = http.createServer((req, res) => {
 	if (routes.claims(req)) return void routes.answer(req, res);
+	// A client that accepts no encoding (scripts, the benches) gets no compression layer at all.
+	if (!req.headers['accept-encoding']) return void handler(req, res, notFound(res));
 	compress(req, res, () => {
 		// Send each piece as it is written (a page streamed in parts stays streamed).
 		const write = res.write;
@@ -60,10 +67,7 @@ const server = http.createServer((req, res) => {
 			res.flush?.();
 			return accepted;
 		};
-		handler(req, res, () => {
-			res.statusCode = 404;
-			res.end('Not found');
-		});
+		handler(req, res, notFound(res));
 	});
 });
 const keepAlive = seconds('KEEP_ALIVE_TIMEOUT');

@@ -1,6 +1,7 @@
 /** The crew of a channel: invites, roles, disabling, and the one-time links for passwords. */
 import { sql, type Transaction } from 'kysely';
 import { db } from '../db';
+import { compiledOnce } from '../db/compiled-once';
 import type { Database, Role } from '../db/types';
 import { DomainError, notFound } from '../http/api';
 import {
@@ -94,15 +95,19 @@ export async function crewPageWithCounts(channelId: string, query: PageQuery) {
 }
 
 /** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */
-export async function activeCrew(channelId: string) {
-	return db
+/** Read by every producer's episode page (its form's choices): compiled once (db/compiled-once.ts). */
+const activeCrewQuery = compiledOnce(['channelId'], ({ channelId }) =>
+	db
 		.selectFrom('membership')
 		.innerJoin('person', 'person.id', 'membership.personId')
 		.select(['person.id', 'person.name', 'membership.roles'])
 		.where('membership.channelId', '=', channelId)
 		.where('membership.disabledAt', 'is', null)
 		.orderBy('person.name')
-		.execute();
+);
+
+export async function activeCrew(channelId: string) {
+	return (await activeCrewQuery(db, { channelId })).rows;
 }
 
 /** Adds a person to the crew; a new person gets a link to set a password, someone already known gets a note. */

@@ -146,14 +146,18 @@ export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
  * What the episode forms offer: the channel's builds and its active crew with their roles. Other
  * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts).
  */
+/** The builds an episode may feature (the producer's form): compiled once (db/compiled-once.ts). */
+const channelBuildsQuery = compiledOnce(['channelId'], ({ channelId }) =>
+	db
+		.selectFrom('build')
+		.select(['id', 'name', 'year', 'vehicleType'])
+		.where('channelId', '=', channelId)
+		.orderBy('name')
+);
+
 export async function episodeFormOptions(channelId: string) {
-	const [builds, crew] = await Promise.all([
-		db
-			.selectFrom('build')
-			.select(['id', 'name', 'year', 'vehicleType'])
-			.where('channelId', '=', channelId)
-			.orderBy('name')
-			.execute(),
+	const [{ rows: builds }, crew] = await Promise.all([
+		channelBuildsQuery(db, { channelId }),
 		activeCrew(channelId)
 	]);
 	return { builds, crew };

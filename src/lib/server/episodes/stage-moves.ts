@@ -9,6 +9,7 @@ import { featuredPartProblemsFor as featuredPartProblems } from '../merch/featur
 import { error } from '@sveltejs/kit';
 import { sql } from 'kysely';
 import { db } from '../db';
+import { compiledOnce } from '../db/compiled-once';
 import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
 import { scriptFingerprint } from './fingerprint';
@@ -124,9 +125,9 @@ export function stageReportOf(
  * The history of moves, newest first, in one query scoped by the episode's channel: an episode of
  * another channel has none ([]). Callers pair it with a read of the episode that answers 404.
  */
-export async function stageHistory(channelId: string, episodeId: string, executor: Executor = db) {
-	if (!isUuid(episodeId)) return [];
-	const rows = await executor
+/** The episode page reads it on every request: compiled once (db/compiled-once.ts). */
+const stageHistoryQuery = compiledOnce(['channelId', 'episodeId'], ({ channelId, episodeId }) =>
+	db
 		.selectFrom('stageMove')
 		.innerJoin('episode', 'episode.id', 'stageMove.episodeId')
 		.leftJoin('person', 'person.id', 'stageMove.personId')
@@ -142,7 +143,11 @@ export async function stageHistory(channelId: string, episodeId: string, executo
 		.where('episode.channelId', '=', channelId)
 		.orderBy('stageMove.createdAt', 'desc')
 		.orderBy('stageMove.id', 'desc')
-		.execute();
+);
+
+export async function stageHistory(channelId: string, episodeId: string, executor: Executor = db) {
+	if (!isUuid(episodeId)) return [];
+	const { rows } = await stageHistoryQuery(executor, { channelId, episodeId });
 	return rows.map((row) => ({ ...row, createdAt: new Date(row.createdAt).toISOString() }));
 }
 
