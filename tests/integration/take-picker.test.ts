@@ -405,6 +405,28 @@ describe('the notes page without JavaScript: a typed clip name', () => {
 			/name="takeClip"[^>]*value="GONE_0042"|value="GONE_0042"[^>]*name="takeClip"/
 		);
 	});
+	test('a refused form without JavaScript keeps the picked take beside the typed clip name', async () => {
+		// Two takes share this name; the form had the first one picked when the time was refused.
+		const [twinOne] = reference.filter((take) => take.clipName === 'TWIN_0001');
+		const response = await producer.request(`/episodes/${episodeId}/notes?/create`, {
+			method: 'POST',
+			form: {
+				text: 'Twin with a time that is no time',
+				segmentId: '',
+				takeId: twinOne.id,
+				takeClip: 'TWIN_0001',
+				sourceTime: '99:99'
+			}
+		});
+		expect(response.status).toBe(400);
+		const html = await response.text();
+		const start = html.indexOf('action="?/create"');
+		const newNoteForm = html.slice(start, html.indexOf('</form>', start));
+		expect(newNoteForm).toContain('value="TWIN_0001"');
+		expect(newNoteForm).toMatch(
+			new RegExp(`name="takeId"[^>]*value="${twinOne.id}"|value="${twinOne.id}"[^>]*name="takeId"`)
+		);
+	});
 });
 
 describe('the notes page ships only the takes its notes show', () => {
