@@ -66,13 +66,21 @@ const writeNote = (json: Record<string, unknown>) =>
 	});
 
 describe('source timecode in the take’s own form', () => {
-	test('the notes page lists a drop-frame take with the labels it was logged with', async () => {
-		const page = await camera.api(`/api/episodes/${episodeId}/notes`);
-		expect(page.status).toBe(200);
-		const take = page.body.takes.find((t: { id: string }) => t.id === dropTakeId);
+	test('the take picker lists a drop-frame take with the labels it was logged with', async () => {
+		const found = await camera.api(`/api/episodes/${episodeId}/takes/picker?q=BCAM_100`);
+		expect(found.status).toBe(200);
+		const take = found.body.items.find((t: { id: string }) => t.id === dropTakeId);
 		expect(take).toMatchObject({ sourceIn: '08:01:10;00', sourceOut: '08:01:30;00' });
-		const nonDrop = page.body.takes.find((t: { id: string }) => t.id === nonDropTakeId);
+		const nonDrop = found.body.items.find((t: { id: string }) => t.id === nonDropTakeId);
 		expect(nonDrop).toMatchObject({ sourceIn: '08:01:10:00', sourceOut: '08:01:30:00' });
+	});
+
+	test('a note shows its take’s in and out with the labels the take was logged with', async () => {
+		const answer = await writeNote({ takeId: dropTakeId, sourceTime: '08:01:12;00' });
+		expect(answer.status, JSON.stringify(answer.body)).toBe(201);
+		const page = await camera.api(`/api/episodes/${episodeId}/notes`);
+		const shown = page.body.notes.find((n: { id: string }) => n.id === answer.body.note.id);
+		expect(shown).toMatchObject({ takeSourceIn: '08:01:10;00', takeSourceOut: '08:01:30;00' });
 	});
 
 	test('a note typed in drop-frame on a drop-frame take shows the same label back', async () => {

@@ -323,6 +323,19 @@ export const noteUpdateSchema = noteCreateSchema
 	})
 	.strict();
 
+/**
+ * The notes page's forms also send the take picker's text: a clip name the server resolves to a
+ * take of the episode when no take was picked from the list (always so without JavaScript).
+ */
+const takeClipField = {
+	takeClip: text('Type the clip name of the take.')
+		.trim()
+		.max(120, 'A clip name is at most 120 characters.')
+		.optional()
+};
+export const noteCreateFormSchema = noteCreateSchema.extend(takeClipField).strict();
+export const noteUpdateFormSchema = noteUpdateSchema.extend(takeClipField).strict();
+
 export type NoteCreate = z.infer<typeof noteCreateSchema>;
 export type NoteUpdate = z.infer<typeof noteUpdateSchema>;
 

@@ -1,6 +1,6 @@
 /** Takes logged against shots: typed source timecode, good or no good, and the clip it is in. */
 import { z } from 'zod';
-import { text, recordVersion } from './fields';
+import { text, recordVersion, wholeNumber } from './fields';
 
 const timecodeText = (label: string) =>
 	text(`Type the source ${label} timecode.`)
@@ -38,3 +38,26 @@ export const takeUpdateSchema = z
 
 export type TakeCreate = z.infer<typeof takeCreateSchema>;
 export type TakeUpdate = z.infer<typeof takeUpdateSchema>;
+
+/** How many takes the take picker offers at once. */
+export const TAKE_PICKER_LIMIT = 20;
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** `?q=&segment=&limit=` of the take picker's search (an empty `segment` is every segment). */
+export const takePickerQuerySchema = z.object({
+	q: text().trim().max(120, 'Type at most 120 characters to find a take.').optional(),
+	segment: z
+		.string({ error: 'Pick a segment.' })
+		.trim()
+		.refine((value) => value === '' || UUID.test(value), 'That is not a segment of this episode.')
+		.optional(),
+	limit: wholeNumber({
+		coerce: true,
+		error: 'Ask for a number of takes, such as 20.',
+		min: 1,
+		max: 50,
+		tooBig: 'Ask for at most 50 takes at a time.'
+	}).default(TAKE_PICKER_LIMIT)
+});
+export type TakePickerQuery = z.infer<typeof takePickerQuerySchema>;

@@ -1,6 +1,7 @@
 /**
- * The notes page's read model: an episode's notes with their parts, in program-time order, and
- * the segments and takes a note can be put in; times shown at the episode's rate.
+ * The notes page's read model: an episode's notes with their parts and takes, in program-time
+ * order, and the segments a note can be put in (at most MAX_SEGMENTS_PER_EPISODE); times shown at
+ * the episode's rate. Takes to pick from are fetched on demand (`shoot/take-picker.ts`), never all.
  */
 import { sql } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
@@ -37,6 +38,9 @@ export interface NoteView {
 	programClock: string | null;
 	takeId: string | null;
 	takeClip: string | null;
+	/** The note's take's source in and out, in the take's own timecode form. */
+	takeSourceIn: string | null;
+	takeSourceOut: string | null;
 	sourceFrame: number | null;
 	/** The source frame as the take's camera showed it (drop-frame when the take was logged so). */
 	sourceTimecode: string | null;
@@ -52,15 +56,6 @@ export interface NotesPage {
 		cutTimecode: string | null;
 	};
 	segments: { id: string; position: number; title: string }[];
-	takes: {
-		id: string;
-		clipName: string;
-		segmentId: string;
-		shot: string;
-		good: boolean;
-		sourceIn: string;
-		sourceOut: string;
-	}[];
 	/** One page of the notes, in program-time order. */
 	notes: NoteView[];
 	/** The cursor of the next page; null on the last. */
@@ -109,6 +104,8 @@ function notesQuery(executor: Executor, episodeId: string) {
 			'segmentNote.takeId',
 			'take.clipName as takeClip',
 			'take.sourceDropFrame',
+			'take.sourceInFrames as takeSourceInFrames',
+			'take.sourceOutFrames as takeSourceOutFrames',
 			'segmentNote.sourceFrame',
 			'segmentNote.text',
 			'person.name as authorName',
@@ -129,7 +126,16 @@ function notesQuery(executor: Executor, episodeId: string) {
 type NoteRow = Awaited<ReturnType<ReturnType<typeof notesQuery>['execute']>>[number];
 
 function toView(row: NoteRow, rate: FrameRate): NoteView {
-	const { sourceDropFrame, episodeFrameRate, timecodeDropFrame, timecodeStart, ...note } = row;
+	const {
+		sourceDropFrame,
+		episodeFrameRate,
+		timecodeDropFrame,
+		timecodeStart,
+		takeSourceInFrames,
+		takeSourceOutFrames,
+		...note
+	} = row;
+	const takeForm = { dropFrame: sourceDropFrame ?? false };
 	const programme = clockOfEpisode({
 		frameRate: episodeFrameRate,
 		timecodeDropFrame,
@@ -141,15 +147,17 @@ function toView(row: NoteRow, rate: FrameRate): NoteView {
 		programClock:
 			row.programFrame === null ? null : formatClock(framesToSeconds(row.programFrame, rate)),
 		sourceTimecode:
-			row.sourceFrame === null
-				? null
-				: formatTimecode(row.sourceFrame, rate, { dropFrame: sourceDropFrame ?? false }),
+			row.sourceFrame === null ? null : formatTimecode(row.sourceFrame, rate, takeForm),
+		takeSourceIn:
+			takeSourceInFrames === null ? null : formatTimecode(takeSourceInFrames, rate, takeForm),
+		takeSourceOut:
+			takeSourceOutFrames === null ? null : formatTimecode(takeSourceOutFrames, rate, takeForm),
 		parts: row.parts as NotePart[]
 	};
 }
 
 /**
- * Everything the notes page shows: the episode, its segments and takes to pick from, and one page
+ * Everything the notes page shows: the episode, its segments to pick from, and one page
  * of its notes (keyset-paged: `page.after` is the previous page's `next`) with the episode's counts.
  */
 export async function notesPageFor(
@@ -162,31 +170,12 @@ export async function notesPageFor(
 	const episode = await episodeInChannel(channelId, episodeId, executor);
 	const rate = episode.frameRate;
 	const programme = clockOfEpisode(episode);
-	const [segments, takes, notes] = await Promise.all([
+	const [segments, notes] = await Promise.all([
 		executor
 			.selectFrom('segment')
 			.select(['id', 'position', 'title'])
 			.where('episodeId', '=', episode.id)
 			.orderBy('position')
-			.execute(),
-		executor
-			.selectFrom('take')
-			.innerJoin('shot', 'shot.id', 'take.shotId')
-			.innerJoin('segment', 'segment.id', 'shot.segmentId')
-			.select([
-				'take.id',
-				'take.clipName',
-				'take.good',
-				'take.sourceInFrames',
-				'take.sourceOutFrames',
-				'take.sourceDropFrame',
-				'shot.what',
-				'shot.segmentId'
-			])
-			.where('segment.episodeId', '=', episode.id)
-			.orderBy('segment.position')
-			.orderBy('shot.position')
-			.orderBy('take.clipName')
 			.execute(),
 		notesQuery(executor, episode.id)
 			// Uncorrelated, so PostgreSQL reads each count once for the whole page, in this query.
@@ -228,15 +217,6 @@ export async function notesPageFor(
 					: programme.formatLength(episode.cutDurationFrames)
 		},
 		segments,
-		takes: takes.map((take) => ({
-			id: take.id,
-			clipName: take.clipName,
-			segmentId: take.segmentId,
-			shot: take.what,
-			good: take.good,
-			sourceIn: formatTimecode(take.sourceInFrames, rate, { dropFrame: take.sourceDropFrame }),
-			sourceOut: formatTimecode(take.sourceOutFrames, rate, { dropFrame: take.sourceDropFrame })
-		})),
 		notes: notesPage.items.map(({ noteCount: _notes, placedCount: _placed, ...row }) =>
 			toView(row, rate)
 		),

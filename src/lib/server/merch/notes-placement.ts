@@ -11,7 +11,9 @@
 import { DomainError } from '../http/api';
 import { frameFromTyped } from '../edit/typed-time';
 import { isUuid } from '../auth/identity';
-import type { Executor } from '../episodes/episodes';
+import { sql } from 'kysely';
+import { db } from '../db';
+import { episodeInChannel, type Executor } from '../episodes/episodes';
 import { chapterStartFromText } from '$lib/chapters';
 import {
 	TimecodeError,
@@ -160,4 +162,44 @@ export async function checkPlacement(
 		throw new DomainError(400, message, { sourceTime: [message] });
 	}
 	return { segmentId, takeId, sourceFrame };
+}
+
+/**
+ * The take a note's form names by clip name (the take picker's text field, which is all a browser
+ * without JavaScript sends): `takeId` when the form sent no clip name field; none when the field
+ * is empty; the picked `takeId` when its clip name is the one typed (two takes may share a name);
+ * otherwise the one take of this episode with that clip name (case-insensitive), looked for in the
+ * note's segment first. No take or several of that name is a 400 on `takeId` in the crew's words.
+ */
+export async function takeOfTypedClip(
+	channelId: string,
+	episodeId: string,
+	typed: { takeClip?: string; takeId?: string | null; segmentId?: string | null },
+	executor: Executor = db
+): Promise<string | null | undefined> {
+	if (typed.takeClip === undefined) return typed.takeId;
+	const clipName = typed.takeClip.trim();
+	if (clipName === '') return null;
+	const episode = await episodeInChannel(channelId, episodeId, executor);
+	const named = await executor
+		.selectFrom('take')
+		.innerJoin('shot', 'shot.id', 'take.shotId')
+		.innerJoin('segment', 'segment.id', 'shot.segmentId')
+		.select(['take.id', 'shot.segmentId'])
+		.where('segment.episodeId', '=', episode.id)
+		.where(sql<string>`lower(take.clip_name)`, '=', clipName.toLowerCase())
+		.orderBy('take.id')
+		.limit(50)
+		.execute();
+	if (typed.takeId && named.some((take) => take.id === typed.takeId)) return typed.takeId;
+	const inSegment = typed.segmentId
+		? named.filter((take) => take.segmentId === typed.segmentId)
+		: [];
+	const candidates = inSegment.length ? inSegment : named;
+	if (candidates.length === 1) return candidates[0].id;
+	const message =
+		candidates.length === 0
+			? `No take of this episode is named “${clipName}”. Check the clip name on the shot list, or leave the take empty.`
+			: `${candidates.length} takes of this episode are named “${clipName}”. Pick the segment it was shot for, or pick the take from the list as you type.`;
+	throw new DomainError(400, message, { takeId: [message] });
 }

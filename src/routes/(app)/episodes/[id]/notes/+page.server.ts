@@ -5,7 +5,8 @@ import { assertInEpisode } from '$lib/server/http/ownership';
 import { createNote, deleteNote, noteRightsFor, updateNote } from '$lib/server/merch/notes';
 import { cursorBeforeNote, notesPageFor } from '$lib/server/merch/notes-page';
 import { partIdBySku } from '$lib/server/merch/parts';
-import { noteCreateSchema, noteUpdateSchema } from '$lib/schemas/parts';
+import { takeOfTypedClip } from '$lib/server/merch/notes-placement';
+import { noteCreateFormSchema, noteUpdateFormSchema } from '$lib/schemas/parts';
 import { versionOnlySchema } from '$lib/schemas/fields';
 import { stageLock, type Stage } from '$lib/stages';
 import type { Actions, PageServerLoad } from './$types';
@@ -16,7 +17,8 @@ import { pageQuerySchema } from '$lib/schemas/paging';
 /**
  * Segment notes. Every crew member reads; the camera operator writes notes, the editor places
  * their program time, the merch team links parts (and may start a note), the producer may do all. With JavaScript the
- * part picker searches /api/parts as you type; every change is a form action underneath.
+ * part picker searches /api/parts and the take picker /api/episodes/[id]/takes/picker as you type;
+ * without it both are text fields (a SKU, a clip name) read here. Every change is a form action.
  */
 export const load = (async (event) => {
 	const { channel, roles } = requireRole(event);
@@ -39,6 +41,9 @@ export const load = (async (event) => {
 const field = (form: FormData, name: string) => text(form, name).trim();
 /** '' from an empty field means "none" (null) for the optional fields of a note. */
 const orNull = (value: string) => (value === '' ? null : value);
+/** The take picker's text (a clip name), when the form has the picker. */
+const takeClipOf = (form: FormData) =>
+	form.has('takeClip') ? { takeClip: field(form, 'takeClip') } : {};
 const actorOf = (caller: ReturnType<typeof requireRole>) => ({
 	id: caller.person.id,
 	name: caller.person.name,
@@ -58,9 +63,15 @@ async function change<const Action extends string>(
 	const built = await attempt(tag, {}, () => build(form, caller.channel.id));
 	if (!built.ok) return built.failure;
 	const values: Record<string, unknown> = { version: field(form, 'version'), ...built.value };
-	const result = await runForm(tag, noteUpdateSchema, values, async (data) => {
+	const result = await runForm(tag, noteUpdateFormSchema, values, async (typed) => {
 		await assertInEpisode(caller.channel.id, event.params.id, 'note', noteId);
-		return updateNote(caller.channel.id, actorOf(caller), noteId, data);
+		const { takeClip, ...data } = typed;
+		const takeId = await takeOfTypedClip(caller.channel.id, event.params.id, {
+			takeClip,
+			takeId: data.takeId,
+			segmentId: form.has('takeSegmentId') ? orNull(field(form, 'takeSegmentId')) : null
+		});
+		return updateNote(caller.channel.id, actorOf(caller), noteId, { ...data, takeId });
 	});
 	if (!result.ok) return result.failure;
 	return { action, noteId, saved: true };
@@ -74,15 +85,22 @@ export const actions = {
 			text: field(form, 'text'),
 			segmentId: orNull(field(form, 'segmentId')),
 			takeId: orNull(field(form, 'takeId')),
+			...takeClipOf(form),
 			sourceTime: orNull(field(form, 'sourceTime')),
 			// Only the editor's and the producer's forms carry a program time.
 			...(form.has('programTime') && field(form, 'programTime') !== ''
 				? { programTime: field(form, 'programTime') }
 				: {})
 		};
-		const result = await runForm('create', noteCreateSchema, values, (data) =>
-			createNote(caller.channel.id, actorOf(caller), event.params.id, data)
-		);
+		const result = await runForm('create', noteCreateFormSchema, values, async (typed) => {
+			const { takeClip, ...data } = typed;
+			const takeId = await takeOfTypedClip(caller.channel.id, event.params.id, {
+				takeClip,
+				takeId: data.takeId,
+				segmentId: data.segmentId
+			});
+			return createNote(caller.channel.id, actorOf(caller), event.params.id, { ...data, takeId });
+		});
 		if (!result.ok) return result.failure;
 		// The page of notes that starts with the new one, wherever it sorts in a long list.
 		const after = await cursorBeforeNote(caller.channel.id, event.params.id, result.value.id);
@@ -97,6 +115,7 @@ export const actions = {
 		change(event, 'write', ['camera', 'producer'], async (form) => ({
 			text: field(form, 'text'),
 			takeId: orNull(field(form, 'takeId')),
+			...takeClipOf(form),
 			sourceTime: orNull(field(form, 'sourceTime'))
 		})),
 	link: (event) =>

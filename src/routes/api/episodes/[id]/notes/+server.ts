@@ -8,8 +8,9 @@ import { noteCreateSchema } from '$lib/schemas/parts';
 import type { RequestHandler } from './$types';
 
 /**
- * Any crew member reads an episode's segment notes, with the segments and takes to pick from, a
- * page of notes at a time: `notes` and `next`; `?after=<next>&limit=` asks for the following page.
+ * Any crew member reads an episode's segment notes, with the segments to pick from (takes come from
+ * ../takes/picker as the person types), a page of notes at a time: `notes` and `next`;
+ * `?after=<next>&limit=` asks for the following page.
  */
 export const GET: RequestHandler = api(async (event) => {
 	const { channel } = requireRole(event);
