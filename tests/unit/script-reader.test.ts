@@ -22,6 +22,7 @@ import fc from 'fast-check';
 import { DomUtils, parseDocument } from 'htmlparser2';
 import {
 	scriptHtml,
+	scriptHtmlAndWords,
 	spokenWords,
 	startScriptReaders
 } from '../../src/lib/server/episodes/script-reader.ts';
@@ -236,6 +237,17 @@ describe('script reading is bounded', () => {
 		expect(words).toBe(1);
 	}, 120_000);
 
+	test('one read for both (the preview): 100,000 characters of _b_b… answer with the plain text and its rough count', async () => {
+		const markdown = fill('_b', MAX_SCRIPT_CHARACTERS);
+		const { html, words } = await scriptHtmlAndWords(markdown);
+		expect(html).toMatch(PLAIN_NOTICE);
+		expect(html).toContain(`<p>${markdown}</p>`);
+		expect(words).toBe(roughSpokenWords(markdown));
+		// Remembered: asking again, together or apart, answers the same fallback without a read.
+		expect(await scriptHtmlAndWords(markdown)).toEqual({ html, words });
+		expect(await scriptHtml(markdown)).toBe(html);
+	}, 120_000);
+
 	test('nesting deep enough to overflow marked answers with the plain text instead of failing', async () => {
 		const markdown = nestedQuotesOnOneLine(20_000);
 		const { html } = await readWithinBound(markdown);
@@ -273,9 +285,24 @@ describe('ordinary scripts read exactly as before', () => {
 		60_000
 	);
 
+	// Read together in one reader (the preview), before either alone has been asked for.
+	test.each(ordinary.map((markdown) => [markdown.slice(0, 40), markdown]))(
+		'together: %s',
+		async (_name, ordinaryMarkdown) => {
+			await startScriptReaders();
+			const markdown = `${ordinaryMarkdown}\n\nRead together.`;
+			expect(await scriptHtmlAndWords(markdown)).toEqual({
+				html: renderScriptMarkdown(markdown),
+				words: countSpokenWords(markdown)
+			});
+		},
+		60_000
+	);
+
 	test('an empty script is empty HTML and no words', async () => {
 		expect(await scriptHtml('')).toBe('');
 		expect(await spokenWords('  \n ')).toBe(0);
+		expect(await scriptHtmlAndWords('')).toEqual({ html: '', words: 0 });
 	});
 });
 

@@ -15,7 +15,8 @@ export const scriptReaderWorkerUrl = import.meta.url;
 /** Marks a worker started by the pool, so importing this module anywhere else serves nothing. */
 export const SCRIPT_READER_ROLE = 'wrenchroll-script-reader';
 
-export type ScriptJobKind = 'html' | 'words';
+/** `both`: the HTML and the word count of one text in one read (a preview), so one core does it. */
+export type ScriptJobKind = 'html' | 'words' | 'both';
 
 export interface ScriptJob {
 	id: number;
@@ -38,9 +39,16 @@ function answer(
 	job: ScriptJob
 ): ScriptReaderMessage {
 	try {
-		return job.kind === 'html'
-			? { type: 'done', id: job.id, html: renderScriptMarkdown(job.markdown) }
-			: { type: 'done', id: job.id, words: countSpokenWords(job.markdown) };
+		if (job.kind === 'html')
+			return { type: 'done', id: job.id, html: renderScriptMarkdown(job.markdown) };
+		if (job.kind === 'words')
+			return { type: 'done', id: job.id, words: countSpokenWords(job.markdown) };
+		return {
+			type: 'done',
+			id: job.id,
+			html: renderScriptMarkdown(job.markdown),
+			words: countSpokenWords(job.markdown)
+		};
 	} catch (failure) {
 		// marked recurses once per nesting level, so `> > > …` can overflow the stack; the pool
 		// answers with its plain-text fallback instead.

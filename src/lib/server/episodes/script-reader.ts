@@ -164,7 +164,11 @@ class ScriptReaderPool {
 		if (markdown === '') return '';
 		const key = digest(markdown);
 		if (this.#plainOnly.get(key)) return plainScriptHtml(markdown);
-		const outcome = await this.#read('html', markdown);
+		return this.#htmlOf(markdown, key, await this.#read('html', markdown));
+	}
+
+	/** The HTML from a read's outcome, or the plain fallback (remembered when the read ran over or failed). */
+	#htmlOf(markdown: string, key: string, outcome: Outcome): string {
 		if (outcome.type === 'done' && typeof outcome.html === 'string') {
 			// Formatting that hides every word (a line opening a code fence with the words in its info
 			// string, a tag-like run the sanitiser drops) shows the text as typed instead.
@@ -174,6 +178,29 @@ class ScriptReaderPool {
 		}
 		if (outcome.type !== 'unavailable') this.#plainOnly.set(key, true, FALLBACK_MEMORY_MS);
 		return plainScriptHtml(markdown);
+	}
+
+	/**
+	 * The HTML and the spoken words of one text from a single read in one reader: half the work of
+	 * asking for each, and a text that runs over the limit holds one core, not two, so the server's
+	 * own thread keeps a core to answer on.
+	 */
+	async both(markdown: string): Promise<{ html: string; words: number }> {
+		if (markdown === '') return { html: '', words: 0 };
+		const key = digest(markdown);
+		const known = this.#words.get(key);
+		if (this.#plainOnly.get(key))
+			return { html: plainScriptHtml(markdown), words: known ?? (await this.words(markdown)) };
+		if (known !== undefined) return { html: await this.html(markdown), words: known };
+		const outcome = await this.#read('both', markdown);
+		const html = this.#htmlOf(markdown, key, outcome);
+		if (outcome.type === 'done' && typeof outcome.words === 'number') {
+			this.#words.set(key, outcome.words);
+			return { html, words: outcome.words };
+		}
+		const rough = roughSpokenWords(markdown);
+		if (outcome.type !== 'unavailable') this.#words.set(key, rough, FALLBACK_MEMORY_MS);
+		return { html, words: rough };
 	}
 
 	async words(markdown: string): Promise<number> {
@@ -368,6 +395,11 @@ export function scriptHtml(markdown: string): Promise<string> {
 /** The spoken words of a script (rules in `$lib/script/timing`), or the rough count when it cannot be read within the limit. */
 export function spokenWords(markdown: string): Promise<number> {
 	return thePool().words(markdown);
+}
+
+/** A script's HTML and spoken words from one read (the live preview, a segment's page), each with its fallback. */
+export function scriptHtmlAndWords(markdown: string): Promise<{ html: string; words: number }> {
+	return thePool().both(markdown);
 }
 
 /** Spoken words of several scripts, in order. */
