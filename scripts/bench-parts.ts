@@ -267,7 +267,11 @@ async function kitBench(session: Session, pool: pg.Pool, episodeId: string): Pro
 	const kitStatements = statements.filter((statement) => kitTables.test(statement.query));
 	const perRequest =
 		kitStatements.reduce((sum, statement) => sum + statement.calls, 0) / KIT_REQUESTS;
-	const partLines = kit.blocks.find((block) => block.id === 'parts')!.text.split('\n').length - 1;
+	// One line per part, each a list item (the title and the disclosure above them are not).
+	const partLines = kit.blocks
+		.find((block) => block.id === 'parts')!
+		.text.split('\n')
+		.filter((line) => line.startsWith('- ')).length;
 	printTable(
 		`Publish kit, ${KIT_NOTES} notes showing ${KIT_PARTS} parts, 12 chapters, 10 caution cards, ${KIT_REQUESTS} requests after 11 warm-up`,
 		`${KIT_QUERY_TARGET} queries or fewer per kit`,
