@@ -17,6 +17,11 @@ import {
 	type SortKey
 } from '../http/keyset';
 
+/**
+ * Every sort key below is also an index of migrations/2026-12-04-20-list-sorts.ts (and
+ * 2026-12-03-40-paging-indexes.ts for the default order), so a page reads its rows from an index
+ * in order: change a key here and the index's expression must change with it.
+ */
 const stageOrder = sql<number>`array_position(ARRAY[${sql.join(STAGES.map((stage) => sql.lit(stage)))}]::text[], episode.stage)`;
 
 /**
