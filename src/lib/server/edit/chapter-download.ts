@@ -3,7 +3,7 @@
  * single query (see scripts/bench.ts). Only the exports refuse (422) a list that breaks a chapter
  * rule; the edit page reports the same rules without refusing (edit.ts).
  */
-import { jsonArrayFrom } from 'kysely/helpers/postgres';
+import { sql } from 'kysely';
 import { db } from '../db';
 import { DomainError } from '../http/api';
 import { isUuid } from '../auth/identity';
@@ -11,6 +11,7 @@ import { episodeNotFound } from '../episodes/episodes';
 import { problemsOf } from './edit';
 import { clockOfEpisode } from '../episodes/programme-timecode';
 import { ChapterExportError, exportChapters, type ChapterFormat } from '$lib/chapters';
+import type { FrameRate } from '$lib/timecode';
 
 export interface ChapterDownload {
 	body: string;
@@ -26,32 +27,39 @@ function downloadName(slug: string, extension: string): string {
 	return `${safe}-chapters.${extension}`;
 }
 
+interface ExportRow {
+	slug: string;
+	frameRate: FrameRate;
+	timecodeDropFrame: boolean | null;
+	timecodeStart: string;
+	cutDurationFrames: number | null;
+	/** Each chapter as [id, startFrame, title, url]. */
+	chapters: [string, number, string, string | null][];
+}
+
 /**
- * The episode with only what an export reads of its chapters, in start order (ties in the order
- * they were made), in one query: the chapter_episode_order index hands them over already sorted.
+ * The episode and only what an export reads of its chapters, in start order (ties in the order
+ * they were made), in one query. Each chapter comes as a JSON array, not an object: at 10,000
+ * chapters PostgreSQL spent about two thirds of the query writing every row's keys, and Kysely's
+ * camel-case pass then walked every object again (about 20% of the export's time in all, measured
+ * side by side; plain rows were slower still). The SQL names its columns as the code does, so it
+ * runs without the plugins.
  */
-function episodeForExport(channelId: string, episodeId: string) {
-	return db
-		.selectFrom('episode')
-		.select((eb) => [
-			'episode.slug',
-			'episode.frameRate',
-			'episode.timecodeDropFrame',
-			'episode.timecodeStart',
-			'episode.cutDurationFrames',
-			jsonArrayFrom(
-				eb
-					.selectFrom('chapter')
-					.select(['chapter.id', 'chapter.startFrame', 'chapter.title', 'chapter.url'])
-					.whereRef('chapter.episodeId', '=', 'episode.id')
-					.orderBy('chapter.startFrame')
-					.orderBy('chapter.createdAt')
-					.orderBy('chapter.id')
-			).as('chapters')
-		])
-		.where('episode.id', '=', episodeId)
-		.where('episode.channelId', '=', channelId)
-		.executeTakeFirst();
+async function episodeForExport(channelId: string, episodeId: string) {
+	const { rows } = await sql<ExportRow>`
+		SELECT e.slug, e.frame_rate AS "frameRate", e.timecode_drop_frame AS "timecodeDropFrame",
+		       e.timecode_start AS "timecodeStart", e.cut_duration_frames AS "cutDurationFrames",
+		       (SELECT coalesce(json_agg(json_build_array(c.id, c.start_frame, c.title, c.url)
+		                                 ORDER BY c.start_frame, c.created_at, c.id), '[]')
+		        FROM chapter c WHERE c.episode_id = e.id) AS chapters
+		FROM episode e
+		WHERE e.id = ${episodeId} AND e.channel_id = ${channelId}`.execute(db.withoutPlugins());
+	const row = rows[0];
+	if (!row) return undefined;
+	return {
+		...row,
+		chapters: row.chapters.map(([id, startFrame, title, url]) => ({ id, startFrame, title, url }))
+	};
 }
 
 /**
