@@ -1,6 +1,7 @@
 /**
  * The inside of the upload hashing thread (the main-thread side is `running-hash.ts`). It keeps
- * one SHA-256 per upload and feeds it the bytes the main thread has just written to disk, so the
+ * one SHA-256 per upload and feeds it the bytes the main thread has just written to disk (copied
+ * into a ring of memory shared with this thread), so the
  * hash is taken in the same single pass as the bytes arrive without costing the main thread the
  * hashing itself. Messages arrive in the order they were posted, so each hash sees its upload's
  * bytes in file order. Like the script reader, this module exports its own address and serves
@@ -16,27 +17,33 @@ export const hashWorkerUrl = import.meta.url;
 export const HASH_WORKER_ROLE = 'wrenchroll-upload-hash';
 
 export type HashJob =
-	/** The first `bytes` of `piece` are the upload's next bytes; `start` opens a fresh hash first. */
-	| { type: 'add'; upload: string; start: boolean; piece: ArrayBuffer | null; bytes: number }
+	/**
+	 * The upload's next `bytes` lie in the shared ring at `segments` (start, length, start, length …);
+	 * `start` opens a fresh hash first.
+	 */
+	| { type: 'add'; upload: string; start: boolean; segments: number[]; bytes: number }
 	/** The hex digest of everything added, answered as `digest`; the hash is forgotten. */
 	| { type: 'digest'; upload: string; ask: number }
 	/** Forget the upload's hash. */
 	| { type: 'drop'; upload: string };
 
 export type HashAnswer =
-	/** Done with an `add`: its buffer goes back for the next batch. */
-	| { type: 'added'; bytes: number; piece: ArrayBuffer | null }
-	| { type: 'digest'; ask: number; sha256: string | null };
+	/** Done with an `add`: its part of the ring is free again. */
+	{ type: 'added'; bytes: number } | { type: 'digest'; ask: number; sha256: string | null };
 
 if (!isMainThread && parentPort && workerData?.role === HASH_WORKER_ROLE) {
 	const port = parentPort;
+	const ring: Uint8Array = workerData.ring;
 	const hashes = new Map<string, Hash>();
 	port.on('message', (job: HashJob) => {
 		if (job.type === 'add') {
 			if (job.start) hashes.set(job.upload, createHash('sha256'));
-			if (job.piece) hashes.get(job.upload)?.update(new Uint8Array(job.piece, 0, job.bytes));
-			const answer: HashAnswer = { type: 'added', bytes: job.bytes, piece: job.piece };
-			port.postMessage(answer, job.piece ? [job.piece] : []);
+			const hash = hashes.get(job.upload);
+			for (let index = 0; index < job.segments.length; index += 2) {
+				const from = job.segments[index];
+				hash?.update(ring.subarray(from, from + job.segments[index + 1]));
+			}
+			port.postMessage({ type: 'added', bytes: job.bytes } satisfies HashAnswer);
 		} else if (job.type === 'digest') {
 			const hash = hashes.get(job.upload);
 			hashes.delete(job.upload);

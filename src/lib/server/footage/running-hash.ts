@@ -13,12 +13,13 @@
 import { Worker } from 'node:worker_threads';
 import type { HashAnswer, HashJob } from './hash-worker';
 
-/** Bytes handed to the thread and not yet hashed before a write waits: bounds the memory held. */
-const IN_FLIGHT_LIMIT = 16 * 1024 * 1024;
-/** The size of the buffers that carry bytes to the thread (a batch is about the write's 1 MiB). */
-const SLAB_BYTES = 2 * 1024 * 1024;
-/** Buffers back from the thread kept for the next batches. */
-const SPARES_KEPT = IN_FLIGHT_LIMIT / SLAB_BYTES + 2;
+/**
+ * The bytes travel through one ring of shared memory: the main thread copies each written batch in
+ * and posts where it lies; the thread hashes it there and says so, which frees that part of the
+ * ring. Moving buffers between threads instead cost more than the copy and left the collector
+ * of both threads chasing their memory. The ring's size bounds what waits to be hashed.
+ */
+const RING_BYTES = 8 * 1024 * 1024;
 /** The thread ends after this long without uploads. */
 const IDLE_MS = 30_000;
 
@@ -26,9 +27,14 @@ class UploadHashes {
 	#worker: Promise<Worker> | null = null;
 	/** The thread now serving (a retired one's late exit must not touch its successor's state). */
 	#thread: Worker | null = null;
-	#idle: ReturnType<typeof setTimeout> | null = null;
+	/** Counts threads started, so a write that waited can tell its thread was replaced meanwhile. */
+	#generation = 0;
+	#ring: Uint8Array<ArrayBufferLike> = new Uint8Array(0);
+	/** Where the next bytes go in the ring, and how many before it wait to be hashed. */
+	#head = 0;
 	#inFlight = 0;
-	#spare: ArrayBuffer[] = [];
+	#idle: ReturnType<typeof setTimeout> | null = null;
+	#lastUsed = 0;
 	#waiting: (() => void)[] = [];
 	#asks = new Map<number, (sha256: string | null) => void>();
 	#nextAsk = 1;
@@ -44,36 +50,50 @@ class UploadHashes {
 		this.drop(upload);
 		if (offset !== 0) return false;
 		this.#offsets.set(upload, 0);
-		this.#post({ type: 'add', upload, start: true, piece: null, bytes: 0 }, []);
+		this.#post({ type: 'add', upload, start: true, segments: [], bytes: 0 });
 		return true;
 	}
 
 	/** Bytes written at the end of what the upload's hash has seen; resolves when more may follow. */
-	add(upload: string, chunks: readonly Buffer[]): Promise<void> {
-		// The batch is copied into one buffer, which is moved to the thread and back for the next
-		// batch: moving costs more than copying 64 KiB, and buffers that come back are no garbage
-		// for either thread's collector to wait on.
+	async add(upload: string, chunks: readonly Buffer[]): Promise<void> {
+		if (!this.#offsets.has(upload)) return;
+		const generation = this.#generation;
+		let segments: number[] = [];
 		let bytes = 0;
-		for (const chunk of chunks) bytes += chunk.byteLength;
-		const index = this.#spare.findIndex((buffer) => buffer.byteLength >= bytes);
-		const piece =
-			index >= 0 ? this.#spare.splice(index, 1)[0] : new ArrayBuffer(Math.max(bytes, SLAB_BYTES));
-		const into = new Uint8Array(piece);
-		let at = 0;
+		const send = () => {
+			if (bytes === 0) return;
+			// A hash dropped meanwhile stays dropped; the thread still frees the ring's part.
+			const seen = this.#offsets.get(upload);
+			if (seen !== undefined) this.#offsets.set(upload, seen + bytes);
+			this.#post({ type: 'add', upload, start: false, segments, bytes });
+			segments = [];
+			bytes = 0;
+		};
 		for (const chunk of chunks) {
-			into.set(chunk, at);
-			at += chunk.byteLength;
+			for (let at = 0; at < chunk.byteLength;) {
+				const room = Math.min(RING_BYTES - this.#inFlight, RING_BYTES - this.#head);
+				if (room === 0) {
+					send();
+					await new Promise<void>((resolve) => this.#waiting.push(resolve));
+					// The thread was lost meanwhile: so was this upload's hash.
+					if (generation !== this.#generation || !this.#offsets.has(upload)) return;
+					continue;
+				}
+				const length = Math.min(room, chunk.byteLength - at);
+				this.#ring.set(chunk.subarray(at, at + length), this.#head);
+				segments.push(this.#head, length);
+				this.#head = (this.#head + length) % RING_BYTES;
+				this.#inFlight += length;
+				bytes += length;
+				at += length;
+			}
 		}
-		this.#offsets.set(upload, (this.#offsets.get(upload) ?? 0) + bytes);
-		this.#inFlight += bytes;
-		this.#post({ type: 'add', upload, start: false, piece, bytes }, [piece]);
-		if (this.#inFlight < IN_FLIGHT_LIMIT) return Promise.resolve();
-		return new Promise((resolve) => this.#waiting.push(resolve));
+		send();
 	}
 
 	/** Forgets the upload's running hash. */
 	drop(upload: string): void {
-		if (this.#offsets.delete(upload)) this.#post({ type: 'drop', upload }, []);
+		if (this.#offsets.delete(upload)) this.#post({ type: 'drop', upload });
 	}
 
 	/** How many bytes the upload's running hash has seen, or undefined when it has none. */
@@ -90,22 +110,22 @@ class UploadHashes {
 		this.#offsets.delete(upload);
 		const ask = this.#nextAsk++;
 		const answer = new Promise<string | null>((resolve) => this.#asks.set(ask, resolve));
-		this.#post({ type: 'digest', upload, ask }, []);
+		this.#post({ type: 'digest', upload, ask });
 		return answer;
 	}
 
-	#post(job: HashJob, transfer: ArrayBuffer[]): void {
-		const worker = (this.#worker ??= this.#start());
+	#post(job: HashJob): void {
+		if (!this.#worker) {
+			this.#generation += 1;
+			this.#ring = new Uint8Array(new SharedArrayBuffer(RING_BYTES));
+			this.#head = 0;
+			this.#inFlight = 0;
+			this.#worker = this.#start(this.#ring);
+		}
+		const worker = this.#worker;
 		this.#keepAwake();
 		void worker.then(
-			(thread) => {
-				try {
-					thread.postMessage(job, transfer);
-				} catch {
-					// Memory that cannot be moved (shared, or not detachable) is copied instead.
-					thread.postMessage(job);
-				}
-			},
+			(thread) => thread.postMessage(job),
 			(failure) => {
 				if (this.#worker !== worker) return;
 				console.error('The upload hashing thread did not start:', failure);
@@ -114,9 +134,9 @@ class UploadHashes {
 		);
 	}
 
-	async #start(): Promise<Worker> {
+	async #start(ring: Uint8Array<ArrayBufferLike>): Promise<Worker> {
 		const { hashWorkerUrl, HASH_WORKER_ROLE } = await import('./hash-worker');
-		const options = { workerData: { role: HASH_WORKER_ROLE } };
+		const options = { workerData: { role: HASH_WORKER_ROLE, ring } };
 		const thread = hashWorkerUrl.endsWith('.ts')
 			? // The source (tests, `vite dev`) is TypeScript: register tsx's loader in the thread first.
 				new Worker(
@@ -142,9 +162,7 @@ class UploadHashes {
 	#heard(answer: HashAnswer): void {
 		if (answer.type === 'added') {
 			this.#inFlight -= answer.bytes;
-			if (answer.piece && this.#spare.length < SPARES_KEPT) this.#spare.push(answer.piece);
-			if (this.#inFlight < IN_FLIGHT_LIMIT)
-				for (const resolve of this.#waiting.splice(0)) resolve();
+			if (answer.bytes > 0) for (const resolve of this.#waiting.splice(0)) resolve();
 			return;
 		}
 		this.#asks.get(answer.ask)?.(answer.sha256);
@@ -157,21 +175,29 @@ class UploadHashes {
 		this.#thread = null;
 		this.#offsets.clear();
 		this.#inFlight = 0;
-		this.#spare = [];
+		this.#head = 0;
 		for (const resolve of this.#waiting.splice(0)) resolve();
 		for (const resolve of this.#asks.values()) resolve(null);
 		this.#asks.clear();
 	}
 
+	/** Ends the thread once IDLE_MS have passed since it was last used (one timer, not one per batch). */
 	#keepAwake(): void {
-		if (this.#idle) clearTimeout(this.#idle);
-		this.#idle = setTimeout(() => {
+		this.#lastUsed = Date.now();
+		if (this.#idle) return;
+		const check = () => {
+			const idleFor = Date.now() - this.#lastUsed;
+			if (idleFor < IDLE_MS || this.#inFlight > 0 || this.#asks.size > 0) {
+				this.#idle = setTimeout(check, Math.max(IDLE_MS - idleFor, 1000));
+				this.#idle.unref();
+				return;
+			}
 			this.#idle = null;
-			if (this.#inFlight > 0 || this.#asks.size > 0) return this.#keepAwake();
 			const worker = this.#worker;
 			this.#lost();
 			void worker?.then((thread) => thread.terminate());
-		}, IDLE_MS);
+		};
+		this.#idle = setTimeout(check, IDLE_MS);
 		this.#idle.unref();
 	}
 }

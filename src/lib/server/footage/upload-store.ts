@@ -67,15 +67,18 @@ export class HashingFileStore extends FileStore {
 					.then(() => done(), done);
 			}
 		});
+		let failed = false;
 		try {
 			await pipeline(readable, sink);
 		} catch {
+			failed = true;
+		}
+		await writing.catch(() => undefined);
+		await promisify(fs.close)(fd);
+		if (failed) {
 			// As FileStore: the offset is what the file holds; the next request starts from there.
 			uploadHashes.drop(id);
 			throw ERRORS.FILE_WRITE_ERROR;
-		} finally {
-			await writing.catch(() => undefined);
-			await promisify(fs.close)(fd);
 		}
 		if (hashing && uploadHashes.seen(id) !== offset + written) uploadHashes.drop(id);
 		return offset + written;
