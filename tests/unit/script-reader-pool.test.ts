@@ -10,10 +10,14 @@ import {
 	SCRIPT_READER_COUNT,
 	keepIdleReadersFor,
 	scriptHtml,
+	spokenWords,
 	scriptReaderCount,
 	startScriptReaders
 } from '../../src/lib/server/episodes/script-reader.ts';
-import { renderScriptMarkdown } from '../../src/lib/server/episodes/markdown.ts';
+import {
+	MAX_SCRIPT_CHARACTERS,
+	renderScriptMarkdown
+} from '../../src/lib/server/episodes/markdown.ts';
 
 const script = (step: number) =>
 	`# Step ${step}\n\nSet the **stands** under the frame rails, then torque the lug nuts to spec.`;
@@ -35,5 +39,14 @@ describe('script-reader pool size', () => {
 		// The one kept takes the next script at once.
 		expect(await scriptHtml(script(9))).toBe(renderScriptMarkdown(script(9)));
 		expect(scriptReaderCount()).toBeLessThanOrEqual(2);
+	}, 60_000);
+
+	test('readers ended for running over the limit are replaced one for one, so the next pair of reads meets started readers', async () => {
+		keepIdleReadersFor(60_000);
+		await startScriptReaders();
+		// marked's emphasis lexer is quadratic on `_a_a…` (script-reader.test.ts): both reads overrun.
+		const hostile = '_a'.repeat(MAX_SCRIPT_CHARACTERS / 2);
+		await Promise.all([scriptHtml(hostile), spokenWords(hostile)]);
+		expect(scriptReaderCount()).toBeGreaterThanOrEqual(2);
 	}, 60_000);
 });

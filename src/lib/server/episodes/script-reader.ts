@@ -375,6 +375,9 @@ class ScriptReaderPool {
 		running.job.settle({ type: 'over-limit' });
 		// Ending the worker is the only way to stop a regular expression mid-run; its exit is then ignored.
 		void reader.worker?.terminate();
+		// Replaced one for one, whatever the pool wants this moment: hostile scripts come in pairs
+		// (HTML and word count) and repeat; the idle ones are ended later.
+		this.#start();
 		this.#fill();
 		this.#pump();
 	}
