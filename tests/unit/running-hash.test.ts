@@ -42,7 +42,8 @@ describe('running SHA-256 of an upload', () => {
 		const id = newUpload();
 		expect(await write(id, 0, Buffer.from('a'))).toBe(1);
 		expect(await write(id, 1, Buffer.from('bc'), 1)).toBe(3);
-		// FIPS 180-4 worked example (NIST "SHA-256 example", one-block message "abc").
+		// FIPS 180-4 worked example (NIST "SHA-256 example", one-block message "abc"); the digest is
+		// written from memory of that example (tests/REFERENCES.md, "Resumable uploads").
 		expect(await uploadHashes.digest(id, 3)).toBe(
 			'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad'
 		);
