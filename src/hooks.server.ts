@@ -20,7 +20,7 @@ import { startUploadSweep, stopUploadSweep } from '$lib/server/footage/upload-sw
 import { startMediaWorker, stopMedia } from '$lib/server/media/queue';
 import { withSecurityHeaders } from '$lib/server/http/security-headers';
 import { withBucketMedia } from '$lib/server/http/object-response';
-import { configuredBucket } from '$lib/server/footage/object-store';
+import { prepareObjectStorage } from '$lib/server/footage/object-store';
 import { isDatabaseUnavailable } from '$lib/server/db/outage';
 import {
 	asOutage,
@@ -39,8 +39,9 @@ import { countingQueries, countQueries } from '$lib/server/db/query-count';
 offerNodeRoutes();
 
 export const init: ServerInit = async () => {
-	// Object storage settings with a mistake stop the start here, naming the setting.
-	configuredBucket();
+	// Object storage settings with a mistake stop the start here, naming the setting; the S3
+	// client is loaded only when they are there.
+	await prepareObjectStorage();
 	if (env.WRENCHROLL_PROCESS === 'worker') {
 		// worker.js: this process only makes media (no HTTP, no mail); it stops on SIGTERM/SIGINT.
 		await startMediaWorker();

@@ -30,12 +30,20 @@ export { SCRIPT_READ_LIMIT_MS };
 /**
  * How many reads run at once: two at least, so a preview's HTML and word count run side by side
  * (each within the limit), and at most four; the main thread keeps a core of its own where there
- * are more. One more reader is kept started and idle: when reads run over and their workers are
- * replaced (a start takes about 0.3 s, more on a busy machine), the spare takes the next read at
- * once instead of it waiting for a start.
+ * are more. One more reader is kept started and idle beside the busy ones: when reads run over and
+ * their workers are replaced (a start takes about 0.3 s, more on a busy machine), the spare takes
+ * the next read at once instead of it waiting for a start.
+ *
+ * Readers cost memory (about 15 MB each), so the pool starts with one (the first script anybody
+ * opens does not wait), starts more only while reads are running or queued (up to
+ * SCRIPT_READER_COUNT running plus the spare), and ends readers beyond that after they have been
+ * idle for a while.
  */
 export const SCRIPT_READER_COUNT = Math.max(2, Math.min(4, availableParallelism() - 1));
 const READERS_KEPT = SCRIPT_READER_COUNT + 1;
+
+/** A reader the pool no longer needs is ended after being idle this long. */
+let idleReaderLifeMs = 60_000;
 
 /** How many texts' word counts (and which texts ran over the limit) are remembered. */
 const REMEMBERED_TEXTS = 2000;
@@ -111,6 +119,8 @@ interface Reader {
 	ready: boolean;
 	startTimer?: ReturnType<typeof setTimeout>;
 	running: { id: number; job: Job; timer: ReturnType<typeof setTimeout> } | null;
+	/** When it last finished a read (or became ready). */
+	idleSince: number;
 }
 
 /** A small least-recently-used memory; an entry may carry an expiry time. */
@@ -141,6 +151,7 @@ class ScriptReaderPool {
 	#pausedUntil = 0;
 	#workerModule: Promise<{ url: string; role: string }> | null = null;
 	#readyWaiters: (() => void)[] = [];
+	#retireTimer: ReturnType<typeof setTimeout> | null = null;
 	/** Word counts by text: exact ones for good, rough ones until FALLBACK_MEMORY_MS has passed. */
 	#words = new Remembered<number>();
 	/** Texts whose HTML could not be made in time (or at all), for FALLBACK_MEMORY_MS. */
@@ -231,10 +242,38 @@ class ScriptReaderPool {
 		return Date.now() < this.#pausedUntil;
 	}
 
-	/** Keeps READERS_KEPT readers alive (started or starting). */
+	/** How many readers the pool wants now: the busy ones, one for each read waiting, and a spare. */
+	#wanted(): number {
+		const busy = [...this.#readers].filter((reader) => reader.running).length;
+		return Math.min(READERS_KEPT, busy + this.#queue.length + 1);
+	}
+
+	/** Starts readers (or waits for those starting) up to what the pool wants now. */
 	#fill(): void {
 		if (this.#paused()) return;
-		while (this.#readers.size < READERS_KEPT) this.#start();
+		while (this.#readers.size < this.#wanted()) this.#start();
+	}
+
+	/** How many readers are started or starting (for tests). */
+	get size(): number {
+		return this.#readers.size;
+	}
+
+	/** Ends readers beyond what the pool wants once they have been idle for idleReaderLifeMs. */
+	#retireLater(): void {
+		if (this.#retireTimer || this.#readers.size <= this.#wanted()) return;
+		this.#retireTimer = setTimeout(() => {
+			this.#retireTimer = null;
+			const now = Date.now();
+			for (const reader of this.#readers) {
+				if (this.#readers.size <= this.#wanted()) break;
+				if (!reader.ready || reader.running || now - reader.idleSince < idleReaderLifeMs) continue;
+				this.#readers.delete(reader);
+				void reader.worker?.terminate();
+			}
+			this.#retireLater();
+		}, idleReaderLifeMs);
+		this.#retireTimer.unref();
 	}
 
 	#start(): void {
@@ -242,7 +281,7 @@ class ScriptReaderPool {
 			url: module.scriptReaderWorkerUrl,
 			role: module.SCRIPT_READER_ROLE
 		}));
-		const reader: Reader = { worker: null, ready: false, running: null };
+		const reader: Reader = { worker: null, ready: false, running: null, idleSince: Date.now() };
 		this.#readers.add(reader);
 		this.#workerModule.then(
 			(module) => this.#spawn(reader, module),
@@ -272,6 +311,7 @@ class ScriptReaderPool {
 		if (message.type === 'ready') {
 			clearTimeout(reader.startTimer);
 			reader.ready = true;
+			reader.idleSince = Date.now();
 			this.#startFailures = 0;
 			if (this.#allReady()) for (const resolve of this.#readyWaiters.splice(0)) resolve();
 			this.#pump();
@@ -281,6 +321,7 @@ class ScriptReaderPool {
 		if (!running || running.id !== message.id) return;
 		clearTimeout(running.timer);
 		reader.running = null;
+		reader.idleSince = Date.now();
 		running.job.settle(
 			message.type === 'done'
 				? { type: 'done', html: message.html, words: message.words }
@@ -345,6 +386,8 @@ class ScriptReaderPool {
 			reader.running = { id, job, timer };
 			reader.worker.postMessage({ id, kind: job.kind, markdown: job.markdown } satisfies ScriptJob);
 		}
+		this.#fill();
+		this.#retireLater();
 		this.#holdProcess();
 	}
 
@@ -359,6 +402,9 @@ class ScriptReaderPool {
 		running.job.settle({ type: 'over-limit' });
 		// Ending the worker is the only way to stop a regular expression mid-run; its exit is then ignored.
 		void reader.worker?.terminate();
+		// Replaced one for one, whatever the pool wants this moment: hostile scripts come in pairs
+		// (HTML and word count) and repeat; the idle ones are ended later.
+		this.#start();
 		this.#fill();
 		this.#pump();
 	}
@@ -382,7 +428,7 @@ function digest(text: string): string {
 let pool: ScriptReaderPool | null = null;
 const thePool = () => (pool ??= new ScriptReaderPool());
 
-/** Starts the readers ahead of the first request; resolves once all of them are ready. */
+/** Starts the first reader ahead of the first request; resolves once the started ones are ready. */
 export function startScriptReaders(): Promise<void> {
 	return thePool().ready();
 }
@@ -405,4 +451,14 @@ export function scriptHtmlAndWords(markdown: string): Promise<{ html: string; wo
 /** Spoken words of several scripts, in order. */
 export function spokenWordsEach(markdowns: readonly string[]): Promise<number[]> {
 	return Promise.all(markdowns.map((markdown) => thePool().words(markdown)));
+}
+
+/** How many script readers are started or starting now (for tests). */
+export function scriptReaderCount(): number {
+	return thePool().size;
+}
+
+/** Changes how long an unneeded reader stays after its last read (tests shorten it). */
+export function keepIdleReadersFor(milliseconds: number): void {
+	idleReaderLifeMs = milliseconds;
 }

@@ -1,7 +1,8 @@
 /**
  * Resumable uploads answered by the Node.js server itself (server.js at the project root), ahead
- * of SvelteKit: a PATCH body goes from the socket to @tus/server without SvelteKit's copy into a
- * Web stream and its answer's copy back. Everything else about the request is as through
+ * of SvelteKit: a PATCH body goes from the socket to @tus/server's PATCH handler and the disk as
+ * the Node.js stream it is, without SvelteKit's (or srvx's) copy into a Web stream and its
+ * answer's copy back. Everything else about the request is as through
  * hooks.server.ts: the caller is looked up the same way (an API token, else the session cookie and
  * the channel cookie), `answerUpload` makes the same role, channel and body checks, the answer
  * gets the same security headers, and a database outage the same 503.
@@ -113,6 +114,10 @@ async function answer(req: IncomingMessage, res: ServerResponse): Promise<void> 
 		res,
 		maxRequestBodySize: judgedHere ? limit : undefined
 	}) as unknown as Request;
+	// A PATCH of known length hands tus the Node.js request itself as its body, not a Web stream
+	// over it (upload-store.ts); a chunked one is spooled through the Web stream (patch-body.ts).
+	if (!judgedHere && req.headers['content-length'] !== undefined)
+		Object.defineProperty(request, 'body', { value: req });
 	let response: Response;
 	try {
 		response =

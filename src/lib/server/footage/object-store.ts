@@ -9,24 +9,14 @@
  * id for the file itself, `derived/<footage id>/<name>` for the proxy, poster, sprite and peaks.
  *
  * Partial tus uploads always stay on local disk (see tus-server.ts); a finished one is moved into
- * the bucket by `keepFinishedUpload`.
+ * the bucket by `keepFinishedUpload`. The bucket's code (bucket-store.ts, with the S3 client) is
+ * loaded at start-up only when object storage is set up (`prepareObjectStorage`).
  */
-import { createReadStream, createWriteStream } from 'node:fs';
-import { mkdir, mkdtemp, readdir, rename, rm, stat, unlink } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
+import { mkdir, readdir, rename, rm, stat, unlink } from 'node:fs/promises';
 import path from 'node:path';
-import type { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
-import {
-	DeleteObjectsCommand,
-	GetObjectCommand,
-	HeadObjectCommand,
-	S3Client
-} from '@aws-sdk/client-s3';
-import { Upload } from '@aws-sdk/lib-storage';
-import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { env } from '$env/dynamic/private';
 import { z } from 'zod';
+import type { BucketStore } from './bucket-store';
 import { uploadDir } from './tus-server';
 
 export type StoredIn = 'disk' | 'bucket';
@@ -58,7 +48,7 @@ export interface ObjectStore {
 	remove(keys: readonly string[]): Promise<void>;
 }
 
-const ignoreMissing = (failure: NodeJS.ErrnoException) => {
+export const ignoreMissing = (failure: NodeJS.ErrnoException) => {
 	if (failure.code !== 'ENOENT') throw failure;
 };
 
@@ -105,7 +95,7 @@ class DiskStore implements ObjectStore {
 const required = (name: string) =>
 	z.string({ error: `${name} is required` }).min(1, `${name} is required`);
 
-const bucketSettings = z.object({
+export const bucketSettings = z.object({
 	S3_ENDPOINT: z.url({
 		protocol: /^https?$/,
 		error: 'S3_ENDPOINT must be the address of the store, such as https://s3.example.net'
@@ -119,119 +109,27 @@ const bucketSettings = z.object({
 		.default('false')
 });
 
-/** How long a presigned download or playback address stays valid. */
-export const SIGNED_URL_SECONDS = 3600;
-const PART_BYTES = 16 * 1024 * 1024;
-
-/** A bucket through the S3 API (AWS SDK for JavaScript v3). */
-export class BucketStore implements ObjectStore {
-	readonly kind = 'bucket' as const;
-	readonly client: S3Client;
-	readonly bucket: string;
-	/** The origin presigned addresses point at: the endpoint's (path style) or bucket.endpoint's. */
-	readonly origin: string;
-	constructor(settings: z.infer<typeof bucketSettings>) {
-		this.bucket = settings.S3_BUCKET;
-		const endpoint = new URL(settings.S3_ENDPOINT);
-		if (settings.S3_FORCE_PATH_STYLE !== 'true')
-			endpoint.hostname = `${this.bucket}.${endpoint.hostname}`;
-		this.origin = endpoint.origin;
-		this.client = new S3Client({
-			endpoint: settings.S3_ENDPOINT,
-			region: settings.S3_REGION,
-			forcePathStyle: settings.S3_FORCE_PATH_STYLE === 'true',
-			credentials: {
-				accessKeyId: settings.S3_ACCESS_KEY_ID,
-				secretAccessKey: settings.S3_SECRET_ACCESS_KEY
-			}
-		});
-	}
-	private async scratch(key: string): Promise<LocalFile> {
-		const folder = await mkdtemp(path.join(tmpdir(), 'wrenchroll-object-'));
-		return {
-			path: path.join(folder, path.basename(key)),
-			release: () => rm(folder, { recursive: true, force: true })
-		};
-	}
-	async localCopy(key: string): Promise<LocalFile> {
-		const local = await this.scratch(key);
-		try {
-			const object = await this.client.send(
-				new GetObjectCommand({ Bucket: this.bucket, Key: key })
-			);
-			await pipeline(object.Body as Readable, createWriteStream(local.path));
-			return local;
-		} catch (failure) {
-			await local.release();
-			throw failure;
-		}
-	}
-	workFile(key: string): Promise<LocalFile> {
-		return this.scratch(key);
-	}
-	async moveIn(key: string, localPath: string, type: string): Promise<number> {
-		const { size } = await stat(localPath);
-		// lib-storage sends one PutObject for a small file, a multipart upload for a large one.
-		await new Upload({
-			client: this.client,
-			params: {
-				Bucket: this.bucket,
-				Key: key,
-				Body: createReadStream(localPath),
-				ContentType: type,
-				ContentLength: size
-			},
-			partSize: PART_BYTES,
-			queueSize: 2
-		}).done();
-		await unlink(localPath).catch(ignoreMissing);
-		return size;
-	}
-	async size(key: string): Promise<number | null> {
-		try {
-			const head = await this.client.send(new HeadObjectCommand({ Bucket: this.bucket, Key: key }));
-			return head.ContentLength ?? null;
-		} catch (failure) {
-			const status = (failure as { $metadata?: { httpStatusCode?: number } }).$metadata
-				?.httpStatusCode;
-			if (status === 404) return null;
-			throw failure;
-		}
-	}
-	async remove(keys: readonly string[]): Promise<void> {
-		if (keys.length === 0) return;
-		const answer = await this.client.send(
-			new DeleteObjectsCommand({
-				Bucket: this.bucket,
-				Delete: { Objects: keys.map((Key) => ({ Key })), Quiet: true }
-			})
-		);
-		if (answer.Errors?.length)
-			throw new Error(`the bucket kept ${answer.Errors.map((error) => error.Key).join(', ')}`);
-	}
-	/** A short-lived GET address for the object; the browser sends its Range straight to the store. */
-	signedUrl(key: string, serveAs: ServeAs): Promise<string> {
-		return getSignedUrl(
-			this.client,
-			new GetObjectCommand({
-				Bucket: this.bucket,
-				Key: key,
-				ResponseContentType: serveAs.type,
-				ResponseContentDisposition: serveAs.disposition,
-				ResponseCacheControl: serveAs.cacheControl
-			}),
-			{ expiresIn: SIGNED_URL_SECONDS }
-		);
-	}
-}
-
 const disk = new DiskStore();
 let bucket: BucketStore | null = null;
 let bucketFrom = '';
+/** The S3 client's code, loaded only when object storage is set up (it costs about 24 MB). */
+let bucketStore: typeof import('./bucket-store') | null = null;
+
+const bucketWanted = () => Boolean(env.S3_ENDPOINT || env.S3_BUCKET);
+
+/**
+ * Loads the S3 client when object storage is set up, and checks its settings (a mistake stops the
+ * start, naming the setting). Called once at start-up, before anything asks for a store.
+ */
+export async function prepareObjectStorage(): Promise<void> {
+	if (!bucketWanted()) return;
+	bucketStore ??= await import('./bucket-store');
+	configuredBucket();
+}
 
 /** The bucket the settings name, or null when S3_ENDPOINT and S3_BUCKET are not both set. */
 export function configuredBucket(): BucketStore | null {
-	if (!env.S3_ENDPOINT && !env.S3_BUCKET) return null;
+	if (!bucketWanted()) return null;
 	const parsed = bucketSettings.safeParse({
 		S3_ENDPOINT: env.S3_ENDPOINT,
 		S3_BUCKET: env.S3_BUCKET,
@@ -245,8 +143,9 @@ export function configuredBucket(): BucketStore | null {
 			`Object storage settings: ${parsed.error.issues.map((issue) => issue.message).join('; ')}`
 		);
 	const key = JSON.stringify(parsed.data);
+	if (!bucketStore) throw new Error('Object storage is set up but its client is not loaded yet.');
 	if (!bucket || bucketFrom !== key) {
-		bucket = new BucketStore(parsed.data);
+		bucket = new bucketStore.BucketStore(parsed.data);
 		bucketFrom = key;
 	}
 	return bucket;

@@ -9,10 +9,8 @@ import { createReadStream } from 'node:fs';
 import { randomBytes } from 'node:crypto';
 import path from 'node:path';
 import { pipeline } from 'node:stream/promises';
-import { pipeline as pipe, Transform, type Readable } from 'node:stream';
 import type { RequestEvent } from '@sveltejs/kit';
 import { Server } from '@tus/server';
-import { FileStore } from '@tus/file-store';
 import { Metadata } from '@tus/utils';
 import { z } from 'zod';
 import { env } from '$env/dynamic/private';
@@ -32,6 +30,8 @@ import { reserveUpload, uploadExpiryMs } from './upload-limits';
 import { bodySizeLimit, checkPatchBody } from './patch-body';
 import { keepFinishedUpload } from './object-store';
 import { PostgresLocker } from './tus-locker';
+import { HashingFileStore, takeNodeBodies } from './upload-store';
+import { uploadHashes } from './running-hash';
 import { addCutVersion } from '../edit/cut-versions';
 import { changeNoteSchema } from '$lib/schemas/cut-review';
 import { stageLock } from '$lib/stages';
@@ -81,48 +81,6 @@ interface UploadClaim {
 /** The checked facts about a creation request, handed from the hook to tus's callbacks. */
 const claims = new WeakMap<Request, UploadClaim>();
 
-/**
- * SHA-256 computed while the bytes arrive, so completion needs no second pass over a large file.
- * The running hash is trusted only while every write continues exactly where the last one ended;
- * after a resume from another offset (an aborted request, a restarted server) it is dropped and the
- * file is hashed from disk on completion instead.
- */
-const runningHashes = new Map<string, { hash: ReturnType<typeof createHash>; offset: number }>();
-
-class HashingFileStore extends FileStore {
-	override async write(readable: Readable, id: string, offset: number): Promise<number> {
-		let tracking = runningHashes.get(id);
-		if (!tracking || tracking.offset !== offset) {
-			runningHashes.delete(id);
-			tracking = offset === 0 ? { hash: createHash('sha256'), offset: 0 } : undefined;
-		}
-		let seen = 0;
-		const tap = new Transform({
-			transform(chunk: Buffer, _encoding, done) {
-				tracking?.hash.update(chunk);
-				seen += chunk.length;
-				done(null, chunk);
-			}
-		});
-		const newOffset = await super.write(
-			pipe(readable, tap, () => undefined),
-			id,
-			offset
-		);
-		if (tracking && newOffset === offset + seen)
-			runningHashes.set(id, { hash: tracking.hash, offset: newOffset });
-		else runningHashes.delete(id);
-		return newOffset;
-	}
-}
-
-/** The hash of a finished upload if it was seen whole while arriving, else null. */
-function takeRunningHash(id: string, size: number): string | null {
-	const tracking = runningHashes.get(id);
-	runningHashes.delete(id);
-	return tracking && tracking.offset === size ? tracking.hash.digest('hex') : null;
-}
-
 let server: Server | null = null;
 /**
  * tus's per-upload locks, shared with the sweep of expired uploads: PostgreSQL advisory locks, so
@@ -143,7 +101,8 @@ export async function closeUploadLocks(): Promise<void> {
 }
 
 function tusServer(): Server {
-	server ??= new Server({
+	if (server) return server;
+	server = new Server({
 		path: UPLOAD_PATH,
 		// An unfinished upload expires this long after its creation (tus Expiration: Upload-Expires).
 		datastore: new HashingFileStore({
@@ -172,6 +131,8 @@ function tusServer(): Server {
 			return {};
 		}
 	});
+	// A PATCH from server.js carries the Node.js request as its body (node-uploads.ts).
+	takeNodeBodies(server);
 	return server;
 }
 
@@ -308,7 +269,8 @@ async function recordFootage(uploadId: string, sizeBytes: number): Promise<void>
 		.where('id', '=', uploadId)
 		.executeTakeFirstOrThrow();
 	const file = path.join(uploadDir(), uploadId);
-	const running = takeRunningHash(uploadId, sizeBytes);
+	// The SHA-256 taken as the bytes arrived (running-hash.ts), else one more pass over the file.
+	const running = await uploadHashes.digest(uploadId, sizeBytes);
 	const [sha256, probe] = await Promise.all([running ?? sha256OfFile(file), probeMedia(file)]);
 	// With object storage set up, the finished file moves to the bucket now (object-store.ts).
 	const storedIn = await keepFinishedUpload(uploadId, upload.fileType);

@@ -8,7 +8,8 @@
 import path from 'node:path';
 import { DomainError } from './api';
 import { fileResponse } from './file-response';
-import { BucketStore, configuredBucket, storeOf, type StoredIn } from '../footage/object-store';
+import { configuredBucket, storeOf, type StoredIn } from '../footage/object-store';
+import type { BucketStore } from '../footage/bucket-store';
 import { uploadDir } from '../footage/tus-server';
 
 export interface StoredFile {
@@ -32,8 +33,8 @@ export async function storedFileResponse(
 			'This file is in object storage, and this server has no object storage settings.'
 		);
 	}
-	if (store instanceof BucketStore) {
-		const url = await store.signedUrl(file.key, {
+	if (store.kind === 'bucket') {
+		const url = await (store as BucketStore).signedUrl(file.key, {
 			type: headers['Content-Type'] ?? 'application/octet-stream',
 			disposition: headers['Content-Disposition'] ?? 'attachment',
 			cacheControl: headers['Cache-Control'] ?? 'private, max-age=3600'
