@@ -240,6 +240,14 @@ const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
 	return new Response(response.body, { status, statusText: '', headers });
 };
 
+/**
+ * Auth.js answers its own endpoints under /auth/ (sign-in, sign-out, CSRF). Nothing else reads its
+ * `locals.auth` (identityHandle decodes the cookie itself), so other requests skip building its
+ * configuration.
+ */
+const authEndpointHandle: Handle = (input) =>
+	input.event.url.pathname.startsWith('/auth/') ? authHandle(input) : input.resolve(input.event);
+
 /** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): X-Query-Count on every answer. */
 const queryCountHandle: Handle = ({ event, resolve }) => countQueries(async () => resolve(event));
 
@@ -248,7 +256,7 @@ export const handle: Handle = sequence(
 	securityHeadersHandle,
 	throttleAnswerHandle,
 	outageHandle,
-	authHandle,
+	authEndpointHandle,
 	identityHandle,
 	uploadHandle,
 	guardHandle,
