@@ -8,30 +8,21 @@
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import type { Page } from 'playwright-core';
 import { openBrowser, signInAs } from '../helpers/browser';
-import { demo, sql } from '../helpers/http';
+import { demo, ownChannel, sql } from '../helpers/http';
 
 const EMAIL = 'more.producer@paging-more.test';
 let channelId = '';
 let episodeId = '';
 
 beforeAll(async () => {
-	[{ id: channelId }] = await sql<{ id: string }>(
-		`INSERT INTO channel (name, frame_rate) VALUES ('Zz more bay', '29.97') RETURNING id`
-	);
-	const [person] = await sql<{ id: string }>(
-		`INSERT INTO person (email, name, password_hash)
-		 SELECT $1, 'Aa More Producer', password_hash FROM person WHERE email = $2 RETURNING id`,
-		[EMAIL, demo.producer]
-	);
-	await sql(
-		`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, ARRAY['producer'])`,
-		[channelId, person.id]
-	);
-	[{ id: episodeId }] = await sql<{ id: string }>(
-		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate)
-		 VALUES ($1, 'More bay episode', 'more-bay', 600, '29.97') RETURNING id`,
-		[channelId]
-	);
+	({ channelId, episodeId } = await ownChannel({
+		channelName: 'Zz more bay',
+		email: EMAIL,
+		personName: 'Aa More Producer',
+		role: 'producer',
+		passwordOf: demo.producer,
+		episode: { title: 'More bay episode', slug: 'more-bay' }
+	}));
 	await sql(
 		`INSERT INTO footage (channel_id, episode_id, upload_id, purpose, camera_label, clip_name,
 		   file_name, file_type, size_bytes, sha256)

@@ -15,7 +15,7 @@ import { createRequire } from 'node:module';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
-import { demo, sql } from '../helpers/http';
+import { demo, ownChannel, sql } from '../helpers/http';
 
 const require = createRequire(import.meta.url);
 const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
@@ -49,23 +49,14 @@ let episodeId = '';
 let expectedTake: { id: string; clipName: string };
 
 beforeAll(async () => {
-	[{ id: channelId }] = await sql<{ id: string }>(
-		`INSERT INTO channel (name, frame_rate) VALUES ('Zz picker browser bay', '29.97') RETURNING id`
-	);
-	const [person] = await sql<{ id: string }>(
-		`INSERT INTO person (email, name, password_hash)
-		 SELECT $1, 'Aa Picker Camera', password_hash FROM person WHERE email = $2 RETURNING id`,
-		[EMAIL, demo.camera]
-	);
-	await sql(
-		`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, ARRAY['camera'])`,
-		[channelId, person.id]
-	);
-	[{ id: episodeId }] = await sql<{ id: string }>(
-		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage)
-		 VALUES ($1, 'Picker browser episode', 'picker-browser-test', 600, '29.97', 'shoot') RETURNING id`,
-		[channelId]
-	);
+	({ channelId, episodeId } = await ownChannel({
+		channelName: 'Zz picker browser bay',
+		email: EMAIL,
+		personName: 'Aa Picker Camera',
+		role: 'camera',
+		passwordOf: demo.camera,
+		episode: { title: 'Picker browser episode', slug: 'picker-browser-test', stage: 'shoot' }
+	}));
 	const [segment] = await sql<{ id: string }>(
 		`INSERT INTO segment (episode_id, position, kind, title) VALUES ($1, 1, 'install-step', 'Hub off') RETURNING id`,
 		[episodeId]

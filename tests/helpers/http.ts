@@ -188,3 +188,38 @@ export function linkIn(text: string): string {
 	if (!match) throw new Error(`no link in: ${text}`);
 	return match[0];
 }
+
+/**
+ * A channel of a test file's own with one crew member (signing in with the same password as the
+ * demo account `passwordOf`) and one episode, so the demo channel's lists stay as seeded. Answers
+ * the new ids; the file removes its rows afterwards.
+ */
+export async function ownChannel(setup: {
+	channelName: string;
+	email: string;
+	personName: string;
+	role: string;
+	passwordOf: string;
+	episode: { title: string; slug: string; stage?: string };
+}): Promise<{ channelId: string; personId: string; episodeId: string }> {
+	const [{ id: channelId }] = await sql<{ id: string }>(
+		`INSERT INTO channel (name, frame_rate) VALUES ($1, '29.97') RETURNING id`,
+		[setup.channelName]
+	);
+	const [{ id: personId }] = await sql<{ id: string }>(
+		`INSERT INTO person (email, name, password_hash)
+		 SELECT $1, $2, password_hash FROM person WHERE email = $3 RETURNING id`,
+		[setup.email, setup.personName, setup.passwordOf]
+	);
+	await sql(`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, ARRAY[$3])`, [
+		channelId,
+		personId,
+		setup.role
+	]);
+	const [{ id: episodeId }] = await sql<{ id: string }>(
+		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage)
+		 VALUES ($1, $2, $3, 600, '29.97', coalesce($4, 'script')) RETURNING id`,
+		[channelId, setup.episode.title, setup.episode.slug, setup.episode.stage ?? null]
+	);
+	return { channelId, personId, episodeId };
+}

@@ -12,7 +12,7 @@
  * The rows live in a channel of this file's own, so the demo channel stays as seeded.
  */
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { Visitor, demo, ownChannel, signedIn, sql } from '../helpers/http';
 
 const EMAIL = 'takes.producer@take-picker.test';
 const SEGMENTS = 3;
@@ -33,23 +33,14 @@ interface ReferenceTake {
 let reference: ReferenceTake[] = [];
 
 beforeAll(async () => {
-	[{ id: channelId }] = await sql<{ id: string }>(
-		`INSERT INTO channel (name, frame_rate) VALUES ('Zz picker bay', '29.97') RETURNING id`
-	);
-	const [person] = await sql<{ id: string }>(
-		`INSERT INTO person (email, name, password_hash)
-		 SELECT $1, 'Aa Picker Producer', password_hash FROM person WHERE email = $2 RETURNING id`,
-		[EMAIL, demo.producer]
-	);
-	await sql(
-		`INSERT INTO membership (channel_id, person_id, roles) VALUES ($1, $2, ARRAY['producer'])`,
-		[channelId, person.id]
-	);
-	[{ id: episodeId }] = await sql<{ id: string }>(
-		`INSERT INTO episode (channel_id, title, slug, target_runtime_seconds, frame_rate, stage)
-		 VALUES ($1, 'Picker bay test episode', 'picker-bay-test', 600, '29.97', 'shoot') RETURNING id`,
-		[channelId]
-	);
+	({ channelId, episodeId } = await ownChannel({
+		channelName: 'Zz picker bay',
+		email: EMAIL,
+		personName: 'Aa Picker Producer',
+		role: 'producer',
+		passwordOf: demo.producer,
+		episode: { title: 'Picker bay test episode', slug: 'picker-bay-test', stage: 'shoot' }
+	}));
 	segmentIds = (
 		await sql<{ id: string }>(
 			`INSERT INTO segment (episode_id, position, kind, title)
