@@ -39,7 +39,10 @@ export default defineConfig({
 					globalSetup: ['tests/helpers/global-setup.ts'],
 					fileParallelism: false,
 					testTimeout: 60_000,
-					hookTimeout: 120_000
+					hookTimeout: 120_000,
+					// A page's answer after a click on a busy CI machine (a save that waits for a script
+					// reader, say) can take more than expect.poll's default second; it still has to come.
+					expect: { poll: { timeout: 5_000 } }
 				}
 			}
 		]
