@@ -323,7 +323,7 @@ async function partsSearchBench(): Promise<boolean> {
 			rows,
 			[
 				'Request times: each round’s median, min / median / max over the rounds; growth is the ratio of their medians. Server: one further run of each size.',
-				'Counts stop at 1,000 ("1,000+"); deep pages follow the cursor instead of skipping rows.',
+				'Counts stop at 250 ("250+"; a first page with no page after it is its own count); deep pages follow the cursor instead of skipping rows.',
 				'Featured parts asks which script words begin a SKU or name, then looks up only the phrases starting with one (byte-ordered lower(sku) and lower(name) indexes).'
 			]
 		);

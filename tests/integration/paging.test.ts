@@ -2,7 +2,7 @@
  * Keyset paging over HTTP: walking every page of a list gives every row exactly once, in the same
  * order as one big page, even where many rows tie on the sort key (same publish date, same title,
  * same creation time); a damaged cursor or one made for another order is a 400 on `after`; the
- * episode picker searches only the caller's channel; the catalogue's count stops at 1,000.
+ * episode picker searches only the caller's channel; the catalogue's count stops at 250.
  *
  * Keyset ("seek") paging instead of OFFSET is common practice for long lists (PostgreSQL's own
  * documentation of LIMIT and OFFSET warns that rows skipped by OFFSET are still computed, so a
@@ -223,14 +223,38 @@ describe('crew paging', () => {
 });
 
 describe('catalogue paging and count', () => {
-	test('counts matching parts up to 1,000 and says there are more', async () => {
+	test('counts matching parts up to 250 and says there are more', async () => {
 		const all = await producer.api('/api/parts');
 		expect(all.status).toBe(200);
-		expect(all.body.total).toBe(1000);
+		expect(all.body.total).toBe(250);
 		expect(all.body.totalCapped).toBe(true);
 		const few = await producer.api('/api/parts?q=PG-0000');
 		expect(few.body.totalCapped).toBe(false);
 		expect(few.body.total).toBe(9); // PG-00001 … PG-00009
+		// PG-00100 … PG-00199: under the cap, counted exactly.
+		const hundred = await producer.api('/api/parts?q=PG-001&pageSize=25');
+		expect(hundred.body).toMatchObject({ total: 100, totalCapped: false, pages: 4 });
+	});
+
+	test('every page of a search says the same count, the last page reached by cursor too', async () => {
+		// PG-00001 … PG-00099: 99 parts, pages of 25, 25, 25 and 24.
+		const totals: number[] = [];
+		const sizes: number[] = [];
+		let after: string | null = null;
+		do {
+			const answer = await producer.api(
+				`/api/parts?q=PG-000&pageSize=25${after ? `&after=${encodeURIComponent(after)}` : ''}`
+			);
+			expect(answer.status).toBe(200);
+			totals.push(answer.body.total);
+			sizes.push(answer.body.parts.length);
+			after = answer.body.next;
+		} while (after);
+		expect(sizes).toEqual([25, 25, 25, 24]);
+		expect(totals).toEqual([99, 99, 99, 99]);
+		// A first page holding every match is its own count, with a single page.
+		const one = await producer.api('/api/parts?q=PG-0000&pageSize=25');
+		expect(one.body).toMatchObject({ total: 9, totalCapped: false, pages: 1, next: null });
 	});
 
 	test('walking the catalogue by price with cursors gives every part once, ties in SKU order', async () => {
