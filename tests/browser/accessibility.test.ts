@@ -4,56 +4,15 @@
  * labels, landmarks, ARIA use). No page may have a violation axe rates serious or critical
  * (tests/REFERENCES.md, "Accessibility").
  */
-import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import type { Page } from 'playwright-core';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
+import {
+	openBrowser,
+	seriousFindings,
+	signInAs,
+	type BrowserSession,
+	type Finding
+} from '../helpers/browser';
 import { demo, sql } from '../helpers/http';
-
-const require = createRequire(import.meta.url);
-const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
-
-/** The WCAG rule sets axe-core checks (its tags for WCAG 2.0, 2.1 and 2.2, levels A and AA). */
-const WCAG_TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'];
-
-interface Finding {
-	rule: string;
-	impact: string;
-	targets: string[];
-	summary: string;
-}
-
-/** Runs axe-core in the page (evaluated through the browser's debugger, so the page CSP allows it). */
-async function seriousFindings(page: Page): Promise<Finding[]> {
-	await page.evaluate(axeSource);
-	const violations = await page.evaluate(async (tags) => {
-		const axe = (
-			window as unknown as {
-				axe: {
-					run(
-						context: Document,
-						options: object
-					): Promise<{
-						violations: {
-							id: string;
-							impact: string | null;
-							nodes: { target: string[]; failureSummary?: string }[];
-						}[];
-					}>;
-				};
-			}
-		).axe;
-		const result = await axe.run(document, { runOnly: { type: 'tag', values: tags } });
-		return result.violations.map((violation) => ({
-			rule: violation.id,
-			impact: violation.impact ?? '',
-			targets: violation.nodes.map((node) => node.target.join(' ')),
-			summary: violation.nodes[0]?.failureSummary ?? ''
-		}));
-	}, WCAG_TAGS);
-	return violations.filter((finding) => ['serious', 'critical'].includes(finding.impact));
-}
 
 let session: BrowserSession | undefined;
 let episodeId: string;

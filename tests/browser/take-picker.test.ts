@@ -10,37 +10,9 @@
  * the page has no serious or critical WCAG 2.2 finding by the npm package `axe-core`
  * (tests/REFERENCES.md, "Accessibility").
  */
-import { readFileSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser';
+import { openBrowser, seriousFindings, signInAs, type BrowserSession } from '../helpers/browser';
 import { demo, ownChannel, sql } from '../helpers/http';
-
-const require = createRequire(import.meta.url);
-const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
-
-/** axe-core's serious and critical findings on the page, for WCAG 2.0–2.2 levels A and AA. */
-async function seriousFindings(page: Page): Promise<string[]> {
-	await page.evaluate(axeSource);
-	return page.evaluate(async () => {
-		const axe = (
-			window as unknown as {
-				axe: {
-					run(
-						context: Document,
-						options: object
-					): Promise<{ violations: { id: string; impact: string | null }[] }>;
-				};
-			}
-		).axe;
-		const tags = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'];
-		const result = await axe.run(document, { runOnly: { type: 'tag', values: tags } });
-		return result.violations
-			.filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-			.map((violation) => violation.id);
-	});
-}
 
 const EMAIL = 'takes.camera@take-picker-browser.test';
 let browser: BrowserSession;
@@ -105,7 +77,7 @@ test('the camera operator finds a take by typing, picks it with the keyboard, an
 	// Big enough for a gloved finger: WCAG 2.2 SC 2.5.5, 44 CSS px.
 	const box = await list.getByRole('option').first().boundingBox();
 	expect(box!.height).toBeGreaterThanOrEqual(44);
-	expect(await seriousFindings(page)).toEqual([]);
+	expect((await seriousFindings(page)).map((finding) => finding.rule)).toEqual([]);
 
 	await field.press('ArrowDown');
 	await expect

@@ -3,7 +3,8 @@
  * Each call gets a fresh profile folder, so no state leaks between tests.
  */
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { inject } from 'vitest';
@@ -114,4 +115,52 @@ export async function signInAs(page: Page, email: string, password = DEMO_PASSWO
 	if (!signedIn) {
 		throw new Error(`sign-in as ${email} was refused: ${await refused.textContent()}`);
 	}
+}
+
+const require = createRequire(import.meta.url);
+const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
+
+/** The WCAG rule sets axe-core checks (its tags for WCAG 2.0, 2.1 and 2.2, levels A and AA). */
+const WCAG_TAGS = ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa'];
+
+export interface Finding {
+	rule: string;
+	impact: string;
+	targets: string[];
+	summary: string;
+}
+
+/**
+ * axe-core's serious and critical findings on the page, for WCAG 2.0–2.2 levels A and AA (the npm
+ * package `axe-core`; tests/REFERENCES.md, "Accessibility"). Run in the page through the browser's
+ * debugger, so the page's CSP allows it.
+ */
+export async function seriousFindings(page: Page): Promise<Finding[]> {
+	await page.evaluate(axeSource);
+	const violations = await page.evaluate(async (tags) => {
+		const axe = (
+			window as unknown as {
+				axe: {
+					run(
+						context: Document,
+						options: object
+					): Promise<{
+						violations: {
+							id: string;
+							impact: string | null;
+							nodes: { target: string[]; failureSummary?: string }[];
+						}[];
+					}>;
+				};
+			}
+		).axe;
+		const result = await axe.run(document, { runOnly: { type: 'tag', values: tags } });
+		return result.violations.map((violation) => ({
+			rule: violation.id,
+			impact: violation.impact ?? '',
+			targets: violation.nodes.map((node) => node.target.join(' ')),
+			summary: violation.nodes[0]?.failureSummary ?? ''
+		}));
+	}, WCAG_TAGS);
+	return violations.filter((finding) => ['serious', 'critical'].includes(finding.impact));
 }
