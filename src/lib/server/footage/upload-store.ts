@@ -3,8 +3,9 @@
  *
  * - `HashingFileStore` is @tus/file-store's `FileStore` (file layout, metadata, offsets from the
  *   file's size) whose `write` sends the bytes through one writable straight to the file (each
- *   batch one positioned `writev`) and then to the upload's running SHA-256 (running-hash.ts),
- *   instead of FileStore's write stream behind a counting transform and our hashing transform.
+ *   batch one positioned `writev`) and, while the disk takes them, to the upload's running
+ *   SHA-256 (running-hash.ts), instead of FileStore's write stream behind a counting transform and
+ *   our hashing transform.
  * - `takeNodeBodies` lets tus's PATCH handler take a Node.js request body as it is. @tus/server
  *   reads a PATCH body as a Web stream and turns it back into a Node.js stream; on the Node.js
  *   path (server.js → node-uploads.ts) the request's own stream is handed in, which skips both
@@ -96,14 +97,15 @@ export class HashingFileStore extends FileStore {
 			highWaterMark: WRITE_HIGH_WATER,
 			writev(entries, done) {
 				const chunks = entries.map((entry) => entry.chunk as Buffer);
-				writing = writeAll(fd, chunks, offset + written)
-					.then((bytes) => {
-						written += bytes;
-						collectAfter(bytes);
-						// The bytes are on disk: hand them to the hashing thread.
-						return hashing ? uploadHashes.add(id, chunks) : undefined;
-					})
-					.then(() => done(), done);
+				writing = writeAll(fd, chunks, offset + written).then((bytes) => {
+					written += bytes;
+					collectAfter(bytes);
+					done();
+				}, done);
+				// Hashed while the disk takes them (the write runs on libuv's thread pool). Should the
+				// write fail, the whole request fails and its running hash is dropped below, so the
+				// hash never stands for bytes the file lacks.
+				if (hashing) uploadHashes.add(id, chunks);
 			}
 		});
 		let failed = false;
