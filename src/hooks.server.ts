@@ -28,7 +28,6 @@ import {
 	databaseDownError,
 	databaseDownJson
 } from '$lib/server/http/outage';
-import { startScriptReaders } from '$lib/server/episodes/script-reader';
 import { UPLOAD_PATH } from '$lib/upload-rules';
 import { safeRedirectPath } from '$lib/safe-redirect';
 import { standInHash } from '$lib/server/auth/passwords';
@@ -61,8 +60,6 @@ export const init: ServerInit = async () => {
 		void startMediaWorker().catch((failure) => console.error('media worker:', failure.message));
 	startMailSender();
 	startUploadSweep();
-	// Start the script readers now, so the first script anybody opens does not wait for them.
-	void startScriptReaders();
 	await standInHash(); // made now, so no sign-in pays for making it
 	// adapter-node emits this after it stops taking requests: stop the mail sender and the upload
 	// sweep, then close the upload locks and the pool so the process can exit.

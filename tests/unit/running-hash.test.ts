@@ -1,12 +1,12 @@
 /**
- * The SHA-256 taken while an upload's bytes arrive (upload-store.ts writing, running-hash.ts and
- * its worker thread hashing) against outside references: the FIPS 180-4 example for "abc" and
+ * The SHA-256 taken while an upload's bytes arrive (upload-store.ts writing, running-hash.ts
+ * hashing) against outside references: the FIPS 180-4 example for "abc" and
  * coreutils' `sha256sum` over the file on disk. The running hash must equal the file's whenever it
  * answers, and answer nothing (so completion hashes the file) when it did not see every byte.
  */
 import { execFileSync } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { Readable } from 'node:stream';
@@ -85,5 +85,15 @@ describe('running SHA-256 of an upload', () => {
 		await expect(store.write(broken, id, 0)).rejects.toBeDefined();
 		expect(uploadHashes.seen(id)).toBeUndefined();
 		expect(await uploadHashes.digest(id, readFileSync(path.join(directory, id)).length)).toBeNull();
+	});
+
+	test('a write the disk refuses gives no running hash, though the bytes were hashed as it ran', async () => {
+		// The bytes are hashed while the write runs; a refused write must drop that hash. Linux's
+		// /dev/full refuses every write with ENOSPC (the full(4) manual page), like a full disk.
+		const id = `upload${++uploads}`;
+		symlinkSync('/dev/full', path.join(directory, id));
+		await expect(write(id, 0, randomBytes(3 * 64 * 1024))).rejects.toBeDefined();
+		expect(uploadHashes.seen(id)).toBeUndefined();
+		expect(await uploadHashes.digest(id, 3 * 64 * 1024)).toBeNull();
 	});
 });

@@ -1,6 +1,6 @@
 /**
- * The script-reader pool's size follows the work: one reader started ahead of the first request,
- * more only while reads run or wait (at most SCRIPT_READER_COUNT running plus one spare), and the
+ * The script-reader pool's size follows the work: one reader, started by the first read (here by
+ * `startScriptReaders`; the server no longer starts one at boot), more only while reads run or wait (at most SCRIPT_READER_COUNT running plus one spare), and the
  * extra ones ended once idle, so an idle server does not hold a thread per core. Every answer is
  * still the renderer's own (the reference is `renderScriptMarkdown` run directly, as in
  * script-reader.test.ts).

@@ -34,10 +34,11 @@ export { SCRIPT_READ_LIMIT_MS };
  * their workers are replaced (a start takes about 0.3 s, more on a busy machine), the spare takes
  * the next read at once instead of it waiting for a start.
  *
- * Readers cost memory (about 15 MB each), so the pool starts with one (the first script anybody
- * opens does not wait), starts more only while reads are running or queued (up to
- * SCRIPT_READER_COUNT running plus the spare), and ends readers beyond that after they have been
- * idle for a while.
+ * Readers cost memory (about 15 MB each, more than 20 MB resident), so the pool starts its first
+ * reader with the first read after start-up, not at boot (a server that only takes uploads never
+ * holds one; that first read waits for the start, about 0.3 s), starts more only while reads are
+ * running or queued (up to SCRIPT_READER_COUNT running plus the spare), and ends readers beyond
+ * that after they have been idle for a while.
  */
 export const SCRIPT_READER_COUNT = Math.max(2, Math.min(4, availableParallelism() - 1));
 const READERS_KEPT = SCRIPT_READER_COUNT + 1;
@@ -457,7 +458,7 @@ function digest(text: string): string {
 let pool: ScriptReaderPool | null = null;
 const thePool = () => (pool ??= new ScriptReaderPool());
 
-/** Starts the first reader ahead of the first request; resolves once the started ones are ready. */
+/** Starts the first reader ahead of the first read (tests); resolves once the started ones are ready. */
 export function startScriptReaders(): Promise<void> {
 	return thePool().ready();
 }
