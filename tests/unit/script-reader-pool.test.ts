@@ -1,14 +1,16 @@
 /**
  * The script-reader pool's size follows the work: one reader, started by the first read (here by
- * `startScriptReaders`; the server no longer starts one at boot), more only while reads run or wait (at most SCRIPT_READER_COUNT running plus one spare), and the
- * extra ones ended once idle, so an idle server does not hold a thread per core. Every answer is
- * still the renderer's own (the reference is `renderScriptMarkdown` run directly, as in
- * script-reader.test.ts).
+ * `startScriptReaders`; the server no longer starts one at boot), more only while reads run or
+ * wait (at most SCRIPT_READER_COUNT running plus one spare), the extra ones ended once idle, so an
+ * idle server does not hold a thread per core, and the last one ended once nobody has read a script
+ * for a while. Every answer is still the renderer's own (the reference is `renderScriptMarkdown`
+ * run directly, as in script-reader.test.ts).
  */
 import { describe, expect, test } from 'vitest';
 import {
 	SCRIPT_READER_COUNT,
 	keepIdleReadersFor,
+	keepLastReaderFor,
 	scriptHtml,
 	spokenWords,
 	scriptReaderCount,
@@ -39,6 +41,20 @@ describe('script-reader pool size', () => {
 		// The one kept takes the next script at once.
 		expect(await scriptHtml(script(9))).toBe(renderScriptMarkdown(script(9)));
 		expect(scriptReaderCount()).toBeLessThanOrEqual(2);
+	}, 60_000);
+
+	test('the last reader is ended once nobody has asked for a read for a while, and the next read starts one', async () => {
+		keepIdleReadersFor(300);
+		keepLastReaderFor(1_000);
+		try {
+			expect(await scriptHtml(script(10))).toBe(renderScriptMarkdown(script(10)));
+			expect(scriptReaderCount()).toBeGreaterThanOrEqual(1);
+			await expect.poll(scriptReaderCount, { timeout: 15_000, interval: 100 }).toBe(0);
+			expect(await scriptHtml(script(11))).toBe(renderScriptMarkdown(script(11)));
+			expect(scriptReaderCount()).toBeGreaterThanOrEqual(1);
+		} finally {
+			keepLastReaderFor(10 * 60_000);
+		}
 	}, 60_000);
 
 	test('readers ended for running over the limit are replaced one for one, so the next pair of reads meets started readers', async () => {

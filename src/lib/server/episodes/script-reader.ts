@@ -38,13 +38,17 @@ export { SCRIPT_READ_LIMIT_MS };
  * reader with the first read after start-up, not at boot (a server that only takes uploads never
  * holds one; that first read waits for the start, about 0.3 s), starts more only while reads are
  * running or queued (up to SCRIPT_READER_COUNT running plus the spare), and ends readers beyond
- * that after they have been idle for a while.
+ * that after they have been idle for a while. The spare itself is ended once nobody has read a
+ * script for lastReaderLifeMs, so a server at rest holds no reader.
  */
 export const SCRIPT_READER_COUNT = Math.max(2, Math.min(4, availableParallelism() - 1));
 const READERS_KEPT = SCRIPT_READER_COUNT + 1;
 
 /** A reader the pool no longer needs is ended after being idle this long. */
 let idleReaderLifeMs = 60_000;
+
+/** The pool keeps its spare until nobody has asked for a read this long. */
+let lastReaderLifeMs = 10 * 60_000;
 
 /** How many texts' word counts (and which texts ran over the limit) are remembered. */
 const REMEMBERED_TEXTS = 2000;
@@ -168,6 +172,8 @@ class ScriptReaderPool {
 	#workerModule: Promise<{ url: string; role: string }> | null = null;
 	#readyWaiters: (() => void)[] = [];
 	#retireTimer: ReturnType<typeof setTimeout> | null = null;
+	/** When a read was last asked for (Date.now()); the spare is kept for lastReaderLifeMs after it. */
+	#lastAsked = Number.NEGATIVE_INFINITY;
 	/** Word counts by text: exact ones for good, rough ones until FALLBACK_MEMORY_MS has passed. */
 	#words = new Remembered<number>();
 	/** Texts whose HTML could not be made in time (or at all), for FALLBACK_MEMORY_MS. */
@@ -175,6 +181,7 @@ class ScriptReaderPool {
 
 	/** Starts the readers (if they are not running) and resolves once all of them can take work. */
 	ready(): Promise<void> {
+		this.#lastAsked = Date.now();
 		this.#fill();
 		if (this.#allReady()) return Promise.resolve();
 		return new Promise((resolve) => {
@@ -247,6 +254,7 @@ class ScriptReaderPool {
 
 	#read(kind: ScriptJobKind, markdown: string): Promise<Outcome> {
 		if (this.#paused()) return Promise.resolve({ type: 'unavailable' });
+		this.#lastAsked = Date.now();
 		return new Promise((settle) => {
 			this.#queue.push({ kind, markdown, settle });
 			this.#fill();
@@ -258,10 +266,14 @@ class ScriptReaderPool {
 		return Date.now() < this.#pausedUntil;
 	}
 
-	/** How many readers the pool wants now: the busy ones, one for each read waiting, and a spare. */
+	/**
+	 * How many readers the pool wants now: the busy ones, one for each read waiting, and a spare
+	 * (until nobody has asked for a read for lastReaderLifeMs).
+	 */
 	#wanted(): number {
 		const busy = [...this.#readers].filter((reader) => reader.running).length;
-		return Math.min(READERS_KEPT, busy + this.#queue.length + 1);
+		const spare = Date.now() - this.#lastAsked < lastReaderLifeMs ? 1 : 0;
+		return Math.min(READERS_KEPT, busy + this.#queue.length + spare);
 	}
 
 	/** Starts readers (or waits for those starting) up to what the pool wants now. */
@@ -275,9 +287,12 @@ class ScriptReaderPool {
 		return this.#readers.size;
 	}
 
-	/** Ends readers beyond what the pool wants once they have been idle for idleReaderLifeMs. */
+	/**
+	 * Ends readers beyond what the pool wants once they have been idle for idleReaderLifeMs. The
+	 * timer runs while any reader is started, so the spare is ended too once it is no longer wanted.
+	 */
 	#retireLater(): void {
-		if (this.#retireTimer || this.#readers.size <= this.#wanted()) return;
+		if (this.#retireTimer || this.#readers.size === 0) return;
 		this.#retireTimer = setTimeout(() => {
 			this.#retireTimer = null;
 			const now = Date.now();
@@ -491,4 +506,9 @@ export function scriptReaderCount(): number {
 /** Changes how long an unneeded reader stays after its last read (tests shorten it). */
 export function keepIdleReadersFor(milliseconds: number): void {
 	idleReaderLifeMs = milliseconds;
+}
+
+/** Changes how long the pool keeps its spare after the last read was asked for (tests shorten it). */
+export function keepLastReaderFor(milliseconds: number): void {
+	lastReaderLifeMs = milliseconds;
 }
