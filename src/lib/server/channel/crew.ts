@@ -96,15 +96,17 @@ export async function crewPageWithCounts(channelId: string, query: PageQuery) {
 
 /** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */
 /** Read by every producer's episode page (its form's choices): compiled once (db/compiled-once.ts). */
-const activeCrewQuery = compiledOnce(['channelId'], ({ channelId }) =>
+/** The channel's active crew by name, as a query to run or to nest in another (the episode forms'). */
+export const activeCrewSelect = (channelId: string) =>
 	db
 		.selectFrom('membership')
 		.innerJoin('person', 'person.id', 'membership.personId')
 		.select(['person.id', 'person.name', 'membership.roles'])
 		.where('membership.channelId', '=', channelId)
 		.where('membership.disabledAt', 'is', null)
-		.orderBy('person.name')
-);
+		.orderBy('person.name');
+
+const activeCrewQuery = compiledOnce(['channelId'], ({ channelId }) => activeCrewSelect(channelId));
 
 export async function activeCrew(channelId: string) {
 	return (await activeCrewQuery(db, { channelId })).rows;

@@ -11,6 +11,7 @@
  */
 import { CompiledQuery, type Compilable, type QueryResult } from 'kysely';
 import type { Executor } from '../episodes/episodes';
+import { statementName } from './prepared-statements';
 
 const PLACEHOLDER = '\u0000compiled-once:';
 
@@ -45,6 +46,8 @@ export function compiledOnce<Name extends string, Row>(
 		});
 		for (const name of names)
 			if (!seen.has(name)) throw new Error(`compiledOnce: the query never uses “${name}”`);
+		// Sent as a named prepared statement: parsed once per connection (prepared-statements.ts).
+		statementName(query.sql);
 		return { sql: query.sql, slots, query };
 	}
 

@@ -4,6 +4,7 @@ import pg from 'pg';
 import { env } from '$env/dynamic/private';
 import type { Database } from './types';
 import { queryCountLog } from './query-count';
+import { preparedStatementsOn } from './prepared-statements';
 
 // PostgreSQL bigint and numeric come back as strings by default; counts here stay well inside 2^53.
 pg.types.setTypeParser(pg.types.builtins.INT8, (value) => Number(value));
@@ -25,6 +26,8 @@ function createDatabase(): Kysely<Database> {
 		// answers (or for a free pooled one): fail instead, so the request gets a 503 (see db/outage.ts).
 		connectionTimeoutMillis: Number(env.DATABASE_CONNECT_TIMEOUT_MS ?? 5000)
 	});
+	// The queries compiled once go out as named prepared statements (prepared-statements.ts).
+	preparedStatementsOn(pool);
 	// An idle connection dropped by the server (restart, failover) must not take the app down; the pool reconnects.
 	pool.on('error', (failure) => console.error('database connection lost:', failure.message));
 	return new Kysely<Database>({

@@ -13,7 +13,7 @@ import { DomainError, notFound } from '../http/api';
 import { isUuid } from '../auth/identity';
 import { scriptChangedSinceApproval } from './script-status';
 import { shownScriptStatus } from '$lib/script/status';
-import { activeCrew } from '../channel/crew';
+import { activeCrewSelect } from '../channel/crew';
 import { checkAssignments, writeAssignments } from './episode-crew';
 import { checkedProgrammeTimecode } from './programme-timecode';
 import type { Stage } from '$lib/stages';
@@ -144,23 +144,26 @@ export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;
 
 /**
  * What the episode forms offer: the channel's builds and its active crew with their roles. Other
- * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts).
+ * episodes are not loaded here: a form that links one asks the picker (episode-picker.ts). One
+ * query (two aggregates), read on every episode page a producer opens, so compiled once
+ * (db/compiled-once.ts).
  */
-/** The builds an episode may feature (the producer's form): compiled once (db/compiled-once.ts). */
-const channelBuildsQuery = compiledOnce(['channelId'], ({ channelId }) =>
-	db
-		.selectFrom('build')
-		.select(['id', 'name', 'year', 'vehicleType'])
-		.where('channelId', '=', channelId)
-		.orderBy('name')
+const formOptionsQuery = compiledOnce(['channelId'], ({ channelId }) =>
+	db.selectNoFrom((eb) => [
+		jsonArrayFrom(
+			eb
+				.selectFrom('build')
+				.select(['build.id', 'build.name', 'build.year', 'build.vehicleType'])
+				.where('build.channelId', '=', channelId)
+				.orderBy('build.name')
+		).as('builds'),
+		jsonArrayFrom(activeCrewSelect(channelId)).as('crew')
+	])
 );
 
 export async function episodeFormOptions(channelId: string) {
-	const [{ rows: builds }, crew] = await Promise.all([
-		channelBuildsQuery(db, { channelId }),
-		activeCrew(channelId)
-	]);
-	return { builds, crew };
+	const [options] = (await formOptionsQuery(db, { channelId })).rows;
+	return options;
 }
 
 /** A URL slug from a title: lower case, ASCII letters and digits joined by single hyphens. */

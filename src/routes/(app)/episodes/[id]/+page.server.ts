@@ -24,11 +24,36 @@ export const load = (async (event) => {
 			hasRole(event.locals, 'producer') ? episodeFormOptions(channel.id) : Promise.resolve(null)
 		])
 	);
+	const script = scriptStateOf(episode, materials.snapshot.script.currentFingerprint);
+	// Everything returned here is written into the page again for hydration (devalue, per request):
+	// only what the page shows or its form starts from, not the whole row.
 	return {
-		episode,
+		episode: {
+			id: episode.id,
+			title: episode.title,
+			slug: episode.slug,
+			logline: episode.logline,
+			stage: episode.stage,
+			targetRuntimeSeconds: episode.targetRuntimeSeconds,
+			frameRate: episode.frameRate,
+			timecodeDropFrame: episode.timecodeDropFrame,
+			timecodeStart: episode.timecodeStart,
+			publishDate: episode.publishDate,
+			version: episode.version,
+			assignments: episode.assignments.map(({ role, personId, name }) => ({
+				role,
+				personId,
+				name
+			})),
+			builds: episode.builds.map(({ id, name }) => ({ id, name }))
+		},
 		stage: stageReportOf(materials, { id: person.id, roles }),
 		history,
-		script: scriptStateOf(episode, materials.snapshot.script.currentFingerprint),
+		script: {
+			shown: script.shown,
+			approvedAt: script.approvedAt,
+			approvedByName: script.approvedByName
+		},
 		options,
 		canEditDetails: hasRole(event.locals, 'producer')
 	};
