@@ -94,9 +94,10 @@ export async function crewPageWithCounts(channelId: string, query: PageQuery) {
 	};
 }
 
-/** The channel's active members with their roles, by name: whom an episode or a shoot day can assign. */
-/** Read by every producer's episode page (its form's choices): compiled once (db/compiled-once.ts). */
-/** The channel's active crew by name, as a query to run or to nest in another (the episode forms'). */
+/**
+ * The channel's active members with their roles, by name: whom an episode or a shoot day can
+ * assign. A query to run or to nest in another (the episode forms' choices).
+ */
 export const activeCrewSelect = (channelId: string) =>
 	db
 		.selectFrom('membership')
@@ -106,6 +107,7 @@ export const activeCrewSelect = (channelId: string) =>
 		.where('membership.disabledAt', 'is', null)
 		.orderBy('person.name');
 
+/** Read by every producer's episode page (its form's choices): compiled once (db/compiled-once.ts). */
 const activeCrewQuery = compiledOnce(['channelId'], ({ channelId }) => activeCrewSelect(channelId));
 
 export async function activeCrew(channelId: string) {
