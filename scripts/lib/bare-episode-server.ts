@@ -6,7 +6,13 @@
  * (builds and crew).
  * No framework, no rendering, no gate computation: what the data alone costs.
  *
- *   DATABASE_URL=… PORT=… tsx scripts/lib/bare-episode-server.ts
+ * With BARE_NAMED=1 every statement goes out named (`{ name, text, values }`), parsed and planned
+ * once per connection, as the app sends the reads it compiles once
+ * (src/lib/server/db/prepared-statements.ts): the baseline the bench judges against. Without it
+ * the SQL goes out unnamed, as node-postgres does by default, and PostgreSQL parses and plans each
+ * statement on every run: the bench's reference.
+ *
+ *   DATABASE_URL=… PORT=… [BARE_NAMED=1] tsx scripts/lib/bare-episode-server.ts
  *   GET /api?session=<id>&episode=<id>   GET /page?session=<id>&episode=<id>
  */
 import { createServer } from 'node:http';
@@ -14,6 +20,9 @@ import pg from 'pg';
 import { IDENTITY } from './bare-identity.ts';
 
 const pool = new pg.Pool({ connectionString: process.env.DATABASE_URL, max: 10 });
+const named = process.env.BARE_NAMED === '1';
+const run = (name: string, text: string, values: unknown[]) =>
+	named ? pool.query({ name, text, values }) : pool.query(text, values);
 
 const agg = (select: string) => `(SELECT coalesce(json_agg(agg), '[]') FROM (${select}) AS agg)`;
 
@@ -52,7 +61,7 @@ WHERE m.channel_id = $1 AND m.disabled_at IS NULL ORDER BY p.name`;
 const server = createServer(async (request, response) => {
 	try {
 		const url = new URL(request.url ?? '/', 'http://bare');
-		const identity = (await pool.query(IDENTITY, [url.searchParams.get('session')])).rows;
+		const identity = (await run('identity', IDENTITY, [url.searchParams.get('session')])).rows;
 		if (identity.length === 0) {
 			response.writeHead(401).end();
 			return;
@@ -61,14 +70,14 @@ const server = createServer(async (request, response) => {
 		const episodeId = url.searchParams.get('episode');
 		const page = url.pathname === '/page';
 		const reads: Promise<pg.QueryResult>[] = [
-			pool.query(DETAIL, [episodeId, channelId]),
-			pool.query(MATERIALS, [episodeId, channelId])
+			run('detail', DETAIL, [episodeId, channelId]),
+			run('materials', MATERIALS, [episodeId, channelId])
 		];
 		if (page)
 			reads.push(
-				pool.query(HISTORY, [episodeId, channelId]),
-				pool.query(FORM_LISTS, [channelId]),
-				pool.query(CREW, [channelId])
+				run('history', HISTORY, [episodeId, channelId]),
+				run('form-lists', FORM_LISTS, [channelId]),
+				run('crew', CREW, [channelId])
 			);
 		const [detail, materials, history, lists, crew] = await Promise.all(reads);
 		const body = JSON.stringify({
