@@ -17,11 +17,14 @@
  *
  *   npm run bench episode        (npm run bench builds first when the build is stale)
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import { Agent, request } from 'node:http';
-import path from 'node:path';
-import { projectRoot } from './lib/config.ts';
-import { freePort, openBenchWorld, signInCookie, waitForHttp } from './lib/bench-world.ts';
+import {
+	openBenchWorld,
+	signInCookie,
+	startBareServer,
+	waitForHttp,
+	type BareServer
+} from './lib/bench-world.ts';
 import { fillBenchChannel } from './lib/scale-data.ts';
 import { percentile } from './lib/percentile.ts';
 
@@ -88,8 +91,8 @@ async function load(url: string, headers: Record<string, string>): Promise<Load>
 
 async function main() {
 	const world = await openBenchWorld('bench-episode');
-	let bare: ChildProcess | null = null;
-	let bareNamed: ChildProcess | null = null;
+	let bare: BareServer | null = null;
+	let bareNamed: BareServer | null = null;
 	let ok: boolean;
 	try {
 		const filling = performance.now();
@@ -115,31 +118,12 @@ async function main() {
 				 WHERE p.email = 'dana@torquehaven.test' ORDER BY s.expires_at DESC LIMIT 1`
 			)
 		).rows;
-		const barePort = await freePort();
-		bare = spawn(
-			path.join(projectRoot, 'node_modules/.bin/tsx'),
-			[path.join(projectRoot, 'scripts/lib/bare-episode-server.ts')],
-			{
-				env: { ...process.env, DATABASE_URL: world.cluster.url, PORT: String(barePort) },
-				stdio: ['ignore', 'ignore', 'inherit']
-			}
-		);
-		const namedPort = await freePort();
-		bareNamed = spawn(
-			path.join(projectRoot, 'node_modules/.bin/tsx'),
-			[path.join(projectRoot, 'scripts/lib/bare-episode-server.ts')],
-			{
-				env: {
-					...process.env,
-					DATABASE_URL: world.cluster.url,
-					PORT: String(namedPort),
-					BARE_NAMED: '1'
-				},
-				stdio: ['ignore', 'ignore', 'inherit']
-			}
-		);
-		const bareBase = `http://127.0.0.1:${barePort}`;
-		const namedBase = `http://127.0.0.1:${namedPort}`;
+		bare = await startBareServer('bare-episode-server.ts', world.cluster.url);
+		bareNamed = await startBareServer('bare-episode-server.ts', world.cluster.url, {
+			BARE_NAMED: '1'
+		});
+		const bareBase = bare.base;
+		const namedBase = bareNamed.base;
 		const bareQuery = `session=${session.id}&episode=${episode.id}`;
 		await waitForHttp(`${bareBase}/api?${bareQuery}`, 30_000);
 		await waitForHttp(`${namedBase}/api?${bareQuery}`, 30_000);
@@ -220,8 +204,8 @@ async function main() {
 		ok = rows.every(Boolean);
 		console.log(ok ? 'all targets met' : 'TARGET MISSED');
 	} finally {
-		bare?.kill('SIGTERM');
-		bareNamed?.kill('SIGTERM');
+		await bare?.stop();
+		await bareNamed?.stop();
 		await world.close();
 	}
 	process.exit(ok ? 0 : 1);

@@ -18,8 +18,6 @@
  * shared machine it moves with the load (220 ms and 519 ms in two runs minutes apart), the ratio
  * does not (1.04× both times).
  */
-import { spawn, type ChildProcess } from 'node:child_process';
-import path from 'node:path';
 import {
 	DummyDriver,
 	Kysely,
@@ -28,8 +26,13 @@ import {
 	PostgresQueryCompiler
 } from 'kysely';
 import pg from 'pg';
-import { projectRoot } from './lib/config.ts';
-import { freePort, openBenchWorld, signedInSession, waitForHttp } from './lib/bench-world.ts';
+import {
+	openBenchWorld,
+	signedInSession,
+	startBareServer,
+	waitForHttp,
+	type BareServer
+} from './lib/bench-world.ts';
 import { storageQuery } from '../src/lib/server/footage/storage-query.ts';
 import { DEFAULT_MAX_UPLOAD_BYTES } from '../src/lib/upload-rules.ts';
 import { percentile } from './lib/percentile.ts';
@@ -94,7 +97,7 @@ async function addEpisodes(pool: pg.Pool, channelId: string) {
 async function main() {
 	const world = await openBenchWorld('bench-storage');
 	let ok: boolean;
-	let bare: ChildProcess | null = null;
+	let bare: BareServer | null = null;
 	try {
 		const pool = world.pool;
 		const [{ id: channelId }] = (
@@ -132,24 +135,13 @@ async function main() {
 			).compile(compiler);
 			return { sql, parameters };
 		};
-		const barePort = await freePort();
-		bare = spawn(
-			path.join(projectRoot, 'node_modules/.bin/tsx'),
-			[path.join(projectRoot, 'scripts/lib/bare-storage-server.ts')],
-			{
-				env: {
-					...process.env,
-					DATABASE_URL: world.cluster.url,
-					PORT: String(barePort),
-					BARE_STORAGE_QUERIES: JSON.stringify({
-						first: compile(),
-						later: compile({ totalBytes: Number(total), id })
-					})
-				},
-				stdio: 'inherit'
-			}
-		);
-		const bareBase = `http://127.0.0.1:${barePort}`;
+		bare = await startBareServer('bare-storage-server.ts', world.cluster.url, {
+			BARE_STORAGE_QUERIES: JSON.stringify({
+				first: compile(),
+				later: compile({ totalBytes: Number(total), id })
+			})
+		});
+		const bareBase = bare.base;
 		await waitForHttp(`${bareBase}/first?session=${sessionId}`, 30_000);
 		const bareGet = async (which: 'first' | 'later') => {
 			const started = performance.now();
@@ -206,7 +198,7 @@ async function main() {
 		ok = ratio <= RATIO_TARGET && perRequest <= QUERY_TARGET;
 		console.log(`\n${ok ? 'all targets met' : 'TARGET MISSED'}\n`);
 	} finally {
-		bare?.kill('SIGTERM');
+		await bare?.stop();
 		await world.close();
 	}
 	process.exit(ok ? 0 : 1);

@@ -34,6 +34,42 @@ export async function waitForHttp(url: string, timeoutMs: number) {
 	throw new Error(`${url} did not answer within ${timeoutMs} ms`);
 }
 
+/** A bare baseline server started by a bench: its address, and `stop()` before the cluster stops. */
+export interface BareServer {
+	base: string;
+	/** Ends the server and waits for it to exit, so its pool is not cut off by the cluster stopping. */
+	stop(): Promise<void>;
+}
+
+/**
+ * Starts one of the bare baselines (`scripts/lib/bare-*-server.ts`) with tsx on a free loopback
+ * port, against `databaseUrl`, with `env` added; the caller waits for the path it will ask.
+ */
+export async function startBareServer(
+	script: string,
+	databaseUrl: string,
+	env: Record<string, string> = {}
+): Promise<BareServer> {
+	const port = await freePort();
+	const child = spawn(
+		path.join(projectRoot, 'node_modules/.bin/tsx'),
+		[path.join(projectRoot, 'scripts/lib', script)],
+		{
+			env: { ...process.env, DATABASE_URL: databaseUrl, PORT: String(port), ...env },
+			stdio: ['ignore', 'ignore', 'inherit']
+		}
+	);
+	return {
+		base: `http://127.0.0.1:${port}`,
+		async stop() {
+			if (child.exitCode !== null || child.signalCode !== null) return;
+			const exited = new Promise((resolve) => child.once('exit', resolve));
+			child.kill('SIGTERM');
+			await exited;
+		}
+	};
+}
+
 /** Runs scripts/migrate.ts or scripts/seed.ts against a database, as npm start does. */
 export function runScript(script: string, databaseUrl: string) {
 	const result = spawnSync(path.join(projectRoot, 'node_modules/.bin/tsx'), [script], {
