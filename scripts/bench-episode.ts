@@ -2,28 +2,32 @@
  * Episode page and episode API benchmark (not a test): at a real channel's size (npm run
  * bench:seed's data: 10,000 episodes, 200,000 parts, an episode of 10,000 chapters), 50
  * connections ask for one episode's page and its API for a while, and the same number ask a bare
- * node:http + pg server (scripts/lib/bare-episode-server.ts) that runs the same reads and answers
- * them as JSON, in ROUNDS rounds with the app and the bare server taking turns. Prints each side's
- * throughput and p99 (min, median, max over the rounds), the ratios of the medians and each round's
- * throughput ratio, and exits 1 when a target is missed.
+ * node:http + pg server (scripts/lib/bare-episode-server.ts) that sends PostgreSQL the very
+ * statements the app sent for one such request (recorded from the app first, recordStatements)
+ * and answers their rows as JSON, in ROUNDS rounds with the app and the bare server taking turns.
+ * Prints each side's throughput and p99 (min, median, max over the rounds), the ratios of the
+ * medians and each round's throughput ratio, and exits 1 when a target is missed.
  *
  * Targets: throughput at least 0.6 of the bare server's, p99 at most 2× the bare p99.
  *
  * The app sends the reads it compiles once as named prepared statements (parsed and planned once
- * per connection), so the bare server judged against names its statements too: the same reads
+ * per connection), so the bare server judged against sends those named too: the same statements
  * sent the same way, so the ratio is what the app's own layers cost. For reference (no target), a
- * second bare server sends its SQL unnamed, as node-postgres does by default and as this bench's
- * only baseline did before the app named its statements; it takes its turn in every round too.
+ * second bare server sends them all unnamed, as node-postgres does by default; it takes its turn
+ * in every round too.
  *
  *   npm run bench episode        (npm run bench builds first when the build is stale)
  */
+import { readFileSync, writeFileSync } from 'node:fs';
 import { Agent, request } from 'node:http';
+import path from 'node:path';
 import {
 	openBenchWorld,
 	signInCookie,
 	startBareServer,
 	waitForHttp,
-	type BareServer
+	type BareServer,
+	type BenchWorld
 } from './lib/bench-world.ts';
 import { fillBenchChannel } from './lib/scale-data.ts';
 import { percentile } from './lib/percentile.ts';
@@ -89,6 +93,51 @@ async function load(url: string, headers: Record<string, string>): Promise<Load>
 	};
 }
 
+interface RecordedRequest {
+	method: string;
+	path: string;
+	statements: { sql: string; parameters: unknown[]; named: boolean }[];
+}
+
+/**
+ * What the app sends PostgreSQL for one episode API request and one episode page request, as the
+ * producer: a server of its own records them (WRENCHROLL_RECORD_QUERIES, query-count.ts), each
+ * request asked twice so the second finds everything warm. Written to a file for the bare servers.
+ */
+async function recordStatements(world: BenchWorld, episodeId: string) {
+	const recording = path.join(world.work, 'recorded-statements.jsonl');
+	const base = await world.startServer({
+		WRENCHROLL_COUNT_QUERIES: '1',
+		WRENCHROLL_RECORD_QUERIES: recording
+	});
+	const cookie = await signInCookie(base, 'dana@torquehaven.test');
+	const paths = { api: `/api/episodes/${episodeId}`, page: `/episodes/${episodeId}` };
+	for (const pathname of [paths.api, paths.api, paths.page, paths.page]) {
+		const answer = await fetch(base + pathname, { headers: { cookie, accept: 'text/html' } });
+		await answer.text();
+		if (answer.status !== 200) throw new Error(`recording: ${pathname} answered ${answer.status}`);
+	}
+	await world.stopServer();
+	const requests = readFileSync(recording, 'utf8')
+		.trim()
+		.split('\n')
+		.map((line) => JSON.parse(line) as RecordedRequest);
+	const last = (pathname: string) => {
+		const found = requests.findLast(
+			(request) => request.method === 'GET' && request.path === pathname
+		);
+		if (!found || found.statements.length === 0)
+			throw new Error(`recording: no statements for GET ${pathname}`);
+		return found.statements;
+	};
+	const recorded = { api: last(paths.api), page: last(paths.page) };
+	const file = path.join(world.work, 'bare-statements.json');
+	writeFileSync(file, JSON.stringify(recorded));
+	const told = (statements: RecordedRequest['statements']) =>
+		`${statements.length} statements, ${statements.filter((statement) => statement.named).length} named`;
+	return { file, api: told(recorded.api), page: told(recorded.page) };
+}
+
 async function main() {
 	const world = await openBenchWorld('bench-episode');
 	let bare: BareServer | null = null;
@@ -110,23 +159,22 @@ async function main() {
 				 LIMIT 1`
 			)
 		).rows;
+		const statements = await recordStatements(world, episode.id);
 		const baseUrl = await world.startServer();
 		const cookie = await signInCookie(baseUrl, 'dana@torquehaven.test');
-		const [session] = (
-			await world.pool.query<{ id: string }>(
-				`SELECT s.id FROM person_session s JOIN person p ON p.id = s.person_id
-				 WHERE p.email = 'dana@torquehaven.test' ORDER BY s.expires_at DESC LIMIT 1`
-			)
-		).rows;
-		bare = await startBareServer('bare-episode-server.ts', world.cluster.url);
+		const bareEnv = { BARE_STATEMENTS: statements.file };
+		bare = await startBareServer('bare-episode-server.ts', world.cluster.url, bareEnv);
 		bareNamed = await startBareServer('bare-episode-server.ts', world.cluster.url, {
+			...bareEnv,
 			BARE_NAMED: '1'
 		});
 		const bareBase = bare.base;
 		const namedBase = bareNamed.base;
-		const bareQuery = `session=${session.id}&episode=${episode.id}`;
-		await waitForHttp(`${bareBase}/api?${bareQuery}`, 30_000);
-		await waitForHttp(`${namedBase}/api?${bareQuery}`, 30_000);
+		await waitForHttp(`${bareBase}/api`, 30_000);
+		await waitForHttp(`${namedBase}/api`, 30_000);
+		console.log(
+			`The bare servers send the statements the app sent for one API request (${statements.api}) and one page request (${statements.page}), recorded from the app.`
+		);
 		console.log(
 			`Wrenchroll episode bench on ${process.platform} ${process.arch}, Node ${process.version}: “${episode.title}” as the producer, ${CONNECTIONS} connections, ${WARM_UP_MS / 1000} s warm-up then ${MEASURE_MS / 1000} s measured each, ${ROUNDS} rounds taking turns with the bare server`
 		);
@@ -134,14 +182,14 @@ async function main() {
 			{
 				label: 'episode API (GET /api/episodes/[id])',
 				app: () => load(`${baseUrl}/api/episodes/${episode.id}`, { cookie }),
-				bare: () => load(`${bareBase}/api?${bareQuery}`, {}),
-				named: () => load(`${namedBase}/api?${bareQuery}`, {})
+				bare: () => load(`${bareBase}/api`, {}),
+				named: () => load(`${namedBase}/api`, {})
 			},
 			{
 				label: 'episode page (GET /episodes/[id], HTML)',
 				app: () => load(`${baseUrl}/episodes/${episode.id}`, { cookie, accept: 'text/html' }),
-				bare: () => load(`${bareBase}/page?${bareQuery}`, {}),
-				named: () => load(`${namedBase}/page?${bareQuery}`, {})
+				bare: () => load(`${bareBase}/page`, {}),
+				named: () => load(`${namedBase}/page`, {})
 			}
 		];
 		// Rounds interleave app and bare so a change in the machine's load falls on both alike.

@@ -245,8 +245,12 @@ const throttleAnswerHandle: Handle = async ({ event, resolve }) => {
 const authEndpointHandle: Handle = (input) =>
 	input.event.url.pathname.startsWith('/auth/') ? authHandle(input) : input.resolve(input.event);
 
-/** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests): X-Query-Count on every answer. */
-const queryCountHandle: Handle = ({ event, resolve }) => countQueries(async () => resolve(event));
+/** Only with WRENCHROLL_COUNT_QUERIES=1 (the query-budget tests, the episode bench's recording): X-Query-Count on every answer. */
+const queryCountHandle: Handle = ({ event, resolve }) =>
+	countQueries(async () => resolve(event), {
+		method: event.request.method,
+		path: event.url.pathname
+	});
 
 export const handle: Handle = sequence(
 	...(countingQueries ? [queryCountHandle] : []),

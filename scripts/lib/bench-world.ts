@@ -221,10 +221,17 @@ export interface BenchWorld {
 	cluster: Cluster;
 	/** Queries against the bench database (not through the app). */
 	pool: pg.Pool;
-	/** Starts the built server against the bench database; answers its base URL once it is up. */
-	startServer(): Promise<string>;
+	/**
+	 * Starts the built server against the bench database, with these further settings if any;
+	 * answers its base URL once it is up. One server at a time: stop the last one first.
+	 */
+	startServer(env?: Record<string, string>): Promise<string>;
+	/** Stops the running server (close does too). */
+	stopServer(): Promise<void>;
 	/** The running server's process id (for its memory in /proc), or null before startServer. */
 	serverPid(): number | null;
+	/** The bench's own folder, removed by close. */
+	work: string;
 	/** Stops the server and the cluster and removes the bench folder. */
 	close(): Promise<void>;
 }
@@ -249,11 +256,22 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 	runScript('scripts/seed.ts', cluster.url);
 	const pool = new pg.Pool({ connectionString: cluster.url, max: 2 });
 	let server: ChildProcess | null = null;
+	const stopServer = async () => {
+		const running = server as ChildProcess | null;
+		server = null;
+		if (running && running.exitCode === null && running.signalCode === null) {
+			const exited = new Promise((resolve) => running.once('exit', resolve));
+			running.kill('SIGTERM');
+			await exited;
+		}
+	};
 	return {
 		buildDir,
 		cluster,
 		pool,
-		async startServer() {
+		work,
+		async startServer(env = {}) {
+			if (server) throw new Error('a bench server is running already: stopServer() first');
 			const port = await freePort();
 			const baseUrl = `http://127.0.0.1:${port}`;
 			server = spawn(process.execPath, serverProcessArgs(buildDir), {
@@ -266,22 +284,19 @@ export async function openBenchWorld(name: string): Promise<BenchWorld> {
 					ORIGIN: baseUrl,
 					DATABASE_URL: cluster.url,
 					AUTH_SECRET: randomBytes(32).toString('base64url'),
-					UPLOAD_DIR: path.join(work, 'uploads')
+					UPLOAD_DIR: path.join(work, 'uploads'),
+					...env
 				},
 				stdio: ['ignore', 'ignore', 'inherit']
 			});
 			await waitForHttp(`${baseUrl}/healthz`, 30_000);
 			return baseUrl;
 		},
+		stopServer,
 		serverPid: () => server?.pid ?? null,
 		async close() {
 			await pool.end();
-			const running = server as ChildProcess | null;
-			if (running && running.exitCode === null) {
-				const exited = new Promise((resolve) => running.once('exit', resolve));
-				running.kill('SIGTERM');
-				await exited;
-			}
+			await stopServer();
 			cluster.stop();
 			rmSync(work, { recursive: true, force: true });
 		}

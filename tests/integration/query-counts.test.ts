@@ -13,6 +13,9 @@
  * ×50, for every role. A list that grows (N+1 queries, one per episode or per segment) breaks them.
  */
 import type { ChildProcess } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import pg from 'pg';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { startServer, stopServer } from '../helpers/global-setup';
@@ -76,6 +79,9 @@ const homeCounts = async () =>
 	);
 
 let homeAtOne: Record<string, number> = {};
+/** Where the server appends each request's statements (WRENCHROLL_RECORD_QUERIES). */
+const recordingDir = mkdtempSync(path.join(tmpdir(), 'wrenchroll-query-record-'));
+const recording = path.join(recordingDir, 'statements.jsonl');
 
 beforeAll(async () => {
 	const url = await scratchDatabase(DATABASE, ['scripts/migrate.ts', 'scripts/seed.ts']);
@@ -87,7 +93,8 @@ beforeAll(async () => {
 		PORT: String(port),
 		ORIGIN: base,
 		DATABASE_URL: url,
-		WRENCHROLL_COUNT_QUERIES: '1'
+		WRENCHROLL_COUNT_QUERIES: '1',
+		WRENCHROLL_RECORD_QUERIES: recording
 	});
 	await waitForHttp(`${base}/healthz`, 30_000);
 	for (const role of ROLES) cookies.set(role, await signInCookie(base, demo[role]));
@@ -158,6 +165,7 @@ afterAll(async () => {
 	if (server) await stopServer(server);
 	await database?.end();
 	await dropScratchDatabase(DATABASE);
+	rmSync(recordingDir, { recursive: true, force: true });
 });
 
 describe('at ×50 demo data', () => {
@@ -187,5 +195,28 @@ describe('at ×50 demo data', () => {
 
 	test('the home page makes as many queries at ×50 as at ×1, for every role', async () => {
 		expect(await homeCounts()).toEqual(homeAtOne);
+	});
+
+	test('the recording the episode bench replays holds each statement a request sent, the reads compiled once named', async () => {
+		const pathname = `/api/episodes/${episodeId}`;
+		const count = await queriesFor('producer', pathname, true);
+		const lines = readFileSync(recording, 'utf8').trim().split('\n');
+		const last = JSON.parse(lines.at(-1)!) as {
+			method: string;
+			path: string;
+			statements: { sql: string; parameters: unknown[]; named: boolean }[];
+		};
+		expect(last).toMatchObject({ method: 'GET', path: pathname });
+		expect(last.statements).toHaveLength(count);
+		// Who is calling, the episode and its gate materials: the three reads compiled once.
+		expect(last.statements.filter((statement) => statement.named)).toHaveLength(3);
+		expect(last.statements[0].sql).toContain('person_session');
+		for (const statement of last.statements) {
+			expect(statement.sql).toMatch(/^select /i);
+			// Each with the values it ran with: the session's id, then the episode's.
+			expect(statement.parameters).toEqual(
+				expect.arrayContaining([statement === last.statements[0] ? expect.any(String) : episodeId])
+			);
+		}
 	});
 });

@@ -19,6 +19,9 @@ export function statementName(sql: string): string {
 	return name;
 }
 
+/** Whether this SQL goes out as a named prepared statement. */
+export const isNamedStatement = (sql: string): boolean => names.has(sql);
+
 type Query = (config: unknown, values?: unknown, callback?: unknown) => unknown;
 
 /**
