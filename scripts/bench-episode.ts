@@ -23,6 +23,7 @@ import { Agent, request } from 'node:http';
 import path from 'node:path';
 import {
 	openBenchWorld,
+	processTreeCpuMs,
 	signInCookie,
 	startBareServer,
 	waitForHttp,
@@ -45,10 +46,16 @@ interface Load {
 	p50: number;
 	p99: number;
 	failures: number;
+	/** The server's CPU (user + system, its whole process tree) per measured request; null without /proc. */
+	cpuPerRequest: number | null;
 }
 
 /** CONNECTIONS loops on kept-alive connections, each asking again as soon as an answer is read. */
-async function load(url: string, headers: Record<string, string>): Promise<Load> {
+async function load(
+	url: string,
+	headers: Record<string, string>,
+	serverPid: number
+): Promise<Load> {
 	const agent = new Agent({ keepAlive: true, maxSockets: CONNECTIONS });
 	const once = () =>
 		new Promise<number>((resolve, reject) => {
@@ -80,16 +87,20 @@ async function load(url: string, headers: Record<string, string>): Promise<Load>
 		return { latencies, failures };
 	};
 	await run(WARM_UP_MS);
+	const cpuBefore = processTreeCpuMs(serverPid);
 	const started = performance.now();
 	const { latencies, failures } = await run(MEASURE_MS);
 	const seconds = (performance.now() - started) / 1000;
+	const cpuAfter = processTreeCpuMs(serverPid);
 	agent.destroy();
 	return {
 		requests: latencies.length,
 		perSecond: latencies.length / seconds,
 		p50: percentile(latencies, 0.5),
 		p99: percentile(latencies, 0.99),
-		failures
+		failures,
+		cpuPerRequest:
+			cpuBefore === null || cpuAfter === null ? null : (cpuAfter - cpuBefore) / latencies.length
 	};
 }
 
@@ -161,6 +172,7 @@ async function main() {
 		).rows;
 		const statements = await recordStatements(world, episode.id);
 		const baseUrl = await world.startServer();
+		const appPid = world.serverPid()!;
 		const cookie = await signInCookie(baseUrl, 'dana@torquehaven.test');
 		const bareEnv = { BARE_STATEMENTS: statements.file };
 		bare = await startBareServer('bare-episode-server.ts', world.cluster.url, bareEnv);
@@ -181,15 +193,16 @@ async function main() {
 		const targets = [
 			{
 				label: 'episode API (GET /api/episodes/[id])',
-				app: () => load(`${baseUrl}/api/episodes/${episode.id}`, { cookie }),
-				bare: () => load(`${bareBase}/api`, {}),
-				named: () => load(`${namedBase}/api`, {})
+				app: () => load(`${baseUrl}/api/episodes/${episode.id}`, { cookie }, appPid),
+				bare: () => load(`${bareBase}/api`, {}, bare!.pid),
+				named: () => load(`${namedBase}/api`, {}, bareNamed!.pid)
 			},
 			{
 				label: 'episode page (GET /episodes/[id], HTML)',
-				app: () => load(`${baseUrl}/episodes/${episode.id}`, { cookie, accept: 'text/html' }),
-				bare: () => load(`${bareBase}/page`, {}),
-				named: () => load(`${namedBase}/page`, {})
+				app: () =>
+					load(`${baseUrl}/episodes/${episode.id}`, { cookie, accept: 'text/html' }, appPid),
+				bare: () => load(`${bareBase}/page`, {}, bare!.pid),
+				named: () => load(`${namedBase}/page`, {}, bareNamed!.pid)
 			}
 		];
 		// Rounds interleave app and bare so a change in the machine's load falls on both alike.
@@ -228,7 +241,11 @@ async function main() {
 				['app ', app],
 				['bare', named],
 				['bare, SQL unnamed', baseline]
-			] as const)
+			] as const) {
+				const cpu = loads.map((load) => load.cpuPerRequest);
+				const cpuShown = cpu.every((value) => value !== null)
+					? `;  server CPU per request ${spread(cpu as number[], (value) => `${value.toFixed(2)} ms`)}`
+					: '';
 				console.log(
 					`  ${name}  throughput ${spread(
 						loads.map((load) => load.perSecond),
@@ -236,8 +253,9 @@ async function main() {
 					)};  p99 ${spread(
 						loads.map((load) => load.p99),
 						ms
-					)}  (${loads.reduce((sum, load) => sum + load.requests, 0)} requests, ${loads.reduce((sum, load) => sum + load.failures, 0)} failed)`
+					)}  (${loads.reduce((sum, load) => sum + load.requests, 0)} requests, ${loads.reduce((sum, load) => sum + load.failures, 0)} failed)${cpuShown}`
 				);
+			}
 			console.log(
 				`  throughput ${throughput.toFixed(2)} of bare (rounds ${roundRatios.join(', ')}; target ≥ ${THROUGHPUT_TARGET}), p99 ${p99.toFixed(2)}× bare (target ≤ ${P99_TARGET}): ${met ? 'met' : 'MISSED'}`
 			);

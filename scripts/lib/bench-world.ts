@@ -1,7 +1,7 @@
 /** What every benchmark script needs around the built server: ports, a migrated and seeded cluster, sign-in. */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { chmodSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { chmodSync, existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { Agent, request } from 'node:http';
 import { brotliDecompressSync, gunzipSync, inflateSync } from 'node:zlib';
 import { createServer } from 'node:net';
@@ -37,8 +37,42 @@ export async function waitForHttp(url: string, timeoutMs: number) {
 }
 
 /** A bare baseline server started by a bench: its address, and `stop()` before the cluster stops. */
+/**
+ * CPU time (user + system, milliseconds) a process and every process below it have used so far,
+ * from Linux's /proc (proc(5): utime and stime in clock ticks, 100 a second on Linux). null where
+ * there is no /proc. The benches read it before and after a measured window to print each server's
+ * CPU per request: a tsx baseline runs as a child of tsx's own process, hence the whole tree.
+ */
+export function processTreeCpuMs(pid: number): number | null {
+	if (!existsSync('/proc/self/stat')) return null;
+	const stats = new Map<number, { parent: number; ticks: number }>();
+	for (const entry of readdirSync('/proc')) {
+		if (!/^\d+$/.test(entry)) continue;
+		try {
+			// Fields after the command's closing parenthesis: state, ppid, … utime (14th), stime (15th).
+			const fields = readFileSync(`/proc/${entry}/stat`, 'utf8').split(') ').at(-1)!.split(' ');
+			stats.set(Number(entry), {
+				parent: Number(fields[1]),
+				ticks: Number(fields[11]) + Number(fields[12])
+			});
+		} catch {
+			// The process ended while the list was read.
+		}
+	}
+	const inTree = (candidate: number): boolean => {
+		for (let at: number | undefined = candidate; at && at > 1; at = stats.get(at)?.parent)
+			if (at === pid) return true;
+		return false;
+	};
+	let ticks = 0;
+	for (const [candidate, { ticks: used }] of stats) if (inTree(candidate)) ticks += used;
+	return ticks * 10;
+}
+
 export interface BareServer {
 	base: string;
+	/** The process started (tsx's own, with the server below it). */
+	pid: number;
 	/** Ends the server and waits for it to exit, so its pool is not cut off by the cluster stopping. */
 	stop(): Promise<void>;
 }
@@ -63,6 +97,7 @@ export async function startBareServer(
 	);
 	return {
 		base: `http://127.0.0.1:${port}`,
+		pid: child.pid!,
 		async stop() {
 			if (child.exitCode !== null || child.signalCode !== null) return;
 			const exited = new Promise((resolve) => child.once('exit', resolve));
