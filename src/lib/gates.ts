@@ -375,8 +375,9 @@ function cautionRules(snapshot: GateSnapshot): GateReason[] {
 			}
 			const placed = placementProblem(snapshot, segment, caution, label);
 			if (placed) reasons.push({ ...base, ...placed, fixedBy: 'editor' });
-			const neededSeconds = readingSeconds(caution.text);
-			const need = `its ${readableCharacters(caution.text)} characters need ${neededSeconds} s at about ${READING_CHARACTERS_PER_SECOND} characters a second`;
+			const characters = readableCharacters(caution.text);
+			const neededSeconds = readingSeconds(characters);
+			const need = `its ${characters} characters need ${neededSeconds} s at about ${READING_CHARACTERS_PER_SECOND} characters a second`;
 			if (caution.durationFrames === null) {
 				reasons.push({
 					...base,

@@ -19,8 +19,30 @@ export const READING_PACE_NOTE = `about ${READING_CHARACTERS_PER_SECOND} charact
  * trimmed, and a character is a Unicode code point (an emoji or an accented letter is one).
  */
 export function readableCharacters(text: string): number {
-	return Array.from(text.replace(/\s+/g, ' ').trim()).length;
+	// Counted in one pass without building the collapsed text (the gate counts every caution's
+	// words on every episode page and API call): a white-space run between characters adds one, a
+	// surrogate pair (one code point in two UTF-16 units) adds one.
+	let count = 0;
+	let spaceBefore = false;
+	for (let index = 0; index < text.length; index++) {
+		const unit = text.charCodeAt(index);
+		if (isLowSurrogate(unit) && index > 0 && isHighSurrogate(text.charCodeAt(index - 1))) continue;
+		if (isWhiteSpace(unit, text, index)) {
+			spaceBefore = count > 0;
+			continue;
+		}
+		count += spaceBefore ? 2 : 1;
+		spaceBefore = false;
+	}
+	return count;
 }
+
+const isHighSurrogate = (unit: number) => unit >= 0xd800 && unit <= 0xdbff;
+const isLowSurrogate = (unit: number) => unit >= 0xdc00 && unit <= 0xdfff;
+const WHITE_SPACE = /\s/;
+/** JavaScript's `\s`: tab to carriage return and the space at once, the rest through the regex. */
+const isWhiteSpace = (unit: number, text: string, index: number) =>
+	unit === 32 || (unit >= 9 && unit <= 13) || (unit > 127 && WHITE_SPACE.test(text[index]));
 
 /** Whole seconds the text needs on screen: characters ÷ 17, rounded up; at least 1 s for any text, 0 for none. */
 export function readingSeconds(textOrCharacters: string | number): number {

@@ -43,6 +43,36 @@ describe('readingSeconds', () => {
 		expect(readingSeconds('x'.repeat(35))).toBe(3); // 35 ÷ 17 = 2.06 → 3 s
 	});
 
+	test('counts as the definition does: collapse white space (JavaScript \\s), trim, count code points', () => {
+		// The definition written out the slow way (ECMAScript: \\s is white space and line
+		// terminators; Array.from splits a string into code points, a lone surrogate counting one).
+		const byDefinition = (text: string) => Array.from(text.replace(/\s+/g, ' ').trim()).length;
+		const pieces = [
+			' ',
+			'\t',
+			'\n',
+			'\r\n',
+			'\u00a0',
+			'\u2003',
+			'\u2028',
+			'\ufeff',
+			'a',
+			'é',
+			'🔧',
+			'\ud83d',
+			'\udd27',
+			'·',
+			'Z'
+		];
+		let seed = 7;
+		const next = () => (seed = (seed * 1103515245 + 12345) % 2147483648);
+		for (let round = 0; round < 2000; round++) {
+			let text = '';
+			for (let length = next() % 12; length > 0; length--) text += pieces[next() % pieces.length];
+			expect(readableCharacters(text), JSON.stringify(text)).toBe(byDefinition(text));
+		}
+	});
+
 	test('every default caution card reads in at most 9 s at 17 characters a second', () => {
 		for (const hazard of HAZARDS) {
 			const characters = readableCharacters(hazard.defaultCaution);
