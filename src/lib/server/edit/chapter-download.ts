@@ -33,32 +33,48 @@ interface ExportRow {
 	timecodeDropFrame: boolean | null;
 	timecodeStart: string;
 	cutDurationFrames: number | null;
-	/** Each chapter as [id, startFrame, title, url]. */
-	chapters: [string, number, string, string | null][];
+	/**
+	 * The chapters column by column, in start order: [ids, start frames, titles, urls]. Each array
+	 * is null when the episode has no chapter (array_agg of no rows).
+	 */
+	chapters: [string[] | null, number[] | null, string[] | null, (string | null)[] | null];
 }
 
 /**
  * The episode and only what an export reads of its chapters, in start order (ties in the order
- * they were made), in one query. Each chapter comes as a JSON array, not an object: at 10,000
- * chapters PostgreSQL spent about two thirds of the query writing every row's keys, and Kysely's
- * camel-case pass then walked every object again (about 20% of the export's time in all, measured
- * side by side; plain rows were slower still). The SQL names its columns as the code does, so it
- * runs without the plugins.
+ * they were made), in one query. The chapters come as four JSON arrays, one per column, not as a
+ * JSON value per chapter: PostgreSQL builds four arrays instead of 10,000 small ones and the JSON
+ * is smaller to send and parse. At 10,000 chapters (npm run bench:seed's episode, 2026-12-04, 15
+ * interleaved runs): execution 8.0 → 5.7 ms median, the whole query as the app sees it 23 → 16 ms.
+ * (Before that, an object per chapter had cost more again: PostgreSQL wrote every row's keys and
+ * Kysely's camel-case pass walked every object.) The subquery's ORDER BY gives the order: its
+ * rows reach the aggregates in that order when, as here, the outer level has no join or grouping
+ * of its own (PostgreSQL's documentation, "Aggregate Expressions"); the chapter_episode_order index
+ * yields them sorted, so nothing is sorted at all. The SQL names its columns as the code does, so
+ * it runs without the plugins.
  */
 async function episodeForExport(channelId: string, episodeId: string) {
 	const { rows } = await sql<ExportRow>`
 		SELECT e.slug, e.frame_rate AS "frameRate", e.timecode_drop_frame AS "timecodeDropFrame",
 		       e.timecode_start AS "timecodeStart", e.cut_duration_frames AS "cutDurationFrames",
-		       (SELECT coalesce(json_agg(json_build_array(c.id, c.start_frame, c.title, c.url)
-		                                 ORDER BY c.start_frame, c.created_at, c.id), '[]')
-		        FROM chapter c WHERE c.episode_id = e.id) AS chapters
+		       (SELECT json_build_array(array_agg(c.id), array_agg(c.start_frame),
+		                                array_agg(c.title), array_agg(c.url))
+		        FROM (SELECT c.id, c.start_frame, c.title, c.url FROM chapter c
+		              WHERE c.episode_id = e.id
+		              ORDER BY c.start_frame, c.created_at, c.id) c) AS chapters
 		FROM episode e
 		WHERE e.id = ${episodeId} AND e.channel_id = ${channelId}`.execute(db.withoutPlugins());
 	const row = rows[0];
 	if (!row) return undefined;
+	const [ids, startFrames, titles, urls] = row.chapters;
 	return {
 		...row,
-		chapters: row.chapters.map(([id, startFrame, title, url]) => ({ id, startFrame, title, url }))
+		chapters: (ids ?? []).map((id, index) => ({
+			id,
+			startFrame: startFrames![index],
+			title: titles![index],
+			url: urls![index]
+		}))
 	};
 }
 
