@@ -15,8 +15,22 @@ export const load = (async (event) => {
 	const parsed = episodeListQuerySchema.safeParse(raw);
 	const query = parsed.success ? parsed.data : episodeListQuerySchema.parse({});
 	const [page, crew] = await Promise.all([listEpisodes(channel.id, query), activeCrew(channel.id)]);
+	// Written into the page again for hydration (devalue, per request, 50 rows): only what a row
+	// shows, not the API's whole item (slug, version, creation time, each person's id).
 	return {
-		episodes: page.items,
+		episodes: page.items.map((episode) => ({
+			id: episode.id,
+			title: episode.title,
+			logline: episode.logline,
+			stage: episode.stage,
+			publishDate: episode.publishDate,
+			targetRuntimeSeconds: episode.targetRuntimeSeconds,
+			segmentCount: episode.segmentCount,
+			plannedSeconds: episode.plannedSeconds,
+			scriptShown: episode.scriptShown,
+			builds: episode.builds.map(({ id, name }) => ({ id, name })),
+			assignments: episode.assignments.map(({ role, name }) => ({ role, name }))
+		})),
 		next: page.next,
 		query,
 		filterErrors: parsed.success ? null : fieldIssues(parsed.error),
