@@ -40,7 +40,11 @@ interface Answer {
 /**
  * Sends `total` body bytes in 1 MiB pieces (after `prefix`), chunked unless a Content-Length is
  * given, and stops sending as soon as the server answers. With `end: false` the body is never
- * finished, so an answer can only come from a server that counts bytes as they arrive.
+ * finished, so an answer can only come from a server that counts bytes as they arrive. With
+ * `holdMs` only the headers go out at first and the body follows after that long unless the
+ * server has answered: a refusal made on the headers alone then arrives with nothing sent, and
+ * the client is not still writing when the server closes the connection (which made the write
+ * fail with EPIPE before the answer was read, now and then).
  */
 function send(
 	visitor: Visitor,
@@ -52,6 +56,7 @@ function send(
 		prefix?: Buffer;
 		fill?: Buffer;
 		end?: boolean;
+		holdMs?: number;
 	}
 ): Promise<Answer> {
 	const { method, total, end = true } = options;
@@ -107,7 +112,9 @@ function send(
 			}
 			if (!answered && end) request.end();
 		};
-		pump();
+		if (options.holdMs === undefined) return pump();
+		request.flushHeaders();
+		setTimeout(() => answered || pump(), options.holdMs);
 	});
 }
 
@@ -155,9 +162,11 @@ describe('JSON bodies stop at 4 MiB whatever the framing', () => {
 			method: 'POST',
 			headers: { ...jsonHeaders, 'content-length': String(5 * MiB) },
 			total: 5 * MiB,
-			end: false
+			end: false,
+			holdMs: 5_000
 		});
 		expect(answer.status).toBe(413);
+		expect(answer.sent).toBe(0);
 	});
 });
 
@@ -224,9 +233,11 @@ describe('tus PATCH bodies (tus 1.0.0 core protocol)', () => {
 			method: 'PATCH',
 			headers: { ...tusHeaders(MiB), 'content-length': String(BODY_SIZE_LIMIT_BYTES + MiB) },
 			total: BODY_SIZE_LIMIT_BYTES + MiB,
-			end: false
+			end: false,
+			holdMs: 5_000
 		});
 		expect(answer.status).toBe(413);
+		expect(answer.sent).toBe(0);
 		expect(answer.headers['tus-resumable']).toBe('1.0.0');
 		expect(await offsetNow()).toBe(MiB);
 	});
