@@ -30,7 +30,7 @@ import * as tus from 'tus-js-client';
 import { startCluster } from './lib/postgres.ts';
 import { startFakeMail } from './lib/fake-mail.ts';
 import { projectRoot } from './lib/config.ts';
-import { freePort, runScript, signInCookie, waitForHttp } from './lib/bench-world.ts';
+import { freePort, processCpuMs, runScript, signInCookie, waitForHttp } from './lib/bench-world.ts';
 import { serverProcessArgs } from './lib/server-entry.ts';
 import { BODY_SIZE_LIMIT_BYTES, UPLOAD_CHUNK_BYTES } from '../src/lib/upload-rules.ts';
 
@@ -128,8 +128,7 @@ async function wrenchrollSeconds(
 
 /** CPU seconds (user + system) a process has used so far, from /proc/<pid>/stat (clock ticks of 1/100 s). */
 function cpuSeconds(pid: number): number {
-	const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
-	return (Number(fields[11]) + Number(fields[12])) / 100;
+	return processCpuMs(pid) / 1000;
 }
 
 /** VmHWM (the peak resident memory so far) or VmRSS (now) of a process, in MB. */

@@ -36,7 +36,6 @@ export async function waitForHttp(url: string, timeoutMs: number) {
 	throw new Error(`${url} did not answer within ${timeoutMs} ms`);
 }
 
-/** A bare baseline server started by a bench: its address, and `stop()` before the cluster stops. */
 /**
  * CPU time (user + system, milliseconds) a process and every process below it have used so far,
  * from Linux's /proc (proc(5): utime and stime in clock ticks, 100 a second on Linux). null where
@@ -49,12 +48,7 @@ export function processTreeCpuMs(pid: number): number | null {
 	for (const entry of readdirSync('/proc')) {
 		if (!/^\d+$/.test(entry)) continue;
 		try {
-			// Fields after the command's closing parenthesis: state, ppid, … utime (14th), stime (15th).
-			const fields = readFileSync(`/proc/${entry}/stat`, 'utf8').split(') ').at(-1)!.split(' ');
-			stats.set(Number(entry), {
-				parent: Number(fields[1]),
-				ticks: Number(fields[11]) + Number(fields[12])
-			});
+			stats.set(Number(entry), processStat(Number(entry)));
 		} catch {
 			// The process ended while the list was read.
 		}
@@ -69,6 +63,17 @@ export function processTreeCpuMs(pid: number): number | null {
 	return ticks * 10;
 }
 
+/** A process's parent and its CPU so far in clock ticks (utime + stime), from /proc/<pid>/stat. */
+function processStat(pid: number): { parent: number; ticks: number } {
+	// Fields after the command's closing parenthesis: state, ppid, … utime (14th), stime (15th).
+	const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ').at(-1)!.split(' ');
+	return { parent: Number(fields[1]), ticks: Number(fields[11]) + Number(fields[12]) };
+}
+
+/** CPU time (user + system, milliseconds) one process has used so far, from /proc/<pid>/stat. */
+export const processCpuMs = (pid: number): number => processStat(pid).ticks * 10;
+
+/** A bare baseline server started by a bench: its address, and `stop()` before the cluster stops. */
 export interface BareServer {
 	base: string;
 	/** The process started (tsx's own, with the server below it). */
