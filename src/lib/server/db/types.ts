@@ -167,6 +167,12 @@ export interface EpisodeTable {
 	/** The cut's first frame's label, `HH:MM:SS:FF` (episode_timecode_start check). */
 	timecodeStart: Generated<string>;
 	scriptStatus: ColumnType<ScriptStatus, ScriptStatus | undefined, ScriptStatus>;
+	/**
+	 * Fingerprint of the script as saved now (episodes/fingerprint.ts), kept by the database's own
+	 * triggers on segment and segment_script (migrations/2026-12-04-30-stored-script-fingerprint.ts):
+	 * never written by the app.
+	 */
+	scriptFingerprint: ColumnType<string, never, never>;
 	/** Fingerprint of the script text as approved; a later edit makes it differ from the current one. */
 	scriptApprovedFingerprint: string | null;
 	scriptApprovedAt: Timestamp | null;

@@ -96,7 +96,8 @@ export async function reviewScript(
 		const episode = await episodeInChannel(channelId, episodeId, trx, { lock: true });
 		// Comments stay open; sending, approving and returning change the script's state.
 		if (input.action !== 'comment') refuseIfFixed(episode.stage, 'script');
-		const fingerprint = await currentScriptFingerprint(episodeId, trx);
+		// Read with the episode, under its lock: the script as saved now (script-status.ts).
+		const fingerprint = episode.scriptFingerprint;
 		const link = `${origin}/episodes/${episodeId}/script`;
 		if (input.segmentId) {
 			const segment = await trx

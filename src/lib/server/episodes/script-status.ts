@@ -1,25 +1,16 @@
 /**
  * The one place the server decides whether an approved script changed since approval: in SQL, so
  * the episode list, the overview, the script page, the home worklist and the gate read the same
- * answer in the query they already run. The fingerprint is the bytes fingerprint.ts hashes (each
- * segment's id, NUL, its text, SOH, in rundown order), hashed by the database's sha256().
+ * answer in the query they already run. The fingerprint of the script as saved now is a column of
+ * the episode (`script_fingerprint`) that the database keeps true itself: triggers recompute it
+ * whenever a script's text or a segment's place changes
+ * (migrations/2026-12-04-30-stored-script-fingerprint.ts), over the bytes fingerprint.ts hashes
+ * (each segment's id, NUL, its text, SOH, in rundown order). So a read compares two columns
+ * instead of hashing every script it shows.
  */
-import { sql, type Expression, type RawBuilder } from 'kysely';
-
-/** SQL: the fingerprint of the script of the episode `episodeId` names, as saved now. */
-export function scriptFingerprintOf(episodeId: Expression<string>): RawBuilder<string> {
-	return sql<string>`(
-		SELECT encode(sha256(coalesce(string_agg(
-			convert_to(fp_segment.id::text, 'UTF8') || decode('00', 'hex')
-				|| convert_to(fp_script.body, 'UTF8') || decode('01', 'hex'),
-			''::bytea ORDER BY fp_segment.position), ''::bytea)), 'hex')
-		FROM segment fp_segment
-		JOIN segment_script fp_script ON fp_script.segment_id = fp_segment.id
-		WHERE fp_segment.episode_id = ${episodeId}
-	)`;
-}
+import { sql, type RawBuilder } from 'kysely';
 
 /** SQL over a query with `episode` in scope: approved, and the text changed since. */
 export function scriptChangedSinceApproval(): RawBuilder<boolean> {
-	return sql<boolean>`(episode.script_status = 'approved' AND episode.script_approved_fingerprint IS DISTINCT FROM ${scriptFingerprintOf(sql.ref('episode.id'))})`;
+	return sql<boolean>`(episode.script_status = 'approved' AND episode.script_approved_fingerprint IS DISTINCT FROM episode.script_fingerprint)`;
 }
