@@ -174,3 +174,37 @@ describe('the stored script fingerprint follows every write', () => {
 		expect(b).not.toBe(a);
 	});
 });
+
+/**
+ * The gate's spoken-word counts are remembered per episode with the fingerprint they were counted
+ * from, and the query sends the script's text only when the stored fingerprint differs: so an edit,
+ * however it is made, must still reach the gate on the next read.
+ */
+describe('the gate reads the script as saved now', () => {
+	const rules = async (episodeId: string) =>
+		(await producer.api(`/api/episodes/${episodeId}`)).body.stage.reasons.map(
+			(reason: { rule: string }) => reason.rule
+		);
+
+	test('empty, written, read again, emptied by plain SQL: the "no script" reason follows each', async () => {
+		const episode = await newEpisode('gate');
+		const segment = await addSegment(episode, 'Torque the lug nuts');
+		expect(await rules(episode)).toContain('script-empty');
+		expect(await rules(episode)).toContain('script-empty');
+		await saveScript(
+			segment,
+			'Snug each nut by hand, then torque them across the hub in two passes.'
+		);
+		expect(await rules(episode)).not.toContain('script-empty');
+		// Read again unchanged (the counts remembered, the text not sent): still written.
+		expect(await rules(episode)).not.toContain('script-empty');
+		// Changed behind the app's back: the stored fingerprint moves, so the text is sent again.
+		await sql(`UPDATE segment_script SET body = '' WHERE segment_id = $1`, [segment]);
+		expect(await rules(episode)).toContain('script-empty');
+		await sql(
+			`UPDATE segment_script SET body = 'Torque to the figure in the service manual.' WHERE segment_id = $1`,
+			[segment]
+		);
+		expect(await rules(episode)).not.toContain('script-empty');
+	});
+});

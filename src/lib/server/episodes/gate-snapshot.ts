@@ -5,10 +5,13 @@
  * page asks for every unpublished episode of a channel at once, so its number of queries does not
  * grow with the number of episodes.
  *
- * Spoken words are counted by the script readers (Markdown in worker threads); the counts of a
- * whole script are remembered by its fingerprint, so an unchanged script is not read again.
+ * Spoken words are counted by the script readers (Markdown in worker threads) and remembered per
+ * episode with the fingerprint of the script they were counted from. The query is told that
+ * fingerprint and sends the script's text only when the episode's stored fingerprint
+ * (`episode.script_fingerprint`, kept by the database's triggers) differs from it: an unchanged
+ * script is neither sent, nor hashed, nor read again.
  */
-import { sql } from 'kysely';
+import { sql, type Expression } from 'kysely';
 import { jsonArrayFrom } from 'kysely/helpers/postgres';
 import { db } from '../db';
 import { compiledOnce } from '../db/compiled-once';
@@ -25,7 +28,16 @@ import { isHazardId, type HazardId } from '$lib/cautions';
 import { programmeClock, programmeTimecode } from '$lib/timecode';
 import type { CutApproval } from '$lib/cut-review';
 
-function materialsQuery(executor: Executor, channelId: string) {
+/**
+ * The gate materials of the channel's episodes. `countedFingerprint`: SQL for the fingerprint whose
+ * spoken words the server already holds for the episode in scope (NULL: none); where it equals the
+ * stored one, each segment's `body` comes back NULL instead of the text.
+ */
+function materialsQuery(
+	executor: Executor,
+	channelId: string,
+	countedFingerprint: Expression<string | null>
+) {
 	return executor
 		.selectFrom('episode')
 		.innerJoin('channel', 'channel.id', 'episode.channelId')
@@ -40,6 +52,7 @@ function materialsQuery(executor: Executor, channelId: string) {
 			'episode.publishDate',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			'episode.scriptFingerprint',
 			'channel.disclosure',
 			jsonArrayFrom(
 				eb
@@ -60,7 +73,11 @@ function materialsQuery(executor: Executor, channelId: string) {
 						'segment.hazards',
 						'segment.cutInFrame',
 						'segment.cutOutFrame',
-						'segmentScript.body'
+						sql<
+							string | null
+						>`CASE WHEN episode.script_fingerprint = ${countedFingerprint} THEN NULL ELSE segment_script.body END`.as(
+							'body'
+						)
 					])
 					.whereRef('segment.episodeId', '=', 'episode.id')
 					.orderBy('segment.position')
@@ -190,9 +207,65 @@ function currentCutOf(text: string | null): GateSnapshot['cutReview']['current']
 	};
 }
 
-async function materialsOf(row: Materials): Promise<GateMaterials> {
-	const fingerprint = scriptFingerprint(row.segments);
-	const words = await spokenWordsOfScript(row.segments, fingerprint);
+/** An episode's spoken words per segment, and the fingerprint of the script they were counted from. */
+interface CountedScript {
+	channelId: string;
+	fingerprint: string;
+	words: Promise<number[]>;
+}
+
+/** By episode id, the most recently used last (at most WORDS_REMEMBERED). */
+const countedScripts = new Map<string, CountedScript>();
+
+/** The counts held for these episodes now, as the query is told them (episode id → fingerprint). */
+function countedFor(channelId: string, episodeIds?: readonly string[]): Map<string, CountedScript> {
+	const held = new Map<string, CountedScript>();
+	if (episodeIds) {
+		for (const id of episodeIds) {
+			const counted = countedScripts.get(id);
+			if (counted?.channelId === channelId) held.set(id, counted);
+		}
+	} else {
+		for (const [id, counted] of countedScripts)
+			if (counted.channelId === channelId) held.set(id, counted);
+	}
+	return held;
+}
+
+/** Holds `counted` as the episode's newest (a read that fails is forgotten). */
+function rememberCounted(episodeId: string, counted: CountedScript): void {
+	const fresh = countedScripts.get(episodeId) !== counted;
+	countedScripts.delete(episodeId);
+	if (countedScripts.size >= WORDS_REMEMBERED)
+		countedScripts.delete(countedScripts.keys().next().value!);
+	countedScripts.set(episodeId, counted);
+	if (fresh)
+		counted.words.catch(() => {
+			if (countedScripts.get(episodeId) === counted) countedScripts.delete(episodeId);
+		});
+}
+
+/**
+ * `counted`: what the query was told for this episode. When it names the stored fingerprint the
+ * rows came without text and its words stand; otherwise the text came and is counted (and shared
+ * with any request counting the same script at the same time).
+ */
+async function materialsOf(
+	row: Materials,
+	channelId: string,
+	counted: CountedScript | undefined
+): Promise<GateMaterials> {
+	const fingerprint = row.scriptFingerprint;
+	let words: Promise<number[]>;
+	if (counted?.fingerprint === fingerprint) {
+		words = counted.words;
+		rememberCounted(row.id, counted);
+	} else {
+		const scripts = row.segments.map((segment) => ({ id: segment.id, body: segment.body ?? '' }));
+		words = spokenWordsOfScript(scripts, fingerprint);
+		rememberCounted(row.id, { channelId, fingerprint, words });
+	}
+	const spoken = await words;
 	const shotsBySegment = groupBy(row.shots, (shot) => shot.segmentId);
 	const takesByShot = groupBy(row.takes, (take) => take.shotId);
 	const cautionsBySegment = groupBy(row.cautions, (caution) => caution.segmentId);
@@ -215,7 +288,7 @@ async function materialsOf(row: Materials): Promise<GateMaterials> {
 			position: segment.position,
 			title: segment.title,
 			needsFootage: segment.needsFootage,
-			words: words[index],
+			words: spoken[index],
 			hazards: segment.hazards.filter((hazard): hazard is HazardId => isHazardId(hazard)),
 			inFrame: segment.cutInFrame,
 			outFrame: segment.cutOutFrame,
@@ -271,8 +344,10 @@ async function materialsOf(row: Materials): Promise<GateMaterials> {
 
 /** The gate materials of one episode of the channel, in one query; 404 otherwise. */
 /** One episode's materials: read on every episode page and API call, so compiled once. */
-const materialsOfEpisode = compiledOnce(['channelId', 'episodeId'], ({ channelId, episodeId }) =>
-	materialsQuery(db, channelId).where('episode.id', '=', episodeId)
+const materialsOfEpisode = compiledOnce(
+	['channelId', 'episodeId', 'countedFingerprint'],
+	({ channelId, episodeId, countedFingerprint }) =>
+		materialsQuery(db, channelId, sql.val(countedFingerprint)).where('episode.id', '=', episodeId)
 );
 
 export async function gateMaterialsFor(
@@ -281,9 +356,16 @@ export async function gateMaterialsFor(
 	executor: Executor = db
 ): Promise<GateMaterials> {
 	if (!isUuid(episodeId)) throw episodeNotFound();
-	const [row] = (await materialsOfEpisode(executor, { channelId, episodeId })).rows;
+	const counted = countedFor(channelId, [episodeId]).get(episodeId);
+	const [row] = (
+		await materialsOfEpisode(executor, {
+			channelId,
+			episodeId,
+			countedFingerprint: counted?.fingerprint ?? null
+		})
+	).rows;
 	if (!row) throw episodeNotFound();
-	return materialsOf(row);
+	return materialsOf(row, channelId, counted);
 }
 
 /** The gate materials of every episode of the channel not yet published, by publish date (undated last), in one query. */
@@ -291,9 +373,17 @@ export async function unpublishedGateMaterials(
 	channelId: string,
 	executor: Executor = db
 ): Promise<GateMaterials[]> {
-	const rows = await materialsQuery(executor, channelId)
+	const counted = countedFor(channelId);
+	const fingerprints = JSON.stringify(
+		Object.fromEntries([...counted].map(([id, { fingerprint }]) => [id, fingerprint]))
+	);
+	const rows = await materialsQuery(
+		executor,
+		channelId,
+		sql<string | null>`(${fingerprints}::jsonb ->> episode.id::text)`
+	)
 		.where('episode.stage', '!=', 'published')
 		.orderBy(sql`episode.publish_date ASC NULLS LAST`)
 		.execute();
-	return Promise.all(rows.map(materialsOf));
+	return Promise.all(rows.map((row) => materialsOf(row, channelId, counted.get(row.id))));
 }
