@@ -268,7 +268,7 @@ async function main(): Promise<boolean> {
 			`ratio of the medians: ${ratio.toFixed(2)} (target ≥ ${RATIO_TARGET}) ${ratio >= RATIO_TARGET ? 'met' : 'MISSED'}`
 		);
 		console.log(
-			`server peak resident memory (VmHWM): ${peakMb.toFixed(0)} MB (target < ${MEMORY_TARGET_MB} MB) ${peakMb < MEMORY_TARGET_MB ? 'met' : 'MISSED'}; after start-up, before any upload: ${startedNow.toFixed(0)} MB resident, peak ${startedPeak.toFixed(0)} MB`
+			`server peak resident memory (VmHWM): ${peakMb.toFixed(1)} MB (target < ${MEMORY_TARGET_MB} MB) ${peakMb < MEMORY_TARGET_MB ? 'met' : 'MISSED'}; after start-up, before any upload: ${startedNow.toFixed(0)} MB resident, peak ${startedPeak.toFixed(0)} MB`
 		);
 		console.log(
 			`stored SHA-256 of every upload equals the source's: ${hashesOk ? 'yes' : `NO (${hashes.join(', ')})`}`
