@@ -12,6 +12,7 @@
 import { createHash } from 'node:crypto';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { saveScript } from '../helpers/scripts';
 
 let channelId: string;
 let producer: Visitor;
@@ -46,17 +47,6 @@ async function newScriptEpisode() {
 	});
 	expect(made.status).toBe(201);
 	return { id: episode.id as string, title, segment: made.body.segment };
-}
-
-async function saveScript(segmentId: string, body: string) {
-	const [{ version }] = await sql(`SELECT version FROM segment_script WHERE segment_id = $1`, [
-		segmentId
-	]);
-	const saved = await producer.api(`/api/segments/${segmentId}/script`, {
-		method: 'PUT',
-		json: { body, version }
-	});
-	expect(saved.status).toBe(200);
 }
 
 async function approve(episodeId: string) {
@@ -95,7 +85,11 @@ beforeAll(async () => {
 describe('the script chip agrees on every page', () => {
 	test('approved, then edited: every page says "Changed since approval"; approved again: "Script approved"', async () => {
 		const episode = await newScriptEpisode();
-		await saveScript(episode.segment.id, 'Snug each nut, then torque them across the hub.');
+		await saveScript(
+			producer,
+			episode.segment.id,
+			'Snug each nut, then torque them across the hub.'
+		);
 		await approve(episode.id);
 		const approved = await chips(episode);
 		expect([approved.listPage, approved.overview, approved.scriptPage]).toEqual([
@@ -103,7 +97,11 @@ describe('the script chip agrees on every page', () => {
 			'Script approved',
 			'Script approved'
 		]);
-		await saveScript(episode.segment.id, 'Snug each nut, then torque them in a star pattern.');
+		await saveScript(
+			producer,
+			episode.segment.id,
+			'Snug each nut, then torque them in a star pattern.'
+		);
 		const { listApi, detailApi, ...pages } = await chips(episode);
 		// What a person reads first: before the fix the list still said "Script approved" here.
 		expect(pages).toEqual({

@@ -12,6 +12,7 @@
 import { createHash } from 'node:crypto';
 import { beforeAll, describe, expect, test } from 'vitest';
 import { Visitor, demo, signedIn, sql } from '../helpers/http';
+import { saveScript } from '../helpers/scripts';
 
 let channelId: string;
 let producer: Visitor;
@@ -63,17 +64,6 @@ async function addSegment(episodeId: string, title: string): Promise<string> {
 	return made.body.segment.id;
 }
 
-async function saveScript(segmentId: string, body: string) {
-	const [{ version }] = await sql(`SELECT version FROM segment_script WHERE segment_id = $1`, [
-		segmentId
-	]);
-	const saved = await producer.api(`/api/segments/${segmentId}/script`, {
-		method: 'PUT',
-		json: { body, version }
-	});
-	expect(saved.status).toBe(200);
-}
-
 beforeAll(async () => {
 	[{ id: channelId }] = await sql(`SELECT id FROM channel WHERE name = 'Torquehaven Garage'`);
 	producer = await signedIn(demo.producer);
@@ -95,12 +85,20 @@ describe('the stored script fingerprint follows every write', () => {
 		const jack = await addSegment(episode, 'Jack and stands');
 		const spring = await addSegment(episode, 'Spring out');
 		last = await expectTrue(episode, last);
-		await saveScript(jack, 'Chock the rear wheels, then lift at the frame rail.');
+		await saveScript(producer, jack, 'Chock the rear wheels, then lift at the frame rail.');
 		last = await expectTrue(episode, last);
-		await saveScript(spring, 'Compress the spring with a rated compressor before the top mount.');
+		await saveScript(
+			producer,
+			spring,
+			'Compress the spring with a rated compressor before the top mount.'
+		);
 		last = await expectTrue(episode, last);
 		// The same text saved again changes nothing.
-		await saveScript(spring, 'Compress the spring with a rated compressor before the top mount.');
+		await saveScript(
+			producer,
+			spring,
+			'Compress the spring with a rated compressor before the top mount.'
+		);
 		expect(await expectTrue(episode)).toBe(last);
 
 		const reordered = await producer.api(`/api/episodes/${episode}/segments/order`, {
@@ -192,6 +190,7 @@ describe('the gate reads the script as saved now', () => {
 		expect(await rules(episode)).toContain('script-empty');
 		expect(await rules(episode)).toContain('script-empty');
 		await saveScript(
+			producer,
 			segment,
 			'Snug each nut by hand, then torque them across the hub in two passes.'
 		);
