@@ -217,18 +217,11 @@ interface CountedScript {
 /** By episode id, the most recently used last (at most WORDS_REMEMBERED). */
 const countedScripts = new Map<string, CountedScript>();
 
-/** The counts held for these episodes now, as the query is told them (episode id → fingerprint). */
-function countedFor(channelId: string, episodeIds?: readonly string[]): Map<string, CountedScript> {
+/** The counts held now for the channel's episodes (episode id → what was counted, and from which fingerprint). */
+function countedInChannel(channelId: string): Map<string, CountedScript> {
 	const held = new Map<string, CountedScript>();
-	if (episodeIds) {
-		for (const id of episodeIds) {
-			const counted = countedScripts.get(id);
-			if (counted?.channelId === channelId) held.set(id, counted);
-		}
-	} else {
-		for (const [id, counted] of countedScripts)
-			if (counted.channelId === channelId) held.set(id, counted);
-	}
+	for (const [id, counted] of countedScripts)
+		if (counted.channelId === channelId) held.set(id, counted);
 	return held;
 }
 
@@ -342,7 +335,6 @@ async function materialsOf(
 	};
 }
 
-/** The gate materials of one episode of the channel, in one query; 404 otherwise. */
 /** One episode's materials: read on every episode page and API call, so compiled once. */
 const materialsOfEpisode = compiledOnce(
 	['channelId', 'episodeId', 'countedFingerprint'],
@@ -350,13 +342,15 @@ const materialsOfEpisode = compiledOnce(
 		materialsQuery(db, channelId, sql.val(countedFingerprint)).where('episode.id', '=', episodeId)
 );
 
+/** The gate materials of one episode of the channel, in one query; 404 otherwise. */
 export async function gateMaterialsFor(
 	channelId: string,
 	episodeId: string,
 	executor: Executor = db
 ): Promise<GateMaterials> {
 	if (!isUuid(episodeId)) throw episodeNotFound();
-	const counted = countedFor(channelId, [episodeId]).get(episodeId);
+	const held = countedScripts.get(episodeId);
+	const counted = held?.channelId === channelId ? held : undefined;
 	const [row] = (
 		await materialsOfEpisode(executor, {
 			channelId,
@@ -373,7 +367,7 @@ export async function unpublishedGateMaterials(
 	channelId: string,
 	executor: Executor = db
 ): Promise<GateMaterials[]> {
-	const counted = countedFor(channelId);
+	const counted = countedInChannel(channelId);
 	const fingerprints = JSON.stringify(
 		Object.fromEntries([...counted].map(([id, { fingerprint }]) => [id, fingerprint]))
 	);
