@@ -119,6 +119,7 @@ const episodeDetailQuery = compiledOnce(['channelId', 'episodeId'], ({ channelId
 			'episode.cutDurationFrames',
 			'episode.scriptStatus',
 			'episode.scriptApprovedFingerprint',
+			'episode.scriptFingerprint',
 			scriptChangedSinceApproval().as('scriptChanged'),
 			'episode.scriptApprovedAt',
 			'approver.name as scriptApprovedByName',
@@ -131,13 +132,28 @@ const episodeDetailQuery = compiledOnce(['channelId', 'episodeId'], ({ channelId
 		.where('episode.channelId', '=', channelId)
 );
 
-/** One episode with its builds and crew, for the episode pages and GET /api/episodes/[id]. */
-export async function episodeDetail(channelId: string, episodeId: string, executor: Executor = db) {
+/**
+ * One episode with its builds and crew, and the fingerprint of its script as saved now (the
+ * column the database keeps, script-status.ts), in one query; 404 otherwise.
+ */
+export async function episodeDetailAndScriptFingerprint(
+	channelId: string,
+	episodeId: string,
+	executor: Executor = db
+) {
 	if (!isUuid(episodeId)) throw episodeNotFound();
 	const [row] = (await episodeDetailQuery(executor, { channelId, episodeId })).rows;
 	if (!row) throw episodeNotFound();
-	const { scriptChanged, ...detail } = row;
-	return { ...detail, scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged) };
+	const { scriptChanged, scriptFingerprint, ...detail } = row;
+	return {
+		episode: { ...detail, scriptShown: shownScriptStatus(row.scriptStatus, scriptChanged) },
+		scriptFingerprint
+	};
+}
+
+/** One episode with its builds and crew, for the episode pages and GET /api/episodes/[id]. */
+export async function episodeDetail(channelId: string, episodeId: string, executor: Executor = db) {
+	return (await episodeDetailAndScriptFingerprint(channelId, episodeId, executor)).episode;
 }
 
 export type EpisodeDetail = Awaited<ReturnType<typeof episodeDetail>>;

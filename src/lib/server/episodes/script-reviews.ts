@@ -7,13 +7,12 @@ import { error } from '@sveltejs/kit';
 import { db } from '../db';
 import { DomainError } from '../http/api';
 import {
-	episodeDetail,
+	episodeDetailAndScriptFingerprint,
 	episodeInChannel,
 	type Actor,
 	type EpisodeDetail,
 	type Executor
 } from './episodes';
-import { currentScriptFingerprint } from './stage-moves';
 import { refuseIfFixed } from './stage-locks';
 import { shownScriptStatus } from '$lib/script/status';
 import { queueMail } from '../mail/outbox';
@@ -203,17 +202,18 @@ export async function reviewScript(
 	});
 }
 
-/** The script's approval state as the pages show it: the episode and its script, two queries. */
+/** The script's approval state as the pages show it: one query (the episode keeps its script's fingerprint). */
 export async function scriptStateFor(
 	channelId: string,
 	episodeId: string,
 	executor: Executor = db
 ) {
-	const [episode, fingerprint] = await Promise.all([
-		episodeDetail(channelId, episodeId, executor),
-		currentScriptFingerprint(episodeId, executor)
-	]);
-	return scriptStateOf(episode, fingerprint);
+	const { episode, scriptFingerprint } = await episodeDetailAndScriptFingerprint(
+		channelId,
+		episodeId,
+		executor
+	);
+	return scriptStateOf(episode, scriptFingerprint);
 }
 
 /** The approval state from the episode already read and the fingerprint of its script as saved now. */

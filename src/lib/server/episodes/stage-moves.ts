@@ -11,7 +11,6 @@ import { db } from '../db';
 import { compiledOnce } from '../db/compiled-once';
 import type { Role } from '../db/types';
 import { DomainError } from '../http/api';
-import { scriptFingerprint } from './fingerprint';
 import { episodeInChannel, type Actor, type Executor } from './episodes';
 import { assignmentMap } from './episode-crew';
 import { queueMail } from '../mail/outbox';
@@ -31,22 +30,6 @@ import {
 	type Stage
 } from '$lib/stages';
 import type { StageMoveInput } from '$lib/schemas/episodes';
-
-export { scriptFingerprint };
-
-/** The fingerprint of an episode's script as it is saved now. */
-export async function currentScriptFingerprint(
-	episodeId: string,
-	executor: Executor = db
-): Promise<string> {
-	// Kept by the database's triggers (script-status.ts); an episode that is not there has none.
-	const row = await executor
-		.selectFrom('episode')
-		.select('scriptFingerprint')
-		.where('id', '=', episodeId)
-		.executeTakeFirst();
-	return row?.scriptFingerprint ?? scriptFingerprint([]);
-}
 
 /** Chapter rule violations for the lock gate (null: no chapters yet); the edit module owns the rules. */
 export const chapterProblemsFor = editChapterProblems;
