@@ -4,11 +4,12 @@
  * process of its own like the app's, that streams one request body to a file on the same disk.
  * Each server first takes one upload that is not counted (a warm-up, as in the episode bench: on
  * 2026-12-04 the app's first 2 GiB after start-up took it 6.6–8.0 s of CPU against 3.5–6.0 s for
- * later ones, the bare server's 3.5–3.7 s against 2.3–3.6 s). Then the two alternate (bare first, then Wrenchroll first, …) for BENCH_REPETITIONS
- * rounds (3), so both meet the same machine load. Prints min, median and max of each throughput, the ratio of the
- * medians and the range of the per-round ratios (target: median ratio ≥ 0.85), the server's peak
- * resident memory (the kernel's high-water mark, VmHWM; target < 150 MB), and checks that every
- * stored footage row carries the SHA-256 of the bytes sent.
+ * later ones, the bare server's 3.5–3.7 s against 2.3–3.6 s). Then the two alternate (bare first,
+ * then Wrenchroll first, …) for BENCH_REPETITIONS rounds (3), so both meet the same machine load.
+ * Prints min, median and max of each throughput, the ratio of the medians and the range of the
+ * per-round ratios (target: median ratio ≥ 0.85), the server's peak resident memory (the kernel's
+ * high-water mark, VmHWM; target < 150 MB), and checks that every stored footage row carries the
+ * SHA-256 of the bytes sent.
  *
  *   npm run bench uploads     (BENCH_UPLOAD_BYTES, BENCH_CHUNK, BENCH_REPETITIONS, BENCH_DIR)
  */
